@@ -1,0 +1,11 @@
+// Three projects: pure computations, the HTTP API on a real PostgreSQL, and the built app in headless Chromium.
+const tsTransform = { '^.+\\.tsx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json', isolatedModules: false }] };
+const common = { testEnvironment: 'node', transform: tsTransform, moduleFileExtensions: ['ts', 'tsx', 'js', 'json'] };
+
+module.exports = {
+  projects: [
+    { ...common, displayName: 'unit', roots: ['<rootDir>/tests/unit'] },
+    { ...common, displayName: 'api', roots: ['<rootDir>/tests/api'], globalSetup: '<rootDir>/tests/support/global-setup.ts' },
+    { ...common, displayName: 'browser', roots: ['<rootDir>/tests/browser'], globalSetup: '<rootDir>/tests/support/global-setup.ts' },
+  ],
+};

@@ -1,0 +1,51 @@
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import path from 'node:path';
+import { pinoHttp } from 'pino-http';
+import type { DataSource } from 'typeorm';
+import { createRequireSignIn } from './components/auth/passport';
+import { authRoutes } from './components/auth/routes';
+import { AuthService } from './components/auth/service';
+import { healthRoutes } from './components/health/routes';
+import { userRoutes } from './components/users/routes';
+import { UsersService } from './components/users/service';
+import type { Config } from './config';
+import { apiNotFound, errorHandler } from './lib/errors';
+import type { Logger } from './lib/logger';
+
+export interface AppDeps {
+  config: Config;
+  dataSource: DataSource;
+  logger: Logger;
+}
+
+/** Builds the Express app (API + the exported web app); listening is main.ts's job. */
+export function createApp({ config, dataSource, logger }: AppDeps): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+
+  const auth = new AuthService(dataSource, config.jwtSecret, config.tokenTtlSeconds);
+  const requireSignIn = createRequireSignIn(auth, config.jwtSecret);
+
+  const api = express.Router();
+  api.use(helmet({ contentSecurityPolicy: false }));
+  api.use(express.json({ limit: '1mb' }));
+  api.use('/health', healthRoutes(dataSource, config.version));
+  api.use('/auth', authRoutes({ auth, requireSignIn, signInLimit: config.signInLimit }));
+  // Everything below needs a signed-in user.
+  api.use(requireSignIn);
+  api.use('/users', userRoutes(new UsersService(dataSource)));
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  if (config.webDir) {
+    const webDir = config.webDir;
+    app.use(express.static(webDir, { index: false, maxAge: '1h' }));
+    // Single-page app: every other path is a client route.
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(webDir, 'index.html')));
+  }
+  app.use(errorHandler);
+  return app;
+}

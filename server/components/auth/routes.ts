@@ -1,0 +1,40 @@
+import { Router, type RequestHandler } from 'express';
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import { signInRequestSchema } from '../../../shared/api/auth';
+import { AppError } from '../../lib/errors';
+import { parse } from '../../lib/validate';
+import type { AuthService } from './service';
+import { toUserDto } from './service';
+
+export interface AuthRouteOptions {
+  auth: AuthService;
+  requireSignIn: RequestHandler;
+  signInLimit: { windowMs: number; maxFailures: number };
+}
+
+export function authRoutes({ auth, requireSignIn, signInLimit }: AuthRouteOptions): Router {
+  const router = Router();
+  // Counts failed sign-ins per address and user name; successful ones do not count.
+  const limiter = rateLimit({
+    windowMs: signInLimit.windowMs,
+    limit: signInLimit.maxFailures,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.username ?? '').toLowerCase()}`,
+    handler: (_req, _res, next) =>
+      next(new AppError('too_many_requests', 'Too many failed sign-ins; wait a few minutes and try again')),
+  });
+
+  router.post('/sign-in', limiter, async (req, res) => {
+    res.json(await auth.signIn(parse(signInRequestSchema, req.body)));
+  });
+  router.get('/me', requireSignIn, (req, res) => {
+    res.json({ user: toUserDto(req.user!) });
+  });
+  router.post('/sign-out', requireSignIn, async (req, res) => {
+    await auth.signOut(req.user!.id);
+    res.status(204).end();
+  });
+  return router;
+}

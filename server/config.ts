@@ -1,0 +1,64 @@
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+
+/** Everything the server needs to know about its surroundings, read once from the environment. */
+export interface Config {
+  port: number;
+  host: string;
+  databaseUrl: string;
+  dataDir: string;
+  jwtSecret: string;
+  tokenTtlSeconds: number;
+  /** Folder of the exported web app; null when the server runs the API alone. */
+  webDir: string | null;
+  signInLimit: { windowMs: number; maxFailures: number };
+  logLevel: string;
+  version: string;
+}
+
+const repoRoot = path.resolve(__dirname, '..', fs.existsSync(path.join(__dirname, '..', 'package.json')) ? '' : '..');
+
+export function projectRoot(): string {
+  return repoRoot;
+}
+
+function intFrom(value: string | undefined, fallback: number, name: string): number {
+  if (value === undefined || value === '') return fallback;
+  const parsed = Number(value);
+  if (!Number.isInteger(parsed) || parsed <= 0) throw new Error(`${name} must be a positive whole number, got "${value}"`);
+  return parsed;
+}
+
+/** The JWT secret is generated once and kept in the data directory, so tokens survive restarts. */
+export function loadOrCreateSecret(dataDir: string): string {
+  const file = path.join(dataDir, 'jwt-secret');
+  if (fs.existsSync(file)) return fs.readFileSync(file, 'utf8').trim();
+  fs.mkdirSync(dataDir, { recursive: true });
+  const secret = crypto.randomBytes(48).toString('base64url');
+  fs.writeFileSync(file, secret + '\n', { mode: 0o600, flag: 'wx' });
+  return secret;
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const dataDir = path.resolve(env.KW_DATA_DIR || path.join(repoRoot, '.data'));
+  const pgPort = intFrom(env.KW_PG_PORT, 54329, 'KW_PG_PORT');
+  const dbName = env.KW_DB_NAME || 'kernwright';
+  const webDir = path.join(repoRoot, 'dist');
+  const pkg = JSON.parse(fs.readFileSync(path.join(repoRoot, 'package.json'), 'utf8')) as { version: string };
+  return {
+    port: intFrom(env.PORT, 8081, 'PORT'),
+    host: env.KW_HOST || '127.0.0.1',
+    databaseUrl: env.DATABASE_URL || `postgres://postgres@127.0.0.1:${pgPort}/${dbName}`,
+    dataDir,
+    jwtSecret: env.KW_JWT_SECRET || loadOrCreateSecret(dataDir),
+    tokenTtlSeconds: intFrom(env.KW_TOKEN_TTL_SECONDS, 12 * 3600, 'KW_TOKEN_TTL_SECONDS'),
+    webDir: fs.existsSync(path.join(webDir, 'index.html')) ? webDir : null,
+    signInLimit: {
+      windowMs: intFrom(env.KW_SIGN_IN_WINDOW_MS, 15 * 60 * 1000, 'KW_SIGN_IN_WINDOW_MS'),
+      maxFailures: intFrom(env.KW_SIGN_IN_MAX_FAILURES, 10, 'KW_SIGN_IN_MAX_FAILURES'),
+    },
+    logLevel: env.KW_LOG_LEVEL || 'info',
+    version: pkg.version,
+  };
+}

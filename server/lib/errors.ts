@@ -1,0 +1,67 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { z } from 'zod';
+import { zodIssues, type ErrorCode } from '../../shared/api/errors';
+
+const STATUS: Record<ErrorCode, number> = {
+  bad_request: 400,
+  validation_failed: 400,
+  unauthenticated: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  payload_too_large: 413,
+  unsupported_media: 415,
+  too_many_requests: 429,
+  internal: 500,
+  service_unavailable: 503,
+};
+
+/** An error the API reports to the client as { error: { code, message, details } }. */
+export class AppError extends Error {
+  constructor(
+    readonly code: ErrorCode,
+    message: string,
+    readonly details?: unknown,
+  ) {
+    super(message);
+  }
+  get status(): number {
+    return STATUS[this.code];
+  }
+}
+
+export const notFound = (what: string) => new AppError('not_found', `${what} was not found`);
+
+function fromZod(error: z.ZodError): AppError {
+  const issues = zodIssues(error);
+  const first = issues[0];
+  const message = first ? `${first.path}: ${first.message}` : 'The request is not valid';
+  return new AppError('validation_failed', message, { issues });
+}
+
+function toAppError(err: unknown): AppError | null {
+  if (err instanceof AppError) return err;
+  if (err instanceof z.ZodError) return fromZod(err);
+  const e = err as { type?: string; status?: number; code?: string; message?: string };
+  if (e?.type === 'entity.parse.failed') return new AppError('bad_request', 'The request body is not valid JSON');
+  if (e?.type === 'entity.too.large') return new AppError('payload_too_large', 'The request body is too large');
+  if (e?.code === 'LIMIT_FILE_SIZE') return new AppError('payload_too_large', e.message ?? 'The file is too large');
+  if (e?.code === 'ECONNREFUSED' || e?.code === '57P01' || e?.code === '57P03')
+    return new AppError('service_unavailable', 'The database is not reachable; try again in a moment');
+  return null;
+}
+
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  const known = toAppError(err);
+  if (!known) {
+    req.log?.error({ err }, 'unhandled error');
+    res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server; it has been logged' } });
+    return;
+  }
+  if (known.code === 'service_unavailable') res.set('Retry-After', '5');
+  res.status(known.status).json({ error: { code: known.code, message: known.message, details: known.details } });
+};
+
+export const apiNotFound: RequestHandler = (req, _res, next) => {
+  next(new AppError('not_found', `No API route ${req.method} ${req.originalUrl}`));
+};

@@ -1,0 +1,59 @@
+import type { Express } from 'express';
+import path from 'node:path';
+import request from 'supertest';
+import { createApp } from '../../server/app';
+import type { Config } from '../../server/config';
+import { UserEntity } from '../../server/components/auth/entities';
+import { hashPassword } from '../../server/components/auth/passwords';
+import { createLogger } from '../../server/lib/logger';
+import type { Role } from '../../shared/roles';
+import { createTestDatabase, type TestDatabase } from './db';
+
+export const TEST_PASSWORD = 'correct-horse-battery';
+
+export function testConfig(overrides: Partial<Config> = {}): Config {
+  return {
+    port: 0,
+    host: '127.0.0.1',
+    databaseUrl: 'set-by-test',
+    dataDir: path.join(__dirname, '..', 'artifacts', 'data'),
+    jwtSecret: 'test-secret-not-for-production',
+    tokenTtlSeconds: 3600,
+    webDir: null,
+    signInLimit: { windowMs: 60_000, maxFailures: 1000 },
+    logLevel: 'silent',
+    version: 'test',
+    ...overrides,
+  };
+}
+
+export interface TestApp {
+  app: Express;
+  db: TestDatabase;
+  config: Config;
+  createUser(username: string, roles: Role[], extra?: Partial<UserEntity>): Promise<UserEntity>;
+  tokenFor(username: string, password?: string): Promise<string>;
+  close(): Promise<void>;
+}
+
+/** The real Express app on a fresh copy of the migrated database. */
+export async function createTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
+  const db = await createTestDatabase();
+  const config = testConfig({ databaseUrl: db.url, ...overrides });
+  const app = createApp({ config, dataSource: db.dataSource, logger: createLogger('silent') });
+  const users = db.dataSource.getRepository(UserEntity);
+  const passwordHash = await hashPassword(TEST_PASSWORD);
+  return {
+    app,
+    db,
+    config,
+    createUser: (username, roles, extra = {}) =>
+      users.save(users.create({ username, displayName: `Test ${username}`, email: null, roles, passwordHash, ...extra })),
+    async tokenFor(username, password = TEST_PASSWORD) {
+      const res = await request(app).post('/api/auth/sign-in').send({ username, password });
+      if (res.status !== 200) throw new Error(`sign-in as ${username} failed: ${res.status} ${JSON.stringify(res.body)}`);
+      return res.body.token as string;
+    },
+    close: () => db.drop(),
+  };
+}

@@ -115,5 +115,5 @@ build_web() {
 build_server() {
   log "building the server (tsc)"
   rm -rf dist-server
-  npx tsc -p server
+  npx tsc -p server/tsconfig.build.json
 }

@@ -3,6 +3,8 @@ import helmet from 'helmet';
 import path from 'node:path';
 import { pinoHttp } from 'pino-http';
 import type { DataSource } from 'typeorm';
+import { auditRoutes } from './components/audit/routes';
+import { AuditService } from './components/audit/service';
 import { createRequireSignIn } from './components/auth/passport';
 import { authRoutes } from './components/auth/routes';
 import { AuthService } from './components/auth/service';
@@ -26,7 +28,8 @@ export function createApp({ config, dataSource, logger }: AppDeps): Express {
   app.set('trust proxy', 'loopback');
   app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
 
-  const auth = new AuthService(dataSource, config.jwtSecret, config.tokenTtlSeconds);
+  const audit = new AuditService(dataSource);
+  const auth = new AuthService(dataSource, audit, config.jwtSecret, config.tokenTtlSeconds);
   const requireSignIn = createRequireSignIn(auth, config.jwtSecret);
 
   const api = express.Router();
@@ -36,7 +39,8 @@ export function createApp({ config, dataSource, logger }: AppDeps): Express {
   api.use('/auth', authRoutes({ auth, requireSignIn, signInLimit: config.signInLimit }));
   // Everything below needs a signed-in user.
   api.use(requireSignIn);
-  api.use('/users', userRoutes(new UsersService(dataSource)));
+  api.use('/users', userRoutes(new UsersService(dataSource, audit)));
+  api.use('/audit-events', auditRoutes(dataSource, audit));
   api.use(apiNotFound);
   app.use('/api', api);
 

@@ -27,13 +27,13 @@ export function authRoutes({ auth, requireSignIn, signInLimit }: AuthRouteOption
   });
 
   router.post('/sign-in', limiter, async (req, res) => {
-    res.json(await auth.signIn(parse(signInRequestSchema, req.body)));
+    res.json(await auth.signIn(parse(signInRequestSchema, req.body), { ip: req.ip }));
   });
   router.get('/me', requireSignIn, (req, res) => {
     res.json({ user: toUserDto(req.user!) });
   });
   router.post('/sign-out', requireSignIn, async (req, res) => {
-    await auth.signOut(req.user!.id);
+    await auth.signOut(req.user!);
     res.status(204).end();
   });
   return router;

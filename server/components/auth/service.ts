@@ -1,6 +1,7 @@
 import type { DataSource, Repository } from 'typeorm';
 import type { SignInRequest, SignInResponse, User } from '../../../shared/api/auth';
 import { AppError } from '../../lib/errors';
+import type { AuditService } from '../audit/service';
 import { UserEntity } from './entities';
 import { verifyPassword } from './passwords';
 import { issueToken } from './tokens';
@@ -19,24 +20,40 @@ export function toUserDto(user: UserEntity): User {
 }
 
 const WRONG_CREDENTIALS = 'Wrong user name or password';
+const DEACTIVATED = 'This account is deactivated; ask an administrator';
+
+export function actorOf(user: Pick<UserEntity, 'id' | 'username'>): { id: string; name: string } {
+  return { id: user.id, name: user.username };
+}
 
 export class AuthService {
   private readonly users: Repository<UserEntity>;
 
   constructor(
-    dataSource: DataSource,
+    private readonly dataSource: DataSource,
+    private readonly audit: AuditService,
     private readonly jwtSecret: string,
     private readonly tokenTtlSeconds: number,
   ) {
     this.users = dataSource.getRepository(UserEntity);
   }
 
-  async signIn({ username, password }: SignInRequest): Promise<SignInResponse> {
+  async signIn({ username, password }: SignInRequest, context: { ip?: string } = {}): Promise<SignInResponse> {
     const user = await this.users.findOneBy({ username });
     const passwordOk = await verifyPassword(password, user?.passwordHash ?? null);
-    if (!user || !passwordOk) throw new AppError('unauthenticated', WRONG_CREDENTIALS);
-    if (!user.active) throw new AppError('unauthenticated', 'This account is deactivated; ask an administrator');
+    const refusal = !user || !passwordOk ? WRONG_CREDENTIALS : !user.active ? DEACTIVATED : null;
+    if (!user || refusal) {
+      await this.audit.recordAlone({
+        actor: { id: user?.id ?? null, name: username },
+        action: 'sign-in.refused',
+        entityType: 'user',
+        entityId: user?.id ?? null,
+        details: { reason: !user ? 'unknown user name' : !passwordOk ? 'wrong password' : 'account deactivated', ...context },
+      });
+      throw new AppError('unauthenticated', refusal ?? WRONG_CREDENTIALS);
+    }
     const { token, expiresAt } = issueToken({ sub: user.id, tv: user.tokenVersion }, this.jwtSecret, this.tokenTtlSeconds);
+    await this.audit.recordAlone({ actor: actorOf(user), action: 'sign-in', entityType: 'user', entityId: user.id, details: context });
     return { token, expiresAt: expiresAt.toISOString(), user: toUserDto(user) };
   }
 
@@ -48,7 +65,10 @@ export class AuthService {
   }
 
   /** Signing out revokes every token the user holds. */
-  async signOut(userId: string): Promise<void> {
-    await this.users.increment({ id: userId }, 'tokenVersion', 1);
+  async signOut(user: UserEntity): Promise<void> {
+    await this.dataSource.transaction(async (manager) => {
+      await manager.getRepository(UserEntity).increment({ id: user.id }, 'tokenVersion', 1);
+      await this.audit.record(manager, { actor: actorOf(user), action: 'sign-out', entityType: 'user', entityId: user.id });
+    });
   }
 }

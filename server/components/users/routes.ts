@@ -15,11 +15,11 @@ export function userRoutes(users: UsersService): Router {
     res.json(await users.list(parse(listUsersQuerySchema, req.query)));
   });
   router.post('/', async (req, res) => {
-    res.status(201).json(await users.create(parse(createUserRequestSchema, req.body)));
+    res.status(201).json(await users.create(req.user!, parse(createUserRequestSchema, req.body)));
   });
   router.patch('/:id', async (req, res) => {
     const { id } = parse(idParams, req.params);
-    res.json(await users.update(req.user!.id, id, parse(updateUserRequestSchema, req.body)));
+    res.json(await users.update(req.user!, id, parse(updateUserRequestSchema, req.body)));
   });
   return router;
 }

@@ -6,7 +6,8 @@ import type { createUserRequestSchema, listUsersQuerySchema, updateUserRequestSc
 import { AppError, notFound } from '../../lib/errors';
 import { UserEntity } from '../auth/entities';
 import { hashPassword } from '../auth/passwords';
-import { toUserDto } from '../auth/service';
+import { actorOf, toUserDto } from '../auth/service';
+import type { AuditService } from '../audit/service';
 
 type CreateUser = z.output<typeof createUserRequestSchema>;
 type UpdateUser = z.output<typeof updateUserRequestSchema>;
@@ -16,7 +17,10 @@ const UNIQUE_VIOLATION = '23505';
 export class UsersService {
   private readonly users: Repository<UserEntity>;
 
-  constructor(dataSource: DataSource) {
+  constructor(
+    private readonly dataSource: DataSource,
+    private readonly audit: AuditService,
+  ) {
     this.users = dataSource.getRepository(UserEntity);
   }
 
@@ -32,7 +36,7 @@ export class UsersService {
     return { items: rows.map(toUserDto), total };
   }
 
-  async create(input: CreateUser): Promise<User> {
+  async create(actor: UserEntity, input: CreateUser): Promise<User> {
     const entity = this.users.create({
       username: input.username,
       displayName: input.displayName,
@@ -41,7 +45,18 @@ export class UsersService {
       passwordHash: await hashPassword(input.password),
     });
     try {
-      return toUserDto(await this.users.save(entity));
+      return await this.dataSource.transaction(async (manager) => {
+        const saved = toUserDto(await manager.getRepository(UserEntity).save(entity));
+        await this.audit.record(manager, {
+          actor: actorOf(actor),
+          action: 'user.create',
+          entityType: 'user',
+          entityId: saved.id,
+          after: saved,
+          details: { username: saved.username, roles: saved.roles },
+        });
+        return saved;
+      });
     } catch (err) {
       if ((err as { code?: string }).code === UNIQUE_VIOLATION)
         throw new AppError('conflict', `The user name "${input.username}" is taken`, { issues: [{ path: 'username', message: 'Already taken' }] });
@@ -49,27 +64,43 @@ export class UsersService {
     }
   }
 
-  async update(actingUserId: string, id: string, input: UpdateUser): Promise<User> {
-    const user = await this.users.findOneBy({ id });
-    if (!user) throw notFound('The user');
-    if (id === actingUserId) {
+  async update(actor: UserEntity, id: string, input: UpdateUser): Promise<User> {
+    const passwordHash = input.password === undefined ? undefined : await hashPassword(input.password);
+    return this.dataSource.transaction(async (manager) => {
+      const repo = manager.getRepository(UserEntity);
+      const user = await repo.findOne({ where: { id }, lock: { mode: 'pessimistic_write' } });
+      if (!user) throw notFound('The user');
+      const before = toUserDto(user);
+      const changes = this.apply(actor, user, input, passwordHash);
+      const after = toUserDto(await repo.save(user));
+      await this.audit.record(manager, { actor: actorOf(actor), action: 'user.update', entityType: 'user', entityId: id, before, after, details: { changes } });
+      return after;
+    });
+  }
+
+  /** Applies the change to the entity and describes it field by field (a new password only as "changed"). */
+  private apply(actor: UserEntity, user: UserEntity, input: UpdateUser, passwordHash: string | undefined): Record<string, unknown> {
+    if (user.id === actor.id) {
       if (input.active === false) throw new AppError('conflict', 'You cannot deactivate your own account');
       if (input.roles && !input.roles.includes('admin'))
         throw new AppError('conflict', 'You cannot remove your own administrator role; ask another administrator');
     }
-    let revoke = false;
-    if (input.displayName !== undefined) user.displayName = input.displayName;
-    if (input.email !== undefined) user.email = input.email;
-    if (input.roles !== undefined) user.roles = input.roles;
-    if (input.active !== undefined) {
-      revoke ||= user.active && !input.active;
-      user.active = input.active;
+    const changes: Record<string, unknown> = {};
+    const set = <K extends 'displayName' | 'email' | 'roles' | 'active'>(key: K, value: UserEntity[K] | undefined) => {
+      if (value === undefined || JSON.stringify(value) === JSON.stringify(user[key])) return;
+      changes[key] = { from: user[key], to: value };
+      user[key] = value;
+    };
+    set('displayName', input.displayName);
+    set('email', input.email);
+    set('roles', input.roles);
+    const deactivating = user.active && input.active === false;
+    set('active', input.active);
+    if (passwordHash !== undefined) {
+      user.passwordHash = passwordHash;
+      changes.password = 'changed';
     }
-    if (input.password !== undefined) {
-      user.passwordHash = await hashPassword(input.password);
-      revoke = true;
-    }
-    if (revoke) user.tokenVersion += 1;
-    return toUserDto(await this.users.save(user));
+    if (deactivating || passwordHash !== undefined) user.tokenVersion += 1;
+    return changes;
   }
 }

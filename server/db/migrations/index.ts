@@ -1,4 +1,5 @@
 import { Users1796146987773 } from './1796146987773-Users';
+import { AuditTrail1796147129023 } from './1796147129023-AuditTrail';
 
 /** Migrations in the order they run. */
-export const MIGRATIONS: Function[] = [Users1796146987773];
+export const MIGRATIONS: Function[] = [Users1796146987773, AuditTrail1796147129023];

@@ -1,0 +1,69 @@
+import fs from 'node:fs';
+import type { Server } from 'node:http';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { createApp } from '../../server/app';
+import { createLogger } from '../../server/lib/logger';
+import { seedDemoUsers } from '../../server/seed/demo-users';
+import { testConfig } from './app';
+import { createTestDatabase, type TestDatabase } from './db';
+
+export const PHONE = { width: 390, height: 844 };
+export const WIDE = { width: 1280, height: 800 };
+export const SCREENSHOT_DIR = path.join(__dirname, '..', 'artifacts', 'screenshots');
+
+const WEB_DIR = path.join(__dirname, '..', '..', 'dist');
+
+export interface RunningProduct {
+  url: string;
+  db: TestDatabase;
+  close(): Promise<void>;
+}
+
+/** The real server with the exported web app, on a fresh database seeded like the demo. */
+export async function startProduct(): Promise<RunningProduct> {
+  if (!fs.existsSync(path.join(WEB_DIR, 'index.html'))) throw new Error('dist/ is missing: run the tests with `npm test` (it builds the web app)');
+  const db = await createTestDatabase();
+  await seedDemoUsers(db.dataSource);
+  const config = testConfig({ databaseUrl: db.url, webDir: WEB_DIR });
+  const app = createApp({ config, dataSource: db.dataSource, logger: createLogger('silent') });
+  const server: Server = await new Promise((resolve) => {
+    const s = app.listen(0, '127.0.0.1', () => resolve(s));
+  });
+  const address = server.address();
+  if (!address || typeof address === 'string') throw new Error('no address');
+  return {
+    url: `http://127.0.0.1:${address.port}`,
+    db,
+    async close() {
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      await db.drop();
+    },
+  };
+}
+
+/** Debian's Chromium, headless, with a throw-away profile (STACK.md, "Playwright launch that worked"). */
+export async function launchBrowser(viewport: { width: number; height: number }): Promise<BrowserContext> {
+  return chromium.launchPersistentContext(fs.mkdtempSync(path.join(os.tmpdir(), 'kw-chromium-')), {
+    executablePath: process.env.KW_CHROMIUM ?? '/usr/bin/chromium',
+    headless: true,
+    viewport,
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export async function screenshot(page: Page, name: string): Promise<void> {
+  fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`), fullPage: true });
+}
+
+/** Collects page errors so a test can assert the page ran cleanly. */
+export function watchErrors(page: Page): string[] {
+  const errors: string[] = [];
+  page.on('pageerror', (err) => errors.push(err.message));
+  page.on('console', (msg) => {
+    if (msg.type() === 'error' && !/Failed to load resource: the server responded with a status of 40[13]/.test(msg.text())) errors.push(msg.text());
+  });
+  return errors;
+}

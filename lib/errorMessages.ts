@@ -1,0 +1,37 @@
+// Plain-words explanation of a failed request, with what the person can do next.
+import { ApiError } from './api';
+
+export interface ErrorExplanation {
+  message: string;
+  nextStep: string;
+}
+
+const NEXT_STEPS: Record<string, string> = {
+  network_error: 'Check the network connection of this device, then try again.',
+  unauthenticated: 'Sign in again to continue.',
+  forbidden: 'Your roles do not allow this. Ask an administrator if your work needs it.',
+  not_found: 'It may have been removed. Go back to the list and reload it.',
+  conflict: 'Change the marked field and try again.',
+  validation_failed: 'Correct the marked fields and try again.',
+  bad_request: 'Check what you entered and try again.',
+  too_many_requests: 'Wait a minute, then try again.',
+  payload_too_large: 'Use a smaller file and try again.',
+  unsupported_media: 'Use a PNG or JPEG file and try again.',
+  service_unavailable: 'Try again in a minute. If it keeps happening, tell your administrator.',
+  unreadable_response: 'Reload the page to get the current version of the app, then try again.',
+};
+
+const GENERIC_NEXT_STEP = 'Try again. If it happens again, tell your administrator what you were doing.';
+
+export function explainError(error: unknown): ErrorExplanation {
+  if (error instanceof ApiError) {
+    return { message: error.message, nextStep: NEXT_STEPS[error.code] ?? GENERIC_NEXT_STEP };
+  }
+  return { message: 'Something went wrong in the app.', nextStep: GENERIC_NEXT_STEP };
+}
+
+/** Retrying makes sense for server and network trouble, not for a refused request. */
+export function isWorthRetrying(error: unknown): boolean {
+  if (!(error instanceof ApiError)) return false;
+  return error.status === 0 || error.status >= 500 || error.code === 'too_many_requests';
+}

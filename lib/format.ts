@@ -1,0 +1,13 @@
+// Dates and counts as people on the line read them.
+const dateFormat = new Intl.DateTimeFormat(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
+
+export function formatDate(iso: string): string {
+  const date = new Date(iso);
+  return Number.isNaN(date.getTime()) ? '—' : dateFormat.format(date);
+}
+
+/** "21–40 of 57" for a page of a list. */
+export function describePage(offset: number, shown: number, total: number): string {
+  if (total === 0 || shown === 0) return `0 of ${total}`;
+  return `${offset + 1}–${offset + shown} of ${total}`;
+}

@@ -1,0 +1,62 @@
+import { Pressable, StyleSheet, View } from 'react-native';
+import { colors, minTouchTarget, radius, space } from '../lib/theme';
+import { AppText } from './AppText';
+
+export interface Choice<T> {
+  value: T;
+  label: string;
+}
+
+interface ChoiceChipsProps<T> {
+  /** Names the group for screen readers and shows above the chips. */
+  label: string;
+  choices: readonly Choice<T>[];
+  value: T;
+  onChange: (value: T) => void;
+}
+
+/** Pick exactly one of a few values; the chosen chip is filled and ticked, not only coloured. */
+export function ChoiceChips<T extends string | boolean | null>({ label, choices, value, onChange }: ChoiceChipsProps<T>) {
+  return (
+    <View style={styles.group}>
+      <AppText variant="label" tone="muted">
+        {label}
+      </AppText>
+      <View role="radiogroup" aria-label={label} style={styles.row}>
+        {choices.map((choice) => {
+          const selected = choice.value === value;
+          return (
+            <Pressable
+              key={String(choice.value)}
+              accessibilityRole="radio"
+              accessibilityLabel={choice.label}
+              accessibilityState={{ checked: selected }}
+              onPress={() => onChange(choice.value)}
+              style={({ pressed }) => [styles.chip, selected && styles.chipSelected, pressed && !selected && styles.chipPressed]}
+            >
+              <AppText variant="label" tone={selected ? 'onSteel' : 'default'}>
+                {selected ? `✓ ${choice.label}` : choice.label}
+              </AppText>
+            </Pressable>
+          );
+        })}
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  group: { gap: space.xs },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  chip: {
+    minHeight: minTouchTarget,
+    justifyContent: 'center',
+    paddingHorizontal: space.md,
+    borderRadius: radius.pill,
+    borderWidth: 1,
+    borderColor: colors.control,
+    backgroundColor: colors.surface,
+  },
+  chipSelected: { backgroundColor: colors.steel, borderColor: colors.steel },
+  chipPressed: { backgroundColor: colors.steelTint },
+});

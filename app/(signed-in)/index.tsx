@@ -1,0 +1,5 @@
+import { HomeScreen } from '../../components/HomeScreen';
+
+export default function HomeRoute() {
+  return <HomeScreen />;
+}

@@ -1,0 +1,5 @@
+import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+
+export default function RecordsRoute() {
+  return <AreaEmptyScreen area="records" />;
+}

@@ -1,0 +1,5 @@
+import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+
+export default function ReferenceSetsRoute() {
+  return <AreaEmptyScreen area="reference-sets" />;
+}

@@ -1,0 +1,5 @@
+import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+
+export default function StationsRoute() {
+  return <AreaEmptyScreen area="stations" />;
+}

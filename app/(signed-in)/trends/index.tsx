@@ -1,0 +1,5 @@
+import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+
+export default function TrendsRoute() {
+  return <AreaEmptyScreen area="trends" />;
+}

@@ -1,0 +1,5 @@
+import { NotFoundScreen } from '../components/NotFoundScreen';
+
+export default function NotFoundRoute() {
+  return <NotFoundScreen />;
+}

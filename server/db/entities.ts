@@ -1,5 +1,30 @@
 import { AuditEventEntity } from '../components/audit/entities';
 import { UserEntity } from '../components/auth/entities';
+import { DefectKindEntity, PartTypeEntity } from '../components/catalogue/entities';
+import { DisputeEntity, InspectionEntity, MeasurementEntity } from '../components/inspections/entities';
+import { CustomKernelEntity } from '../components/kernels/entities';
+import { ReferenceImageEntity, ReferenceSetEntity } from '../components/references/entities';
+import { RuleEntity, RuleVersionEntity, SignatureEntity } from '../components/rules/entities';
+import { LineEntity, StationEntity } from '../components/stations/entities';
+import { TrialEntity, TrialResultEntity } from '../components/trials/entities';
 
 /** Every TypeORM entity of the server, registered in one place. */
-export const ENTITIES = [UserEntity, AuditEventEntity];
+export const ENTITIES = [
+  UserEntity,
+  AuditEventEntity,
+  PartTypeEntity,
+  DefectKindEntity,
+  LineEntity,
+  StationEntity,
+  CustomKernelEntity,
+  RuleEntity,
+  RuleVersionEntity,
+  SignatureEntity,
+  ReferenceSetEntity,
+  ReferenceImageEntity,
+  TrialEntity,
+  TrialResultEntity,
+  InspectionEntity,
+  MeasurementEntity,
+  DisputeEntity,
+];

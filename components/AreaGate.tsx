@@ -20,7 +20,7 @@ export function AreaGate({ area, children }: { area: AreaKey; children: ReactNod
   return (
     <Screen title={title} width="reading">
       <Card style={styles.card}>
-        <AppText variant="heading">{`${title} is not available for your roles`}</AppText>
+        <AppText variant="heading">{`The ${title} area is not available for your roles`}</AppText>
         <AppText>{`Your roles: ${roles}. If your work needs this area, ask an administrator to add the role that uses it.`}</AppText>
         <View style={styles.actions}>
           <Button label="Go to Home" onPress={() => router.replace('/')} />

@@ -22,7 +22,7 @@ interface ButtonProps {
 const LOOKS: Record<ButtonVariant, { background: string; pressed: string; border: string; text: 'onSteel' | 'steel' | 'danger' }> = {
   primary: { background: colors.steel, pressed: colors.steelPressed, border: colors.steel, text: 'onSteel' },
   secondary: { background: colors.surface, pressed: colors.steelTint, border: colors.control, text: 'steel' },
-  danger: { background: colors.danger, pressed: '#84291F', border: colors.danger, text: 'onSteel' },
+  danger: { background: colors.danger, pressed: colors.dangerPressed, border: colors.danger, text: 'onSteel' },
   quiet: { background: 'transparent', pressed: colors.steelTint, border: 'transparent', text: 'steel' },
 };
 

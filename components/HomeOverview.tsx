@@ -29,7 +29,7 @@ function StepLink({ step }: { step: NextStep }) {
       <Pressable
         accessibilityRole="link"
         accessibilityLabel={`${step.text} Open ${area.title}.`}
-        style={({ pressed }) => [styles.step, pressed && styles.stepPressed]}
+        style={styles.step}
       >
         <AppText style={styles.stepText}>{step.text}</AppText>
         <AppText variant="label" tone="steel" style={styles.stepArea}>
@@ -86,7 +86,6 @@ const styles = StyleSheet.create({
     borderRadius: radius.md,
     backgroundColor: colors.paper,
   },
-  stepPressed: { backgroundColor: colors.steelTint },
   stepText: { flexGrow: 1, flexShrink: 1, flexBasis: 220 },
   stepArea: { flexShrink: 0 },
   note: {

@@ -28,7 +28,7 @@ export function KernwrightMark({ size = 28, inverted = false, decorative = false
             width: cell,
             height: cell,
             borderRadius: cell / 5,
-            backgroundColor: index === 4 ? (inverted ? colors.steel : colors.paper) : inverted ? colors.steelTint : '#5C7485',
+            backgroundColor: index === 4 ? (inverted ? colors.steel : colors.paper) : inverted ? colors.steelTint : colors.steelMid,
           }}
         />
       ))}

@@ -20,12 +20,13 @@ export function NavRail({ user }: { user: User }) {
         {areasForRoles(user.roles).map((area) => {
           const selected = area.key === current?.key;
           return (
+            // Link's asChild hands the style straight to the web element: one plain object, no array or function.
             <Link key={area.key} href={area.href} asChild>
               <Pressable
                 accessibilityRole="link"
                 accessibilityLabel={area.title}
                 aria-current={selected ? 'page' : undefined}
-                style={({ pressed }) => [styles.item, selected && styles.itemSelected, pressed && styles.itemPressed]}
+                style={StyleSheet.flatten([styles.item, selected && styles.itemSelected])}
               >
                 <View style={[styles.marker, selected && styles.markerSelected]} />
                 <AppText variant={selected ? 'bodyStrong' : 'body'} tone={selected ? 'steel' : 'default'}>
@@ -71,7 +72,6 @@ const styles = StyleSheet.create({
     borderRadius: radius.md,
   },
   itemSelected: { backgroundColor: colors.steelTint },
-  itemPressed: { backgroundColor: colors.surfaceSunken },
   marker: { width: 4, alignSelf: 'stretch', borderRadius: 2, marginVertical: space.sm, backgroundColor: 'transparent' },
   markerSelected: { backgroundColor: colors.steel },
   account: { gap: space.sm, paddingHorizontal: space.sm, paddingTop: space.lg, borderTopWidth: 1, borderTopColor: colors.line },

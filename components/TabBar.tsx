@@ -26,7 +26,7 @@ function AreaTab({ area, selected }: { area: Area; selected: boolean }) {
         accessibilityRole="link"
         accessibilityLabel={area.title}
         aria-current={selected ? 'page' : undefined}
-        style={({ pressed }) => [styles.tab, pressed && styles.tabPressed]}
+        style={styles.tab}
       >
         <TabMarker selected={selected} />
         <AppText variant="label" tone={selected ? 'steel' : 'muted'} style={[styles.tabLabel, selected && styles.tabLabelSelected]} numberOfLines={2}>
@@ -76,7 +76,7 @@ export function TabBar({ user }: { user: User }) {
                     accessibilityLabel={area.title}
                     aria-current={selected ? 'page' : undefined}
                     onPress={() => setMenuOpen(false)}
-                    style={({ pressed }) => [styles.menuItem, selected && styles.menuItemSelected, pressed && styles.tabPressed]}
+                    style={StyleSheet.flatten([styles.menuItem, selected && styles.menuItemSelected])}
                   >
                     <AppText variant={selected ? 'bodyStrong' : 'body'}>{area.title}</AppText>
                     <AppText variant="caption" tone="muted" numberOfLines={2}>

@@ -6,16 +6,19 @@ export const colors = {
   paper: '#F4F2EE', // page background (also app.json's web backgroundColor)
   surface: '#FFFFFF', // cards, tables, dialogs
   surfaceSunken: '#ECE9E3', // table header, filter band
+  surfaceMuted: '#F8F7F4', // rows of deactivated records
   ink: '#1B2733', // main text: 13.6:1 on paper
   inkMuted: '#4B5A66', // secondary text: 6.4:1 on paper
   steel: '#1F3A4D', // primary actions, navigation: 10.6:1 on paper (app.json's themeColor)
   steelPressed: '#152A39',
   steelTint: '#DCE4EA', // selected navigation item and chips
+  steelMid: '#5C7485', // the outer cells of the Kernwright mark
   onSteel: '#FFFFFF', // 11.9:1 on steel
   line: '#D9DDE0', // decorative dividers only
   control: '#8A96A0', // input and chip borders: 3.0:1 on surface
   focus: '#2F6583', // keyboard focus ring: 5.7:1 on paper
   danger: '#A2382C', // errors and destructive actions: 6.0:1 on paper
+  dangerPressed: '#84291F',
   dangerTint: '#F6E3DF',
   notice: '#2C6A4E', // confirmations: 5.7:1 on paper
   noticeTint: '#E0EEE6',

@@ -10,12 +10,12 @@ import { UserStatus } from './UserStatus';
 import type { UserRowActions } from './userActions';
 
 const COLUMNS = [
-  { key: 'name', title: 'Name', style: { flex: 2.2 } },
-  { key: 'roles', title: 'Roles', style: { flex: 2.4 } },
-  { key: 'email', title: 'E-mail', style: { flex: 2.2 } },
-  { key: 'status', title: 'Status', style: { flex: 1.3 } },
-  { key: 'added', title: 'Added', style: { flex: 1.2 } },
-  { key: 'actions', title: 'Actions', style: { width: 208 } },
+  { key: 'name', title: 'Name', style: { flex: 2 } },
+  { key: 'roles', title: 'Roles', style: { flex: 2 } },
+  { key: 'email', title: 'E-mail', style: { flex: 2.6 } },
+  { key: 'status', title: 'Status', style: { width: 132 } },
+  { key: 'added', title: 'Added', style: { width: 116 } },
+  { key: 'actions', title: 'Actions', style: { width: 184 } },
 ] as const;
 type ColumnKey = (typeof COLUMNS)[number]['key'];
 const columnStyle = (key: ColumnKey) => COLUMNS.find((column) => column.key === key)!.style;
@@ -54,7 +54,7 @@ export function UsersTable({ users, actions }: { users: readonly User[]; actions
             <UserStatus active={user.active} />
           </View>
           <View role="cell" style={[styles.cell, columnStyle('added')]}>
-            <AppText>{formatDate(user.createdAt)}</AppText>
+            <AppText numberOfLines={1}>{formatDate(user.createdAt)}</AppText>
           </View>
           <View role="cell" style={[styles.cell, columnStyle('actions')]}>
             <UserRowButtons user={user} actions={actions} />
@@ -76,6 +76,6 @@ const styles = StyleSheet.create({
   row: { flexDirection: 'row', alignItems: 'center', paddingHorizontal: space.sm, minHeight: 60 },
   headerRow: { backgroundColor: colors.surfaceSunken, minHeight: 44 },
   rowDivider: { borderTopWidth: 1, borderTopColor: colors.line },
-  rowInactive: { backgroundColor: '#F8F7F4' },
+  rowInactive: { backgroundColor: colors.surfaceMuted },
   cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, justifyContent: 'center', minWidth: 0 },
 });

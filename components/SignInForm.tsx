@@ -23,8 +23,14 @@ export function SignInForm({ endReason }: { endReason: SessionEndReason | null }
   const [password, setPassword] = useState('');
   const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
 
+  const edit = (field: 'username' | 'password', setValue: (value: string) => void) => (value: string) => {
+    setValue(value);
+    setFieldErrors((errors) => ({ ...errors, [field]: undefined }));
+  };
+
   const submit = () => {
     if (signIn.isPending) return;
+    signIn.reset();
     const checked = validateForm(signInRequestSchema, { username, password });
     if (!checked.ok) {
       setFieldErrors(checked.errors);
@@ -56,7 +62,7 @@ export function SignInForm({ endReason }: { endReason: SessionEndReason | null }
       <TextField
         label="User name"
         value={username}
-        onChangeText={setUsername}
+        onChangeText={edit('username', setUsername)}
         error={fieldErrors.username}
         autoCapitalize="none"
         autoCorrect={false}
@@ -71,7 +77,7 @@ export function SignInForm({ endReason }: { endReason: SessionEndReason | null }
         ref={passwordField}
         label="Password"
         value={password}
-        onChangeText={setPassword}
+        onChangeText={edit('password', setPassword)}
         error={fieldErrors.password}
         secureTextEntry
         autoCapitalize="none"

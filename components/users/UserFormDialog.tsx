@@ -69,7 +69,10 @@ export function UserFormDialog({ user, currentUserId, onClose, onSaved }: UserFo
   const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
   const [requestError, setRequestError] = useState<unknown>(null);
 
-  const set = <K extends keyof FormValues>(key: K) => (value: FormValues[K]) => setValues((previous) => ({ ...previous, [key]: value }));
+  const set = <K extends keyof FormValues>(key: K) => (value: FormValues[K]) => {
+    setValues((previous) => ({ ...previous, [key]: value }));
+    setFieldErrors((errors) => ({ ...errors, [key]: undefined }));
+  };
 
   const fail = (error: unknown) => {
     const errors = fieldErrorsOf(error);

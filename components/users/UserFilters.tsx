@@ -31,7 +31,7 @@ export function UserFilters({ values, onChange }: UserFiltersProps) {
     <View accessibilityRole="search" style={styles.filters}>
       <TextField
         label="Search"
-        placeholder="Name, user name or e-mail"
+        placeholder="Name or user name"
         value={values.search}
         onChangeText={(search) => onChange({ ...values, search })}
         autoCapitalize="none"

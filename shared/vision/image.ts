@@ -1,0 +1,85 @@
+// The one image type of the engine: a single channel of float32 samples, row-major, no padding.
+// 8- and 16-bit inputs are converted once, keeping their values (0–255 or 0–65535).
+import type { InputChannel } from '../rules/schema';
+
+export interface Image {
+  readonly width: number;
+  readonly height: number;
+  readonly data: Float32Array;
+}
+
+export type BitDepth = 8 | 16;
+
+/** Decoded samples of a photo as the decoder gives them: interleaved channels, 8- or 16-bit. */
+export interface RawPhoto {
+  readonly width: number;
+  readonly height: number;
+  /** 1 grey, 2 grey + alpha, 3 RGB, 4 RGB + alpha. */
+  readonly channels: 1 | 2 | 3 | 4;
+  readonly bitDepth: BitDepth;
+  readonly samples: Uint8Array | Uint16Array;
+}
+
+/** ITU-R BT.601 luma weights (Rec. ITU-R BT.601-7, §2.5.1: E'Y = 0.299 E'R + 0.587 E'G + 0.114 E'B). */
+export const BT601_WEIGHTS = { red: 0.299, green: 0.587, blue: 0.114 } as const;
+
+export function createImage(width: number, height: number, data?: Float32Array): Image {
+  if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
+    throw new RangeError(`an image needs a positive whole width and height, got ${width}x${height}`);
+  }
+  const pixels = width * height;
+  if (data && data.length !== pixels) {
+    throw new RangeError(`a ${width}x${height} image needs ${pixels} samples, got ${data.length}`);
+  }
+  return { width, height, data: data ?? new Float32Array(pixels) };
+}
+
+/** An image from any array of samples (8-bit, 16-bit, plain numbers), values kept as they are. */
+export function imageFromSamples(width: number, height: number, samples: ArrayLike<number>): Image {
+  const image = createImage(width, height);
+  image.data.set(samples);
+  return image;
+}
+
+export function cloneImage(image: Image): Image {
+  return createImage(image.width, image.height, image.data.slice());
+}
+
+export function maxSampleValue(bitDepth: BitDepth): number {
+  return bitDepth === 16 ? 65535 : 255;
+}
+
+/** Reuses `out` when it has the right size; otherwise allocates. */
+export function imageLike(src: { width: number; height: number }, out?: Image): Image {
+  if (out && out.width === src.width && out.height === src.height) return out;
+  return createImage(src.width, src.height);
+}
+
+/**
+ * The rule's input channel of a photo. Luma uses the BT.601 weights on the stored (gamma-encoded)
+ * samples, computed in double precision and kept unrounded as float32. A grey photo is its own
+ * luma, red, green and blue. Alpha is ignored.
+ */
+export function channelImage(photo: RawPhoto, channel: InputChannel): Image {
+  const { width, height, channels, samples } = photo;
+  const pixels = width * height;
+  if (samples.length !== pixels * channels) {
+    throw new RangeError(`a ${width}x${height} photo with ${channels} channel(s) needs ${pixels * channels} samples, got ${samples.length}`);
+  }
+  const out = createImage(width, height);
+  const data = out.data;
+  if (channels <= 2) {
+    for (let p = 0, s = 0; p < pixels; p++, s += channels) data[p] = samples[s];
+    return out;
+  }
+  if (channel !== 'luma') {
+    const offset = channel === 'red' ? 0 : channel === 'green' ? 1 : 2;
+    for (let p = 0, s = offset; p < pixels; p++, s += channels) data[p] = samples[s];
+    return out;
+  }
+  const wr = BT601_WEIGHTS.red, wg = BT601_WEIGHTS.green, wb = BT601_WEIGHTS.blue;
+  for (let p = 0, s = 0; p < pixels; p++, s += channels) {
+    data[p] = wr * samples[s] + wg * samples[s + 1] + wb * samples[s + 2];
+  }
+  return out;
+}

@@ -1,0 +1,121 @@
+// Median filter over a square window with the rule's border.
+// Integer samples (8- and 16-bit photos) use a running histogram per row, with the median tracked
+// as the window slides (T. S. Huang, G. J. Yang, G. Y. Tang, "A fast two-dimensional median
+// filtering algorithm", IEEE Trans. ASSP 27(1), 1979); other values use selection per window.
+import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { imageLike, type Image } from './image';
+
+const HISTOGRAM_LEVELS = 65536;
+
+export function medianFilter(src: Image, size: number, border: BorderMode, out?: Image): Image {
+  const dst = imageLike(src, out);
+  if (size === 1) {
+    dst.data.set(src.data);
+    return dst;
+  }
+  if (isIntegerSamples(src.data)) medianByHistogram(src, size, border, dst.data);
+  else medianBySelection(src, size, border, dst.data);
+  return dst;
+}
+
+function isIntegerSamples(data: Float32Array): boolean {
+  for (let p = 0; p < data.length; p++) {
+    const v = data[p];
+    if (!(v >= 0 && v < HISTOGRAM_LEVELS) || v !== Math.floor(v)) return false;
+  }
+  return true;
+}
+
+function medianByHistogram(src: Image, size: number, border: BorderMode, o: Float32Array): void {
+  const { width: w, height: h, data } = src;
+  const r = (size - 1) >> 1;
+  const rowOffsets = rowOffsetTable(h, w, r, r, border);
+  const colTable = borderTable(w, r, r, border);
+  const hist = new Int32Array(HISTOGRAM_LEVELS);
+  const rank = (size * size - 1) >> 1; // 0-based rank of the median among size² values
+  const rows = new Int32Array(size);
+
+  for (let y = 0; y < h; y++) {
+    for (let j = 0; j < size; j++) rows[j] = rowOffsets[y + j];
+    hist.fill(0);
+    // Window at x = 0: columns −r … r. A constant border contributes zeros (level 0).
+    for (let j = 0; j < size; j++) {
+      const off = rows[j];
+      for (let i = 0; i < size; i++) {
+        const sx = colTable[i];
+        hist[off === OUTSIDE || sx === OUTSIDE ? 0 : data[off + sx]]++;
+      }
+    }
+    // below = number of values < m; the median m satisfies below ≤ rank < below + hist[m].
+    let m = 0;
+    let below = 0;
+    while (below + hist[m] <= rank) below += hist[m++];
+    const base = y * w;
+    o[base] = m;
+    for (let x = 1; x < w; x++) {
+      const leave = colTable[x - 1];
+      const enter = colTable[x + size - 1];
+      for (let j = 0; j < size; j++) {
+        const off = rows[j];
+        const vOut = off === OUTSIDE || leave === OUTSIDE ? 0 : data[off + leave];
+        const vIn = off === OUTSIDE || enter === OUTSIDE ? 0 : data[off + enter];
+        hist[vOut]--;
+        hist[vIn]++;
+        if (vOut < m) below--;
+        if (vIn < m) below++;
+      }
+      while (below > rank) below -= hist[--m];
+      while (below + hist[m] <= rank) below += hist[m++];
+      o[base + x] = m;
+    }
+  }
+}
+
+function medianBySelection(src: Image, size: number, border: BorderMode, o: Float32Array): void {
+  const { width: w, height: h, data } = src;
+  const r = (size - 1) >> 1;
+  const rowOffsets = rowOffsetTable(h, w, r, r, border);
+  const colTable = borderTable(w, r, r, border);
+  const count = size * size;
+  const rank = (count - 1) >> 1;
+  const window = new Float64Array(count);
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      let n = 0;
+      for (let j = 0; j < size; j++) {
+        const off = rowOffsets[y + j];
+        for (let i = 0; i < size; i++) {
+          const sx = colTable[x + i];
+          window[n++] = off === OUTSIDE || sx === OUTSIDE ? 0 : data[off + sx];
+        }
+      }
+      o[y * w + x] = selectRank(window, count, rank);
+    }
+  }
+}
+
+/** k-th smallest of values[0 … n-1] (Hoare's selection); reorders values. */
+function selectRank(values: Float64Array, n: number, k: number): number {
+  let lo = 0;
+  let hi = n - 1;
+  while (lo < hi) {
+    const pivot = values[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (values[i] < pivot) i++;
+      while (values[j] > pivot) j--;
+      if (i <= j) {
+        const t = values[i];
+        values[i] = values[j];
+        values[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return values[k];
+  }
+  return values[k];
+}

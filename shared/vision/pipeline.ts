@@ -1,0 +1,227 @@
+// Runs a rule document on a photo: validate, quality gate, every step in order (float32 in,
+// float32 out), gauges, verdict. Pure computation: kernels of the library come from the caller.
+import type { FieldIssue } from '../api/errors';
+import { validateRuleDocument, type Gauge, type GaugeMeasure, type GaugeUnit, type Limits, type RuleDocument, type Step } from '../rules/schema';
+import type { BorderMode } from './border';
+import { correlate, type LargeKernelCorrelator } from './convolve';
+import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
+import { gradient } from './gradient';
+import { channelImage, createImage, type BitDepth, type Image, type RawPhoto } from './image';
+import { kernelFromMatrix, type Kernel, type KernelDefinition } from './kernels';
+import { laplacian, laplacianOfGaussian } from './laplacian';
+import { medianFilter } from './median';
+import { morphology } from './morphology';
+import { judgeQuality, qualityFigures, type QualityJudgement } from './quality';
+import { boxFilter, gaussianBlur } from './smoothing';
+import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from './threshold';
+
+export type Verdict = 'PASS' | 'FAIL' | 'RETAKE';
+
+/** How a step's values should be shown: masks black/white, signed values centred on grey. */
+export type OutputKind = 'intensity' | 'signed' | 'mask' | 'direction';
+
+export type KernelLibrary = ReadonlyMap<string, KernelDefinition>;
+
+export interface RunOptions {
+  /** Kernels a `{ "kernel": "<name>" }` step may name. */
+  kernels?: KernelLibrary;
+  /** The station's calibration; needed by gauges in mm or mm². */
+  mmPerPx?: number;
+  /** 'all' keeps every step's output (previews, the rule command); 'gauged' keeps only what gauges read and reuses the rest. */
+  retain?: 'all' | 'gauged';
+  largeKernelCorrelator?: LargeKernelCorrelator;
+  largeKernelTaps?: number;
+}
+
+export interface StepRun {
+  /** 1-based, as gauges refer to steps. */
+  readonly index: number;
+  readonly op: Step['op'];
+  readonly kind: OutputKind;
+  /** null when not retained. */
+  readonly output: Image | null;
+  readonly ms: number;
+}
+
+export interface Measurement {
+  readonly name: string;
+  readonly measure: GaugeMeasure;
+  /** Step whose output was measured (0 = the converted input). */
+  readonly step: number;
+  readonly value: number;
+  readonly unit: GaugeUnit | null;
+  readonly limits: Limits;
+  readonly pass: boolean;
+}
+
+export interface RuleRun {
+  readonly rule: RuleDocument;
+  readonly verdict: Verdict;
+  readonly quality: QualityJudgement;
+  readonly measurements: Measurement[];
+  readonly steps: StepRun[];
+  /** The converted input (the rule's channel, float32). */
+  readonly input: Image;
+  readonly bitDepth: BitDepth;
+  readonly ms: number;
+}
+
+export type RuleRunErrorCode = 'invalid_rule' | 'unknown_kernel' | 'missing_calibration';
+
+/** A rule that cannot run on this photo: invalid document, unknown kernel, or mm without calibration. */
+export class RuleRunError extends Error {
+  constructor(
+    readonly code: RuleRunErrorCode,
+    message: string,
+    readonly issues: FieldIssue[],
+  ) {
+    super(message);
+    this.name = 'RuleRunError';
+  }
+}
+
+/** Validates the document, then runs it on the photo. */
+export function runRule(document: unknown, photo: RawPhoto, options: RunOptions = {}): RuleRun {
+  const validation = validateRuleDocument(document);
+  if (!validation.ok) {
+    const first = validation.issues[0];
+    throw new RuleRunError('invalid_rule', `invalid rule: ${first.path}: ${first.message}`, validation.issues);
+  }
+  return runValidatedRule(validation.rule, photo, options);
+}
+
+export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: RunOptions = {}): RuleRun {
+  const kernels = resolveKernels(rule, options.kernels);
+  checkCalibration(rule, options.mmPerPx);
+  const started = now();
+  const input = channelImage(photo, rule.input.channel);
+  const quality = judgeQuality(qualityFigures(input, photo.bitDepth), rule.quality);
+
+  const retainAll = (options.retain ?? 'all') === 'all';
+  const needed = new Set<number>(rule.gauges.map((g) => g.step ?? rule.steps.length));
+  needed.add(rule.steps.length);
+  const spare: Image[] = [];
+  const take = () => spare.pop() ?? createImage(input.width, input.height);
+
+  const steps: StepRun[] = [];
+  const outputs: (Image | null)[] = [input];
+  let current = input;
+  let currentKind: OutputKind = 'intensity';
+  rule.steps.forEach((step, i) => {
+    const t0 = now();
+    const out = take();
+    const scratch = step.op === 'open' || step.op === 'close' ? take() : undefined;
+    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options);
+    if (scratch) spare.push(scratch);
+    const ms = now() - t0;
+    const kind = outputKind(step, kernels[i], currentKind);
+    const index = i + 1;
+    if (!retainAll && i > 0 && !needed.has(i)) {
+      spare.push(current);
+      outputs[i] = null;
+    }
+    outputs[index] = result;
+    steps.push({ index, op: step.op, kind, output: result, ms });
+    current = result;
+    currentKind = kind;
+  });
+
+  const measurements = rule.gauges.map((g) => measure(g, outputs, rule.steps.length, options.mmPerPx));
+  const verdict: Verdict = !quality.pass ? 'RETAKE' : measurements.every((m) => m.pass) ? 'PASS' : 'FAIL';
+  const retainedSteps = steps.map((s) => (outputs[s.index] ? s : { ...s, output: null }));
+  return { rule, verdict, quality, measurements, steps: retainedSteps, input, bitDepth: photo.bitDepth, ms: now() - started };
+}
+
+function now(): number {
+  return typeof performance !== 'undefined' ? performance.now() : Date.now();
+}
+
+function resolveKernels(rule: RuleDocument, library?: KernelLibrary): (Kernel | null)[] {
+  const issues: FieldIssue[] = [];
+  const kernels = rule.steps.map((step, i) => {
+    if (step.op !== 'kernel') return null;
+    if (step.matrix) return kernelFromMatrix(step.matrix, step.divisor ?? 1, step.offset ?? 0);
+    const def = library?.get(step.kernel!);
+    if (!def) {
+      issues.push({ path: `steps[${i}].kernel`, message: `no kernel named "${step.kernel}" in the kernel library` });
+      return null;
+    }
+    return kernelFromMatrix(def.matrix, def.divisor, def.offset);
+  });
+  if (issues.length > 0) throw new RuleRunError('unknown_kernel', `${issues[0].path}: ${issues[0].message}`, issues);
+  return kernels;
+}
+
+function checkCalibration(rule: RuleDocument, mmPerPx?: number): void {
+  if (mmPerPx !== undefined && mmPerPx > 0 && Number.isFinite(mmPerPx)) return;
+  const issues = rule.gauges.flatMap((g, i) =>
+    needsCalibration(g) ? [{ path: `gauges[${i}].unit`, message: `"${g.name}" is in ${g.unit}: the station's calibration (mm per pixel) is needed` }] : [],
+  );
+  if (issues.length > 0) throw new RuleRunError('missing_calibration', issues[0].message, issues);
+}
+
+function applyStep(
+  step: Step,
+  src: Image,
+  border: BorderMode,
+  out: Image,
+  scratch: Image | undefined,
+  kernel: Kernel | null,
+  options: RunOptions,
+): Image {
+  switch (step.op) {
+    case 'kernel':
+      return correlate(src, kernel!, border, { out, largeKernelCorrelator: options.largeKernelCorrelator, largeKernelTaps: options.largeKernelTaps });
+    case 'gaussian':
+      return gaussianBlur(src, step.sigma, border, out);
+    case 'box':
+      return boxFilter(src, step.size, border, out);
+    case 'median':
+      return medianFilter(src, step.size, border, out);
+    case 'gradient':
+      return gradient(src, step.operator, step.output, border, out);
+    case 'laplacian':
+      return laplacian(src, step.neighbours, border, out);
+    case 'log':
+      return laplacianOfGaussian(src, step.sigma, border, out);
+    case 'threshold':
+      if (step.method === 'fixed') return thresholdFixed(src, step.value, step.invert, out);
+      if (step.method === 'otsu') return thresholdOtsu(src, step.invert, out).mask;
+      return thresholdAdaptiveMean(src, step.size, step.c, border, step.invert, out);
+    case 'erode':
+    case 'dilate':
+    case 'open':
+    case 'close':
+      return morphology(src, step.op, step.radius, border, out, scratch);
+  }
+}
+
+function outputKind(step: Step, kernel: Kernel | null, previous: OutputKind): OutputKind {
+  switch (step.op) {
+    case 'threshold':
+      return 'mask';
+    case 'erode':
+    case 'dilate':
+    case 'open':
+    case 'close':
+      return previous === 'mask' ? 'mask' : 'intensity';
+    case 'gradient':
+      return step.output === 'magnitude' ? 'intensity' : step.output === 'direction' ? 'direction' : 'signed';
+    case 'laplacian':
+    case 'log':
+      return 'signed';
+    case 'kernel':
+      return kernel && (kernel.weights.some((w) => w < 0) || kernel.offset < 0) ? 'signed' : 'intensity';
+    default:
+      return 'intensity';
+  }
+}
+
+function measure(gauge: Gauge, outputs: (Image | null)[], lastStep: number, mmPerPx?: number): Measurement {
+  const step = gauge.step ?? lastStep;
+  const image = outputs[step]!;
+  const spans = regionSpans(image.width, image.height, gauge.region);
+  const unit = gaugeUnit(gauge);
+  const value = toUnit(measurePixels(image, gauge.measure, spans), unit, mmPerPx);
+  return { name: gauge.name, measure: gauge.measure, step, value, unit, limits: gauge.limits, pass: withinLimits(value, gauge.limits) };
+}

@@ -1,0 +1,136 @@
+// Thresholds: every method writes a mask, 1 where the pixel is above its threshold, else 0
+// (inverted on request). Otsu and adaptive mean choose the threshold from the data.
+import type { BorderMode } from './border';
+import { imageLike, type Image } from './image';
+import { boxFilter } from './smoothing';
+
+export const HISTOGRAM_BINS = 256;
+
+/** mask = in > value (or ≤ with invert). */
+export function thresholdFixed(src: Image, value: number, invert = false, out?: Image): Image {
+  const dst = imageLike(src, out);
+  const s = src.data;
+  const o = dst.data;
+  const above = invert ? 0 : 1;
+  const below = 1 - above;
+  for (let p = 0; p < s.length; p++) o[p] = s[p] > value ? above : below;
+  return dst;
+}
+
+/** The histogram Otsu's method works on, and how a value maps to its bin. */
+export interface OtsuHistogram {
+  readonly counts: Float64Array;
+  /** bin(v) = min(255, floor((v − origin) · binsPerUnit)). */
+  readonly origin: number;
+  readonly binsPerUnit: number;
+  /** True when all values are the same (no threshold separates anything). */
+  readonly flat: boolean;
+}
+
+/**
+ * 256 integer levels when every value is an integer in 0–255 (8-bit data), otherwise 256 equal
+ * bins over min…max (DESIGN.md, rule format v1).
+ */
+export function otsuHistogram(data: Float32Array): OtsuHistogram {
+  let min = Infinity;
+  let max = -Infinity;
+  let integral = true;
+  for (let p = 0; p < data.length; p++) {
+    const v = data[p];
+    if (v < min) min = v;
+    if (v > max) max = v;
+    if (integral && v !== Math.floor(v)) integral = false;
+  }
+  const counts = new Float64Array(HISTOGRAM_BINS);
+  const flat = !(max > min);
+  const eightBit = integral && min >= 0 && max <= 255;
+  const origin = eightBit ? 0 : min;
+  const binsPerUnit = eightBit ? 1 : flat ? 0 : HISTOGRAM_BINS / (max - min);
+  const last = HISTOGRAM_BINS - 1;
+  if (eightBit) {
+    for (let p = 0; p < data.length; p++) counts[data[p]]++;
+  } else if (!flat) {
+    for (let p = 0; p < data.length; p++) {
+      const bin = Math.floor((data[p] - origin) * binsPerUnit);
+      counts[bin > last ? last : bin]++;
+    }
+  } else {
+    counts[0] = data.length;
+  }
+  return { counts, origin, binsPerUnit, flat };
+}
+
+/**
+ * Otsu's threshold bin k: the smallest k maximising the between-class variance
+ * ω₀ω₁(μ₀ − μ₁)² with class 0 = bins ≤ k (N. Otsu, IEEE Trans. SMC-9(1):62–66, 1979),
+ * or −1 when no k separates two non-empty classes.
+ */
+export function otsuBin(counts: ArrayLike<number>): number {
+  let total = 0;
+  let weighted = 0;
+  for (let i = 0; i < counts.length; i++) {
+    total += counts[i];
+    weighted += i * counts[i];
+  }
+  if (total === 0) return -1;
+  const muT = weighted / total;
+  let best = -1;
+  let bestVariance = 0;
+  let w0 = 0;
+  let sum0 = 0;
+  for (let k = 0; k < counts.length - 1; k++) {
+    w0 += counts[k] / total;
+    sum0 += (k * counts[k]) / total;
+    const w1 = 1 - w0;
+    if (w0 < 1e-12 || w1 < 1e-12) continue;
+    const mu0 = sum0 / w0;
+    const mu1 = (muT - sum0) / w1;
+    const variance = w0 * w1 * (mu0 - mu1) * (mu0 - mu1);
+    if (variance > bestVariance * (1 + 1e-12)) {
+      bestVariance = variance;
+      best = k;
+    }
+  }
+  return best;
+}
+
+/** Otsu's method: mask = 1 where the pixel's bin is above the chosen bin k; a flat image gives an empty mask. */
+export function thresholdOtsu(src: Image, invert = false, out?: Image): { mask: Image; bin: number; threshold: number } {
+  const dst = imageLike(src, out);
+  const s = src.data;
+  const o = dst.data;
+  const hist = otsuHistogram(s);
+  const k = hist.flat ? -1 : otsuBin(hist.counts);
+  const above = invert ? 0 : 1;
+  const below = 1 - above;
+  if (k < 0) {
+    o.fill(below);
+    return { mask: dst, bin: -1, threshold: NaN };
+  }
+  // bin(v) > k  ⇔  (v − origin)·binsPerUnit ≥ k + 1  (the top bin only collects values at max).
+  const cut = hist.origin + (k + 1) / hist.binsPerUnit;
+  if (hist.binsPerUnit === 1) {
+    for (let p = 0; p < s.length; p++) o[p] = s[p] > k ? above : below;
+  } else {
+    const origin = hist.origin;
+    const scale = hist.binsPerUnit;
+    const last = HISTOGRAM_BINS - 1;
+    for (let p = 0; p < s.length; p++) {
+      let bin = Math.floor((s[p] - origin) * scale);
+      if (bin > last) bin = last;
+      o[p] = bin > k ? above : below;
+    }
+  }
+  return { mask: dst, bin: k, threshold: hist.binsPerUnit === 1 ? k : cut };
+}
+
+/** mask = in > (mean of the size × size neighbourhood) − c, the neighbourhood using the rule's border. */
+export function thresholdAdaptiveMean(src: Image, size: number, c: number, border: BorderMode, invert = false, out?: Image): Image {
+  const dst = boxFilter(src, size, border, imageLike(src, out === src ? undefined : out));
+  const s = src.data;
+  const o = dst.data;
+  const above = invert ? 0 : 1;
+  const below = 1 - above;
+  for (let p = 0; p < s.length; p++) o[p] = s[p] > o[p] - c ? above : below;
+  return dst;
+}

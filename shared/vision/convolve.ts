@@ -41,6 +41,7 @@ function isSymmetric(w: ArrayLike<number>): boolean {
 /**
  * Correlation with column ⊗ row, streaming one row at a time: the vertical pass writes one
  * row (padded on both sides by the border policy), the horizontal pass reads it. No temporary image.
+ * Symmetric kernels up to radius 3 (Gaussians up to σ = 1, the derivative smoothings) run unrolled.
  */
 export function correlateSeparable(
   src: Image,
@@ -60,68 +61,90 @@ export function correlateSeparable(
   const line = new Float64Array(w + 2 * rx);
   const col = Float64Array.from(column);
   const krow = Float64Array.from(row);
-  const colSymmetric = isSymmetric(col);
-  const rowSymmetric = isSymmetric(krow);
+  const zeros = new Float32Array(w);
+  const rows: Float32Array[] = new Array(column.length);
+  const verticalUnrolled = isSymmetric(col) && ry <= 3;
+  const horizontalUnrolled = isSymmetric(krow) && rx <= 3;
 
   for (let y = 0; y < h; y++) {
-    verticalPass(data, w, rowOffsets, y, col, ry, colSymmetric, line, rx);
-    fillRowBorder(line, w, rx, colTable);
-    const base = y * w;
-    if (rowSymmetric) {
-      const k0 = krow[rx];
-      for (let x = 0; x < w; x++) {
-        const c = x + rx;
-        let acc = k0 * line[c];
-        for (let t = 1; t <= rx; t++) acc += krow[rx + t] * (line[c - t] + line[c + t]);
-        o[base + x] = acc + offset;
-      }
-    } else {
-      const taps = krow.length;
-      for (let x = 0; x < w; x++) {
-        let acc = 0;
-        for (let i = 0; i < taps; i++) acc += krow[i] * line[x + i];
-        o[base + x] = acc + offset;
-      }
+    for (let j = 0; j < col.length; j++) {
+      const off = rowOffsets[y + j];
+      rows[j] = off === OUTSIDE ? zeros : data.subarray(off, off + w);
     }
+    if (verticalUnrolled) verticalSymmetric(rows, col, ry, w, line, rx);
+    else verticalGeneral(rows, col, w, line, rx);
+    fillRowBorder(line, w, rx, colTable);
+    if (horizontalUnrolled) horizontalSymmetric(line, krow, rx, w, o, y * w, offset);
+    else horizontalGeneral(line, krow, w, o, y * w, offset);
   }
   return dst;
 }
 
-/** line[pad + x] = Σⱼ col[j]·src[y + j − ry][x]; rows outside a constant border add nothing. */
-function verticalPass(
-  data: Float32Array,
-  w: number,
-  rowOffsets: Int32Array,
-  y: number,
-  col: Float64Array,
-  ry: number,
-  symmetric: boolean,
-  line: Float64Array,
-  pad: number,
-): void {
-  const centre = rowOffsets[y + ry];
-  const k0 = col[ry];
-  for (let x = 0; x < w; x++) line[pad + x] = k0 * data[centre + x];
-  if (symmetric) {
-    for (let t = 1; t <= ry; t++) {
-      const k = col[ry + t];
-      if (k === 0) continue;
-      const up = rowOffsets[y + ry - t];
-      const down = rowOffsets[y + ry + t];
-      if (up !== OUTSIDE && down !== OUTSIDE) {
-        for (let x = 0; x < w; x++) line[pad + x] += k * (data[up + x] + data[down + x]);
-      } else {
-        if (up !== OUTSIDE) for (let x = 0; x < w; x++) line[pad + x] += k * data[up + x];
-        if (down !== OUTSIDE) for (let x = 0; x < w; x++) line[pad + x] += k * data[down + x];
-      }
+function verticalSymmetric(rows: Float32Array[], k: Float64Array, r: number, w: number, line: Float64Array, pad: number): void {
+  const c = rows[r];
+  const k0 = k[r];
+  if (r === 0) {
+    for (let x = 0; x < w; x++) line[pad + x] = k0 * c[x];
+  } else if (r === 1) {
+    const a1 = rows[0], b1 = rows[2], k1 = k[2];
+    for (let x = 0; x < w; x++) line[pad + x] = k0 * c[x] + k1 * (a1[x] + b1[x]);
+  } else if (r === 2) {
+    const a1 = rows[1], b1 = rows[3], k1 = k[3];
+    const a2 = rows[0], b2 = rows[4], k2 = k[4];
+    for (let x = 0; x < w; x++) line[pad + x] = k0 * c[x] + k1 * (a1[x] + b1[x]) + k2 * (a2[x] + b2[x]);
+  } else {
+    const a1 = rows[2], b1 = rows[4], k1 = k[4];
+    const a2 = rows[1], b2 = rows[5], k2 = k[5];
+    const a3 = rows[0], b3 = rows[6], k3 = k[6];
+    for (let x = 0; x < w; x++) {
+      line[pad + x] = k0 * c[x] + k1 * (a1[x] + b1[x]) + k2 * (a2[x] + b2[x]) + k3 * (a3[x] + b3[x]);
     }
-    return;
   }
-  for (let j = 0; j < col.length; j++) {
-    const k = col[j];
-    const off = rowOffsets[y + j];
-    if (j === ry || k === 0 || off === OUTSIDE) continue;
-    for (let x = 0; x < w; x++) line[pad + x] += k * data[off + x];
+}
+
+/** Any column: one streaming pass per tap (simple loops, no per-pixel inner loop). */
+function verticalGeneral(rows: Float32Array[], k: Float64Array, w: number, line: Float64Array, pad: number): void {
+  const first = rows[0];
+  const k0 = k[0];
+  for (let x = 0; x < w; x++) line[pad + x] = k0 * first[x];
+  for (let j = 1; j < k.length; j++) {
+    const kj = k[j];
+    if (kj === 0) continue;
+    const r = rows[j];
+    for (let x = 0; x < w; x++) line[pad + x] += kj * r[x];
+  }
+}
+
+function horizontalSymmetric(line: Float64Array, k: Float64Array, r: number, w: number, o: Float32Array, base: number, offset: number): void {
+  const k0 = k[r];
+  if (r === 0) {
+    for (let x = 0; x < w; x++) o[base + x] = k0 * line[x] + offset;
+  } else if (r === 1) {
+    const k1 = k[2];
+    for (let x = 0; x < w; x++) o[base + x] = k0 * line[x + 1] + k1 * (line[x] + line[x + 2]) + offset;
+  } else if (r === 2) {
+    const k1 = k[3], k2 = k[4];
+    for (let x = 0; x < w; x++) {
+      o[base + x] = k0 * line[x + 2] + k1 * (line[x + 1] + line[x + 3]) + k2 * (line[x] + line[x + 4]) + offset;
+    }
+  } else {
+    // A rolling window of seven values: one load per pixel.
+    const k1 = k[4], k2 = k[5], k3 = k[6];
+    let l0 = line[0], l1 = line[1], l2 = line[2], l3 = line[3], l4 = line[4], l5 = line[5];
+    for (let x = 0; x < w; x++) {
+      const l6 = line[x + 6];
+      o[base + x] = k0 * l3 + k1 * (l2 + l4) + k2 * (l1 + l5) + k3 * (l0 + l6) + offset;
+      l0 = l1; l1 = l2; l2 = l3; l3 = l4; l4 = l5; l5 = l6;
+    }
+  }
+}
+
+function horizontalGeneral(line: Float64Array, k: Float64Array, w: number, o: Float32Array, base: number, offset: number): void {
+  const taps = k.length;
+  for (let x = 0; x < w; x++) {
+    let acc = offset;
+    for (let i = 0; i < taps; i++) acc += k[i] * line[x + i];
+    o[base + x] = acc;
   }
 }
 

@@ -27,19 +27,27 @@ export function gradient(src: Image, operator: GradientOperator, output: Gradien
   const d = new Float64Array(w + 2);
   const zeros = new Float32Array(w);
 
+  const wantX = output !== 'y';
+  const wantY = output !== 'x';
   for (let y = 0; y < h; y++) {
     const upOff = rowOffsets[y];
     const downOff = rowOffsets[y + 2];
     const up = upOff === OUTSIDE ? zeros : data.subarray(upOff, upOff + w);
     const down = downOff === OUTSIDE ? zeros : data.subarray(downOff, downOff + w);
-    const centreOff = y * w;
-    const wantX = output !== 'y';
-    const wantY = output !== 'x';
-    if (wantX) {
-      for (let x = 0; x < w; x++) s[x + 1] = a * (up[x] + down[x]) + b * data[centreOff + x];
+    const centre = data.subarray(y * w, y * w + w);
+    if (wantX && wantY) {
+      for (let x = 0; x < w; x++) {
+        const u = up[x];
+        const v = down[x];
+        s[x + 1] = a * (u + v) + b * centre[x];
+        d[x + 1] = v - u;
+      }
       fillRowBorder(s, w, 1, colTable);
-    }
-    if (wantY) {
+      fillRowBorder(d, w, 1, colTable);
+    } else if (wantX) {
+      for (let x = 0; x < w; x++) s[x + 1] = a * (up[x] + down[x]) + b * centre[x];
+      fillRowBorder(s, w, 1, colTable);
+    } else {
       for (let x = 0; x < w; x++) d[x + 1] = down[x] - up[x];
       fillRowBorder(d, w, 1, colTable);
     }

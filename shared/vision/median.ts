@@ -3,6 +3,7 @@
 // as the window slides (T. S. Huang, G. J. Yang, G. Y. Tang, "A fast two-dimensional median
 // filtering algorithm", IEEE Trans. ASSP 27(1), 1979); other values use selection per window.
 import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { padImage } from './convolve';
 import { imageLike, type Image } from './image';
 
 const HISTOGRAM_LEVELS = 65536;
@@ -13,38 +14,38 @@ export function medianFilter(src: Image, size: number, border: BorderMode, out?:
     dst.data.set(src.data);
     return dst;
   }
-  if (isIntegerSamples(src.data)) medianByHistogram(src, size, border, dst.data);
+  const levels = integerLevels(src.data);
+  if (levels > 0) medianByHistogram(src, size, border, dst.data, levels);
   else medianBySelection(src, size, border, dst.data);
   return dst;
 }
 
-function isIntegerSamples(data: Float32Array): boolean {
+/** max + 1 when every sample is an integer in 0 … 65535 (the histogram size needed), else 0. */
+function integerLevels(data: Float32Array): number {
+  let max = 0;
   for (let p = 0; p < data.length; p++) {
     const v = data[p];
-    if (!(v >= 0 && v < HISTOGRAM_LEVELS) || v !== Math.floor(v)) return false;
+    if (!(v >= 0 && v < HISTOGRAM_LEVELS) || (v | 0) !== v) return 0;
+    if (v > max) max = v;
   }
-  return true;
+  return max + 1;
 }
 
-function medianByHistogram(src: Image, size: number, border: BorderMode, o: Float32Array): void {
-  const { width: w, height: h, data } = src;
+function medianByHistogram(src: Image, size: number, border: BorderMode, o: Float32Array, levels: number): void {
+  const { width: w, height: h } = src;
   const r = (size - 1) >> 1;
-  const rowOffsets = rowOffsetTable(h, w, r, r, border);
-  const colTable = borderTable(w, r, r, border);
-  const hist = new Int32Array(HISTOGRAM_LEVELS);
+  // Integer indices: a float-valued key would make every histogram access a slow generic lookup.
+  const padded = Int32Array.from(padImage(src, r, r, border));
+  const pw = w + 2 * r;
+  const hist = new Int32Array(levels);
   const rank = (size * size - 1) >> 1; // 0-based rank of the median among size² values
-  const rows = new Int32Array(size);
 
   for (let y = 0; y < h; y++) {
-    for (let j = 0; j < size; j++) rows[j] = rowOffsets[y + j];
+    const top = y * pw;
     hist.fill(0);
-    // Window at x = 0: columns −r … r. A constant border contributes zeros (level 0).
     for (let j = 0; j < size; j++) {
-      const off = rows[j];
-      for (let i = 0; i < size; i++) {
-        const sx = colTable[i];
-        hist[off === OUTSIDE || sx === OUTSIDE ? 0 : data[off + sx]]++;
-      }
+      const row = top + j * pw;
+      for (let i = 0; i < size; i++) hist[padded[row + i]]++;
     }
     // below = number of values < m; the median m satisfies below ≤ rank < below + hist[m].
     let m = 0;
@@ -53,16 +54,14 @@ function medianByHistogram(src: Image, size: number, border: BorderMode, o: Floa
     const base = y * w;
     o[base] = m;
     for (let x = 1; x < w; x++) {
-      const leave = colTable[x - 1];
-      const enter = colTable[x + size - 1];
       for (let j = 0; j < size; j++) {
-        const off = rows[j];
-        const vOut = off === OUTSIDE || leave === OUTSIDE ? 0 : data[off + leave];
-        const vIn = off === OUTSIDE || enter === OUTSIDE ? 0 : data[off + enter];
+        const row = top + j * pw + x;
+        const vOut = padded[row - 1];
+        const vIn = padded[row + size - 1];
         hist[vOut]--;
         hist[vIn]++;
-        if (vOut < m) below--;
-        if (vIn < m) below++;
+        // Branch-free: (v − m) >> 31 is −1 when v < m, else 0 (integers well inside 32 bits).
+        below += ((vOut - m) >> 31) - ((vIn - m) >> 31);
       }
       while (below > rank) below -= hist[--m];
       while (below + hist[m] <= rank) below += hist[m++];

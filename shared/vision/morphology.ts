@@ -38,53 +38,85 @@ function rankExtreme(src: Image, r: number, border: BorderMode, takeMax: boolean
   const rowOffsets = rowOffsetTable(h, w, r, r, border);
   const colTable = borderTable(w, r, r, border);
   const line = new Float32Array(w + 2 * r);
+  const zeros = new Float32Array(w);
+  const rows: Float32Array[] = new Array(size);
   for (let y = 0; y < h; y++) {
-    // Vertical pass into line[r … r+w−1]; rows outside a constant border are zeros.
-    const first = rowOffsets[y];
-    if (first === OUTSIDE) line.fill(0, r, r + w);
-    else for (let x = 0; x < w; x++) line[r + x] = data[first + x];
-    for (let j = 1; j < size; j++) {
+    for (let j = 0; j < size; j++) {
       const off = rowOffsets[y + j];
-      if (takeMax) {
-        if (off === OUTSIDE) {
-          for (let x = 0; x < w; x++) if (line[r + x] < 0) line[r + x] = 0;
-        } else {
-          for (let x = 0; x < w; x++) {
-            const v = data[off + x];
-            if (v > line[r + x]) line[r + x] = v;
-          }
-        }
-      } else if (off === OUTSIDE) {
-        for (let x = 0; x < w; x++) if (line[r + x] > 0) line[r + x] = 0;
-      } else {
-        for (let x = 0; x < w; x++) {
-          const v = data[off + x];
-          if (v < line[r + x]) line[r + x] = v;
-        }
-      }
+      rows[j] = off === OUTSIDE ? zeros : data.subarray(off, off + w);
     }
+    // Vertical pass into line[r … r+w−1], then the border, then the horizontal pass.
+    if (takeMax) verticalMax(rows, w, line, r);
+    else verticalMin(rows, w, line, r);
     fillRowBorder(line, w, r, colTable);
-    // Horizontal pass.
-    const base = y * w;
-    if (takeMax) {
-      for (let x = 0; x < w; x++) {
-        let m = line[x];
-        for (let i = 1; i < size; i++) {
-          const v = line[x + i];
-          if (v > m) m = v;
-        }
-        o[base + x] = m;
-      }
-    } else {
-      for (let x = 0; x < w; x++) {
-        let m = line[x];
-        for (let i = 1; i < size; i++) {
-          const v = line[x + i];
-          if (v < m) m = v;
-        }
-        o[base + x] = m;
-      }
-    }
+    if (takeMax) horizontalMax(line, size, w, o, y * w);
+    else horizontalMin(line, size, w, o, y * w);
   }
   return dst;
+}
+
+function verticalMin(rows: Float32Array[], w: number, line: Float32Array, pad: number): void {
+  if (rows.length === 3) {
+    const a = rows[0], b = rows[1], c = rows[2];
+    for (let x = 0; x < w; x++) {
+      const u = a[x], v = b[x], t = c[x];
+      const m = u < v ? u : v;
+      line[pad + x] = m < t ? m : t;
+    }
+    return;
+  }
+  line.set(rows[0], pad);
+  for (let j = 1; j < rows.length; j++) {
+    const row = rows[j];
+    for (let x = 0; x < w; x++) if (row[x] < line[pad + x]) line[pad + x] = row[x];
+  }
+}
+
+function verticalMax(rows: Float32Array[], w: number, line: Float32Array, pad: number): void {
+  if (rows.length === 3) {
+    const a = rows[0], b = rows[1], c = rows[2];
+    for (let x = 0; x < w; x++) {
+      const u = a[x], v = b[x], t = c[x];
+      const m = u > v ? u : v;
+      line[pad + x] = m > t ? m : t;
+    }
+    return;
+  }
+  line.set(rows[0], pad);
+  for (let j = 1; j < rows.length; j++) {
+    const row = rows[j];
+    for (let x = 0; x < w; x++) if (row[x] > line[pad + x]) line[pad + x] = row[x];
+  }
+}
+
+function horizontalMin(line: Float32Array, size: number, w: number, o: Float32Array, base: number): void {
+  if (size === 3) {
+    for (let x = 0; x < w; x++) {
+      const u = line[x], v = line[x + 1], t = line[x + 2];
+      const m = u < v ? u : v;
+      o[base + x] = m < t ? m : t;
+    }
+    return;
+  }
+  for (let x = 0; x < w; x++) {
+    let m = line[x];
+    for (let i = 1; i < size; i++) if (line[x + i] < m) m = line[x + i];
+    o[base + x] = m;
+  }
+}
+
+function horizontalMax(line: Float32Array, size: number, w: number, o: Float32Array, base: number): void {
+  if (size === 3) {
+    for (let x = 0; x < w; x++) {
+      const u = line[x], v = line[x + 1], t = line[x + 2];
+      const m = u > v ? u : v;
+      o[base + x] = m > t ? m : t;
+    }
+    return;
+  }
+  for (let x = 0; x < w; x++) {
+    let m = line[x];
+    for (let i = 1; i < size; i++) if (line[x + i] > m) m = line[x + i];
+    o[base + x] = m;
+  }
 }

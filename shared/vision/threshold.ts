@@ -39,7 +39,7 @@ export function otsuHistogram(data: Float32Array): OtsuHistogram {
     const v = data[p];
     if (v < min) min = v;
     if (v > max) max = v;
-    if (integral && v !== Math.floor(v)) integral = false;
+    if (integral && (v | 0) !== v) integral = false;
   }
   const counts = new Float64Array(HISTOGRAM_BINS);
   const flat = !(max > min);
@@ -50,8 +50,9 @@ export function otsuHistogram(data: Float32Array): OtsuHistogram {
   if (eightBit) {
     for (let p = 0; p < data.length; p++) counts[data[p]]++;
   } else if (!flat) {
+    // Values are ≥ origin, so truncation is the floor.
     for (let p = 0; p < data.length; p++) {
-      const bin = Math.floor((data[p] - origin) * binsPerUnit);
+      const bin = ((data[p] - origin) * binsPerUnit) | 0;
       counts[bin > last ? last : bin]++;
     }
   } else {
@@ -112,14 +113,11 @@ export function thresholdOtsu(src: Image, invert = false, out?: Image): { mask: 
   if (hist.binsPerUnit === 1) {
     for (let p = 0; p < s.length; p++) o[p] = s[p] > k ? above : below;
   } else {
+    // floor(z) > k ⇔ z ≥ k + 1 for the same z = (v − origin)·binsPerUnit; k ≤ 254, so the clamp to bin 255 cannot matter.
     const origin = hist.origin;
     const scale = hist.binsPerUnit;
-    const last = HISTOGRAM_BINS - 1;
-    for (let p = 0; p < s.length; p++) {
-      let bin = Math.floor((s[p] - origin) * scale);
-      if (bin > last) bin = last;
-      o[p] = bin > k ? above : below;
-    }
+    const edge = k + 1;
+    for (let p = 0; p < s.length; p++) o[p] = (s[p] - origin) * scale >= edge ? above : below;
   }
   return { mask: dst, bin: k, threshold: hist.binsPerUnit === 1 ? k : cut };
 }

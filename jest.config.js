@@ -1,5 +1,5 @@
 // Three projects: pure computations, the HTTP API on a real PostgreSQL, and the built app in headless Chromium.
-const tsTransform = { '^.+\\.tsx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json', isolatedModules: false }] };
+const tsTransform = { '^.+\\.tsx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }] };
 const common = { testEnvironment: 'node', transform: tsTransform, moduleFileExtensions: ['ts', 'tsx', 'js', 'json'] };
 
 module.exports = {

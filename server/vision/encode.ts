@@ -52,6 +52,7 @@ export function displaySamples(image: Image, kind: OutputKind, bitDepth: BitDept
 
 export async function displayPng(image: Image, kind: OutputKind, bitDepth: BitDepth = 8): Promise<Buffer> {
   return sharp(displaySamples(image, kind, bitDepth), { raw: { width: image.width, height: image.height, channels: 1 } })
+    .toColourspace('b-w')
     .png()
     .toBuffer();
 }

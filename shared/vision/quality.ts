@@ -1,7 +1,7 @@
 // The image quality gate, judged before the part: focus, exposure (clipping) and brightness.
 import type { QualityLimits } from '../rules/schema';
-import { maxSampleValue, type BitDepth, type Image } from './image';
-import { laplacian } from './laplacian';
+import { createImage, maxSampleValue, type BitDepth, type Image } from './image';
+import { laplacianRow } from './laplacian';
 
 export interface QualityFigures {
   /** Population variance of the 4-neighbour Laplacian with the reflect border (variance of the Laplacian). */
@@ -22,8 +22,8 @@ export interface QualityJudgement extends QualityFigures {
  * a comparative study", ICPR 2000 (variance of the Laplacian).
  */
 export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures {
-  const data = input.data;
-  const n = data.length;
+  const { width: w, height: h, data } = input;
+  const n = w * h;
   const top = maxSampleValue(bitDepth);
   let sum = 0;
   let clipped = 0;
@@ -32,16 +32,22 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
     sum += v;
     if (v >= top) clipped++;
   }
-  const lap = laplacian(input, 4, 'reflect').data;
+  // One Laplacian row at a time; the variance from the running sum and sum of squares
+  // (the Laplacian's mean is near 0, so the two sums do not cancel).
+  const rowImage = createImage(w, 1);
+  const lap = rowImage.data;
   let lapSum = 0;
-  for (let p = 0; p < n; p++) lapSum += lap[p];
-  const lapMean = lapSum / n;
-  let sq = 0;
-  for (let p = 0; p < n; p++) {
-    const d = lap[p] - lapMean;
-    sq += d * d;
+  let lapSquares = 0;
+  for (let y = 0; y < h; y++) {
+    laplacianRow(input, y, lap);
+    for (let x = 0; x < w; x++) {
+      const v = lap[x];
+      lapSum += v;
+      lapSquares += v * v;
+    }
   }
-  return { focus: sq / n, clipped: clipped / n, mean: sum / n };
+  const lapMean = lapSum / n;
+  return { focus: Math.max(0, lapSquares / n - lapMean * lapMean), clipped: clipped / n, mean: sum / n };
 }
 
 export function judgeQuality(figures: QualityFigures, limits: QualityLimits = {}): QualityJudgement {

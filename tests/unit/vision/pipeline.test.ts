@@ -1,6 +1,7 @@
 // The pipeline runner: verdicts, gauges, regions, units and buffer reuse.
 import type { RuleDocumentInput } from '../../../shared/rules/schema';
 import { regionSpans, spanPixelCount } from '../../../shared/vision/gauges';
+import { laplacian } from '../../../shared/vision/laplacian';
 import type { RawPhoto } from '../../../shared/vision/image';
 import { RuleRunError, runRule } from '../../../shared/vision/pipeline';
 
@@ -179,4 +180,13 @@ test('an invalid document is refused before anything runs, with its paths', () =
     expect((e as RuleRunError).code).toBe('invalid_rule');
     expect((e as RuleRunError).issues[0].path).toBe('steps[0].size');
   }
+});
+
+test('the focus figure equals the variance of the full 4-neighbour Laplacian image (reflect border) on a textured photo', () => {
+  const photo = blockPhoto();
+  const run = runRule(rule([]), photo);
+  const lap = laplacian(run.input, 4, 'reflect').data;
+  const mean = lap.reduce((a, b) => a + b, 0) / lap.length;
+  const variance = lap.reduce((a, v) => a + (v - mean) ** 2, 0) / lap.length;
+  expect(run.quality.focus).toBeCloseTo(variance, 6);
 });

@@ -4,6 +4,7 @@ export { renderPart, renderPhoto, describeDefects, type Photo, type RenderedPart
 export { encodePhoto } from './encode';
 export {
   planDataset,
+  resolveOptions,
   parseFrameSize,
   STANDARD_SIZES,
   RETAKE_REASONS,

@@ -5,6 +5,11 @@ import { pinoHttp } from 'pino-http';
 import type { DataSource } from 'typeorm';
 import { auditRoutes } from './components/audit/routes';
 import { AuditService } from './components/audit/service';
+import { catalogueRoutes } from './components/catalogue/routes';
+import { CatalogueService } from './components/catalogue/service';
+import { imageRoutes } from './components/images/routes';
+import { referenceRoutes } from './components/references/routes';
+import { ReferencesService } from './components/references/service';
 import { createRequireSignIn } from './components/auth/passport';
 import { authRoutes } from './components/auth/routes';
 import { AuthService } from './components/auth/service';
@@ -13,6 +18,8 @@ import { userRoutes } from './components/users/routes';
 import { UsersService } from './components/users/service';
 import type { Config } from './config';
 import { apiNotFound, errorHandler } from './lib/errors';
+import { ImageUrlSigner } from './lib/image-urls';
+import { LocalImageStore } from './lib/storage/local-store';
 import type { Logger } from './lib/logger';
 
 export interface AppDeps {
@@ -31,16 +38,22 @@ export function createApp({ config, dataSource, logger }: AppDeps): Express {
   const audit = new AuditService(dataSource);
   const auth = new AuthService(dataSource, audit, config.jwtSecret, config.tokenTtlSeconds);
   const requireSignIn = createRequireSignIn(auth, config.jwtSecret);
+  const store = new LocalImageStore(config.imageDir);
+  const signer = new ImageUrlSigner(config.jwtSecret);
 
   const api = express.Router();
   api.use(helmet({ contentSecurityPolicy: false }));
   api.use(express.json({ limit: '1mb' }));
   api.use('/health', healthRoutes(dataSource, config.version));
   api.use('/auth', authRoutes({ auth, requireSignIn, signInLimit: config.signInLimit }));
+  // Signed addresses stand in for sign-in, so that <img> can load stored images.
+  api.use('/images', imageRoutes(store, signer));
   // Everything below needs a signed-in user.
   api.use(requireSignIn);
   api.use('/users', userRoutes(new UsersService(dataSource, audit)));
   api.use('/audit-events', auditRoutes(dataSource, audit));
+  api.use('/catalogue', catalogueRoutes(new CatalogueService(dataSource, audit)));
+  api.use('/reference-sets', referenceRoutes(new ReferencesService(dataSource, store, signer, audit)));
   api.use(apiNotFound);
   app.use('/api', api);
 

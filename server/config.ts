@@ -8,6 +8,8 @@ export interface Config {
   host: string;
   databaseUrl: string;
   dataDir: string;
+  /** Folder of the local image store (content-addressed). */
+  imageDir: string;
   jwtSecret: string;
   tokenTtlSeconds: number;
   /** Folder of the exported web app; null when the server runs the API alone. */
@@ -51,6 +53,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     host: env.KW_HOST || '127.0.0.1',
     databaseUrl: env.DATABASE_URL || `postgres://postgres@127.0.0.1:${pgPort}/${dbName}`,
     dataDir,
+    imageDir: path.resolve(env.KW_IMAGE_DIR || path.join(dataDir, 'images')),
     jwtSecret: env.KW_JWT_SECRET || loadOrCreateSecret(dataDir),
     tokenTtlSeconds: intFrom(env.KW_TOKEN_TTL_SECONDS, 12 * 3600, 'KW_TOKEN_TTL_SECONDS'),
     webDir: fs.existsSync(path.join(webDir, 'index.html')) ? webDir : null,

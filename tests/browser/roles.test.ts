@@ -86,7 +86,7 @@ describe.each([
     await page.waitForLoadState('networkidle');
     await screenshot(page, `home-${role}-${widthName}`);
     expect(errors).toEqual([]);
-    await page.evaluate(() => localStorage.clear());
+    await page.evaluate('localStorage.clear()');
     await page.close();
   });
 

@@ -17,6 +17,7 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     host: '127.0.0.1',
     databaseUrl: 'set-by-test',
     dataDir: path.join(__dirname, '..', 'artifacts', 'data'),
+    imageDir: path.join(__dirname, '..', 'artifacts', 'images'),
     jwtSecret: 'test-secret-not-for-production',
     tokenTtlSeconds: 3600,
     webDir: null,

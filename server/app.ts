@@ -10,6 +10,8 @@ import { CatalogueService } from './components/catalogue/service';
 import { imageRoutes } from './components/images/routes';
 import { referenceRoutes } from './components/references/routes';
 import { ReferencesService } from './components/references/service';
+import { stationRoutes } from './components/stations/routes';
+import { StationsService } from './components/stations/service';
 import { createRequireSignIn } from './components/auth/passport';
 import { authRoutes } from './components/auth/routes';
 import { AuthService } from './components/auth/service';
@@ -53,6 +55,7 @@ export function createApp({ config, dataSource, logger }: AppDeps): Express {
   api.use('/users', userRoutes(new UsersService(dataSource, audit)));
   api.use('/audit-events', auditRoutes(dataSource, audit));
   api.use('/catalogue', catalogueRoutes(new CatalogueService(dataSource, audit)));
+  api.use('/stations', stationRoutes(new StationsService(dataSource, audit)));
   api.use('/reference-sets', referenceRoutes(new ReferencesService(dataSource, store, signer, audit)));
   api.use(apiNotFound);
   app.use('/api', api);

@@ -1,0 +1,117 @@
+import type { DataSource } from 'typeorm';
+import type { z } from 'zod';
+import type { calibrationRequestSchema, createLineRequestSchema, createStationRequestSchema, Line, Station, updateStationRequestSchema } from '../../../shared/api/stations';
+import { pixelQuantisationUncertaintyMm, scaleFromReference } from '../../../shared/calibration';
+import { AppError, notFound } from '../../lib/errors';
+import type { AuditService } from '../audit/service';
+import { UserEntity } from '../auth/entities';
+import { actorOf } from '../auth/service';
+import { LineEntity, StationEntity } from './entities';
+
+const UNIQUE_VIOLATION = '23505';
+
+export class StationsService {
+  constructor(
+    private readonly dataSource: DataSource,
+    private readonly audit: AuditService,
+  ) {}
+
+  private async toDto(station: StationEntity, lineName: string): Promise<Station> {
+    const calibratedBy = station.calibratedBy ? (await this.dataSource.getRepository(UserEntity).findOneBy({ id: station.calibratedBy }))?.displayName ?? null : null;
+    return {
+      id: station.id,
+      lineId: station.lineId,
+      lineName,
+      name: station.name,
+      cameraNote: station.cameraNote,
+      mmPerPx: station.mmPerPx,
+      quantisationUncertaintyMm: station.mmPerPx === null ? null : pixelQuantisationUncertaintyMm(station.mmPerPx),
+      calibratedAt: station.calibratedAt?.toISOString() ?? null,
+      calibratedBy,
+      active: station.active,
+    };
+  }
+
+  async lines(): Promise<Line[]> {
+    const lines = await this.dataSource.getRepository(LineEntity).find({ order: { name: 'ASC' } });
+    const stations = await this.dataSource.getRepository(StationEntity).find({ order: { name: 'ASC' } });
+    return Promise.all(
+      lines.map(async (line) => ({
+        id: line.id,
+        name: line.name,
+        stations: await Promise.all(stations.filter((s) => s.lineId === line.id).map((s) => this.toDto(s, line.name))),
+      })),
+    );
+  }
+
+  async get(id: string): Promise<{ entity: StationEntity; dto: Station }> {
+    const entity = await this.dataSource.getRepository(StationEntity).findOne({ where: { id }, relations: { line: true } });
+    if (!entity) throw notFound('The station');
+    return { entity, dto: await this.toDto(entity, entity.line!.name) };
+  }
+
+  async createLine(actor: UserEntity, input: z.output<typeof createLineRequestSchema>): Promise<Line> {
+    try {
+      return await this.dataSource.transaction(async (manager) => {
+        const line = await manager.save(manager.create(LineEntity, input));
+        await this.audit.record(manager, { actor: actorOf(actor), action: 'line.create', entityType: 'line', entityId: line.id, after: input });
+        return { id: line.id, name: line.name, stations: [] };
+      });
+    } catch (err) {
+      if ((err as { code?: string }).code === UNIQUE_VIOLATION) throw new AppError('conflict', `A line named "${input.name}" exists`, { issues: [{ path: 'name', message: 'Already taken' }] });
+      throw err;
+    }
+  }
+
+  async createStation(actor: UserEntity, input: z.output<typeof createStationRequestSchema>): Promise<Station> {
+    if (!(await this.dataSource.getRepository(LineEntity).existsBy({ id: input.lineId }))) throw notFound('The line');
+    try {
+      const id = await this.dataSource.transaction(async (manager) => {
+        const station = await manager.save(manager.create(StationEntity, input));
+        await this.audit.record(manager, { actor: actorOf(actor), action: 'station.create', entityType: 'station', entityId: station.id, after: input });
+        return station.id;
+      });
+      return (await this.get(id)).dto;
+    } catch (err) {
+      if ((err as { code?: string }).code === UNIQUE_VIOLATION) throw new AppError('conflict', `The line already has a station named "${input.name}"`, { issues: [{ path: 'name', message: 'Already taken' }] });
+      throw err;
+    }
+  }
+
+  async update(actor: UserEntity, id: string, input: z.output<typeof updateStationRequestSchema>): Promise<Station> {
+    await this.dataSource.transaction(async (manager) => {
+      const station = await manager.findOne(StationEntity, { where: { id }, lock: { mode: 'pessimistic_write' } });
+      if (!station) throw notFound('The station');
+      const before = { name: station.name, cameraNote: station.cameraNote, active: station.active };
+      Object.assign(station, input);
+      await manager.save(station);
+      const after = { name: station.name, cameraNote: station.cameraNote, active: station.active };
+      await this.audit.record(manager, { actor: actorOf(actor), action: 'station.update', entityType: 'station', entityId: id, before, after, details: { before, after } });
+    });
+    return (await this.get(id)).dto;
+  }
+
+  /** Sets the station's scale from a target of known length; who and when are kept with it. */
+  async calibrate(actor: UserEntity, id: string, input: z.output<typeof calibrationRequestSchema>): Promise<Station> {
+    const mmPerPx = scaleFromReference(input.referenceLengthMm, input.distancePx);
+    await this.dataSource.transaction(async (manager) => {
+      const station = await manager.findOne(StationEntity, { where: { id }, lock: { mode: 'pessimistic_write' } });
+      if (!station) throw notFound('The station');
+      const before = { mmPerPx: station.mmPerPx };
+      station.mmPerPx = mmPerPx;
+      station.calibratedAt = new Date();
+      station.calibratedBy = actor.id;
+      await manager.save(station);
+      await this.audit.record(manager, {
+        actor: actorOf(actor),
+        action: 'station.calibrate',
+        entityType: 'station',
+        entityId: id,
+        before,
+        after: { mmPerPx },
+        details: { ...input, mmPerPx, previousMmPerPx: before.mmPerPx },
+      });
+    });
+    return (await this.get(id)).dto;
+  }
+}

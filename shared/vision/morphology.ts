@@ -2,35 +2,44 @@
 // square, dilation the maximum, each computed as a vertical then a horizontal 1-D pass.
 // The rule's border applies: reflect and replicate never bring in a value from outside the
 // square's reach, constant brings in 0 (OpenCV erode/dilate with BORDER_CONSTANT, value 0).
+// Masks (every value 0 or 1) go through packed bits (binary-morphology.ts); this file is the
+// path for any other values.
 import type { MorphologyOp } from '../rules/schema';
+import { binaryMorphology } from './binary-morphology';
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { createImage, imageLike, type Image } from './image';
 
 export function erode(src: Image, radius: number, border: BorderMode, out?: Image): Image {
-  return rankExtreme(src, radius, border, false, out);
+  return binaryMorphology(src, 'erode', radius, border, out) ?? extremeFilter(src, radius, border, false, out);
 }
 
 export function dilate(src: Image, radius: number, border: BorderMode, out?: Image): Image {
-  return rankExtreme(src, radius, border, true, out);
+  return binaryMorphology(src, 'dilate', radius, border, out) ?? extremeFilter(src, radius, border, true, out);
 }
 
 /** Opening (erode then dilate) removes specks; closing (dilate then erode) fills pinholes. */
 export function morphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, scratch?: Image): Image {
+  return binaryMorphology(src, op, radius, border, out) ?? valueMorphology(src, op, radius, border, out, scratch);
+}
+
+/** The value path of every operation, for any image (the reference the packed mask path is tested against). */
+export function valueMorphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, scratch?: Image): Image {
   switch (op) {
     case 'erode':
-      return erode(src, radius, border, out);
+      return extremeFilter(src, radius, border, false, out);
     case 'dilate':
-      return dilate(src, radius, border, out);
+      return extremeFilter(src, radius, border, true, out);
     case 'open':
     case 'close': {
       const tmp = scratch && scratch !== out ? imageLike(src, scratch) : createImage(src.width, src.height);
-      const first = op === 'open' ? erode(src, radius, border, tmp) : dilate(src, radius, border, tmp);
-      return op === 'open' ? dilate(first, radius, border, out) : erode(first, radius, border, out);
+      const first = extremeFilter(src, radius, border, op !== 'open', tmp);
+      return extremeFilter(first, radius, border, op === 'open', out);
     }
   }
 }
 
-function rankExtreme(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
+/** Minimum (erosion) or maximum (dilation) over the square of side 2r+1, vertical then horizontal. */
+function extremeFilter(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
   const { width: w, height: h, data } = src;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;

@@ -1,5 +1,5 @@
 // Second-derivative operators: the discrete Laplacian (4- or 8-neighbour) and the Laplacian of Gaussian.
-import { borderIndex, borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { correlateSeparable } from './convolve';
 import { imageLike, type Image } from './image';
 import { gaussianSecondDerivativeWeights, gaussianWeights } from './kernels';
@@ -35,24 +35,6 @@ export function laplacian(src: Image, neighbours: 4 | 8, border: BorderMode, out
     }
   }
   return dst;
-}
-
-/** Row y of the 4-neighbour Laplacian with the reflect border, written to out (length = width). */
-export function laplacianRow(src: Image, y: number, out: Float32Array): void {
-  const { width: w, height: h, data } = src;
-  const up = borderIndex(y - 1, h, 'reflect') * w;
-  const down = borderIndex(y + 1, h, 'reflect') * w;
-  const c = y * w;
-  if (w === 1) {
-    out[0] = data[up] + data[down] - 2 * data[c];
-    return;
-  }
-  // Reflect: the left neighbour of column 0 is column 1, the right neighbour of column w−1 is w−2.
-  out[0] = data[up] + data[down] + 2 * data[c + 1] - 4 * data[c];
-  for (let x = 1; x < w - 1; x++) {
-    out[x] = data[up + x] + data[down + x] + data[c + x - 1] + data[c + x + 1] - 4 * data[c + x];
-  }
-  out[w - 1] = data[up + w - 1] + data[down + w - 1] + 2 * data[c + w - 2] - 4 * data[c + w - 1];
 }
 
 /**

@@ -1,7 +1,7 @@
 // The image quality gate, judged before the part: focus, exposure (clipping) and brightness.
 import type { QualityLimits } from '../rules/schema';
-import { createImage, maxSampleValue, type BitDepth, type Image } from './image';
-import { laplacianRow } from './laplacian';
+import { borderIndex } from './border';
+import { maxSampleValue, type BitDepth, type Image } from './image';
 
 export interface QualityFigures {
   /** Population variance of the 4-neighbour Laplacian with the reflect border (variance of the Laplacian). */
@@ -20,6 +20,8 @@ export interface QualityJudgement extends QualityFigures {
 /**
  * Focus measure after Pech-Pacheco et al., "Diatom autofocusing in brightfield microscopy:
  * a comparative study", ICPR 2000 (variance of the Laplacian).
+ * One pass over the image: mean, clipped count and the Laplacian's sum and sum of squares (the
+ * Laplacian's mean is near 0, so the two sums do not cancel), computed in double precision.
  */
 export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures {
   const { width: w, height: h, data } = input;
@@ -27,23 +29,40 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
   const top = maxSampleValue(bitDepth);
   let sum = 0;
   let clipped = 0;
-  for (let p = 0; p < n; p++) {
-    const v = data[p];
-    sum += v;
-    if (v >= top) clipped++;
-  }
-  // One Laplacian row at a time; the variance from the running sum and sum of squares
-  // (the Laplacian's mean is near 0, so the two sums do not cancel).
-  const rowImage = createImage(w, 1);
-  const lap = rowImage.data;
   let lapSum = 0;
   let lapSquares = 0;
   for (let y = 0; y < h; y++) {
-    laplacianRow(input, y, lap);
+    // Reflect border: the row above row 0 is row 1, the column left of column 0 is column 1.
+    const c = y * w;
+    const up = borderIndex(y - 1, h, 'reflect') * w;
+    const down = borderIndex(y + 1, h, 'reflect') * w;
+    if (w === 1) {
+      const v = data[c];
+      const lap = data[up] + data[down] - 2 * v;
+      sum += v;
+      clipped += v >= top ? 1 : 0;
+      lapSum += lap;
+      lapSquares += lap * lap;
+      continue;
+    }
+    const first = data[up] + data[down] + 2 * data[c + 1] - 4 * data[c];
+    const last = data[up + w - 1] + data[down + w - 1] + 2 * data[c + w - 2] - 4 * data[c + w - 1];
+    lapSum += first + last;
+    lapSquares += first * first + last * last;
+    let left = data[c];
+    let centre = data[c + 1];
+    for (let x = 1; x < w - 1; x++) {
+      const right = data[c + x + 1];
+      const lap = data[up + x] + data[down + x] + left + right - 4 * centre;
+      lapSum += lap;
+      lapSquares += lap * lap;
+      left = centre;
+      centre = right;
+    }
     for (let x = 0; x < w; x++) {
-      const v = lap[x];
-      lapSum += v;
-      lapSquares += v * v;
+      const v = data[c + x];
+      sum += v;
+      clipped += v >= top ? 1 : 0;
     }
   }
   const lapMean = lapSum / n;

@@ -12,6 +12,9 @@ import { referenceRoutes } from './components/references/routes';
 import { ReferencesService } from './components/references/service';
 import { stationRoutes } from './components/stations/routes';
 import { StationsService } from './components/stations/service';
+import { KernelsService } from './components/kernels/service';
+import { ruleRoutes } from './components/rules/routes';
+import { RulesService } from './components/rules/service';
 import { createRequireSignIn } from './components/auth/passport';
 import { authRoutes } from './components/auth/routes';
 import { AuthService } from './components/auth/service';
@@ -55,6 +58,8 @@ export function createApp({ config, dataSource, logger }: AppDeps): Express {
   api.use('/users', userRoutes(new UsersService(dataSource, audit)));
   api.use('/audit-events', auditRoutes(dataSource, audit));
   api.use('/catalogue', catalogueRoutes(new CatalogueService(dataSource, audit)));
+  const kernels = new KernelsService(dataSource);
+  api.use(ruleRoutes(new RulesService(dataSource, audit, kernels)));
   api.use('/stations', stationRoutes(new StationsService(dataSource, audit)));
   api.use('/reference-sets', referenceRoutes(new ReferencesService(dataSource, store, signer, audit)));
   api.use(apiNotFound);

@@ -2,7 +2,7 @@
 // Each operator is smoothing ⊗ difference; the x kernel is [a b a]ᵀ ⊗ [−1 0 1], the y kernel its
 // transpose, unnormalised, positive where the image gets brighter to the right / downwards.
 import type { GradientOperator, GradientOutput } from '../rules/schema';
-import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { imageLike, type Image } from './image';
 import { PREWITT_SMOOTHING, SCHARR_SMOOTHING, SOBEL_SMOOTHING } from './kernels';
 
@@ -14,65 +14,93 @@ const SMOOTHING: Record<GradientOperator, readonly number[]> = {
 
 const DEGREES_PER_RADIAN = 180 / Math.PI;
 
-/** magnitude = sqrt(gx² + gy²); direction = atan2(gy, gx) in degrees, (−180, 180]. */
+/**
+ * magnitude = sqrt(gx² + gy²); direction = atan2(gy, gx) in degrees, (−180, 180].
+ * One pass over three rows: per column, the vertical smoothing s = a·up + b·centre + a·down and
+ * difference t = down − up; then gx = s(x+1) − s(x−1) and gy = a·t(x−1) + b·t(x) + a·t(x+1),
+ * with the three columns kept in locals as the window slides right.
+ */
 export function gradient(src: Image, operator: GradientOperator, output: GradientOutput, border: BorderMode, out?: Image): Image {
   const { width: w, height: h, data } = src;
   const [a, b] = SMOOTHING[operator];
-  const dst = imageLike(src, out);
+  const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
   const rowOffsets = rowOffsetTable(h, w, 1, 1, border);
   const colTable = borderTable(w, 1, 1, border);
-  // Per row: s = vertical smoothing a·up + b·centre + a·down, d = vertical difference down − up.
-  const s = new Float64Array(w + 2);
-  const d = new Float64Array(w + 2);
+  const leftColumn = colTable[0];
+  const rightColumn = colTable[w + 1];
   const zeros = new Float32Array(w);
 
-  const wantX = output !== 'y';
-  const wantY = output !== 'x';
   for (let y = 0; y < h; y++) {
     const upOff = rowOffsets[y];
     const downOff = rowOffsets[y + 2];
     const up = upOff === OUTSIDE ? zeros : data.subarray(upOff, upOff + w);
     const down = downOff === OUTSIDE ? zeros : data.subarray(downOff, downOff + w);
     const centre = data.subarray(y * w, y * w + w);
-    if (wantX && wantY) {
-      for (let x = 0; x < w; x++) {
-        const u = up[x];
-        const v = down[x];
-        s[x + 1] = a * (u + v) + b * centre[x];
-        d[x + 1] = v - u;
-      }
-      fillRowBorder(s, w, 1, colTable);
-      fillRowBorder(d, w, 1, colTable);
-    } else if (wantX) {
-      for (let x = 0; x < w; x++) s[x + 1] = a * (up[x] + down[x]) + b * centre[x];
-      fillRowBorder(s, w, 1, colTable);
-    } else {
-      for (let x = 0; x < w; x++) d[x + 1] = down[x] - up[x];
-      fillRowBorder(d, w, 1, colTable);
-    }
     const base = y * w;
+    // Columns −1 and w from the border policy (0 for the constant border).
+    const sLeft = leftColumn === OUTSIDE ? 0 : a * (up[leftColumn] + down[leftColumn]) + b * centre[leftColumn];
+    const tLeft = leftColumn === OUTSIDE ? 0 : down[leftColumn] - up[leftColumn];
+    const sRight = rightColumn === OUTSIDE ? 0 : a * (up[rightColumn] + down[rightColumn]) + b * centre[rightColumn];
+    const tRight = rightColumn === OUTSIDE ? 0 : down[rightColumn] - up[rightColumn];
+    let sPrev = sLeft;
+    let tPrev = tLeft;
+    let sCur = a * (up[0] + down[0]) + b * centre[0];
+    let tCur = down[0] - up[0];
+    const last = w - 1;
     switch (output) {
       case 'x':
-        for (let x = 0; x < w; x++) o[base + x] = s[x + 2] - s[x];
+        for (let x = 0; x < last; x++) {
+          const sNext = a * (up[x + 1] + down[x + 1]) + b * centre[x + 1];
+          o[base + x] = sNext - sPrev;
+          sPrev = sCur;
+          sCur = sNext;
+        }
+        o[base + last] = sRight - sPrev;
         break;
       case 'y':
-        for (let x = 0; x < w; x++) o[base + x] = a * (d[x] + d[x + 2]) + b * d[x + 1];
+        for (let x = 0; x < last; x++) {
+          const tNext = down[x + 1] - up[x + 1];
+          o[base + x] = a * (tPrev + tNext) + b * tCur;
+          tPrev = tCur;
+          tCur = tNext;
+        }
+        o[base + last] = a * (tPrev + tRight) + b * tCur;
         break;
-      case 'magnitude':
-        for (let x = 0; x < w; x++) {
-          const gx = s[x + 2] - s[x];
-          const gy = a * (d[x] + d[x + 2]) + b * d[x + 1];
+      case 'magnitude': {
+        for (let x = 0; x < last; x++) {
+          const u = up[x + 1];
+          const v = down[x + 1];
+          const sNext = a * (u + v) + b * centre[x + 1];
+          const tNext = v - u;
+          const gx = sNext - sPrev;
+          const gy = a * (tPrev + tNext) + b * tCur;
           o[base + x] = Math.sqrt(gx * gx + gy * gy);
+          sPrev = sCur;
+          sCur = sNext;
+          tPrev = tCur;
+          tCur = tNext;
         }
+        const gx = sRight - sPrev;
+        const gy = a * (tPrev + tRight) + b * tCur;
+        o[base + last] = Math.sqrt(gx * gx + gy * gy);
         break;
-      case 'direction':
-        for (let x = 0; x < w; x++) {
-          const gx = s[x + 2] - s[x];
-          const gy = a * (d[x] + d[x + 2]) + b * d[x + 1];
-          o[base + x] = Math.atan2(gy, gx) * DEGREES_PER_RADIAN;
+      }
+      case 'direction': {
+        for (let x = 0; x < last; x++) {
+          const u = up[x + 1];
+          const v = down[x + 1];
+          const sNext = a * (u + v) + b * centre[x + 1];
+          const tNext = v - u;
+          o[base + x] = Math.atan2(a * (tPrev + tNext) + b * tCur, sNext - sPrev) * DEGREES_PER_RADIAN;
+          sPrev = sCur;
+          sCur = sNext;
+          tPrev = tCur;
+          tCur = tNext;
         }
+        o[base + last] = Math.atan2(a * (tPrev + tRight) + b * tCur, sRight - sPrev) * DEGREES_PER_RADIAN;
         break;
+      }
     }
   }
   return dst;

@@ -41,7 +41,8 @@ function isSymmetric(w: ArrayLike<number>): boolean {
 /**
  * Correlation with column ⊗ row, streaming one row at a time: the vertical pass writes one
  * row (padded on both sides by the border policy), the horizontal pass reads it. No temporary image.
- * Symmetric kernels up to radius 3 (Gaussians up to σ = 1, the derivative smoothings) run unrolled.
+ * Symmetric kernels up to radius 3 (Gaussians up to σ = 1, the derivative smoothings) run unrolled,
+ * two output rows per vertical pass so that each source sample is loaded once for both.
  */
 export function correlateSeparable(
   src: Image,
@@ -52,32 +53,98 @@ export function correlateSeparable(
   offset = 0,
 ): Image {
   const { width: w, height: h, data } = src;
-  const dst = imageLike(src, out);
+  const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
   const ry = (column.length - 1) >> 1;
   const rx = (row.length - 1) >> 1;
   const rowOffsets = rowOffsetTable(h, w, ry, ry, border);
   const colTable = borderTable(w, rx, rx, border);
   const line = new Float64Array(w + 2 * rx);
+  const nextLine = new Float64Array(w + 2 * rx);
   const col = Float64Array.from(column);
   const krow = Float64Array.from(row);
   const zeros = new Float32Array(w);
-  const rows: Float32Array[] = new Array(column.length);
+  const rows: Float32Array[] = new Array(column.length + 1);
   const verticalUnrolled = isSymmetric(col) && ry <= 3;
   const horizontalUnrolled = isSymmetric(krow) && rx <= 3;
 
   for (let y = 0; y < h; y++) {
-    for (let j = 0; j < col.length; j++) {
+    const pair = verticalUnrolled && y + 1 < h;
+    const count = pair ? col.length + 1 : col.length;
+    for (let j = 0; j < count; j++) {
       const off = rowOffsets[y + j];
       rows[j] = off === OUTSIDE ? zeros : data.subarray(off, off + w);
     }
-    if (verticalUnrolled) verticalSymmetric(rows, col, ry, w, line, rx);
-    else verticalGeneral(rows, col, w, line, rx);
-    fillRowBorder(line, w, rx, colTable);
-    if (horizontalUnrolled) horizontalSymmetric(line, krow, rx, w, o, y * w, offset);
-    else horizontalGeneral(line, krow, w, o, y * w, offset);
+    if (pair) {
+      verticalSymmetricPair(rows, col, ry, w, line, nextLine, rx);
+      horizontalPass(line, krow, rx, w, colTable, horizontalUnrolled, o, y * w, offset);
+      y++;
+      horizontalPass(nextLine, krow, rx, w, colTable, horizontalUnrolled, o, y * w, offset);
+    } else {
+      if (verticalUnrolled) verticalSymmetric(rows, col, ry, w, line, rx);
+      else verticalGeneral(rows, col, w, line, rx);
+      horizontalPass(line, krow, rx, w, colTable, horizontalUnrolled, o, y * w, offset);
+    }
   }
   return dst;
+}
+
+/** Fills the row's border, then correlates it with the row kernel into o[base … base+w−1]. */
+function horizontalPass(
+  line: Float64Array,
+  k: Float64Array,
+  r: number,
+  w: number,
+  colTable: Int32Array,
+  unrolled: boolean,
+  o: Float32Array,
+  base: number,
+  offset: number,
+): void {
+  for (let t = 0; t < r; t++) {
+    const left = colTable[t];
+    line[t] = left === OUTSIDE ? 0 : line[r + left];
+    const right = colTable[r + w + t];
+    line[r + w + t] = right === OUTSIDE ? 0 : line[r + right];
+  }
+  if (unrolled) horizontalSymmetric(line, k, r, w, o, base, offset);
+  else horizontalGeneral(line, k, w, o, base, offset);
+}
+
+/** Output rows y (into `line`) and y+1 (into `next`) of a symmetric column; rows[0 … 2r+1] are source rows y−r … y+1+r. */
+function verticalSymmetricPair(rows: Float32Array[], k: Float64Array, r: number, w: number, line: Float64Array, next: Float64Array, pad: number): void {
+  const k0 = k[r];
+  if (r === 0) {
+    const a = rows[0], b = rows[1];
+    for (let x = 0; x < w; x++) {
+      line[pad + x] = k0 * a[x];
+      next[pad + x] = k0 * b[x];
+    }
+  } else if (r === 1) {
+    const k1 = k[2];
+    const a = rows[0], b = rows[1], c = rows[2], d = rows[3];
+    for (let x = 0; x < w; x++) {
+      const v0 = a[x], v1 = b[x], v2 = c[x], v3 = d[x];
+      line[pad + x] = k0 * v1 + k1 * (v0 + v2);
+      next[pad + x] = k0 * v2 + k1 * (v1 + v3);
+    }
+  } else if (r === 2) {
+    const k1 = k[3], k2 = k[4];
+    const a = rows[0], b = rows[1], c = rows[2], d = rows[3], e = rows[4], f = rows[5];
+    for (let x = 0; x < w; x++) {
+      const v0 = a[x], v1 = b[x], v2 = c[x], v3 = d[x], v4 = e[x], v5 = f[x];
+      line[pad + x] = k0 * v2 + k1 * (v1 + v3) + k2 * (v0 + v4);
+      next[pad + x] = k0 * v3 + k1 * (v2 + v4) + k2 * (v1 + v5);
+    }
+  } else {
+    const k1 = k[4], k2 = k[5], k3 = k[6];
+    const a = rows[0], b = rows[1], c = rows[2], d = rows[3], e = rows[4], f = rows[5], g = rows[6], hh = rows[7];
+    for (let x = 0; x < w; x++) {
+      const v0 = a[x], v1 = b[x], v2 = c[x], v3 = d[x], v4 = e[x], v5 = f[x], v6 = g[x], v7 = hh[x];
+      line[pad + x] = k0 * v3 + k1 * (v2 + v4) + k2 * (v1 + v5) + k3 * (v0 + v6);
+      next[pad + x] = k0 * v4 + k1 * (v3 + v5) + k2 * (v2 + v6) + k3 * (v1 + v7);
+    }
+  }
 }
 
 function verticalSymmetric(rows: Float32Array[], k: Float64Array, r: number, w: number, line: Float64Array, pad: number): void {

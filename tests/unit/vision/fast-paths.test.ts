@@ -4,7 +4,9 @@
 // opencv-reference.test.ts.
 import fc from 'fast-check';
 import type { BorderMode, MorphologyOp } from '../../../shared/rules/schema';
+import { correlateDirect, correlateSeparable } from '../../../shared/vision/convolve';
 import { imageFromSamples } from '../../../shared/vision/image';
+import { kernelFromMatrix, outerProduct } from '../../../shared/vision/kernels';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 
 const border = fc.constantFrom<BorderMode>('reflect', 'replicate', 'constant');
@@ -35,4 +37,27 @@ test('an image with a value other than 0 and 1 is filtered by value, not as a ma
   const img = imageFromSamples(5, 1, [1, 0.5, 1, 1, 0]);
   // Erosion by a 3-wide square: minimum over each pixel and its two neighbours (replicate edge).
   expect(Array.from(morphology(img, 'erode', 1, 'replicate').data)).toEqual([0.5, 0.5, 0.5, 0, 0]);
+});
+
+const greyImage = size.chain(({ w, h }) =>
+  fc.array(fc.integer({ min: 0, max: 65535 }), { minLength: w * h, maxLength: w * h }).map((v) => imageFromSamples(w, h, v)),
+);
+
+/** A symmetric 1-D kernel of radius 0 to 3 (the unrolled, two-rows-at-once path). */
+const symmetricTaps = fc
+  .integer({ min: 0, max: 3 })
+  .chain((r) => fc.array(fc.integer({ min: -9, max: 9 }), { minLength: r + 1, maxLength: r + 1 }))
+  .map((half) => [...half.slice(1).reverse(), ...half]);
+
+test('symmetric separable kernels (two output rows per vertical pass) equal the direct 2-D path', () => {
+  fc.assert(
+    fc.property(greyImage, border, symmetricTaps, symmetricTaps, (img, b, column, row) => {
+      const separable = correlateSeparable(img, column, row, b);
+      const direct = correlateDirect(img, kernelFromMatrix(outerProduct(column, row)), b);
+      const scale = direct.data.reduce((m, v) => Math.max(m, Math.abs(v)), 1);
+      // Float32 storage of double sums: agreement to a few float32 ulps of the largest value.
+      direct.data.forEach((v, i) => expect(Math.abs(separable.data[i] - v)).toBeLessThanOrEqual(1e-6 * scale));
+    }),
+    { numRuns: 200 },
+  );
 });

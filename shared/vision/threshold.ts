@@ -32,14 +32,23 @@ export interface OtsuHistogram {
  * bins over min…max (DESIGN.md, rule format v1).
  */
 export function otsuHistogram(data: Float32Array): OtsuHistogram {
+  const n = data.length;
   let min = Infinity;
   let max = -Infinity;
-  let integral = true;
-  for (let p = 0; p < data.length; p++) {
+  let p = 0;
+  // Conditional moves rather than branches for min and max (noisy data mispredicts branches);
+  // the integer check only until the first fraction.
+  for (; p < n; p++) {
     const v = data[p];
-    if (v < min) min = v;
-    if (v > max) max = v;
-    if (integral && (v | 0) !== v) integral = false;
+    if ((v | 0) !== v) break;
+    min = v < min ? v : min;
+    max = v > max ? v : max;
+  }
+  const integral = p === n;
+  for (; p < n; p++) {
+    const v = data[p];
+    min = v < min ? v : min;
+    max = v > max ? v : max;
   }
   const counts = new Float64Array(HISTOGRAM_BINS);
   const flat = !(max > min);

@@ -1,26 +1,44 @@
 import { createApp } from './app';
 import { loadConfig } from './config';
 import { makeDataSource } from './db/data-source';
+import { JobQueue } from './lib/jobs';
 import { createLogger } from './lib/logger';
+import { createServices } from './services';
+import { loadKernelLibrary } from './vision/kernel-library';
+import { VisionPool } from './vision/pool';
+import { startWorkers } from './workers';
 
 async function main() {
   const config = loadConfig();
   const logger = createLogger(config.logLevel);
   const dataSource = makeDataSource(config.databaseUrl);
   await dataSource.initialize();
-  const pending = await dataSource.showMigrations();
-  if (pending) throw new Error('The database has migrations that have not run; run `npm start` (it migrates) or `npm run db:migrate`');
+  if (await dataSource.showMigrations()) throw new Error('The database has migrations that have not run; run `npm start` (it migrates) or `npm run db:migrate`');
 
-  const app = createApp({ config, dataSource, logger });
+  const pool = new VisionPool({ kernels: await loadKernelLibrary() });
+  const jobs = await new JobQueue(config.databaseUrl).start();
+  const services = createServices({ config, dataSource, pool, jobs });
+  await startWorkers(jobs, services);
+
+  const app = createApp({ config, services, logger });
   const server = app.listen(config.port, config.host, () => {
     const url = `http://${config.host === '0.0.0.0' ? 'localhost' : config.host}:${config.port}`;
     logger.info({ url }, 'Kernwright is running');
     process.stdout.write(`\nKernwright is running at ${url}${config.webDir ? '' : ' (API only: the web app is not built)'}\n\n`);
   });
 
+  let stopping = false;
   const shutdown = () => {
-    server.close(() => dataSource.destroy().finally(() => process.exit(0)));
-    setTimeout(() => process.exit(0), 5000).unref();
+    if (stopping) return;
+    stopping = true;
+    setTimeout(() => process.exit(0), 10_000).unref();
+    server.close(() => {
+      void jobs
+        .stop()
+        .then(() => pool.destroy())
+        .then(() => dataSource.destroy())
+        .finally(() => process.exit(0));
+    });
   };
   process.on('SIGINT', shutdown);
   process.on('SIGTERM', shutdown);

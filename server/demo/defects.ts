@@ -5,10 +5,11 @@ import type { Random } from './random';
 import type { Point } from './shapes';
 import type { Defect, DefectKind, DefectSizeMm } from './types';
 
-/** Thin marks are drawn at least this many pixels wide, so every defect is visible at every size. */
-const MIN_MARK_WIDTH_PX = 1.2;
-/** Chips and burrs span at least this many pixels (common practice asks a defect to cover 3 to 4 pixels). */
-const MIN_EDGE_DEFECT_PX = 3;
+/**
+ * Every defect spans at least this many pixels at the generated scale, so that a labelled defect is one a
+ * camera can resolve (Nyquist asks for 2 samples; common practice asks 3 to 4, as the sampling check does).
+ */
+const MIN_DEFECT_SPAN_PX = 3;
 const CRACK_CONTRAST = 0.3;
 const CRACK_SEGMENTS = 5;
 const PLACEMENT_ATTEMPTS = 200;
@@ -20,14 +21,14 @@ export function planDefect(kind: DefectKind, family: PartFamily, mmPerPx: number
     case 'crack':
       return planCrack(family, mmPerPx, random);
     case 'chip': {
-      const depthMm = Math.max(random.between(0.4, 1.1), MIN_EDGE_DEFECT_PX * mmPerPx);
+      const depthMm = Math.max(random.between(0.4, 1.1), MIN_DEFECT_SPAN_PX * mmPerPx);
       const radiusMm = Math.max(depthMm * random.between(1.2, 2), random.between(0.8, 1.8));
       const { point, normal } = pickEdgePoint(family.outline, radiusMm + 1, random);
       return { kind: 'chip', edge: point, normal, radiusMm, depthMm };
     }
     case 'burr': {
-      const widthMm = Math.max(random.between(0.5, 1.4), MIN_EDGE_DEFECT_PX * mmPerPx);
-      const heightMm = Math.max(random.between(0.35, 0.9), MIN_EDGE_DEFECT_PX * mmPerPx, widthMm / 2 + 0.1);
+      const widthMm = Math.max(random.between(0.5, 1.4), MIN_DEFECT_SPAN_PX * mmPerPx);
+      const heightMm = Math.max(random.between(0.35, 0.9), MIN_DEFECT_SPAN_PX * mmPerPx, widthMm / 2 + 0.1);
       const { point, normal } = pickEdgePoint(family.outline, widthMm + 1, random);
       return { kind: 'burr', edge: point, normal, widthMm, heightMm };
     }
@@ -47,7 +48,7 @@ function requireHole(family: PartFamily, random: Random): number {
 }
 
 function scratchWidth(mmPerPx: number, random: Random): number {
-  return Math.max(random.between(0.08, 0.25), MIN_MARK_WIDTH_PX * mmPerPx);
+  return Math.max(random.between(0.08, 0.25), MIN_DEFECT_SPAN_PX * mmPerPx);
 }
 
 /** A straight scratch lying wholly on the material, clear of every edge by its own width. */
@@ -81,12 +82,13 @@ function liesOnMaterial(model: ReturnType<typeof buildPartModel>, a: Point, b: P
 /** A crack that starts at the outer edge and wanders inwards in a few straight pieces. */
 function planCrack(family: PartFamily, mmPerPx: number, random: Random): Defect {
   const model = buildPartModel(family, []);
-  const widthMm = Math.max(random.between(0.05, 0.12), MIN_MARK_WIDTH_PX * mmPerPx);
+  const widthMm = Math.max(random.between(0.05, 0.12), MIN_DEFECT_SPAN_PX * mmPerPx);
   for (let attempt = 0; attempt < PLACEMENT_ATTEMPTS; attempt++) {
     const lengthMm = random.between(family.crackLengthMm[0], family.crackLengthMm[1]);
     const { point, normal } = pickEdgePoint(family.outline, 1.5, random);
     let heading = Math.atan2(-normal.y, -normal.x) + random.between(-0.35, 0.35);
-    const path: Point[] = [{ x: point.x + normal.x * widthMm, y: point.y + normal.y * widthMm }];
+    // Starting on the edge itself: the round end of the stroke opens the crack at the edge.
+    const path: Point[] = [{ x: point.x, y: point.y }];
     const step = lengthMm / CRACK_SEGMENTS;
     for (let i = 0; i < CRACK_SEGMENTS; i++) {
       heading += random.between(-0.45, 0.45);

@@ -5,7 +5,13 @@ import { createApp } from '../../server/app';
 import type { Config } from '../../server/config';
 import { UserEntity } from '../../server/components/auth/entities';
 import { hashPassword } from '../../server/components/auth/passwords';
+import { JobQueue } from '../../server/lib/jobs';
 import { createLogger } from '../../server/lib/logger';
+import { createServices, type Services } from '../../server/services';
+import { loadKernelLibrary } from '../../server/vision/kernel-library';
+import { VisionPool } from '../../server/vision/pool';
+import type { PipelineRunner } from '../../server/vision/runner';
+import { startWorkers } from '../../server/workers';
 import type { Role } from '../../shared/roles';
 import { createTestDatabase, type TestDatabase } from './db';
 
@@ -30,6 +36,7 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
 
 export interface TestApp {
   app: Express;
+  services: Services;
   db: TestDatabase;
   config: Config;
   createUser(username: string, roles: Role[], extra?: Partial<UserEntity>): Promise<UserEntity>;
@@ -37,15 +44,39 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
+export interface TestAppOptions {
+  /** Run background work through the real PostgreSQL queue (otherwise inline, in the request). */
+  queue?: boolean;
+}
+
+/** A pool of two worker threads, started on first use and closed with the test app. */
+function lazyPool(): PipelineRunner & { destroy(): Promise<void> } {
+  let pool: Promise<VisionPool> | null = null;
+  return {
+    async run(rule, photo, options) {
+      pool ??= loadKernelLibrary().then((kernels) => new VisionPool({ kernels, threads: 2 }));
+      return (await pool).run(rule, photo, options);
+    },
+    async destroy() {
+      if (pool) await (await pool).destroy();
+    },
+  };
+}
+
 /** The real Express app on a fresh copy of the migrated database. */
-export async function createTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
+export async function createTestApp(overrides: Partial<Config> = {}, options: TestAppOptions = {}): Promise<TestApp> {
   const db = await createTestDatabase();
   const config = testConfig({ databaseUrl: db.url, ...overrides });
-  const app = createApp({ config, dataSource: db.dataSource, logger: createLogger('silent') });
+  const jobs = options.queue ? await new JobQueue(db.url).start() : null;
+  const pool = lazyPool();
+  const services = createServices({ config, dataSource: db.dataSource, pool, jobs });
+  if (jobs) await startWorkers(jobs, services);
+  const app = createApp({ config, services, logger: createLogger('silent') });
   const users = db.dataSource.getRepository(UserEntity);
   const passwordHash = await hashPassword(TEST_PASSWORD);
   return {
     app,
+    services,
     db,
     config,
     createUser: (username, roles, extra = {}) =>
@@ -55,6 +86,10 @@ export async function createTestApp(overrides: Partial<Config> = {}): Promise<Te
       if (res.status !== 200) throw new Error(`sign-in as ${username} failed: ${res.status} ${JSON.stringify(res.body)}`);
       return res.body.token as string;
     },
-    close: () => db.drop(),
+    async close() {
+      await jobs?.stop();
+      await pool.destroy();
+      await db.drop();
+    },
   };
 }

@@ -3,11 +3,9 @@ import type { Server } from 'node:http';
 import os from 'node:os';
 import path from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { createApp } from '../../server/app';
-import { createLogger } from '../../server/lib/logger';
 import { seedDemoUsers } from '../../server/seed/demo-users';
-import { testConfig } from './app';
-import { createTestDatabase, type TestDatabase } from './db';
+import { createTestApp } from './app';
+import type { TestDatabase } from './db';
 
 export const PHONE = { width: 390, height: 844 };
 export const WIDE = { width: 1280, height: 800 };
@@ -24,21 +22,19 @@ export interface RunningProduct {
 /** The real server with the exported web app, on a fresh database seeded like the demo. */
 export async function startProduct(): Promise<RunningProduct> {
   if (!fs.existsSync(path.join(WEB_DIR, 'index.html'))) throw new Error('dist/ is missing: run the tests with `npm test` (it builds the web app)');
-  const db = await createTestDatabase();
-  await seedDemoUsers(db.dataSource);
-  const config = testConfig({ databaseUrl: db.url, webDir: WEB_DIR });
-  const app = createApp({ config, dataSource: db.dataSource, logger: createLogger('silent') });
+  const product = await createTestApp({ webDir: WEB_DIR });
+  await seedDemoUsers(product.db.dataSource);
   const server: Server = await new Promise((resolve) => {
-    const s = app.listen(0, '127.0.0.1', () => resolve(s));
+    const s = product.app.listen(0, '127.0.0.1', () => resolve(s));
   });
   const address = server.address();
   if (!address || typeof address === 'string') throw new Error('no address');
   return {
     url: `http://127.0.0.1:${address.port}`,
-    db,
+    db: product.db,
     async close() {
       await new Promise<void>((resolve) => server.close(() => resolve()));
-      await db.drop();
+      await product.close();
     },
   };
 }

@@ -1,0 +1,48 @@
+import type { DataSource } from 'typeorm';
+import { AuditService } from './components/audit/service';
+import { AuthService } from './components/auth/service';
+import { CatalogueService } from './components/catalogue/service';
+import { KernelsService } from './components/kernels/service';
+import { ReferencesService } from './components/references/service';
+import { RulesService } from './components/rules/service';
+import { StationsService } from './components/stations/service';
+import { TrialsService } from './components/trials/service';
+import { UsersService } from './components/users/service';
+import type { Config } from './config';
+import { ImageUrlSigner } from './lib/image-urls';
+import type { JobQueue } from './lib/jobs';
+import { LocalImageStore } from './lib/storage/local-store';
+import type { ImageStore } from './lib/storage/image-store';
+import type { PipelineRunner } from './vision/runner';
+
+export interface ServiceDeps {
+  config: Config;
+  dataSource: DataSource;
+  /** Worker threads that run pipelines. */
+  pool: PipelineRunner;
+  /** The background queue; null runs background work inline (tests, seeding). */
+  jobs: JobQueue | null;
+}
+
+/** The composition root: every service, built once and shared by routes, job workers and the seed. */
+export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) {
+  const audit = new AuditService(dataSource);
+  const store: ImageStore = new LocalImageStore(config.imageDir);
+  const signer = new ImageUrlSigner(config.jwtSecret);
+  const kernels = new KernelsService(dataSource);
+  return {
+    dataSource,
+    audit,
+    store,
+    signer,
+    kernels,
+    auth: new AuthService(dataSource, audit, config.jwtSecret, config.tokenTtlSeconds),
+    users: new UsersService(dataSource, audit),
+    catalogue: new CatalogueService(dataSource, audit),
+    stations: new StationsService(dataSource, audit),
+    references: new ReferencesService(dataSource, store, signer, audit),
+    rules: new RulesService(dataSource, audit, kernels),
+    trials: new TrialsService(dataSource, store, signer, audit, pool, jobs),
+  };
+}
+export type Services = ReturnType<typeof createServices>;

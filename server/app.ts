@@ -8,6 +8,7 @@ import { authRoutes } from './components/auth/routes';
 import { catalogueRoutes } from './components/catalogue/routes';
 import { healthRoutes } from './components/health/routes';
 import { imageRoutes } from './components/images/routes';
+import { inspectionRoutes } from './components/inspections/routes';
 import { referenceRoutes } from './components/references/routes';
 import { ruleRoutes } from './components/rules/routes';
 import { stationRoutes } from './components/stations/routes';
@@ -48,6 +49,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/reference-sets', referenceRoutes(s.references));
   api.use(ruleRoutes(s.rules));
   api.use(trialRoutes(s.trials));
+  api.use('/inspections', inspectionRoutes(s.inspections));
   api.use(apiNotFound);
   app.use('/api', api);
 

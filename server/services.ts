@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import { AuditService } from './components/audit/service';
 import { AuthService } from './components/auth/service';
 import { CatalogueService } from './components/catalogue/service';
+import { InspectionsService } from './components/inspections/service';
 import { KernelsService } from './components/kernels/service';
 import { ReferencesService } from './components/references/service';
 import { RulesService } from './components/rules/service';
@@ -43,6 +44,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     references: new ReferencesService(dataSource, store, signer, audit),
     rules: new RulesService(dataSource, audit, kernels),
     trials: new TrialsService(dataSource, store, signer, audit, pool, jobs),
+    inspections: new InspectionsService(dataSource, store, signer, audit, pool),
   };
 }
 export type Services = ReturnType<typeof createServices>;

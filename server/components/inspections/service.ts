@@ -1,0 +1,194 @@
+import crypto from 'node:crypto';
+import type { DataSource } from 'typeorm';
+import type { z } from 'zod';
+import type { Inspection, inspectRequestSchema } from '../../../shared/api/inspections';
+import type { RuleRun } from '../../../shared/vision/pipeline';
+import { AppError, notFound } from '../../lib/errors';
+import type { ImageUrlSigner } from '../../lib/image-urls';
+import type { ImageStore } from '../../lib/storage/image-store';
+import { decodePhoto, PhotoDecodeError } from '../../vision/decode';
+import { evidencePng } from '../../vision/encode';
+import type { PipelineRunner } from '../../vision/runner';
+import type { AuditService } from '../audit/service';
+import { UserEntity } from '../auth/entities';
+import { actorOf } from '../auth/service';
+import { RuleEntity, RuleVersionEntity } from '../rules/entities';
+import { LineEntity, StationEntity } from '../stations/entities';
+import { DisputeEntity, InspectionEntity, MeasurementEntity } from './entities';
+
+type InspectRequest = z.output<typeof inspectRequestSchema>;
+
+export interface InspectOptions {
+  /** When the inspection happened; only the demo seed sets it (history), the API always uses now. */
+  at?: Date;
+  /** Skip the evidence image (the seed's history). */
+  evidence?: boolean;
+}
+
+/** The first failing gauge, or the quality figure that asked for a retake. */
+export function causeOf(run: RuleRun): string | null {
+  if (run.verdict === 'RETAKE') return run.quality.problems[0]?.split(':')[0] ?? 'photo quality';
+  return run.measurements.find((m) => !m.pass)?.name ?? null;
+}
+
+export class InspectionsService {
+  constructor(
+    private readonly dataSource: DataSource,
+    private readonly store: ImageStore,
+    private readonly signer: ImageUrlSigner,
+    private readonly audit: AuditService,
+    private readonly pool: PipelineRunner,
+  ) {}
+
+  async get(id: string): Promise<Inspection> {
+    const inspection = await this.dataSource.getRepository(InspectionEntity).findOneBy({ id });
+    if (!inspection) throw notFound('The inspection');
+    return this.toDto(inspection);
+  }
+
+  private async toDto(i: InspectionEntity): Promise<Inspection> {
+    const [version, station, operator, measurements, dispute] = await Promise.all([
+      this.dataSource.getRepository(RuleVersionEntity).findOneByOrFail({ id: i.ruleVersionId }),
+      this.dataSource.getRepository(StationEntity).findOneOrFail({ where: { id: i.stationId }, relations: { line: true } }),
+      this.dataSource.getRepository(UserEntity).findOneByOrFail({ id: i.operatorId }),
+      this.dataSource.getRepository(MeasurementEntity).find({ where: { inspectionId: i.id }, order: { position: 'ASC' } }),
+      this.dataSource.getRepository(DisputeEntity).findOneBy({ inspectionId: i.id }),
+    ]);
+    const rule = await this.dataSource.getRepository(RuleEntity).findOneByOrFail({ id: i.ruleId });
+    return {
+      id: i.id,
+      idempotencyKey: i.idempotencyKey,
+      ruleId: i.ruleId,
+      ruleName: rule.name,
+      ruleVersionId: i.ruleVersionId,
+      ruleVersionNumber: version.number,
+      stationId: i.stationId,
+      stationName: station.name,
+      lineName: station.line!.name,
+      partType: i.partType,
+      operator: { id: operator.id, name: operator.displayName },
+      verdict: i.verdict,
+      cause: i.cause,
+      quality: i.quality,
+      measurements: measurements.map((m) => ({ gauge: m.gauge, value: m.value, unit: m.unit, limitMin: m.limitMin, limitMax: m.limitMax, pass: m.pass })),
+      mmPerPx: i.mmPerPx,
+      durationMs: i.durationMs,
+      imageUrl: this.signer.url(i.imageHash),
+      evidenceUrl: i.evidenceHash ? this.signer.url(i.evidenceHash) : null,
+      createdAt: i.createdAt.toISOString(),
+      dispute: dispute
+        ? { note: dispute.note, raisedAt: dispute.raisedAt.toISOString(), resolvedAt: dispute.resolvedAt?.toISOString() ?? null, judgement: dispute.judgement, resolutionNote: dispute.resolutionNote }
+        : null,
+    };
+  }
+
+  /**
+   * Judges one photographed part with a released rule version at a station. The photo, the
+   * inspection, its measurements and its audit event are stored together; the same idempotency
+   * key again returns the first inspection instead of a second one.
+   */
+  async inspect(actor: UserEntity, request: InspectRequest, photoBytes: Buffer, options: InspectOptions = {}): Promise<{ inspection: Inspection; created: boolean }> {
+    const started = performance.now();
+    const existing = await this.dataSource.getRepository(InspectionEntity).findOneBy({ idempotencyKey: request.idempotencyKey });
+    if (existing) return { inspection: await this.sameRequestOrConflict(existing, actor, request), created: false };
+
+    const version = await this.dataSource.getRepository(RuleVersionEntity).findOneBy({ id: request.ruleVersionId });
+    if (!version) throw notFound('The rule version');
+    if (version.state !== 'released') throw new AppError('conflict', `Version ${version.number} of this rule is ${version.state}; inspect with its released version`);
+    const station = await this.dataSource.getRepository(StationEntity).findOneBy({ id: request.stationId });
+    if (!station) throw notFound('The station');
+    if (!station.active) throw new AppError('conflict', `${station.name} is not in use`);
+    const line = await this.dataSource.getRepository(LineEntity).findOneByOrFail({ id: station.lineId });
+    const rule = await this.dataSource.getRepository(RuleEntity).findOneByOrFail({ id: version.ruleId });
+
+    let photo;
+    try {
+      photo = await decodePhoto(photoBytes);
+    } catch (err) {
+      if (err instanceof PhotoDecodeError) throw new AppError(err.status === 413 ? 'payload_too_large' : err.status === 415 ? 'unsupported_media' : 'bad_request', `The photo cannot be inspected: ${err.message}`, { code: err.code });
+      throw err;
+    }
+    const run = await this.pool.run(version.document, photo, { mmPerPx: station.mmPerPx ?? undefined, retain: 'gauged' });
+    const imageHash = await this.store.put(photoBytes);
+    const evidenceHash = run.verdict === 'FAIL' && options.evidence !== false ? await this.store.put(await evidencePng(run)) : null;
+    const durationMs = performance.now() - started;
+
+    try {
+      const id = await this.dataSource.transaction(async (manager) => {
+        const inspection = await manager.save(
+          manager.create(InspectionEntity, {
+            idempotencyKey: request.idempotencyKey,
+            ruleVersionId: version.id,
+            ruleId: version.ruleId,
+            stationId: station.id,
+            lineId: line.id,
+            partType: rule.partType,
+            operatorId: actor.id,
+            imageHash,
+            evidenceHash,
+            verdict: run.verdict,
+            cause: causeOf(run),
+            quality: run.quality as unknown as Record<string, unknown>,
+            mmPerPx: station.mmPerPx,
+            durationMs,
+            createdAt: options.at ?? new Date(),
+          }),
+        );
+        if (run.measurements.length)
+          await manager.insert(
+            MeasurementEntity,
+            run.measurements.map((m, position) => ({
+              inspectionId: inspection.id,
+              position,
+              gauge: m.name,
+              value: m.value,
+              unit: m.unit ?? '',
+              limitMin: m.limits.min ?? null,
+              limitMax: m.limits.max ?? null,
+              pass: m.pass,
+            })),
+          );
+        await this.audit.record(manager, {
+          actor: actorOf(actor),
+          action: 'inspection.create',
+          entityType: 'inspection',
+          entityId: inspection.id,
+          after: { verdict: run.verdict, imageHash, ruleVersionId: version.id, contentHash: version.contentHash },
+          details: { station: station.name, rule: rule.name, version: version.number, verdict: run.verdict },
+        });
+        return inspection.id;
+      });
+      return { inspection: await this.get(id), created: true };
+    } catch (err) {
+      // The same key raced in from a retry: the first one stored wins.
+      if ((err as { code?: string }).code === '23505') {
+        const winner = await this.dataSource.getRepository(InspectionEntity).findOneByOrFail({ idempotencyKey: request.idempotencyKey });
+        return { inspection: await this.sameRequestOrConflict(winner, actor, request), created: false };
+      }
+      throw err;
+    }
+  }
+
+  private async sameRequestOrConflict(existing: InspectionEntity, actor: UserEntity, request: InspectRequest): Promise<Inspection> {
+    if (existing.operatorId !== actor.id || existing.stationId !== request.stationId || existing.ruleVersionId !== request.ruleVersionId)
+      throw new AppError('conflict', 'This idempotency key belongs to another inspection; send a new key for a new part');
+    return this.get(existing.id);
+  }
+
+  /** An operator challenges a verdict; a qualified person decides (supervisor's queue). */
+  async dispute(actor: UserEntity, inspectionId: string, note: string): Promise<Inspection> {
+    const inspection = await this.dataSource.getRepository(InspectionEntity).findOneBy({ id: inspectionId });
+    if (!inspection) throw notFound('The inspection');
+    await this.dataSource.transaction(async (manager) => {
+      if (await manager.existsBy(DisputeEntity, { inspectionId })) throw new AppError('conflict', 'This verdict is already disputed');
+      await manager.insert(DisputeEntity, { inspectionId, raisedBy: actor.id, note, raisedAt: new Date() });
+      await this.audit.record(manager, { actor: actorOf(actor), action: 'inspection.dispute', entityType: 'inspection', entityId: inspectionId, details: { note } });
+    });
+    return this.get(inspectionId);
+  }
+
+  /** A fresh idempotency key (for callers that are not clients, such as the seed). */
+  static newKey(): string {
+    return crypto.randomUUID();
+  }
+}

@@ -1,0 +1,122 @@
+import sharp from 'sharp';
+import request from 'supertest';
+import { inspectionSchema } from '../../shared/api/inspections';
+import { createTestApp, TEST_PASSWORD, type TestApp } from '../support/app';
+
+jest.setTimeout(60_000);
+
+let t: TestApp;
+let operator: { Authorization: string };
+let stationId: string;
+let releasedId: string;
+let draftId: string;
+
+async function photo(seed: number, defectSide: number, level = 120): Promise<Buffer> {
+  const w = 64;
+  const h = 48;
+  const px = Buffer.alloc(w * h);
+  for (let i = 0; i < px.length; i++) px[i] = level + ((i * 13 + seed * 7) % 5);
+  for (let y = 10; y < 10 + defectSide; y++) for (let x = 20; x < 20 + defectSide; x++) px[y * w + x] = 250;
+  return sharp(px, { raw: { width: w, height: h, channels: 1 } }).png().toBuffer();
+}
+
+const RULE = {
+  format: 'kernwright-rule/1',
+  name: 'Bright spot',
+  quality: { minMean: 60 },
+  steps: [{ op: 'threshold', method: 'fixed', value: 200 }],
+  gauges: [{ name: 'Spot area', measure: 'largest-blob-area', unit: 'mm2', limits: { max: 0.02 } }],
+};
+
+beforeAll(async () => {
+  t = await createTestApp();
+  const q = (sql: string, p: unknown[] = []) => t.db.dataSource.query(sql, p);
+  await q(`insert into part_types (code, name, family) values ('plate', 'Plate', 'plate')`);
+  const engineer = await t.createUser('ines', ['engineer']);
+  const supervisor = await t.createUser('mara', ['supervisor']);
+  await t.createUser('tomas', ['operator']);
+  await t.createUser('kofi', ['auditor']);
+  operator = { Authorization: `Bearer ${await t.tokenFor('tomas')}` };
+  const { rules, stations } = t.services;
+  const line = await stations.createLine(supervisor, { name: 'Line 1' });
+  const station = await stations.createStation(supervisor, { lineId: line.id, name: 'Press 1', cameraNote: '' });
+  stationId = (await stations.calibrate(supervisor, station.id, { referenceLengthMm: 10, distancePx: 200 })).id; // 0.05 mm/px
+  const rule = await rules.create(engineer, { name: 'Plate spots', partType: 'plate', smallestDefectMm: null, document: RULE });
+  releasedId = rule.versions[0].id;
+  const [v] = await q('select content_hash from rule_versions where id = $1', [releasedId]);
+  const [set] = await q(`insert into reference_sets (name, part_type, created_by) values ('s', 'plate', $1) returning id`, [engineer.id]);
+  await q(`insert into trials (rule_version_id, reference_set_id, content_hash, state, started_by) values ($1, $2, $3, 'done', $4)`, [releasedId, set.id, v.content_hash, engineer.id]);
+  await rules.submit(engineer, releasedId, '');
+  await rules.release(supervisor, releasedId, { password: TEST_PASSWORD, meaning: 'approval', note: '' });
+  const other = await rules.create(engineer, { name: 'Plate spots draft', partType: 'plate', smallestDefectMm: null, document: RULE });
+  draftId = other.versions[0].id;
+});
+afterAll(() => t.close());
+
+const inspect = (bytes: Buffer, key: string, versionId = releasedId, auth = operator) =>
+  request(t.app).post('/api/inspections').set(auth).field('stationId', stationId).field('ruleVersionId', versionId).field('idempotencyKey', key).attach('photo', bytes, { filename: 'part.png', contentType: 'image/png' });
+
+test('a good part passes, with its measurement in mm² through the station’s calibration', async () => {
+  const res = await inspect(await photo(1, 2), 'key-good-0001');
+  expect(res.status).toBe(201);
+  const inspection = inspectionSchema.parse(res.body);
+  // 2×2 px at 0.05 mm/px = 4 × 0.0025 mm² = 0.01 mm² (REFERENCES.md §8: area_mm² = s²·A_px).
+  expect(inspection).toMatchObject({ verdict: 'PASS', cause: null, stationName: 'Press 1', ruleVersionNumber: 1, mmPerPx: 0.05, evidenceUrl: null });
+  expect(inspection.measurements[0]).toMatchObject({ gauge: 'Spot area', unit: 'mm2', limitMax: 0.02, pass: true });
+  expect(inspection.measurements[0].value).toBeCloseTo(0.01, 10);
+});
+
+test('the same idempotency key twice stores one inspection', async () => {
+  const bytes = await photo(2, 0);
+  const first = await inspect(bytes, 'key-retry-0001');
+  const second = await inspect(bytes, 'key-retry-0001');
+  expect(first.status).toBe(201);
+  expect(second.status).toBe(200);
+  expect(second.body.id).toBe(first.body.id);
+  const [{ n }] = await t.db.dataSource.query(`select count(*)::int as n from inspections where idempotency_key = 'key-retry-0001'`);
+  expect(n).toBe(1);
+});
+
+test('a defective part fails, names the failing gauge and keeps an evidence image', async () => {
+  const res = await inspect(await photo(3, 6), 'key-bad-00001');
+  expect(res.body).toMatchObject({ verdict: 'FAIL', cause: 'Spot area' });
+  const evidence = await request(t.app).get(res.body.evidenceUrl);
+  expect(evidence.status).toBe(200);
+  expect(evidence.headers['content-type']).toBe('image/png');
+});
+
+test('a dark photo is a RETAKE, never a PASS', async () => {
+  const res = await inspect(await photo(4, 0, 20), 'key-dark-0001');
+  expect(res.body).toMatchObject({ verdict: 'RETAKE', cause: 'too dark' });
+});
+
+test('only released versions inspect; bad photos are refused clearly and leave no record', async () => {
+  const draft = await inspect(await photo(5, 0), 'key-draft-001', draftId);
+  expect(draft.status).toBe(409);
+  const notImage = await inspect(Buffer.from('%PDF-1.4 not a photo'), 'key-pdf-00001');
+  expect(notImage.status).toBe(415);
+  expect(notImage.body.error.message).toMatch(/cannot be inspected/);
+  const noKey = await request(t.app).post('/api/inspections').set(operator).field('stationId', stationId).field('ruleVersionId', releasedId).attach('photo', await photo(6, 0), 'p.png');
+  expect(noKey.status).toBe(400);
+  expect(noKey.body.error.details.issues[0].path).toBe('idempotencyKey');
+  const [{ n }] = await t.db.dataSource.query(`select count(*)::int as n from inspections where idempotency_key in ('key-draft-001', 'key-pdf-00001')`);
+  expect(n).toBe(0);
+});
+
+test('an operator disputes a verdict once; supervisors and auditors can read it; engineers cannot inspect', async () => {
+  const res = await inspect(await photo(7, 6), 'key-dispute-1');
+  const disputed = await request(t.app).post(`/api/inspections/${res.body.id}/dispute`).set(operator).send({ note: 'The mark wipes off; it is dust' });
+  expect(disputed.status).toBe(201);
+  expect(disputed.body.dispute).toMatchObject({ note: 'The mark wipes off; it is dust', resolvedAt: null });
+  expect((await request(t.app).post(`/api/inspections/${res.body.id}/dispute`).set(operator).send({ note: 'again' })).status).toBe(409);
+  const auditor = { Authorization: `Bearer ${await t.tokenFor('kofi')}` };
+  expect((await request(t.app).get(`/api/inspections/${res.body.id}`).set(auditor)).status).toBe(200);
+  const engineer = { Authorization: `Bearer ${await t.tokenFor('ines')}` };
+  expect((await inspect(await photo(8, 0), 'key-engineer1', releasedId, engineer)).status).toBe(403);
+});
+
+test('every inspection is in the audit trail with the exact rule content it used', async () => {
+  const rows = await t.db.dataSource.query(`select count(*)::int as n from audit_events where action = 'inspection.create'`);
+  const inspections = await t.db.dataSource.query(`select count(*)::int as n from inspections`);
+  expect(rows[0].n).toBe(inspections[0].n);
+});

@@ -7,6 +7,7 @@ import type { FieldIssue } from '../../shared/api/errors';
 import type { RawPhoto } from '../../shared/vision/image';
 import type { KernelDefinition } from '../../shared/vision/kernels';
 import { RuleRunError, runRule, type RuleRun, type RuleRunErrorCode, type RunOptions } from '../../shared/vision/pipeline';
+import { ImageWorkspace } from '../../shared/vision/workspace';
 import { fftCorrelate } from './fft-correlate';
 
 export interface PipelineTask {
@@ -21,6 +22,9 @@ export type PipelineTaskResult =
   | { ok: true; run: RuleRun }
   | { ok: false; error: { code: RuleRunErrorCode; message: string; issues: FieldIssue[] } };
 
+/** Intermediate step buffers of this thread, reused by its next runs (returned images are moved out). */
+const workspace = new ImageWorkspace();
+
 export default function runPipelineTask(task: PipelineTask): PipelineTaskResult {
   try {
     return movingImageBuffers(runRule(task.rule, task.photo, {
@@ -28,6 +32,7 @@ export default function runPipelineTask(task: PipelineTask): PipelineTaskResult 
       mmPerPx: task.mmPerPx,
       retain: task.retain,
       largeKernelCorrelator: fftCorrelate,
+      workspace,
     }));
   } catch (e) {
     if (e instanceof RuleRunError) return { ok: false, error: { code: e.code, message: e.message, issues: e.issues } };

@@ -60,26 +60,26 @@ export function imageLike(src: { width: number; height: number }, out?: Image): 
  * samples, computed in double precision and kept unrounded as float32. A grey photo is its own
  * luma, red, green and blue. Alpha is ignored.
  */
-export function channelImage(photo: RawPhoto, channel: InputChannel): Image {
+export function channelImage(photo: RawPhoto, channel: InputChannel, out?: Image): Image {
   const { width, height, channels, samples } = photo;
   const pixels = width * height;
   if (samples.length !== pixels * channels) {
     throw new RangeError(`a ${width}x${height} photo with ${channels} channel(s) needs ${pixels * channels} samples, got ${samples.length}`);
   }
-  const out = createImage(width, height);
-  const data = out.data;
+  const dst = imageLike(photo, out);
+  const data = dst.data;
   if (channels <= 2) {
     for (let p = 0, s = 0; p < pixels; p++, s += channels) data[p] = samples[s];
-    return out;
+    return dst;
   }
   if (channel !== 'luma') {
     const offset = channel === 'red' ? 0 : channel === 'green' ? 1 : 2;
     for (let p = 0, s = offset; p < pixels; p++, s += channels) data[p] = samples[s];
-    return out;
+    return dst;
   }
   const wr = BT601_WEIGHTS.red, wg = BT601_WEIGHTS.green, wb = BT601_WEIGHTS.blue;
   for (let p = 0, s = 0; p < pixels; p++, s += channels) {
     data[p] = wr * samples[s] + wg * samples[s + 1] + wb * samples[s + 2];
   }
-  return out;
+  return dst;
 }

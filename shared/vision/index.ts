@@ -13,3 +13,4 @@ export * from './blobs';
 export * from './gauges';
 export * from './quality';
 export * from './pipeline';
+export * from './workspace';

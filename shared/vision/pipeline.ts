@@ -6,7 +6,7 @@ import type { BorderMode } from './border';
 import { correlate, type LargeKernelCorrelator } from './convolve';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
-import { channelImage, createImage, type BitDepth, type Image, type RawPhoto } from './image';
+import { channelImage, type BitDepth, type Image, type RawPhoto } from './image';
 import { kernelFromMatrix, type Kernel, type KernelDefinition } from './kernels';
 import { laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
@@ -14,6 +14,7 @@ import { morphology } from './morphology';
 import { judgeQuality, qualityFigures, type QualityJudgement } from './quality';
 import { boxFilter, gaussianBlur } from './smoothing';
 import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from './threshold';
+import { ImageWorkspace } from './workspace';
 
 export type Verdict = 'PASS' | 'FAIL' | 'RETAKE';
 
@@ -31,6 +32,11 @@ export interface RunOptions {
   retain?: 'all' | 'gauged';
   largeKernelCorrelator?: LargeKernelCorrelator;
   largeKernelTaps?: number;
+  /**
+   * Buffers to reuse across runs (a batch, a worker thread). Outputs that are not retained go
+   * back to it at the end of the run; hand a finished run back with `releaseRun`.
+   */
+  workspace?: ImageWorkspace;
 }
 
 export interface StepRun {
@@ -94,14 +100,15 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const kernels = resolveKernels(rule, options.kernels);
   checkCalibration(rule, options.mmPerPx);
   const started = now();
-  const input = channelImage(photo, rule.input.channel);
+  const workspace = options.workspace ?? new ImageWorkspace();
+  const input = channelImage(photo, rule.input.channel, workspace.take(photo.width, photo.height));
   const quality = judgeQuality(qualityFigures(input, photo.bitDepth), rule.quality);
 
   const retainAll = (options.retain ?? 'all') === 'all';
   const needed = new Set<number>(rule.gauges.map((g) => g.step ?? rule.steps.length));
   needed.add(rule.steps.length);
   const spare: Image[] = [];
-  const take = () => spare.pop() ?? createImage(input.width, input.height);
+  const take = () => spare.pop() ?? workspace.take(input.width, input.height);
 
   const steps: StepRun[] = [];
   const outputs: (Image | null)[] = [input];
@@ -129,7 +136,14 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const measurements = rule.gauges.map((g) => measure(g, outputs, rule.steps.length, options.mmPerPx));
   const verdict: Verdict = !quality.pass ? 'RETAKE' : measurements.every((m) => m.pass) ? 'PASS' : 'FAIL';
   const retainedSteps = steps.map((s) => (outputs[s.index] ? s : { ...s, output: null }));
+  for (const image of spare) workspace.give(image);
   return { rule, verdict, quality, measurements, steps: retainedSteps, input, bitDepth: photo.bitDepth, ms: now() - started };
+}
+
+/** Hands the buffers of a finished run (input and retained outputs) to the workspace; the run must not be used afterwards. */
+export function releaseRun(run: RuleRun, workspace: ImageWorkspace): void {
+  workspace.give(run.input);
+  for (const step of run.steps) if (step.output) workspace.give(step.output);
 }
 
 function now(): number {

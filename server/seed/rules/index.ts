@@ -7,19 +7,27 @@ import type { RuleDocument } from '../../../shared/rules/schema';
 import bracketReleased from './bracket-hole-and-edge-check.json';
 import washerReleased from './washer-rim-and-bore-check.json';
 import gasketReleased from './gasket-ring-defects.json';
+import bracketTighter from './bracket-tighter-edge-limits.json';
+import washerTighter from './washer-tighter-edge-limits.json';
+import gasketTighter from './gasket-tighter-edge-limits.json';
+import bracketMedian from './bracket-median-prefilter.json';
+import washerMedian from './washer-median-prefilter.json';
+import gasketMedian from './gasket-median-prefilter.json';
 
 export interface FamilyRules {
   released: RuleDocument;
+  /** Submitted for review: the released rule with tighter notch and lump limits. */
   inReview: RuleDocument;
+  /** Still being edited: a 3x3 median added before the smoothing, to try against JPEG artefacts. */
   inProgress: RuleDocument;
 }
 
 const asRule = (document: unknown) => document as RuleDocument;
 
 export const DEMO_RULES: Readonly<Record<FamilyName, FamilyRules>> = {
-  bracket: { released: asRule(bracketReleased), inReview: asRule(bracketReleased), inProgress: asRule(bracketReleased) },
-  washer: { released: asRule(washerReleased), inReview: asRule(washerReleased), inProgress: asRule(washerReleased) },
-  gasket: { released: asRule(gasketReleased), inReview: asRule(gasketReleased), inProgress: asRule(gasketReleased) },
+  bracket: { released: asRule(bracketReleased), inReview: asRule(bracketTighter), inProgress: asRule(bracketMedian) },
+  washer: { released: asRule(washerReleased), inReview: asRule(washerTighter), inProgress: asRule(washerMedian) },
+  gasket: { released: asRule(gasketReleased), inReview: asRule(gasketTighter), inProgress: asRule(gasketMedian) },
 };
 
 export function releasedDemoRules(): Record<FamilyName, RuleDocument> {

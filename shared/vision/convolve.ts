@@ -215,32 +215,111 @@ function horizontalGeneral(line: Float64Array, k: Float64Array, w: number, o: Fl
   }
 }
 
-/** Direct 2-D correlation over a padded copy of the image; zero weights are skipped. */
+/**
+ * Direct 2-D correlation. The source rows a kernel row needs are kept padded (border columns
+ * filled) in a ring of `rows` lines, each made once; every kernel row runs as one pass over the
+ * line with its taps in locals (unrolled for 3, 5 and 7 columns), adding into a row of sums.
+ */
 export function correlateDirect(src: Image, kernel: Kernel, border: BorderMode, out?: Image): Image {
-  const { width: w, height: h } = src;
+  const { width: w, height: h, data } = src;
   const { rows, cols, weights, divisor, offset } = kernel;
   const ry = (rows - 1) >> 1;
   const rx = (cols - 1) >> 1;
-  const padded = padImage(src, rx, ry, border);
   const pw = w + 2 * rx;
-  const dst = imageLike(src, out);
+  const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
+  const rowTable = borderTable(h, ry, ry, border);
+  const colTable = borderTable(w, rx, rx, border);
+  const ring = Array.from({ length: rows }, () => new Float64Array(pw));
+  const isZeroRow = new Uint8Array(rows);
   const acc = new Float64Array(w);
   const scale = 1 / divisor;
+  const taps = new Float64Array(cols);
+  const fillLine = (t: number) => {
+    const line = ring[t % rows];
+    const sy = rowTable[t];
+    isZeroRow[t % rows] = sy === OUTSIDE ? 1 : 0;
+    if (sy === OUTSIDE) return;
+    const base = sy * w;
+    for (let x = 0; x < w; x++) line[rx + x] = data[base + x];
+    fillRowBorder(line, w, rx, colTable);
+  };
+  for (let t = 0; t < rows - 1; t++) fillLine(t);
   for (let y = 0; y < h; y++) {
+    fillLine(y + rows - 1);
     acc.fill(0);
     for (let j = 0; j < rows; j++) {
-      for (let i = 0; i < cols; i++) {
-        const k = weights[j * cols + i];
-        if (k === 0) continue;
-        const base = (y + j) * pw + i;
-        for (let x = 0; x < w; x++) acc[x] += k * padded[base + x];
-      }
+      const slot = (y + j) % rows;
+      if (isZeroRow[slot]) continue;
+      let any = false;
+      for (let i = 0; i < cols; i++) any = (taps[i] = weights[j * cols + i]) !== 0 || any;
+      if (any) addKernelRow(ring[slot], taps, cols, w, acc);
     }
     const row = y * w;
     for (let x = 0; x < w; x++) o[row + x] = acc[x] * scale + offset;
   }
   return dst;
+}
+
+/** acc[x] += Σᵢ k[i]·line[x+i]: one kernel row over one padded source line. */
+function addKernelRow(line: Float64Array, k: Float64Array, cols: number, w: number, acc: Float64Array): void {
+  if (cols === 1) {
+    const k0 = k[0];
+    for (let x = 0; x < w; x++) acc[x] += k0 * line[x];
+  } else if (cols === 3) {
+    const k0 = k[0], k1 = k[1], k2 = k[2];
+    let a = line[0], b = line[1];
+    for (let x = 0; x < w; x++) {
+      const c = line[x + 2];
+      acc[x] += k0 * a + k1 * b + k2 * c;
+      a = b;
+      b = c;
+    }
+  } else if (cols === 5) {
+    const k0 = k[0], k1 = k[1], k2 = k[2], k3 = k[3], k4 = k[4];
+    let a = line[0], b = line[1], c = line[2], d = line[3];
+    for (let x = 0; x < w; x++) {
+      const e = line[x + 4];
+      acc[x] += k0 * a + k1 * b + k2 * c + k3 * d + k4 * e;
+      a = b;
+      b = c;
+      c = d;
+      d = e;
+    }
+  } else if (cols === 7) {
+    const k0 = k[0], k1 = k[1], k2 = k[2], k3 = k[3], k4 = k[4], k5 = k[5], k6 = k[6];
+    let a = line[0], b = line[1], c = line[2], d = line[3], e = line[4], f = line[5];
+    for (let x = 0; x < w; x++) {
+      const g = line[x + 6];
+      acc[x] += k0 * a + k1 * b + k2 * c + k3 * d + k4 * e + k5 * f + k6 * g;
+      a = b;
+      b = c;
+      c = d;
+      d = e;
+      e = f;
+      f = g;
+    }
+  } else {
+    // Wider rows: groups of five taps, each a sliding window like the 5-column case.
+    let i = 0;
+    for (; i + 4 < cols; i += 5) {
+      const k0 = k[i], k1 = k[i + 1], k2 = k[i + 2], k3 = k[i + 3], k4 = k[i + 4];
+      let a = line[i], b = line[i + 1], c = line[i + 2], d = line[i + 3];
+      for (let x = 0; x < w; x++) {
+        const e = line[x + i + 4];
+        acc[x] += k0 * a + k1 * b + k2 * c + k3 * d + k4 * e;
+        a = b;
+        b = c;
+        c = d;
+        d = e;
+      }
+    }
+    for (; i < cols; i++) {
+      const ki = k[i];
+      if (ki === 0) continue;
+      for (let x = 0; x < w; x++) acc[x] += ki * line[x + i];
+    }
+  }
 }
 
 /** A copy of the image with rx columns and ry rows of border on each side (row-major, width w+2rx). */

@@ -1,0 +1,45 @@
+// The direct path's unrolled and grouped kernel rows against an outside reference:
+// @techstark/opencv-js 4.5.2 (OpenCV 4.5.1, WebAssembly) filter2D on CV_32F, every border mode.
+import type { BorderMode } from '../../../shared/rules/schema';
+import { correlateDirect } from '../../../shared/vision/convolve';
+import { kernelFromMatrix } from '../../../shared/vision/kernels';
+import { partImage } from './images';
+import { CV_BORDER, loadOpenCv, matToFloat, maxAbsDiff, toMat32, type OpenCv } from './opencv';
+
+let cv: OpenCv;
+beforeAll(async () => {
+  ({ cv } = await loadOpenCv());
+}, 30000);
+
+const BORDERS: BorderMode[] = ['reflect', 'replicate', 'constant'];
+
+/** A non-separable kernel with some zero weights: rows × cols. */
+function kernelMatrix(rows: number, cols: number): number[][] {
+  return Array.from({ length: rows }, (_, j) => Array.from({ length: cols }, (_, i) => ((i * 7 + j * 3) % 5) - 2 + (i === j ? 1 : 0)));
+}
+
+describe.each(BORDERS)('with the %s border', (border) => {
+  test.each([
+    [3, 1],
+    [1, 3],
+    [5, 7],
+    [9, 9],
+    [3, 11],
+    [15, 15],
+    [5, 17],
+  ])('a %ix%i kernel matches OpenCV filter2D', (rows, cols) => {
+    const image = partImage(41, 29, 65535, rows * 31 + cols);
+    const matrix = kernelMatrix(rows, cols);
+    const ours = correlateDirect(image, kernelFromMatrix(matrix, 3, 1.5), border);
+    const src = toMat32(cv, image);
+    const dst = new cv.Mat();
+    const k = cv.matFromArray(rows, cols, cv.CV_32F, matrix.flat().map((v) => v / 3));
+    // OpenCV 4.5.1 filter2D: correlation, dst = Σ kernel·src + delta.
+    cv.filter2D(src, dst, cv.CV_32F, k, new cv.Point(-1, -1), 1.5, CV_BORDER[border]);
+    const expected = matToFloat(cv, dst);
+    [src, dst, k].forEach((m) => m.delete());
+    const scale = expected.reduce((m, v) => Math.max(m, Math.abs(v)), 1);
+    // Float32 results: agreement to a few float32 ulps of the largest value (OpenCV sums in float32).
+    expect(maxAbsDiff(ours.data, expected)).toBeLessThanOrEqual(2e-6 * scale * 8);
+  });
+});

@@ -1,6 +1,5 @@
 // Second-derivative operators: the discrete Laplacian (4- or 8-neighbour) and the Laplacian of Gaussian.
-import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
-import { correlateSeparable } from './convolve';
+import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { imageLike, type Image } from './image';
 import { gaussianSecondDerivativeWeights, gaussianWeights } from './kernels';
 
@@ -58,15 +57,55 @@ export function laplacian(src: Image, neighbours: 4 | 8, border: BorderMode, out
 /**
  * Laplacian of Gaussian: ∂²/∂x² + ∂²/∂y² of the Gaussian-smoothed image, as two separable passes
  * (g″ ⊗ g + g ⊗ g″), the construction of scipy.ndimage.gaussian_laplace, with radius ceil(3σ).
- * Negative at the centre of a bright spot.
+ * Negative at the centre of a bright spot. Both passes share one sweep: per row, the vertical g
+ * and g″ sums come from the same loads, then out = g″ across the first + g across the second.
  */
 export function laplacianOfGaussian(src: Image, sigma: number, border: BorderMode, out?: Image): Image {
+  const { width: w, height: h, data } = src;
   const g = gaussianWeights(sigma);
   const g2 = gaussianSecondDerivativeWeights(sigma);
-  const dst = correlateSeparable(src, g, g2, border, imageLike(src, out));
-  const yy = correlateSeparable(src, g2, g, border);
+  const r = (g.length - 1) >> 1;
+  const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
-  const t = yy.data;
-  for (let p = 0; p < o.length; p++) o[p] += t[p];
+  const rowOffsets = rowOffsetTable(h, w, r, r, border);
+  const colTable = borderTable(w, r, r, border);
+  // Vertical g (smoothed) and g″ (second derivative) of the current row, padded by r each side.
+  const smooth = new Float64Array(w + 2 * r);
+  const curve = new Float64Array(w + 2 * r);
+  const zeros = new Float32Array(w);
+  const rowAt = (t: number) => {
+    const off = rowOffsets[t];
+    return off === OUTSIDE ? zeros : data.subarray(off, off + w);
+  };
+  for (let y = 0; y < h; y++) {
+    const centre = rowAt(y + r);
+    const gc = g[r];
+    const g2c = g2[r];
+    for (let x = 0; x < w; x++) {
+      const v = centre[x];
+      smooth[r + x] = gc * v;
+      curve[r + x] = g2c * v;
+    }
+    for (let j = 1; j <= r; j++) {
+      const above = rowAt(y + r - j);
+      const below = rowAt(y + r + j);
+      const gj = g[r + j];
+      const g2j = g2[r + j];
+      for (let x = 0; x < w; x++) {
+        const pair = above[x] + below[x];
+        smooth[r + x] += gj * pair;
+        curve[r + x] += g2j * pair;
+      }
+    }
+    fillRowBorder(smooth, w, r, colTable);
+    fillRowBorder(curve, w, r, colTable);
+    const base = y * w;
+    for (let x = 0; x < w; x++) {
+      const c = x + r;
+      let acc = g2c * smooth[c] + gc * curve[c];
+      for (let i = 1; i <= r; i++) acc += g2[r + i] * (smooth[c - i] + smooth[c + i]) + g[r + i] * (curve[c - i] + curve[c + i]);
+      o[base + x] = acc;
+    }
+  }
   return dst;
 }

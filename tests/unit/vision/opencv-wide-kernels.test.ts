@@ -1,8 +1,10 @@
-// The direct path's unrolled and grouped kernel rows against an outside reference:
-// @techstark/opencv-js 4.5.2 (OpenCV 4.5.1, WebAssembly) filter2D on CV_32F, every border mode.
+// The direct path's unrolled and grouped kernel rows, and the one-sweep Laplacian of Gaussian,
+// against an outside reference: @techstark/opencv-js 4.5.2 (OpenCV 4.5.1, WebAssembly) filter2D
+// and sepFilter2D on CV_32F, every border mode.
 import type { BorderMode } from '../../../shared/rules/schema';
 import { correlateDirect } from '../../../shared/vision/convolve';
-import { kernelFromMatrix } from '../../../shared/vision/kernels';
+import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix } from '../../../shared/vision/kernels';
+import { laplacianOfGaussian } from '../../../shared/vision/laplacian';
 import { partImage } from './images';
 import { CV_BORDER, loadOpenCv, matToFloat, maxAbsDiff, toMat32, type OpenCv } from './opencv';
 
@@ -41,5 +43,30 @@ describe.each(BORDERS)('with the %s border', (border) => {
     const scale = expected.reduce((m, v) => Math.max(m, Math.abs(v)), 1);
     // Float32 results: agreement to a few float32 ulps of the largest value (OpenCV sums in float32).
     expect(maxAbsDiff(ours.data, expected)).toBeLessThanOrEqual(2e-6 * scale * 8);
+  });
+});
+
+describe.each(BORDERS)('Laplacian of Gaussian with the %s border', (border) => {
+  test.each([0.5, 1.4, 2.2])('sigma %p equals OpenCV sepFilter2D(g″ across, g down) + sepFilter2D(g across, g″ down)', (sigma) => {
+    const image = partImage(37, 23, 255, 21);
+    const ours = laplacianOfGaussian(image, sigma, border);
+    const g = Array.from(gaussianWeights(sigma));
+    const g2 = Array.from(gaussianSecondDerivativeWeights(sigma));
+    const src = toMat32(cv, image);
+    const across = new cv.Mat();
+    const down = new cv.Mat();
+    const sum = new cv.Mat();
+    const kg = cv.matFromArray(1, g.length, cv.CV_32F, g);
+    const kg2 = cv.matFromArray(1, g2.length, cv.CV_32F, g2);
+    const anchor = new cv.Point(-1, -1);
+    // sepFilter2D(src, dst, depth, kernelX, kernelY, anchor, delta, border): correlation, X along rows.
+    cv.sepFilter2D(src, across, cv.CV_32F, kg2, kg, anchor, 0, CV_BORDER[border]);
+    cv.sepFilter2D(src, down, cv.CV_32F, kg, kg2, anchor, 0, CV_BORDER[border]);
+    cv.add(across, down, sum);
+    const expected = matToFloat(cv, sum);
+    [src, across, down, sum, kg, kg2].forEach((m) => m.delete());
+    const scale = expected.reduce((m, v) => Math.max(m, Math.abs(v)), 1);
+    // OpenCV sums in float32 with float32 weights; ours in double: a few float32 ulps of the largest value.
+    expect(maxAbsDiff(ours.data, expected)).toBeLessThanOrEqual(1e-5 * scale);
   });
 });

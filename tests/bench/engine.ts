@@ -238,6 +238,11 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
     opencv: best(1, () => cv.filter2D(f32, m1, cv.CV_32F, cvKernel15, anchor, 0, REFLECT)),
   });
   rows.push({ step: 'kernel 15x15 non-separable (FFT)', ours: best(1, () => fftCorrelate(input, k15kernel, 'reflect')), note: 'ndarray-convolve' });
+  // The largest kernel a rule may hold, where an FFT would have its best chance.
+  const k31 = Array.from({ length: 31 }, (_, j) => Array.from({ length: 31 }, (_, i) => ((i * 5 + j * 11) % 7) - 3 + (i === j ? 1 : 0)));
+  const k31kernel = kernelFromMatrix(k31);
+  rows.push({ step: 'kernel 31x31 non-separable (direct)', ours: best(1, () => correlateDirect(input, k31kernel, 'reflect', a)) });
+  rows.push({ step: 'kernel 31x31 non-separable (FFT)', ours: best(1, () => fftCorrelate(input, k31kernel, 'reflect')), note: 'ndarray-convolve' });
   rows.push({
     step: 'blobs, 8-connected',
     ours: best(runs, () => labelBlobs(mask)),

@@ -32,6 +32,9 @@ export function causeOf(run: RuleRun): string | null {
 }
 
 export class InspectionsService {
+  /** One evidence image per run (a run handed out twice, as the seed's memoizing runner does, is drawn once). */
+  private readonly evidence = new WeakMap<RuleRun, Promise<Buffer>>();
+
   constructor(
     private readonly dataSource: DataSource,
     private readonly store: ImageStore,
@@ -110,7 +113,7 @@ export class InspectionsService {
     }
     const run = await this.pool.run(version.document, photo, { mmPerPx: station.mmPerPx ?? undefined, retain: 'gauged' });
     const imageHash = await this.store.put(photoBytes);
-    const evidenceHash = run.verdict === 'FAIL' && options.evidence !== false ? await this.store.put(await evidencePng(run)) : null;
+    const evidenceHash = run.verdict === 'FAIL' && options.evidence !== false ? await this.store.put(await this.evidenceOf(run)) : null;
     const durationMs = performance.now() - started;
 
     try {
@@ -167,6 +170,15 @@ export class InspectionsService {
       }
       throw err;
     }
+  }
+
+  private evidenceOf(run: RuleRun): Promise<Buffer> {
+    let png = this.evidence.get(run);
+    if (!png) {
+      png = evidencePng(run);
+      this.evidence.set(run, png);
+    }
+    return png;
   }
 
   private async sameRequestOrConflict(existing: InspectionEntity, actor: UserEntity, request: InspectRequest): Promise<Inspection> {

@@ -8,7 +8,10 @@ import { authRoutes } from './components/auth/routes';
 import { catalogueRoutes } from './components/catalogue/routes';
 import { healthRoutes } from './components/health/routes';
 import { imageRoutes } from './components/images/routes';
+import { disputeRoutes } from './components/inspections/dispute-routes';
 import { inspectionRoutes } from './components/inspections/routes';
+import { kernelRoutes } from './components/kernels/routes';
+import { previewRoutes } from './components/preview/routes';
 import { referenceRoutes } from './components/references/routes';
 import { ruleRoutes } from './components/rules/routes';
 import { stationRoutes } from './components/stations/routes';
@@ -45,11 +48,14 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/users', userRoutes(s.users));
   api.use('/audit-events', auditRoutes(s.dataSource, s.audit));
   api.use('/catalogue', catalogueRoutes(s.catalogue));
+  api.use('/kernels', kernelRoutes(s.kernels));
   api.use('/stations', stationRoutes(s.stations));
   api.use('/reference-sets', referenceRoutes(s.references));
   api.use(ruleRoutes(s.rules));
   api.use(trialRoutes(s.trials));
+  api.use('/preview', previewRoutes(s.preview));
   api.use('/inspections', inspectionRoutes(s.inspections));
+  api.use('/disputes', disputeRoutes(s.inspections));
   api.use(apiNotFound);
   app.use('/api', api);
 

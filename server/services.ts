@@ -4,6 +4,7 @@ import { AuthService } from './components/auth/service';
 import { CatalogueService } from './components/catalogue/service';
 import { InspectionsService } from './components/inspections/service';
 import { KernelsService } from './components/kernels/service';
+import { PreviewService } from './components/preview/service';
 import { ReferencesService } from './components/references/service';
 import { RulesService } from './components/rules/service';
 import { StationsService } from './components/stations/service';
@@ -30,7 +31,8 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
   const audit = new AuditService(dataSource);
   const store: ImageStore = new LocalImageStore(config.imageDir);
   const signer = new ImageUrlSigner(config.jwtSecret);
-  const kernels = new KernelsService(dataSource);
+  const kernels = new KernelsService(dataSource, audit);
+  const rules = new RulesService(dataSource, audit, kernels);
   return {
     dataSource,
     audit,
@@ -42,7 +44,8 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     catalogue: new CatalogueService(dataSource, audit),
     stations: new StationsService(dataSource, audit),
     references: new ReferencesService(dataSource, store, signer, audit),
-    rules: new RulesService(dataSource, audit, kernels),
+    rules,
+    preview: new PreviewService(dataSource, store, rules, pool),
     trials: new TrialsService(dataSource, store, signer, audit, pool, jobs),
     inspections: new InspectionsService(dataSource, store, signer, audit, pool),
   };

@@ -48,3 +48,18 @@ export const inspectRequestSchema = z.strictObject({
 });
 
 export const disputeRequestSchema = z.strictObject({ note: z.string().trim().min(1, 'Say why the verdict looks wrong').max(2000) });
+
+export const resolveDisputeRequestSchema = z.strictObject({
+  /** The qualified person's judgement of the part itself. */
+  judgement: z.enum(['good', 'defective']),
+  note: z.string().trim().min(1, 'Say how the part was judged').max(2000),
+});
+
+export const listDisputesQuerySchema = z.strictObject({
+  state: z.enum(['open', 'resolved']).default('open'),
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+
+export const disputeItemSchema = z.object({ id: z.string(), inspection: inspectionSchema });
+export type DisputeItem = z.infer<typeof disputeItemSchema>;

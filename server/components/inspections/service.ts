@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import type { DataSource } from 'typeorm';
+import { IsNull, Not, type DataSource } from 'typeorm';
 import type { z } from 'zod';
 import type { Inspection, inspectRequestSchema } from '../../../shared/api/inspections';
 import type { RuleRun } from '../../../shared/vision/pipeline';
@@ -195,6 +195,30 @@ export class InspectionsService {
       if (await manager.existsBy(DisputeEntity, { inspectionId })) throw new AppError('conflict', 'This verdict is already disputed');
       await manager.insert(DisputeEntity, { inspectionId, raisedBy: actor.id, note, raisedAt: new Date() });
       await this.audit.record(manager, { actor: actorOf(actor), action: 'inspection.dispute', entityType: 'inspection', entityId: inspectionId, details: { note } });
+    });
+    return this.get(inspectionId);
+  }
+
+  async listDisputes(state: 'open' | 'resolved', limit: number, offset: number): Promise<{ items: { id: string; inspection: Inspection }[]; total: number }> {
+    const [rows, total] = await this.dataSource.getRepository(DisputeEntity).findAndCount({
+      where: { resolvedAt: state === 'open' ? IsNull() : Not(IsNull()) },
+      order: { raisedAt: state === 'open' ? 'ASC' : 'DESC' },
+      take: limit,
+      skip: offset,
+    });
+    return { items: await Promise.all(rows.map(async (d) => ({ id: d.id, inspection: await this.get(d.inspectionId) }))), total };
+  }
+
+  /** A supervisor records the qualified judgement of a disputed part; the inspection itself never changes. */
+  async resolveDispute(actor: UserEntity, disputeId: string, judgement: 'good' | 'defective', note: string): Promise<Inspection> {
+    const inspectionId = await this.dataSource.transaction(async (manager) => {
+      const dispute = await manager.findOne(DisputeEntity, { where: { id: disputeId }, lock: { mode: 'pessimistic_write' } });
+      if (!dispute) throw notFound('The dispute');
+      if (dispute.resolvedAt) throw new AppError('conflict', 'This dispute is already resolved');
+      Object.assign(dispute, { resolvedBy: actor.id, judgement, resolutionNote: note, resolvedAt: new Date() });
+      await manager.save(dispute);
+      await this.audit.record(manager, { actor: actorOf(actor), action: 'inspection.dispute-resolve', entityType: 'inspection', entityId: dispute.inspectionId, details: { judgement, note } });
+      return dispute.inspectionId;
     });
     return this.get(inspectionId);
   }

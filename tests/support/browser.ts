@@ -6,6 +6,7 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { seedDemoUsers } from '../../server/seed/demo-users';
 import { createTestApp } from './app';
 import type { TestDatabase } from './db';
+import type { Services } from '../../server/services';
 
 export const PHONE = { width: 390, height: 844 };
 export const WIDE = { width: 1280, height: 800 };
@@ -16,6 +17,8 @@ const WEB_DIR = path.join(__dirname, '..', '..', 'dist');
 export interface RunningProduct {
   url: string;
   db: TestDatabase;
+  /** The server's services, to set up what a test needs (e.g. seedDemoPlant). */
+  services: Services;
   close(): Promise<void>;
 }
 
@@ -32,6 +35,7 @@ export async function startProduct(): Promise<RunningProduct> {
   return {
     url: `http://127.0.0.1:${address.port}`,
     db: product.db,
+    services: product.services,
     async close() {
       await new Promise<void>((resolve) => server.close(() => resolve()));
       await product.close();

@@ -33,41 +33,76 @@ export interface OtsuHistogram {
  */
 export function otsuHistogram(data: Float32Array): OtsuHistogram {
   const n = data.length;
-  let min = Infinity;
-  let max = -Infinity;
-  let p = 0;
-  // Conditional moves rather than branches for min and max (noisy data mispredicts branches);
-  // the integer check only until the first fraction.
-  for (; p < n; p++) {
-    const v = data[p];
-    if ((v | 0) !== v) break;
-    min = v < min ? v : min;
-    max = v > max ? v : max;
-  }
-  const integral = p === n;
-  for (; p < n; p++) {
-    const v = data[p];
-    min = v < min ? v : min;
-    max = v > max ? v : max;
-  }
-  const counts = new Float64Array(HISTOGRAM_BINS);
+  const integral = allIntegers(data);
+  const [min, max] = valueRange(data);
   const flat = !(max > min);
   const eightBit = integral && min >= 0 && max <= 255;
   const origin = eightBit ? 0 : min;
   const binsPerUnit = eightBit ? 1 : flat ? 0 : HISTOGRAM_BINS / (max - min);
-  const last = HISTOGRAM_BINS - 1;
-  if (eightBit) {
-    for (let p = 0; p < data.length; p++) counts[data[p]]++;
-  } else if (!flat) {
-    // Values are ≥ origin, so truncation is the floor.
-    for (let p = 0; p < data.length; p++) {
-      const bin = ((data[p] - origin) * binsPerUnit) | 0;
-      counts[bin > last ? last : bin]++;
-    }
+  const counts = new Float64Array(HISTOGRAM_BINS);
+  if (flat) {
+    counts[0] = n;
   } else {
-    counts[0] = data.length;
+    countBins(data, origin, binsPerUnit, counts);
   }
   return { counts, origin, binsPerUnit, flat };
+}
+
+/** True when every value is a whole number (checked only until the first fraction). */
+function allIntegers(data: Float32Array): boolean {
+  for (let p = 0; p < data.length; p++) {
+    const v = data[p];
+    if ((v | 0) !== v) return false;
+  }
+  return true;
+}
+
+/** [min, max] of the values, NaN ignored ([Infinity, −Infinity] when there is no number). */
+function valueRange(data: Float32Array): [number, number] {
+  // Math.min/max compile to branch-free min/max instructions; a NaN anywhere makes them NaN,
+  // and then the slower loop that skips NaN decides.
+  let min = Infinity;
+  let max = -Infinity;
+  for (let p = 0; p < data.length; p++) {
+    const v = data[p];
+    min = Math.min(min, v);
+    max = Math.max(max, v);
+  }
+  if (min === min && max === max) return [min, max];
+  min = Infinity;
+  max = -Infinity;
+  for (let p = 0; p < data.length; p++) {
+    const v = data[p];
+    if (v < min) min = v;
+    if (v > max) max = v;
+  }
+  return [min, max];
+}
+
+/** Stride of each partial histogram: bins 0…256 (a value at the maximum may land on 256 by rounding). */
+const PARTIAL_STRIDE = HISTOGRAM_BINS + 1;
+
+/**
+ * counts[min(255, floor((v − origin)·scale))]++ for every v ≥ origin. Four partial histograms
+ * filled in turn, so that runs of equal bins (smooth regions) do not wait on the same counter.
+ */
+function countBins(data: Float32Array, origin: number, scale: number, counts: Float64Array): void {
+  const n = data.length;
+  const partial = new Int32Array(4 * PARTIAL_STRIDE);
+  const s1 = PARTIAL_STRIDE, s2 = 2 * PARTIAL_STRIDE, s3 = 3 * PARTIAL_STRIDE;
+  let p = 0;
+  // Values are ≥ origin, so truncation is the floor.
+  for (; p + 3 < n; p += 4) {
+    partial[((data[p] - origin) * scale) | 0]++;
+    partial[s1 + (((data[p + 1] - origin) * scale) | 0)]++;
+    partial[s2 + (((data[p + 2] - origin) * scale) | 0)]++;
+    partial[s3 + (((data[p + 3] - origin) * scale) | 0)]++;
+  }
+  for (; p < n; p++) partial[((data[p] - origin) * scale) | 0]++;
+  for (let bin = 0; bin < PARTIAL_STRIDE; bin++) {
+    const total = partial[bin] + partial[s1 + bin] + partial[s2 + bin] + partial[s3 + bin];
+    counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += total;
+  }
 }
 
 /**

@@ -1,0 +1,51 @@
+// Otsu's histogram (the fast path: partial histograms, branch-free range) against the binning
+// the rule format states in plain words (../shared/DESIGN.md, "threshold"): 256 integer levels
+// for 8-bit data, else bin = floor((v − min)·256/(max − min)) with the maximum in bin 255.
+import fc from 'fast-check';
+import { otsuHistogram } from '../../../shared/vision/threshold';
+
+function plainCounts(values: number[]): number[] {
+  const counts = new Array<number>(256).fill(0);
+  const numbers = values.filter((v) => !Number.isNaN(v));
+  const min = Math.min(...numbers);
+  const max = Math.max(...numbers);
+  const eightBit = values.every((v) => Number.isInteger(v)) && min >= 0 && max <= 255;
+  for (const v of values) {
+    const bin = eightBit ? v : Math.floor(((v - min) * 256) / (max - min));
+    counts[Number.isNaN(bin) ? 0 : Math.min(255, bin)]++;
+  }
+  return counts;
+}
+
+const float32 = (v: number) => Math.fround(v);
+
+test('every value lands in the bin the rule format states, for float data of any length', () => {
+  fc.assert(
+    fc.property(fc.array(fc.double({ min: -1e4, max: 1e4, noNaN: true }).map(float32), { minLength: 2, maxLength: 300 }), (values) => {
+      fc.pre(Math.max(...values) > Math.min(...values));
+      const hist = otsuHistogram(Float32Array.from(values));
+      expect(Array.from(hist.counts)).toEqual(plainCounts(values));
+    }),
+    { numRuns: 300 },
+  );
+});
+
+test('8-bit data uses the 256 integer levels', () => {
+  fc.assert(
+    fc.property(fc.array(fc.integer({ min: 0, max: 255 }), { minLength: 2, maxLength: 300 }), (values) => {
+      fc.pre(Math.max(...values) > Math.min(...values));
+      const hist = otsuHistogram(Float32Array.from(values));
+      expect(hist.origin).toBe(0);
+      expect(hist.binsPerUnit).toBe(1);
+      expect(Array.from(hist.counts)).toEqual(plainCounts(values));
+    }),
+    { numRuns: 200 },
+  );
+});
+
+test('a NaN does not decide the range: the other values set min and max', () => {
+  const hist = otsuHistogram(Float32Array.from([0.5, NaN, 2.5, 1.5]));
+  expect(hist.flat).toBe(false);
+  expect(hist.origin).toBe(0.5);
+  expect(hist.binsPerUnit).toBe(128);
+});

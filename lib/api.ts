@@ -17,6 +17,31 @@ import {
   type UpdateUserRequest,
   type UserList,
 } from '../shared/api/users';
+import { disputeItemSchema, inspectionSchema, type DisputeItem, type Inspection } from '../shared/api/inspections';
+import { defectKindSchema, partTypeSchema, type DefectKind, type PartType } from '../shared/api/catalogue';
+import { kernelInfoSchema, type KernelInfo } from '../shared/api/kernels';
+import { previewResultSchema, type PreviewResult } from '../shared/api/preview';
+import {
+  referenceImagePageSchema,
+  referenceImageSchema,
+  referenceSetSchema,
+  uploadResultSchema,
+  type ImageLabel,
+  type ReferenceImage,
+  type ReferenceSet,
+  type UploadOutcome,
+} from '../shared/api/references';
+import {
+  ruleDetailSchema,
+  ruleSummarySchema,
+  ruleVersionSchema,
+  type RuleDetail,
+  type RuleSummary,
+  type RuleVersion,
+  type RuleVersionState,
+} from '../shared/api/rules';
+import { lineSchema, stationSchema, type Line, type Station } from '../shared/api/stations';
+import { sweepSchema, trialResultSchema, trialSchema, type Sweep, type Trial, type TrialResult } from '../shared/api/trials';
 import { currentToken, endSession } from './session';
 
 /** Codes the client adds for failures that never reached the API's error shape. */
@@ -38,7 +63,7 @@ export class ApiError extends Error {
 // Same origin by default (Express serves the app and the API); a separate dev server can point elsewhere.
 const API_BASE_URL = process.env.EXPO_PUBLIC_API_BASE_URL ?? '';
 
-type Method = 'GET' | 'POST' | 'PATCH' | 'DELETE';
+type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 type QueryValue = string | number | boolean | undefined;
 
 interface RequestOptions<T> {
@@ -164,4 +189,351 @@ export function createUser(body: CreateUserRequest): Promise<User> {
 
 export function updateUser(id: string, changes: UpdateUserRequest): Promise<User> {
   return request(`/api/users/${encodeURIComponent(id)}`, { method: 'PATCH', body: changes, schema: userSchema });
+}
+
+// Lines and stations (everyone lists them; supervisors and administrators manage them)
+
+export function createLine(body: { name: string }): Promise<Line> {
+  return request('/api/stations/lines', { method: 'POST', body, schema: lineSchema });
+}
+
+export function createStation(body: { lineId: string; name: string; cameraNote?: string }): Promise<Station> {
+  return request('/api/stations', { method: 'POST', body, schema: stationSchema });
+}
+
+export function updateStation(id: string, changes: { name?: string; cameraNote?: string; active?: boolean }): Promise<Station> {
+  return request(`/api/stations/${encodeURIComponent(id)}`, { method: 'PATCH', body: changes, schema: stationSchema });
+}
+
+export function calibrateStation(id: string, body: { referenceLengthMm: number; distancePx: number }): Promise<Station> {
+  return request(`/api/stations/${encodeURIComponent(id)}/calibration`, { method: 'POST', body, schema: stationSchema });
+}
+
+// Review and release of rule versions (supervisors)
+
+export function releaseRuleVersion(id: string, body: { password: string; meaning: 'review' | 'approval' | 'responsibility'; note: string }): Promise<RuleVersion> {
+  return request(`/api/rule-versions/${encodeURIComponent(id)}/release`, { method: 'POST', body, schema: ruleVersionSchema });
+}
+
+export function sendBackRuleVersion(id: string, note: string): Promise<RuleVersion> {
+  return request(`/api/rule-versions/${encodeURIComponent(id)}/send-back`, { method: 'POST', body: { note }, schema: ruleVersionSchema });
+}
+
+export function withdrawRuleVersion(id: string, reason: string): Promise<RuleVersion> {
+  return request(`/api/rule-versions/${encodeURIComponent(id)}/withdraw`, { method: 'POST', body: { reason }, schema: ruleVersionSchema });
+}
+
+// Inspections and disputed verdicts
+
+export interface InspectionUpload {
+  photo: Blob;
+  fileName: string;
+  stationId: string;
+  ruleVersionId: string;
+  /** Made on the device once per photo and reused on every retry, so the server stores the inspection once. */
+  idempotencyKey: string;
+}
+
+/**
+ * Sends a photo for inspection as multipart form data. XMLHttpRequest rather than fetch, because only
+ * it reports upload progress; errors take the same ApiError shape as every other call.
+ */
+export function uploadInspection(upload: InspectionUpload, onProgress?: (fraction: number) => void): Promise<Inspection> {
+  const form = new FormData();
+  form.append('stationId', upload.stationId);
+  form.append('ruleVersionId', upload.ruleVersionId);
+  form.append('idempotencyKey', upload.idempotencyKey);
+  form.append('photo', upload.photo, upload.fileName);
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', buildUrl('/api/inspections'));
+    xhr.setRequestHeader('Accept', 'application/json');
+    const token = currentToken();
+    if (token) xhr.setRequestHeader('Authorization', `Bearer ${token}`);
+    xhr.upload.onprogress = (event) => {
+      if (event.lengthComputable && event.total > 0) onProgress?.(event.loaded / event.total);
+    };
+    xhr.onerror = () => reject(new ApiError(0, 'network_error', 'Kernwright’s server could not be reached.'));
+    xhr.onload = () => {
+      let payload: unknown;
+      try {
+        payload = xhr.responseText ? JSON.parse(xhr.responseText) : undefined;
+      } catch {
+        payload = undefined;
+      }
+      if (xhr.status < 200 || xhr.status >= 300) {
+        if (xhr.status === 401) endSession('expired');
+        reject(errorFromResponse(xhr.status, payload));
+        return;
+      }
+      const parsed = inspectionSchema.safeParse(payload);
+      if (parsed.success) resolve(parsed.data);
+      else reject(new ApiError(xhr.status, 'unreadable_response', 'The server sent an answer this version of the app cannot read.'));
+    };
+    xhr.send(form);
+  });
+}
+
+export function fetchInspection(id: string, signal?: AbortSignal): Promise<Inspection> {
+  return request(`/api/inspections/${encodeURIComponent(id)}`, { schema: inspectionSchema, signal });
+}
+
+export function disputeInspection(id: string, note: string): Promise<Inspection> {
+  return request(`/api/inspections/${encodeURIComponent(id)}/dispute`, { method: 'POST', body: { note }, schema: inspectionSchema });
+}
+
+const disputeListSchema = z.object({ items: z.array(disputeItemSchema), total: z.number() });
+export type DisputeList = { items: DisputeItem[]; total: number };
+
+export function listDisputes(query: { state: 'open' | 'resolved'; limit: number; offset: number }, signal?: AbortSignal): Promise<DisputeList> {
+  return request('/api/disputes', { query: { ...query }, schema: disputeListSchema, signal });
+}
+
+export function resolveDispute(id: string, body: { judgement: 'good' | 'defective'; note: string }): Promise<Inspection> {
+  return request(`/api/disputes/${encodeURIComponent(id)}/resolve`, { method: 'POST', body, schema: inspectionSchema });
+}
+
+// Catalogue, kernels and stations (read by the engineer's workbench)
+
+const itemsOf = <T,>(schema: z.ZodType<T>) => z.object({ items: z.array(schema) });
+
+export async function listPartTypes(signal?: AbortSignal): Promise<PartType[]> {
+  return (await request('/api/catalogue/part-types', { schema: itemsOf(partTypeSchema), signal })).items;
+}
+
+export async function listDefectKinds(signal?: AbortSignal): Promise<DefectKind[]> {
+  return (await request('/api/catalogue/defect-kinds', { schema: itemsOf(defectKindSchema), signal })).items;
+}
+
+export async function listKernels(signal?: AbortSignal): Promise<KernelInfo[]> {
+  return (await request('/api/kernels', { schema: itemsOf(kernelInfoSchema), signal })).items;
+}
+
+export interface NewKernel {
+  name: string;
+  matrix: number[][];
+  divisor: number;
+  offset: number;
+  description: string;
+}
+
+export function createKernel(body: NewKernel): Promise<KernelInfo> {
+  return request('/api/kernels', { method: 'POST', body, schema: kernelInfoSchema });
+}
+
+export async function listLines(signal?: AbortSignal): Promise<Line[]> {
+  return (await request('/api/stations/lines', { schema: itemsOf(lineSchema), signal })).items;
+}
+
+// Reference sets
+
+export async function listReferenceSets(signal?: AbortSignal): Promise<ReferenceSet[]> {
+  return (await request('/api/reference-sets', { schema: itemsOf(referenceSetSchema), signal })).items;
+}
+
+export function getReferenceSet(id: string, signal?: AbortSignal): Promise<ReferenceSet> {
+  return request(`/api/reference-sets/${encodeURIComponent(id)}`, { schema: referenceSetSchema, signal });
+}
+
+export function createReferenceSet(body: { name: string; partType: string; description: string }): Promise<ReferenceSet> {
+  return request('/api/reference-sets', { method: 'POST', body, schema: referenceSetSchema });
+}
+
+export interface ReferenceImageQuery {
+  label?: ImageLabel;
+  defectKind?: string;
+  limit: number;
+  offset: number;
+}
+
+export function listReferenceImages(setId: string, query: ReferenceImageQuery, signal?: AbortSignal) {
+  return request(`/api/reference-sets/${encodeURIComponent(setId)}/images`, {
+    query: { label: query.label, defectKind: query.defectKind, limit: query.limit, offset: query.offset },
+    schema: referenceImagePageSchema,
+    signal,
+  });
+}
+
+export interface LabelChange {
+  label?: ImageLabel;
+  defectKind?: string | null;
+  note?: string;
+}
+
+export async function relabelReferenceImages(setId: string, imageIds: string[], change: LabelChange): Promise<ReferenceImage[]> {
+  const schema = itemsOf(referenceImageSchema);
+  return (await request(`/api/reference-sets/${encodeURIComponent(setId)}/labels`, { method: 'POST', body: { imageIds, change }, schema })).items;
+}
+
+export function relabelReferenceImage(imageId: string, change: LabelChange): Promise<ReferenceImage> {
+  return request(`/api/reference-sets/images/${encodeURIComponent(imageId)}`, { method: 'PATCH', body: change, schema: referenceImageSchema });
+}
+
+/** A photo to upload: a File or Blob in a browser, or a local file address on a phone. */
+export type UploadablePhoto = { name: string; blob: Blob } | { name: string; uri: string; type: string };
+
+export interface PhotoUploadOptions {
+  label?: ImageLabel;
+  defectKind?: string;
+  /** Fraction of the request body sent so far, 0..1. */
+  onProgress?: (sent: number) => void;
+}
+
+/**
+ * Sends photos as multipart field "photos" through XMLHttpRequest, the one browser and React
+ * Native transport that reports upload progress.
+ */
+export function uploadReferencePhotos(setId: string, photos: UploadablePhoto[], options: PhotoUploadOptions = {}): Promise<UploadOutcome[]> {
+  const form = new FormData();
+  if (options.label) form.append('label', options.label);
+  if (options.defectKind) form.append('defectKind', options.defectKind);
+  for (const photo of photos) {
+    if ('blob' in photo) form.append('photos', photo.blob, photo.name);
+    // React Native's FormData takes a { uri, name, type } object for a file on the device.
+    else form.append('photos', { uri: photo.uri, name: photo.name, type: photo.type } as unknown as Blob);
+  }
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', buildUrl(`/api/reference-sets/${encodeURIComponent(setId)}/images`));
+    xhr.setRequestHeader('Accept', 'application/json');
+    const token = currentToken();
+    if (token) xhr.setRequestHeader('Authorization', `Bearer ${token}`);
+    xhr.upload.onprogress = (event) => {
+      if (event.lengthComputable && event.total > 0) options.onProgress?.(event.loaded / event.total);
+    };
+    xhr.onerror = () => reject(new ApiError(0, 'network_error', 'Kernwright’s server could not be reached.'));
+    xhr.onload = () => {
+      let payload: unknown;
+      try {
+        payload = xhr.responseText ? JSON.parse(xhr.responseText) : undefined;
+      } catch {
+        payload = undefined;
+      }
+      if (xhr.status < 200 || xhr.status >= 300) {
+        if (xhr.status === 401) endSession('expired');
+        reject(errorFromResponse(xhr.status, payload));
+        return;
+      }
+      const parsed = uploadResultSchema.safeParse(payload);
+      if (!parsed.success) {
+        reject(new ApiError(xhr.status, 'unreadable_response', 'The server sent an answer this version of the app cannot read.'));
+        return;
+      }
+      options.onProgress?.(1);
+      resolve(parsed.data.outcomes);
+    };
+    xhr.send(form);
+  });
+}
+
+/** A photo's samples exactly as the server decodes them, from its signed image address. */
+export interface PhotoSamples {
+  width: number;
+  height: number;
+  channels: 1 | 2 | 3 | 4;
+  bitDepth: 8 | 16;
+  samples: Uint8Array | Uint16Array;
+}
+
+export async function fetchPhotoSamples(imageUrl: string, signal?: AbortSignal): Promise<PhotoSamples> {
+  const address = `${API_BASE_URL}${imageUrl.replace('?', '/samples?')}`;
+  let response: Response;
+  try {
+    response = await fetch(address, { signal });
+  } catch (cause) {
+    if (signal?.aborted) throw cause;
+    throw new ApiError(0, 'network_error', 'Kernwright’s server could not be reached.');
+  }
+  if (!response.ok) throw errorFromResponse(response.status, await readJson(response));
+  const width = Number(response.headers.get('X-Photo-Width'));
+  const height = Number(response.headers.get('X-Photo-Height'));
+  const channels = Number(response.headers.get('X-Photo-Channels'));
+  const bitDepth = Number(response.headers.get('X-Photo-Bit-Depth'));
+  const bytes = await response.arrayBuffer();
+  if (!(width > 0 && height > 0) || ![1, 2, 3, 4].includes(channels) || (bitDepth !== 8 && bitDepth !== 16)) {
+    throw new ApiError(response.status, 'unreadable_response', 'The photo’s samples came without their size or bit depth.');
+  }
+  // Little-endian 16-bit samples, which every platform the app runs on reads natively.
+  const samples = bitDepth === 16 ? new Uint16Array(bytes) : new Uint8Array(bytes);
+  if (samples.length !== width * height * channels) {
+    throw new ApiError(response.status, 'unreadable_response', 'The photo’s samples do not match its stated size.');
+  }
+  return { width, height, channels: channels as PhotoSamples['channels'], bitDepth, samples };
+}
+
+// Rules and rule versions
+
+export interface RuleListQuery {
+  q?: string;
+  state?: RuleVersionState;
+  partType?: string;
+  limit: number;
+  offset: number;
+}
+
+const ruleListSchema = z.object({ items: z.array(ruleSummarySchema), total: z.number() });
+
+export function listRules(query: RuleListQuery, signal?: AbortSignal): Promise<{ items: RuleSummary[]; total: number }> {
+  return request('/api/rules', { query: { ...query }, schema: ruleListSchema, signal });
+}
+
+export function getRule(id: string, signal?: AbortSignal): Promise<RuleDetail> {
+  return request(`/api/rules/${encodeURIComponent(id)}`, { schema: ruleDetailSchema, signal });
+}
+
+export function createRule(body: { name: string; partType: string; smallestDefectMm: number | null; document: unknown }): Promise<RuleDetail> {
+  return request('/api/rules', { method: 'POST', body, schema: ruleDetailSchema });
+}
+
+export function startNewDraft(ruleId: string, fromVersionId?: string): Promise<RuleVersion> {
+  return request(`/api/rules/${encodeURIComponent(ruleId)}/versions`, { method: 'POST', body: { fromVersionId }, schema: ruleVersionSchema });
+}
+
+export function getRuleVersion(id: string, signal?: AbortSignal): Promise<RuleVersion> {
+  return request(`/api/rule-versions/${encodeURIComponent(id)}`, { schema: ruleVersionSchema, signal });
+}
+
+export function saveDraftDocument(versionId: string, document: unknown, authorNote?: string): Promise<RuleVersion> {
+  return request(`/api/rule-versions/${encodeURIComponent(versionId)}/document`, { method: 'PUT', body: { document, authorNote }, schema: ruleVersionSchema });
+}
+
+export function submitForReview(versionId: string, note: string): Promise<RuleVersion> {
+  return request(`/api/rule-versions/${encodeURIComponent(versionId)}/submit`, { method: 'POST', body: { note }, schema: ruleVersionSchema });
+}
+
+// Preview on the server (the authority the browser's preview is checked against)
+
+export function runServerPreview(body: { document: unknown; referenceImageId: string; stationId?: string }): Promise<PreviewResult> {
+  return request('/api/preview', { method: 'POST', body, schema: previewResultSchema });
+}
+
+// Trials
+
+export function startTrial(body: { ruleVersionId: string; referenceSetId: string; stationId?: string }): Promise<Trial> {
+  return request('/api/trials', { method: 'POST', body, schema: trialSchema });
+}
+
+export function getTrial(id: string, signal?: AbortSignal): Promise<Trial> {
+  return request(`/api/trials/${encodeURIComponent(id)}`, { schema: trialSchema, signal });
+}
+
+export async function listTrialsOfVersion(versionId: string, signal?: AbortSignal): Promise<Trial[]> {
+  return (await request(`/api/rule-versions/${encodeURIComponent(versionId)}/trials`, { schema: itemsOf(trialSchema), signal })).items;
+}
+
+export interface TrialResultQuery {
+  outcome: 'all' | 'misjudged' | 'agrees';
+  sort: 'file' | 'slowest';
+  limit: number;
+  offset: number;
+}
+
+const trialResultPageSchema = z.object({ items: z.array(trialResultSchema), total: z.number() });
+
+export function listTrialResults(trialId: string, query: TrialResultQuery, signal?: AbortSignal): Promise<{ items: TrialResult[]; total: number }> {
+  return request(`/api/trials/${encodeURIComponent(trialId)}/results`, { query: { ...query }, schema: trialResultPageSchema, signal });
+}
+
+export function getLimitSweep(trialId: string, gauge: string, bound: 'min' | 'max', signal?: AbortSignal): Promise<Sweep> {
+  return request(`/api/trials/${encodeURIComponent(trialId)}/sweep`, { query: { gauge, bound }, schema: sweepSchema, signal });
 }

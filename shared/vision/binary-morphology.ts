@@ -16,12 +16,22 @@ interface PackedMask {
   readonly words: Int32Array;
 }
 
+/** Bit pattern of the float32 value 1 (IEEE 754 binary32). */
+const FLOAT_ONE_BITS = 0x3f800000;
+
+/** The float32 samples' bit patterns, read as integers (same buffer, no copy). */
+function sampleBits(data: Float32Array): Int32Array {
+  return new Int32Array(data.buffer, data.byteOffset, data.length);
+}
+
 /**
  * Packs an image whose every value is 0 or 1; null as soon as another value turns up.
- * Bits past the last column are left 0.
+ * Bits past the last column are left 0. Works on the bit patterns: 1.0 is 0x3f800000 (bit 29 set),
+ * +0 is 0; anything else (−0 included) sends that word through the exact float comparison.
  */
 function packMask(src: Image): PackedMask | null {
   const { width: w, height: h, data } = src;
+  const bits = sampleBits(data);
   const wordsPerRow = (w + 31) >>> 5;
   const words = new Int32Array(wordsPerRow * h);
   for (let y = 0; y < h; y++) {
@@ -31,21 +41,39 @@ function packMask(src: Image): PackedMask | null {
       const x0 = row + (k << 5);
       const n = Math.min(32, w - (k << 5));
       let word = 0;
-      let other = false;
+      let stray = 0;
       for (let i = 0; i < n; i++) {
-        const v = data[x0 + i];
-        word |= (v === 1 ? 1 : 0) << i;
-        other = other || (v !== 0 && v !== 1);
+        const b = bits[x0 + i];
+        const one = (b >>> 29) & 1;
+        word |= one << i;
+        stray |= b ^ (one * FLOAT_ONE_BITS);
       }
-      if (other) return null;
+      if (stray !== 0) {
+        const exact = packWordByValue(data, x0, n);
+        if (exact === null) return null;
+        word = exact;
+      }
       words[wordRow + k] = word;
     }
   }
   return { width: w, height: h, wordsPerRow, words };
 }
 
+/** One word from n samples compared as numbers (so −0 counts as 0); null for a value other than 0 and 1. */
+function packWordByValue(data: Float32Array, x0: number, n: number): number | null {
+  let word = 0;
+  for (let i = 0; i < n; i++) {
+    const v = data[x0 + i];
+    if (v !== 0 && v !== 1) return null;
+    word |= (v === 1 ? 1 : 0) << i;
+  }
+  return word;
+}
+
+/** Writes the mask as float32 0 and 1 through the bit patterns (integer stores, no conversion). */
 function unpackMask(mask: PackedMask, out: Float32Array): void {
   const { width: w, height: h, wordsPerRow, words } = mask;
+  const bits = sampleBits(out);
   for (let y = 0; y < h; y++) {
     const row = y * w;
     const wordRow = y * wordsPerRow;
@@ -54,11 +82,9 @@ function unpackMask(mask: PackedMask, out: Float32Array): void {
       const n = Math.min(32, w - (k << 5));
       const word = words[wordRow + k];
       if (word === 0) {
-        out.fill(0, x0, x0 + n);
-      } else if (word === -1 && n === 32) {
-        out.fill(1, x0, x0 + n);
+        bits.fill(0, x0, x0 + n);
       } else {
-        for (let i = 0; i < n; i++) out[x0 + i] = (word >>> i) & 1;
+        for (let i = 0; i < n; i++) bits[x0 + i] = ((word >>> i) & 1) * FLOAT_ONE_BITS;
       }
     }
   }

@@ -25,6 +25,8 @@ export interface OtsuHistogram {
   readonly binsPerUnit: number;
   /** True when all values are the same (no threshold separates anything). */
   readonly flat: boolean;
+  /** True for 8-bit data: the bins are the 256 integer levels. */
+  readonly integerLevels: boolean;
 }
 
 /**
@@ -45,7 +47,7 @@ export function otsuHistogram(data: Float32Array): OtsuHistogram {
   } else {
     countBins(data, origin, binsPerUnit, counts);
   }
-  return { counts, origin, binsPerUnit, flat };
+  return { counts, origin, binsPerUnit, flat, integerLevels: eightBit };
 }
 
 /** True when every value is a whole number (checked only until the first fraction). */
@@ -154,16 +156,21 @@ export function thresholdOtsu(src: Image, invert = false, out?: Image): { mask: 
   }
   // bin(v) > k  ⇔  (v − origin)·binsPerUnit ≥ k + 1  (the top bin only collects values at max).
   const cut = hist.origin + (k + 1) / hist.binsPerUnit;
-  if (hist.binsPerUnit === 1) {
-    for (let p = 0; p < s.length; p++) o[p] = s[p] > k ? above : below;
-  } else {
-    // floor(z) > k ⇔ z ≥ k + 1 for the same z = (v − origin)·binsPerUnit; k ≤ 254, so the clamp to bin 255 cannot matter.
-    const origin = hist.origin;
-    const scale = hist.binsPerUnit;
-    const edge = k + 1;
-    for (let p = 0; p < s.length; p++) o[p] = (s[p] - origin) * scale >= edge ? above : below;
+  writeAboveBin(s, hist.origin, hist.binsPerUnit, k, invert, o);
+  return { mask: dst, bin: k, threshold: hist.integerLevels ? k : cut };
+}
+
+/**
+ * o = 1 where floor((v − origin)·scale) > k, else 0 (swapped with invert), without branches:
+ * noisy data near the threshold would mispredict them. For z ≥ 0, floor(z) = z | 0, and
+ * ((z | 0) − (k + 1)) >>> 31 is 1 exactly when the bin is at most k. k ≤ 254, so the clamp to bin 255 cannot matter.
+ */
+function writeAboveBin(s: Float32Array, origin: number, scale: number, k: number, invert: boolean, o: Float32Array): void {
+  const edge = k + 1;
+  const flip = invert ? 0 : 1;
+  for (let p = 0; p < s.length; p++) {
+    o[p] = flip ^ (((((s[p] - origin) * scale) | 0) - edge) >>> 31);
   }
-  return { mask: dst, bin: k, threshold: hist.binsPerUnit === 1 ? k : cut };
 }
 
 /** mask = in > (mean of the size × size neighbourhood) − c, the neighbourhood using the rule's border. */

@@ -2,7 +2,8 @@
 // the rule format states in plain words (../shared/DESIGN.md, "threshold"): 256 integer levels
 // for 8-bit data, else bin = floor((v − min)·256/(max − min)) with the maximum in bin 255.
 import fc from 'fast-check';
-import { otsuHistogram } from '../../../shared/vision/threshold';
+import { imageFromSamples } from '../../../shared/vision/image';
+import { otsuHistogram, thresholdOtsu } from '../../../shared/vision/threshold';
 
 function plainCounts(values: number[]): number[] {
   const counts = new Array<number>(256).fill(0);
@@ -48,4 +49,32 @@ test('a NaN does not decide the range: the other values set min and max', () => 
   expect(hist.flat).toBe(false);
   expect(hist.origin).toBe(0.5);
   expect(hist.binsPerUnit).toBe(128);
+});
+
+test('the Otsu mask is 1 exactly where the value’s bin is above the chosen bin, whatever the range', () => {
+  fc.assert(
+    fc.property(
+      fc.array(fc.double({ min: -300, max: 300, noNaN: true }).map(float32), { minLength: 2, maxLength: 200 }),
+      fc.boolean(),
+      (values, invert) => {
+        const hist = otsuHistogram(Float32Array.from(values));
+        const { mask, bin } = thresholdOtsu(imageFromSamples(values.length, 1, values), invert);
+        if (bin < 0) return;
+        const binOf = (v: number) => Math.min(255, Math.floor((v - hist.origin) * hist.binsPerUnit));
+        const expected = values.map((v) => ((binOf(v) > bin) !== invert ? 1 : 0));
+        expect(Array.from(mask.data)).toEqual(expected);
+      },
+    ),
+    { numRuns: 300 },
+  );
+});
+
+test('float data spanning exactly 256 units keeps its origin when thresholding (bins of width 1 from the minimum)', () => {
+  // min 10.5, max 266.5: bins of width 1 starting at 10.5, so 138.5 is in bin 128 and 138.25 in bin 127.
+  const values = [10.5, 266.5, 138.25, 138.5, 20.5, 250.5];
+  const hist = otsuHistogram(Float32Array.from(values));
+  expect(hist.binsPerUnit).toBe(1);
+  const { mask, bin } = thresholdOtsu(imageFromSamples(values.length, 1, values));
+  const expected = values.map((v) => (Math.min(255, Math.floor(v - 10.5)) > bin ? 1 : 0));
+  expect(Array.from(mask.data)).toEqual(expected);
 });

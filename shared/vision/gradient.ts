@@ -3,7 +3,7 @@
 // transpose, unnormalised, positive where the image gets brighter to the right / downwards.
 import type { GradientOperator, GradientOutput } from '../rules/schema';
 import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
-import { imageLike, type Image } from './image';
+import { imageLike, type Image, type ValueRange } from './image';
 import { PREWITT_SMOOTHING, SCHARR_SMOOTHING, SOBEL_SMOOTHING } from './kernels';
 
 const SMOOTHING: Record<GradientOperator, readonly number[]> = {
@@ -16,11 +16,21 @@ const DEGREES_PER_RADIAN = 180 / Math.PI;
 
 /**
  * magnitude = sqrt(gx² + gy²); direction = atan2(gy, gx) in degrees, (−180, 180].
+ * With `range`, the magnitude's minimum and maximum (as stored, float32) are written to it on the
+ * way, so that a following Otsu threshold need not read the image once more for them (NaN for
+ * the other outputs: not known).
  * One pass over three rows: per column, the vertical smoothing s = a·up + b·centre + a·down and
  * difference t = down − up; then gx = s(x+1) − s(x−1) and gy = a·t(x−1) + b·t(x) + a·t(x+1),
  * with the three columns kept in locals as the window slides right.
  */
-export function gradient(src: Image, operator: GradientOperator, output: GradientOutput, border: BorderMode, out?: Image): Image {
+export function gradient(
+  src: Image,
+  operator: GradientOperator,
+  output: GradientOutput,
+  border: BorderMode,
+  out?: Image,
+  range?: ValueRange,
+): Image {
   const { width: w, height: h, data } = src;
   const [a, b] = SMOOTHING[operator];
   const dst = imageLike(src, out === src ? undefined : out);
@@ -30,6 +40,8 @@ export function gradient(src: Image, operator: GradientOperator, output: Gradien
   const leftColumn = colTable[0];
   const rightColumn = colTable[w + 1];
   const zeros = new Float32Array(w);
+  let lo = Infinity;
+  let hi = -Infinity;
 
   for (let y = 0; y < h; y++) {
     const upOff = rowOffsets[y];
@@ -75,7 +87,11 @@ export function gradient(src: Image, operator: GradientOperator, output: Gradien
           const tNext = v - u;
           const gx = sNext - sPrev;
           const gy = a * (tPrev + tNext) + b * tCur;
-          o[base + x] = Math.sqrt(gx * gx + gy * gy);
+          const m = Math.sqrt(gx * gx + gy * gy);
+          o[base + x] = m;
+          // New extremes are rare, so these branches are well predicted (and skip NaN, as Otsu's own range does).
+          if (m < lo) lo = m;
+          if (m > hi) hi = m;
           sPrev = sCur;
           sCur = sNext;
           tPrev = tCur;
@@ -83,7 +99,10 @@ export function gradient(src: Image, operator: GradientOperator, output: Gradien
         }
         const gx = sRight - sPrev;
         const gy = a * (tPrev + tRight) + b * tCur;
-        o[base + last] = Math.sqrt(gx * gx + gy * gy);
+        const m = Math.sqrt(gx * gx + gy * gy);
+        o[base + last] = m;
+        if (m < lo) lo = m;
+        if (m > hi) hi = m;
         break;
       }
       case 'direction': {
@@ -102,6 +121,12 @@ export function gradient(src: Image, operator: GradientOperator, output: Gradien
         break;
       }
     }
+  }
+  if (range) {
+    // float32 rounding is monotonic, so the range of the stored values is the rounded range.
+    const known = output === 'magnitude';
+    range.min = known ? Math.fround(lo) : NaN;
+    range.max = known ? Math.fround(hi) : NaN;
   }
   return dst;
 }

@@ -10,6 +10,12 @@ export interface Image {
 
 export type BitDepth = 8 | 16;
 
+/** Smallest and largest value of an image, NaN samples left out; NaN fields: not known. */
+export interface ValueRange {
+  min: number;
+  max: number;
+}
+
 /** Decoded samples of a photo as the decoder gives them: interleaved channels, 8- or 16-bit. */
 export interface RawPhoto {
   readonly width: number;

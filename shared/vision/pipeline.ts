@@ -6,7 +6,7 @@ import type { BorderMode } from './border';
 import { correlate, type LargeKernelCorrelator } from './convolve';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
-import { channelImage, type BitDepth, type Image, type RawPhoto } from './image';
+import { channelImage, type BitDepth, type Image, type RawPhoto, type ValueRange } from './image';
 import { kernelFromMatrix, type Kernel, type KernelDefinition } from './kernels';
 import { laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
@@ -112,13 +112,15 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
 
   const steps: StepRun[] = [];
   const outputs: (Image | null)[] = [input];
+  // Range of the current image when its step measured it on the way (NaN: not known).
+  const range: ValueRange = { min: NaN, max: NaN };
   let current = input;
   let currentKind: OutputKind = 'intensity';
   rule.steps.forEach((step, i) => {
     const t0 = now();
     const out = take();
     const scratch = step.op === 'open' || step.op === 'close' ? take() : undefined;
-    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options);
+    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options, range);
     if (scratch) spare.push(scratch);
     const ms = now() - t0;
     const kind = outputKind(step, kernels[i], currentKind);
@@ -182,7 +184,10 @@ function applyStep(
   scratch: Image | undefined,
   kernel: Kernel | null,
   options: RunOptions,
+  range: ValueRange,
 ): Image {
+  const known = { min: range.min, max: range.max };
+  range.min = range.max = NaN;
   switch (step.op) {
     case 'kernel':
       return correlate(src, kernel!, border, { out, largeKernelCorrelator: options.largeKernelCorrelator, largeKernelTaps: options.largeKernelTaps });
@@ -193,14 +198,14 @@ function applyStep(
     case 'median':
       return medianFilter(src, step.size, border, out);
     case 'gradient':
-      return gradient(src, step.operator, step.output, border, out);
+      return gradient(src, step.operator, step.output, border, out, range);
     case 'laplacian':
       return laplacian(src, step.neighbours, border, out);
     case 'log':
       return laplacianOfGaussian(src, step.sigma, border, out);
     case 'threshold':
       if (step.method === 'fixed') return thresholdFixed(src, step.value, step.invert, out);
-      if (step.method === 'otsu') return thresholdOtsu(src, step.invert, out).mask;
+      if (step.method === 'otsu') return thresholdOtsu(src, step.invert, out, known).mask;
       return thresholdAdaptiveMean(src, step.size, step.c, border, step.invert, out);
     case 'erode':
     case 'dilate':

@@ -1,7 +1,7 @@
 // Thresholds: every method writes a mask, 1 where the pixel is above its threshold, else 0
 // (inverted on request). Otsu and adaptive mean choose the threshold from the data.
 import type { BorderMode } from './border';
-import { imageLike, type Image } from './image';
+import { imageLike, type Image, type ValueRange } from './image';
 import { boxFilter } from './smoothing';
 
 export const HISTOGRAM_BINS = 256;
@@ -33,10 +33,10 @@ export interface OtsuHistogram {
  * 256 integer levels when every value is an integer in 0–255 (8-bit data), otherwise 256 equal
  * bins over min…max (DESIGN.md, rule format v1).
  */
-export function otsuHistogram(data: Float32Array): OtsuHistogram {
+export function otsuHistogram(data: Float32Array, known?: ValueRange): OtsuHistogram {
   const n = data.length;
   const integral = allIntegers(data);
-  const [min, max] = valueRange(data);
+  const [min, max] = known && isKnown(known) ? [known.min, known.max] : valueRange(data);
   const flat = !(max > min);
   const eightBit = integral && min >= 0 && max <= 255;
   const origin = eightBit ? 0 : min;
@@ -48,6 +48,10 @@ export function otsuHistogram(data: Float32Array): OtsuHistogram {
     countBins(data, origin, binsPerUnit, counts);
   }
   return { counts, origin, binsPerUnit, flat, integerLevels: eightBit };
+}
+
+function isKnown(range: ValueRange): boolean {
+  return !Number.isNaN(range.min) && !Number.isNaN(range.max);
 }
 
 /** True when every value is a whole number (checked only until the first fraction). */
@@ -141,12 +145,15 @@ export function otsuBin(counts: ArrayLike<number>): number {
   return best;
 }
 
-/** Otsu's method: mask = 1 where the pixel's bin is above the chosen bin k; a flat image gives an empty mask. */
-export function thresholdOtsu(src: Image, invert = false, out?: Image): { mask: Image; bin: number; threshold: number } {
+/**
+ * Otsu's method: mask = 1 where the pixel's bin is above the chosen bin k; a flat image gives an empty mask.
+ * `range`, when the previous step measured it (see `gradient`), saves a pass over the image.
+ */
+export function thresholdOtsu(src: Image, invert = false, out?: Image, range?: ValueRange): { mask: Image; bin: number; threshold: number } {
   const dst = imageLike(src, out);
   const s = src.data;
   const o = dst.data;
-  const hist = otsuHistogram(s);
+  const hist = otsuHistogram(s, range);
   const k = hist.flat ? -1 : otsuBin(hist.counts);
   const above = invert ? 0 : 1;
   const below = 1 - above;

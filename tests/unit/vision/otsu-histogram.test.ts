@@ -2,6 +2,7 @@
 // the rule format states in plain words (../shared/DESIGN.md, "threshold"): 256 integer levels
 // for 8-bit data, else bin = floor((v − min)·256/(max − min)) with the maximum in bin 255.
 import fc from 'fast-check';
+import { gradient } from '../../../shared/vision/gradient';
 import { imageFromSamples } from '../../../shared/vision/image';
 import { otsuHistogram, thresholdOtsu } from '../../../shared/vision/threshold';
 
@@ -77,4 +78,34 @@ test('float data spanning exactly 256 units keeps its origin when thresholding (
   const { mask, bin } = thresholdOtsu(imageFromSamples(values.length, 1, values));
   const expected = values.map((v) => (Math.min(255, Math.floor(v - 10.5)) > bin ? 1 : 0));
   expect(Array.from(mask.data)).toEqual(expected);
+});
+
+test('the gradient magnitude reports the range Otsu would find itself, and Otsu gives the same mask with it', () => {
+  fc.assert(
+    fc.property(
+      fc.integer({ min: 1, max: 40 }).chain((w) =>
+        fc.integer({ min: 1, max: 8 }).chain((h) =>
+          fc.array(fc.double({ min: -500, max: 500, noNaN: true }), { minLength: w * h, maxLength: w * h }).map((v) => imageFromSamples(w, h, v)),
+        ),
+      ),
+      (img) => {
+        const range = { min: NaN, max: NaN };
+        const magnitude = gradient(img, 'sobel', 'magnitude', 'reflect', undefined, range);
+        const values = Array.from(magnitude.data);
+        expect(range.min).toBe(Math.min(...values));
+        expect(range.max).toBe(Math.max(...values));
+        const own = thresholdOtsu(magnitude).mask.data;
+        const told = thresholdOtsu(magnitude, false, undefined, range).mask.data;
+        expect(Array.from(told)).toEqual(Array.from(own));
+      },
+    ),
+    { numRuns: 200 },
+  );
+});
+
+test('outputs other than the magnitude leave the range unknown', () => {
+  const range = { min: 0, max: 1 };
+  gradient(imageFromSamples(3, 3, [1, 2, 3, 4, 5, 6, 7, 8, 9]), 'sobel', 'x', 'reflect', undefined, range);
+  expect(range.min).toBeNaN();
+  expect(range.max).toBeNaN();
 });

@@ -7,7 +7,7 @@ export KW_DB_NAME=kernwright_test_admin
 export KW_PG_EXTRA_OPTS="-c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=200"
 source "$(dirname "$0")/lib.sh"
 
-ensure_debian_packages chromium
+ensure_debian_packages chromium poppler-utils
 ensure_postgres_installed
 ensure_node_modules
 mkdir -p "$KW_DATA_DIR"

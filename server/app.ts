@@ -12,6 +12,7 @@ import { disputeRoutes } from './components/inspections/dispute-routes';
 import { inspectionRoutes } from './components/inspections/routes';
 import { kernelRoutes } from './components/kernels/routes';
 import { previewRoutes } from './components/preview/routes';
+import { recordRoutes } from './components/records/routes';
 import { referenceRoutes } from './components/references/routes';
 import { ruleRoutes } from './components/rules/routes';
 import { stationRoutes } from './components/stations/routes';
@@ -56,6 +57,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/preview', previewRoutes(s.preview));
   api.use('/inspections', inspectionRoutes(s.inspections));
   api.use('/disputes', disputeRoutes(s.inspections));
+  api.use(recordRoutes(s.records));
   api.use(apiNotFound);
   app.use('/api', api);
 

@@ -5,6 +5,7 @@ import { CatalogueService } from './components/catalogue/service';
 import { InspectionsService } from './components/inspections/service';
 import { KernelsService } from './components/kernels/service';
 import { PreviewService } from './components/preview/service';
+import { RecordsService } from './components/records/service';
 import { ReferencesService } from './components/references/service';
 import { RulesService } from './components/rules/service';
 import { StationsService } from './components/stations/service';
@@ -33,6 +34,8 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
   const signer = new ImageUrlSigner(config.jwtSecret);
   const kernels = new KernelsService(dataSource, audit);
   const rules = new RulesService(dataSource, audit, kernels);
+  const trials = new TrialsService(dataSource, store, signer, audit, pool, jobs);
+  const inspections = new InspectionsService(dataSource, store, signer, audit, pool);
   return {
     dataSource,
     audit,
@@ -46,8 +49,9 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     references: new ReferencesService(dataSource, store, signer, audit),
     rules,
     preview: new PreviewService(dataSource, store, rules, pool),
-    trials: new TrialsService(dataSource, store, signer, audit, pool, jobs),
-    inspections: new InspectionsService(dataSource, store, signer, audit, pool),
+    trials,
+    inspections,
+    records: new RecordsService(dataSource, store, audit, inspections, rules, trials),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -52,6 +52,12 @@ function toAppError(err: unknown): AppError | null {
 }
 
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  if (res.headersSent) {
+    // A streamed answer (an export) failed midway: cut it off so the client sees an incomplete download.
+    req.log?.error({ err }, 'error after the answer had started');
+    res.destroy(err instanceof Error ? err : undefined);
+    return;
+  }
   const known = toAppError(err);
   if (!known) {
     req.log?.error({ err }, 'unhandled error');

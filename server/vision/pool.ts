@@ -17,7 +17,15 @@ export interface VisionPoolOptions {
 export interface PoolRunOptions {
   mmPerPx?: number;
   retain?: RunOptions['retain'];
+  /**
+   * Move the photo's samples to the worker instead of copying them: the caller gives the photo up
+   * (its samples are empty afterwards). Only a photo that owns its whole buffer is moved.
+   */
+  transferPhoto?: boolean;
 }
+
+/** Spare image buffers kept for the workers at most (20 MB each at 5 MP). */
+const MAX_RETURNED_BUFFERS = 8;
 
 function workerSetup(): { filename: string; execArgv: string[]; env: NodeJS.ProcessEnv } {
   const fromSource = __filename.endsWith('.ts');
@@ -30,9 +38,16 @@ function workerSetup(): { filename: string; execArgv: string[]; env: NodeJS.Proc
   };
 }
 
+/** True when the array is the whole of its buffer (moving the buffer moves nothing else). */
+function ownsWholeBuffer(array: ArrayBufferView): boolean {
+  return array.byteOffset === 0 && array.byteLength === array.buffer.byteLength && !(array.buffer instanceof SharedArrayBuffer);
+}
+
 export class VisionPool {
   private readonly piscina: Piscina;
   private readonly kernels: PipelineTask['kernels'];
+  /** Buffers of released runs, sent along with the next task so that a worker reuses them. */
+  private returned: Float32Array[] = [];
 
   constructor(options: VisionPoolOptions) {
     const threads = options.threads ?? Math.max(1, os.availableParallelism?.() ?? os.cpus().length);
@@ -54,10 +69,28 @@ export class VisionPool {
 
   /** Runs a rule on a photo in a worker; rejects with RuleRunError for a rule that cannot run. */
   async run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<RuleRun> {
-    const task: PipelineTask = { rule, photo, kernels: this.kernels, mmPerPx: options.mmPerPx, retain: options.retain };
-    const result = (await this.piscina.run(task)) as PipelineTaskResult;
+    const spare = this.returned;
+    this.returned = [];
+    const task: PipelineTask = { rule, photo, kernels: this.kernels, mmPerPx: options.mmPerPx, retain: options.retain, spare };
+    const transferList: ArrayBuffer[] = spare.map((b) => b.buffer as ArrayBuffer);
+    if (options.transferPhoto && ownsWholeBuffer(photo.samples)) transferList.push(photo.samples.buffer as ArrayBuffer);
+    const result = (await this.piscina.run(task, { transferList })) as PipelineTaskResult;
     if (!result.ok) throw new RuleRunError(result.error.code, result.error.message, result.error.issues);
     return result.run;
+  }
+
+  /**
+   * Hands a finished run's image buffers back (input and retained step outputs); they travel with
+   * the next task to a worker, which computes into them instead of allocating. The run must not be
+   * used afterwards.
+   */
+  release(run: RuleRun): void {
+    const images = [run.input, ...run.steps.flatMap((s) => (s.output ? [s.output] : []))];
+    for (const image of images) {
+      const data = image.data;
+      if (this.returned.length >= MAX_RETURNED_BUFFERS) break;
+      if (data.length > 0 && ownsWholeBuffer(data) && !this.returned.includes(data)) this.returned.push(data);
+    }
   }
 
   async destroy(): Promise<void> {

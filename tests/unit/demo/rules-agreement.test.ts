@@ -6,17 +6,9 @@
  * (correct verdicts) / (all photos), here over three classes PASS/good, FAIL/defective, RETAKE/retake.
  */
 import { FAMILY_NAMES, type FamilyName } from '../../../server/demo';
-import { DEMO_RULES, releasedDemoRules } from '../../../server/seed/rules';
-import {
-  agreement,
-  countVerdict,
-  emptyConfusionMatrix,
-  formatConfusionMatrix,
-  totalCount,
-  type ConfusionMatrix,
-} from '../../../server/seed/rules/agreement';
-import { judgeDemoPhotos } from '../../../server/seed/rules/judge-demo-photos';
-import { loadKernelLibrary } from '../../../server/vision/kernel-library';
+import { DEMO_RULES } from '../../../server/seed/rules';
+import { agreement, formatConfusionMatrix, totalCount, type ConfusionMatrix } from '../../../server/seed/rules/agreement';
+import { runInNode } from '../../support/in-node';
 import { validateRuleDocument } from '../../../shared/rules/schema';
 
 const FRESH_SEED = 4242;
@@ -24,25 +16,12 @@ const PHOTOS_PER_FAMILY = 45;
 /** The agreement issue 4 asks of the released demo rules. */
 const REQUIRED_AGREEMENT = 0.95;
 
-const matrices = new Map<FamilyName, ConfusionMatrix>(FAMILY_NAMES.map((family) => [family, emptyConfusionMatrix()]));
+const matrices = new Map<FamilyName, ConfusionMatrix>();
 
 beforeAll(async () => {
-  const kernels = await loadKernelLibrary();
-  const options = {
-    count: PHOTOS_PER_FAMILY * FAMILY_NAMES.length,
-    seed: FRESH_SEED,
-    sizes: [
-      { width: 640, height: 480 },
-      { width: 1296, height: 972 },
-    ],
-    // The released limits are in 8-bit grey levels (the demo stations' cameras); a 16-bit photo's focus and
-    // mean are 257 and 257² times larger, so it needs a rule version of its own.
-    sixteenBitShare: 0,
-  };
-  for await (const { truth, run } of judgeDemoPhotos(releasedDemoRules(), options, kernels)) {
-    countVerdict(matrices.get(truth.family)!, truth.label, run.verdict);
-  }
-}, 1_200_000);
+  const result = await runInNode<Record<FamilyName, ConfusionMatrix>>('tests/support/demo-agreement.ts', 'confusionOnFreshSet', [FRESH_SEED, PHOTOS_PER_FAMILY]);
+  for (const family of FAMILY_NAMES) matrices.set(family, result[family]);
+}, 900_000);
 
 describe('the demo plant rules', () => {
   it.each(FAMILY_NAMES)('every %s rule version is a valid kernwright-rule/1 document', (family) => {

@@ -43,6 +43,24 @@ export function spanPixelCount(spans: RowSpans): number {
   return n;
 }
 
+/** Share of the region's pixels that are not 0 (NaN for an empty region). */
+function nonZeroShare(image: Image, spans: RowSpans): number {
+  const w = image.width;
+  // Float32 bit patterns: a value is non-zero (NaN included) exactly when a bit other than the sign is set.
+  const bits = new Int32Array(image.data.buffer, image.data.byteOffset, image.data.length);
+  let n = 0;
+  let set = 0;
+  for (let y = 0; y < spans.start.length; y++) {
+    const row = y * w;
+    const start = spans.start[y];
+    const end = spans.end[y];
+    if (end <= start) continue;
+    n += end - start;
+    for (let p = row + start; p < row + end; p++) set += -(bits[p] & 0x7fffffff) >>> 31;
+  }
+  return n === 0 ? NaN : set / n;
+}
+
 /** The measure in pixel units (px, px²) or unitless; NaN for statistics of an empty region. */
 export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpans): number {
   const { width: w, data } = image;
@@ -59,11 +77,12 @@ export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpa
       for (const b of blobs) if (b.area > largest.area) largest = b;
       return Math.max(largest.maxX - largest.minX + 1, largest.maxY - largest.minY + 1);
     }
+    case 'edge-fraction':
+      return nonZeroShare(image, spans);
     default:
       break;
   }
   let n = 0;
-  let set = 0;
   let sum = 0;
   let min = Infinity;
   let max = -Infinity;
@@ -72,7 +91,6 @@ export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpa
     for (let x = spans.start[y]; x < spans.end[y]; x++) {
       const v = data[row + x];
       n++;
-      if (v !== 0) set++;
       sum += v;
       if (v < min) min = v;
       if (v > max) max = v;
@@ -80,8 +98,6 @@ export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpa
   }
   if (n === 0) return NaN;
   switch (measure) {
-    case 'edge-fraction':
-      return set / n;
     case 'mean':
       return sum / n;
     case 'min':

@@ -74,7 +74,11 @@ export function channelImage(photo: RawPhoto, channel: InputChannel, out?: Image
   }
   const dst = imageLike(photo, out);
   const data = dst.data;
-  if (channels <= 2) {
+  if (channels === 1) {
+    data.set(samples);
+    return dst;
+  }
+  if (channels === 2) {
     for (let p = 0, s = 0; p < pixels; p++, s += channels) data[p] = samples[s];
     return dst;
   }

@@ -49,20 +49,22 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
     const last = data[up + w - 1] + data[down + w - 1] + 2 * data[c + w - 2] - 4 * data[c + w - 1];
     lapSum += first + last;
     lapSquares += first * first + last * last;
-    let left = data[c];
+    const v0 = data[c];
+    const vLast = data[c + w - 1];
+    sum += v0 + vLast;
+    clipped += (v0 >= top ? 1 : 0) + (vLast >= top ? 1 : 0);
+    // Inner columns: the Laplacian and the centre's own sums from the same loads.
+    let left = v0;
     let centre = data[c + 1];
     for (let x = 1; x < w - 1; x++) {
       const right = data[c + x + 1];
       const lap = data[up + x] + data[down + x] + left + right - 4 * centre;
       lapSum += lap;
       lapSquares += lap * lap;
+      sum += centre;
+      clipped += centre >= top ? 1 : 0;
       left = centre;
       centre = right;
-    }
-    for (let x = 0; x < w; x++) {
-      const v = data[c + x];
-      sum += v;
-      clipped += v >= top ? 1 : 0;
     }
   }
   const lapMean = lapSum / n;

@@ -1,5 +1,10 @@
-import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+import { AreaGate } from '../../../components/AreaGate';
+import { RulesList } from '../../../components/rules/RulesList';
 
 export default function RulesRoute() {
-  return <AreaEmptyScreen area="rules" />;
+  return (
+    <AreaGate area="rules">
+      <RulesList />
+    </AreaGate>
+  );
 }

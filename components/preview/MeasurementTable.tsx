@@ -1,0 +1,50 @@
+// Gauge values against their limits: the word and a symbol say within or outside, never colour alone.
+import { StyleSheet, View } from 'react-native';
+import type { Limits } from '../../shared/rules/schema';
+import { colors, space } from '../../lib/theme';
+import { formatValue } from '../../hooks/usePreview';
+import { AppText } from '../AppText';
+
+export interface ShownMeasurement {
+  name: string;
+  value: number;
+  unit: string | null;
+  limits: Limits;
+  pass: boolean;
+}
+
+const UNIT_TEXT: Record<string, string> = { px: 'px', px2: 'px²', mm: 'mm', mm2: 'mm²' };
+
+export function describeLimits(limits: Limits, unit: string | null): string {
+  const u = unit ? ` ${UNIT_TEXT[unit] ?? unit}` : '';
+  if (limits.min !== undefined && limits.max !== undefined) return `${limits.min} to ${limits.max}${u}`;
+  if (limits.max !== undefined) return `at most ${limits.max}${u}`;
+  return `at least ${limits.min}${u}`;
+}
+
+export function MeasurementTable({ measurements }: { measurements: ShownMeasurement[] }) {
+  if (measurements.length === 0) return <AppText tone="muted">No gauges: add one to judge the photo.</AppText>;
+  return (
+    <View role="table" accessibilityLabel="Gauge values" style={styles.table}>
+      {measurements.map((m) => (
+        <View role="row" key={m.name} style={styles.row}>
+          <AppText role="cell" variant="bodyStrong" style={styles.name}>{m.name}</AppText>
+          <AppText role="cell" style={styles.value}>{`${formatValue(m.value)}${m.unit ? ` ${UNIT_TEXT[m.unit] ?? m.unit}` : ''}`}</AppText>
+          <AppText role="cell" tone="muted" style={styles.limits}>{describeLimits(m.limits, m.unit)}</AppText>
+          <AppText role="cell" variant="label" tone={m.pass ? 'notice' : 'danger'} style={styles.outcome}>
+            {m.pass ? '✓ within limits' : '✕ outside limits'}
+          </AppText>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  table: { gap: space.xxs },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, paddingVertical: space.xs, borderBottomWidth: 1, borderBottomColor: colors.line },
+  name: { flexBasis: 160, flexGrow: 1 },
+  value: { flexBasis: 100 },
+  limits: { flexBasis: 120 },
+  outcome: { flexBasis: 120 },
+});

@@ -1,0 +1,72 @@
+// A new rule: name, part type and the smallest defect it must catch; it starts from a simple pipeline.
+import { useState } from 'react';
+import { ApiError } from '../../lib/api';
+import { fieldErrorsFrom, type FieldErrors } from '../../lib/formErrors';
+import { useCreateRule } from '../../hooks/useRules';
+import { usePartTypes } from '../../hooks/useReferenceSets';
+import type { RuleDetail } from '../../shared/api/rules';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { ChoiceChips } from '../ChoiceChips';
+import { Dialog } from '../Dialog';
+import { ErrorBanner } from '../ErrorBanner';
+import { TextField } from '../TextField';
+import { ErrorState, LoadingState } from '../StateViews';
+import { startingDocument } from './ruleEditorState';
+
+export function CreateRuleDialog({ onClose, onCreated }: { onClose: () => void; onCreated: (rule: RuleDetail) => void }) {
+  const partTypes = usePartTypes();
+  const create = useCreateRule();
+  const [name, setName] = useState('');
+  const [partType, setPartType] = useState<string | null>(null);
+  const [smallest, setSmallest] = useState('');
+  const [errors, setErrors] = useState<FieldErrors>({});
+
+  const submit = () => {
+    const local: FieldErrors = {};
+    if (!name.trim()) local.name = 'Enter a name';
+    if (!partType) local.partType = 'Choose the part type';
+    const mm = smallest.trim() === '' ? null : Number(smallest.replace(',', '.'));
+    if (mm !== null && !(mm > 0)) local.smallestDefectMm = 'Enter a size in mm above 0, or leave it empty';
+    setErrors(local);
+    if (Object.keys(local).length > 0) return;
+    create.mutate(
+      { name: name.trim(), partType: partType!, smallestDefectMm: mm, document: startingDocument(name.trim()) },
+      { onSuccess: onCreated, onError: (error) => setErrors(error instanceof ApiError ? fieldErrorsFrom(error.fieldIssues) : {}) },
+    );
+  };
+
+  return (
+    <Dialog
+      visible
+      title="New rule"
+      onClose={onClose}
+      actions={
+        <>
+          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={create.isPending} />
+          <Button label="Create rule" onPress={submit} busy={create.isPending} />
+        </>
+      }
+    >
+      {create.error && Object.keys(errors).length === 0 ? <ErrorBanner error={create.error} /> : null}
+      <TextField label="Rule name" value={name} onChangeText={setName} error={errors.name} hint="What it checks, e.g. “Washer rim burr”." />
+      {partTypes.isError ? (
+        <ErrorState error={partTypes.error} onRetry={() => void partTypes.refetch()} />
+      ) : !partTypes.data ? (
+        <LoadingState label="Loading part types…" />
+      ) : (
+        <ChoiceChips label="Part type" choices={partTypes.data.map((p) => ({ value: p.code, label: p.name }))} value={partType ?? ''} onChange={setPartType} />
+      )}
+      {errors.partType ? <AppText tone="danger" variant="caption">{`⚠ ${errors.partType}`}</AppText> : null}
+      <TextField
+        label="Smallest defect to catch (mm, optional)"
+        hint="Used to check that a station’s camera can see it (at least 3 pixels across)."
+        value={smallest}
+        onChangeText={setSmallest}
+        inputMode="decimal"
+        error={errors.smallestDefectMm}
+      />
+      <AppText variant="caption" tone="muted">The rule starts as a draft with a simple pipeline: Gaussian smoothing, Sobel gradient magnitude, Otsu threshold and an opening, with one gauge. Change it in the editor.</AppText>
+    </Dialog>
+  );
+}

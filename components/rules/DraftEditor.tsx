@@ -1,0 +1,190 @@
+// The open draft of a rule: pipeline, gauges and quality gate on one side, the live preview on the
+// other (below on a phone), trials and submission underneath. Saves through the server, which names
+// every problem by its path; the same schema marks problems here as they are typed.
+import { useCallback, useMemo, useReducer, useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import type { RuleDetail, RuleVersion } from '../../shared/api/rules';
+import type { FieldIssue } from '../../shared/api/errors';
+import { validateRuleDocument, type Region } from '../../shared/rules/schema';
+import { ApiError } from '../../lib/api';
+import { colors, radius, space } from '../../lib/theme';
+import { useKernels } from '../../hooks/useKernels';
+import { useLayout } from '../../hooks/useLayout';
+import { useSaveDraft } from '../../hooks/useRules';
+import { useLines } from '../../hooks/useStations';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { Card } from '../Card';
+import { ErrorBanner } from '../ErrorBanner';
+import { PreviewPanel, type PreviewTarget } from '../preview/PreviewPanel';
+import { TrialPanel } from '../trials/TrialPanel';
+import { GaugeEditor } from './GaugeEditor';
+import { PipelineEditor } from './PipelineEditor';
+import { QualityGateEditor } from './QualityGateEditor';
+import { documentFrom, editorReducer, editorStateFrom, issuesByKey, type EditorAction } from './ruleEditorState';
+
+interface DraftEditorProps {
+  rule: RuleDetail;
+  version: RuleVersion;
+  canEdit: boolean;
+  onSubmitted: () => void;
+}
+
+export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditorProps) {
+  const layout = useLayout();
+  const kernels = useKernels();
+  const lines = useLines();
+  const save = useSaveDraft();
+  const [state, dispatchRaw] = useReducer(editorReducer, version.document, editorStateFrom);
+  const [baseline, setBaseline] = useState(() => JSON.stringify(documentFrom(editorStateFrom(version.document))));
+  const [changedAt, setChangedAt] = useState(0);
+  const [serverIssues, setServerIssues] = useState<FieldIssue[]>([]);
+  const [drawingKey, setDrawingKey] = useState<string | null>(null);
+  const [stationId, setStationId] = useState<string | null>(null);
+  const [target, setTarget] = useState<PreviewTarget>({ setId: null, imageId: null });
+  const [notice, setNotice] = useState<string | null>(null);
+
+  const dispatch = useCallback((action: EditorAction) => {
+    // The moment of the change, from which the preview's update time is measured.
+    setChangedAt(performance.now());
+    setNotice(null);
+    dispatchRaw(action);
+  }, []);
+
+  const document = useMemo(() => documentFrom(state), [state]);
+  const documentText = JSON.stringify(document);
+  const unsaved = documentText !== baseline;
+  const localIssues = useMemo(() => {
+    const result = validateRuleDocument(document);
+    return result.ok ? [] : result.issues;
+  }, [document]);
+  const { byKey, general } = issuesByKey(state, [...localIssues, ...serverIssues]);
+  const stations = (lines.data ?? []).flatMap((l) => l.stations);
+  const station = stations.find((s) => s.id === stationId) ?? null;
+
+  const drawingGauge = state.gauges.find((g) => g.key === drawingKey);
+  const drawing = drawingGauge?.gauge.region ? { key: drawingGauge.key, shape: drawingGauge.gauge.region.shape } : null;
+  const regions = state.gauges.flatMap((g) => (g.gauge.region ? [{ key: g.key, name: g.gauge.name, region: g.gauge.region }] : []));
+  const onRegionDrawn = (key: string, region: Region) => {
+    const entry = state.gauges.find((g) => g.key === key);
+    if (entry) dispatch({ type: 'change-gauge', key, gauge: { ...entry.gauge, region }, stepKey: entry.stepKey });
+  };
+
+  const saveDraft = () => {
+    setServerIssues([]);
+    save.mutate(
+      { versionId: version.id, document },
+      {
+        onSuccess: (saved) => {
+          setBaseline(JSON.stringify(documentFrom(editorStateFrom(saved.document))));
+          setNotice(`Saved version ${saved.number} at ${new Date(saved.editedAt).toLocaleTimeString()}.`);
+        },
+        onError: (error) => setServerIssues(error instanceof ApiError ? error.fieldIssues : []),
+      },
+    );
+  };
+
+  const editor = (
+    <View style={styles.column}>
+      <Card>
+        <AppText variant="heading">Pipeline</AppText>
+        <AppText variant="caption" tone="muted">Steps run in order; each reads the previous step’s output. Border handling: {state.border}.</AppText>
+        <PipelineEditor steps={state.steps} kernels={kernels.data ?? []} canSaveKernel={canEdit} issues={byKey} dispatch={dispatch} />
+      </Card>
+      <Card>
+        <AppText variant="heading">Gauges and limits</AppText>
+        <GaugeEditor gauges={state.gauges} steps={state.steps} issues={byKey} drawingKey={drawingKey} onDraw={setDrawingKey} dispatch={dispatch} />
+      </Card>
+      <Card>
+        <AppText variant="heading">Photo quality gate</AppText>
+        <AppText variant="caption" tone="muted">A photo below these is judged RETAKE, never PASS.</AppText>
+        <QualityGateEditor quality={state.quality} issues={general} onChange={(quality) => dispatch({ type: 'set-quality', quality })} />
+      </Card>
+    </View>
+  );
+
+  const preview = (
+    <Card style={styles.column}>
+      <AppText variant="heading">Live preview</AppText>
+      <PreviewPanel
+        document={document}
+        changedAt={changedAt}
+        partType={rule.partType}
+        smallestDefectMm={rule.smallestDefectMm}
+        stations={stations}
+        stationId={stationId}
+        onStation={setStationId}
+        target={target}
+        onTarget={setTarget}
+        regions={regions}
+        drawing={drawing}
+        onRegionDrawn={(key, region) => {
+          onRegionDrawn(key, region);
+          setDrawingKey(null);
+        }}
+      />
+    </Card>
+  );
+
+  return (
+    <View style={styles.editor}>
+      <View style={styles.toolbar} role="toolbar" aria-label="Draft">
+        <AppText variant="bodyStrong" style={styles.grow} role="status" aria-live="polite">
+          {unsaved ? `✎ Version ${version.number} (draft) has unsaved changes` : `Version ${version.number} (draft) · saved`}
+        </AppText>
+        <Button label="Save draft" onPress={saveDraft} busy={save.isPending} disabled={!unsaved || !canEdit} accessibilityHint="Stores the draft on the server" />
+      </View>
+      {notice ? <AppText tone="notice" role="status">{`✓ ${notice}`}</AppText> : null}
+      {save.error && serverIssues.length === 0 ? <ErrorBanner error={save.error} /> : null}
+      {serverIssues.length > 0 ? (
+        <AppText tone="danger" accessibilityRole="alert">{`⚠ The server refused the draft: ${serverIssues.length} problem(s), marked beside the steps and gauges below.`}</AppText>
+      ) : null}
+      {general.filter((i) => !i.path.startsWith('quality')).map((issue) => (
+        <AppText key={`${issue.path}-${issue.message}`} tone="danger">{`⚠ ${issue.path}: ${issue.message}`}</AppText>
+      ))}
+      {layout === 'wide' ? (
+        <View style={styles.columns}>
+          <View style={styles.left}>{editor}</View>
+          <View style={styles.right}>{preview}</View>
+        </View>
+      ) : (
+        <>
+          {editor}
+          {preview}
+        </>
+      )}
+      <Card>
+        <AppText variant="heading">Trials and review</AppText>
+        <TrialPanel
+          version={version}
+          partType={rule.partType}
+          stationId={stationId}
+          stationName={station ? `${station.lineName} · ${station.name}` : null}
+          unsaved={unsaved}
+          gauges={state.gauges}
+          onPickLimit={(gaugeName, bound, value) => dispatch({ type: 'set-limit', gaugeName, bound, value })}
+          onOpenInPreview={(setId, imageId) => setTarget({ setId, imageId })}
+          onSubmitted={onSubmitted}
+        />
+      </Card>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  editor: { gap: space.lg },
+  toolbar: {
+    flexDirection: 'row',
+    flexWrap: 'wrap',
+    alignItems: 'center',
+    gap: space.md,
+    padding: space.md,
+    borderRadius: radius.lg,
+    backgroundColor: colors.surfaceSunken,
+  },
+  grow: { flexGrow: 1, flexShrink: 1, flexBasis: 200 },
+  columns: { flexDirection: 'row', gap: space.lg, alignItems: 'flex-start' },
+  left: { flex: 5, minWidth: 0 },
+  right: { flex: 6, minWidth: 0 },
+  column: { gap: space.lg },
+});

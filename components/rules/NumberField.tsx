@@ -1,0 +1,67 @@
+// A number with its unit and range: keeps what is typed, hands on a number only when it reads as one.
+import { useEffect, useState } from 'react';
+import { TextField } from '../TextField';
+import type { NumberSpec } from './stepCatalogue';
+
+interface NumberFieldProps {
+  spec: NumberSpec;
+  value: number | undefined;
+  onChange: (value: number | undefined) => void;
+  /** A problem reported for this field (by the shared schema or the server). */
+  error?: string;
+  /** Empty is allowed (an optional limit). */
+  optional?: boolean;
+  label?: string;
+}
+
+function rangeHint(spec: NumberSpec): string {
+  const parts: string[] = [];
+  if (spec.min > -1e9 && spec.max < 1e9) parts.push(`${spec.min} to ${spec.max}`);
+  if (spec.odd) parts.push('odd');
+  else if (spec.integer) parts.push('whole number');
+  if (spec.unit) parts.push(`in ${spec.unit}`);
+  return parts.join(', ');
+}
+
+export function NumberField({ spec, value, onChange, error, optional = false, label }: NumberFieldProps) {
+  const [text, setText] = useState(value === undefined ? '' : String(value));
+  const [typingError, setTypingError] = useState<string | undefined>();
+
+  useEffect(() => {
+    // Follow changes made elsewhere (a limit picked on the sweep, a duplicated step), not our own typing.
+    setText((previous) => (Number(previous) === value && previous.trim() !== '' ? previous : value === undefined ? '' : String(value)));
+  }, [value]);
+
+  const change = (next: string) => {
+    setText(next);
+    const trimmed = next.trim().replace(',', '.');
+    if (trimmed === '') {
+      if (optional) {
+        setTypingError(undefined);
+        onChange(undefined);
+      } else setTypingError('Enter a number');
+      return;
+    }
+    const parsed = Number(trimmed);
+    if (!Number.isFinite(parsed)) {
+      setTypingError('Enter a number, e.g. 1.5');
+      return;
+    }
+    setTypingError(undefined);
+    onChange(parsed);
+  };
+
+  const name = label ?? spec.label;
+  return (
+    <TextField
+      label={spec.unit && !name.includes(spec.unit) ? `${name} (${spec.unit})` : name}
+      hint={rangeHint(spec) || undefined}
+      value={text}
+      onChangeText={change}
+      error={typingError ?? error}
+      inputMode="decimal"
+      autoCorrect={false}
+      autoCapitalize="none"
+    />
+  );
+}

@@ -1,0 +1,47 @@
+// Submitting a draft for review: the note for the reviewer, and why the server may refuse.
+import { useState } from 'react';
+import { useSubmitForReview } from '../../hooks/useRules';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { Dialog } from '../Dialog';
+import { ErrorBanner } from '../ErrorBanner';
+import { TextField } from '../TextField';
+
+interface SubmitDialogProps {
+  versionId: string;
+  versionNumber: number;
+  /** A reason known beforehand why the server will refuse, or null. */
+  foreseenRefusal: string | null;
+  onClose: () => void;
+  onSubmitted: () => void;
+}
+
+export function SubmitDialog({ versionId, versionNumber, foreseenRefusal, onClose, onSubmitted }: SubmitDialogProps) {
+  const submit = useSubmitForReview();
+  const [note, setNote] = useState('');
+  return (
+    <Dialog
+      visible
+      title={`Submit version ${versionNumber} for review?`}
+      onClose={onClose}
+      actions={
+        <>
+          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={submit.isPending} />
+          <Button label="Submit for review" onPress={() => submit.mutate({ versionId, note }, { onSuccess: onSubmitted })} busy={submit.isPending} />
+        </>
+      }
+    >
+      <AppText>
+        A supervisor will review the rule with its latest trial attached, then release it or send it back. From now on the version cannot be edited; a change needs a new draft.
+      </AppText>
+      {foreseenRefusal ? <AppText tone="caution">{`⚠ ${foreseenRefusal}`}</AppText> : null}
+      <TextField label="Note for the reviewer" hint="What changed and why, and what the trial shows." value={note} onChangeText={setNote} multiline />
+      {submit.error ? (
+        <ErrorBanner
+          error={submit.error}
+          nextStep="A draft goes to review only with a finished trial of exactly its current content: save the draft, run the trial again, then submit."
+        />
+      ) : null}
+    </Dialog>
+  );
+}

@@ -1,0 +1,122 @@
+// The draft editor's live preview: the photo's samples as the server decodes them, the same engine
+// run in the browser after each change (debounced), the time from change to updated preview, and
+// a check of the browser's numbers against the server, which stays the authority.
+import { useEffect, useRef, useState } from 'react';
+import { useMutation, useQuery } from '@tanstack/react-query';
+import type { PreviewResult } from '../shared/api/preview';
+import { ImageWorkspace } from '../shared/vision/workspace';
+import { releaseRun, RuleRunError, runRule, type KernelLibrary, type RuleRun } from '../shared/vision/pipeline';
+import { fetchPhotoSamples, runServerPreview, type PhotoSamples } from '../lib/api';
+
+export const PREVIEW_DEBOUNCE_MS = 150;
+
+export const previewKeys = {
+  all: ['preview'] as const,
+  samples: (imageId: string) => [...previewKeys.all, 'samples', imageId] as const,
+};
+
+export function usePhotoSamples(photo: { id: string; imageUrl: string } | null) {
+  return useQuery({
+    queryKey: previewKeys.samples(photo?.id ?? ''),
+    queryFn: ({ signal }) => fetchPhotoSamples(photo!.imageUrl, signal),
+    enabled: photo !== null,
+    staleTime: Infinity,
+    // A 5 MP photo's samples are 5-30 MB: keep only the ones in use for long.
+    gcTime: 60_000,
+  });
+}
+
+export interface LocalPreview {
+  run: RuleRun | null;
+  error: RuleRunError | Error | null;
+  /** From the change that asked for this run to the updated preview on screen, in ms. */
+  changeToPreviewMs: number | null;
+  running: boolean;
+}
+
+interface LocalPreviewInput {
+  document: unknown;
+  /** performance.now() of the change that produced `document`. */
+  changedAt: number;
+  samples: PhotoSamples | undefined;
+  kernels: KernelLibrary;
+  mmPerPx: number | undefined;
+}
+
+export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx }: LocalPreviewInput): LocalPreview {
+  const workspace = useRef(new ImageWorkspace());
+  const current = useRef<RuleRun | null>(null);
+  const [outcome, setOutcome] = useState<{ run: RuleRun | null; error: RuleRunError | Error | null; askedAt: number }>({ run: null, error: null, askedAt: 0 });
+  const [changeToPreviewMs, setChangeToPreviewMs] = useState<number | null>(null);
+  const [running, setRunning] = useState(false);
+  const documentKey = JSON.stringify(document);
+
+  useEffect(() => {
+    if (!samples) return;
+    setRunning(true);
+    const askedAt = changedAt;
+    const timer = setTimeout(() => {
+      if (current.current) releaseRun(current.current, workspace.current);
+      current.current = null;
+      try {
+        const run = runRule(JSON.parse(documentKey), samples, { kernels, mmPerPx, workspace: workspace.current, retain: 'all' });
+        current.current = run;
+        setOutcome({ run, error: null, askedAt });
+      } catch (error) {
+        setOutcome({ run: null, error: error instanceof Error ? error : new Error(String(error)), askedAt });
+      }
+      setRunning(false);
+    }, PREVIEW_DEBOUNCE_MS);
+    return () => clearTimeout(timer);
+  }, [documentKey, samples, kernels, mmPerPx, changedAt]);
+
+  // Child canvases draw in their own effects, which run before this one; the next frame is when the picture is on screen.
+  useEffect(() => {
+    if (!outcome.run || outcome.askedAt === 0) return;
+    const frame = requestAnimationFrame(() => setChangeToPreviewMs(performance.now() - outcome.askedAt));
+    return () => cancelAnimationFrame(frame);
+  }, [outcome]);
+
+  return { run: outcome.run, error: outcome.error, changeToPreviewMs, running };
+}
+
+export interface ServerComparison {
+  agrees: boolean;
+  lines: string[];
+}
+
+/** Relative tolerance for float32 sums computed in a different order (browser vs worker thread). */
+const RELATIVE_TOLERANCE = 1e-4;
+
+function close(a: number, b: number): boolean {
+  return Math.abs(a - b) <= RELATIVE_TOLERANCE * Math.max(1, Math.abs(a), Math.abs(b));
+}
+
+export function compareWithServer(run: RuleRun, server: PreviewResult): ServerComparison {
+  const lines: string[] = [];
+  let agrees = run.verdict === server.verdict;
+  lines.push(run.verdict === server.verdict ? `Verdict: both ${server.verdict}` : `Verdict: browser ${run.verdict}, server ${server.verdict}`);
+  for (const m of run.measurements) {
+    const other = server.measurements.find((s) => s.name === m.name);
+    if (!other) {
+      agrees = false;
+      lines.push(`${m.name}: the server did not measure it`);
+    } else if (close(m.value, other.value)) {
+      lines.push(`${m.name}: both ${formatValue(m.value)}`);
+    } else {
+      agrees = false;
+      lines.push(`${m.name}: browser ${formatValue(m.value)}, server ${formatValue(other.value)}`);
+    }
+  }
+  return { agrees, lines };
+}
+
+export function formatValue(value: number): string {
+  if (Number.isInteger(value)) return String(value);
+  const magnitude = Math.abs(value);
+  return magnitude >= 100 ? value.toFixed(1) : magnitude >= 1 ? value.toFixed(3) : value.toPrecision(3);
+}
+
+export function useServerPreview() {
+  return useMutation({ mutationFn: (body: { document: unknown; referenceImageId: string; stationId?: string }) => runServerPreview(body) });
+}

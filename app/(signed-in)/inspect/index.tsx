@@ -1,5 +1,10 @@
-import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+import { AreaGate } from '../../../components/AreaGate';
+import { InspectScreen } from '../../../components/inspect/InspectScreen';
 
 export default function InspectRoute() {
-  return <AreaEmptyScreen area="inspect" />;
+  return (
+    <AreaGate area="inspect">
+      <InspectScreen />
+    </AreaGate>
+  );
 }

@@ -46,7 +46,8 @@ function isSymmetric(w: ArrayLike<number>): boolean {
  * Correlation with column ⊗ row, streaming one row at a time: the vertical pass writes one
  * row (padded on both sides by the border policy), the horizontal pass reads it. No temporary image.
  * Symmetric kernels up to radius 3 (Gaussians up to σ = 1, the derivative smoothings) run unrolled,
- * two output rows per vertical pass so that each source sample is loaded once for both.
+ * two output rows per vertical pass (four at radius 3, the Gaussian of σ = 1) so that each source
+ * sample is loaded once for all of them.
  */
 export function correlateSeparable(
   src: Image,
@@ -68,11 +69,22 @@ export function correlateSeparable(
   const col = Float64Array.from(column);
   const krow = Float64Array.from(row);
   const zeros = new Float32Array(w);
-  const rows: Float32Array[] = new Array(column.length + 1);
+  const rows: Float32Array[] = new Array(Math.max(10, column.length + 1));
   const verticalUnrolled = isSymmetric(col) && ry <= 3;
   const horizontalUnrolled = isSymmetric(krow) && rx <= 3;
 
+  const lines = [line, nextLine, new Float64Array(w + 2 * rx), new Float64Array(w + 2 * rx)];
   for (let y = 0; y < h; y++) {
+    if (verticalUnrolled && ry === 3 && y + 3 < h) {
+      for (let j = 0; j < 10; j++) {
+        const off = rowOffsets[y + j];
+        rows[j] = off === OUTSIDE ? zeros : data.subarray(off, off + w);
+      }
+      verticalRadius3Quad(rows, col, w, lines, rx);
+      for (let q = 0; q < 4; q++) horizontalPass(lines[q], krow, rx, w, colTable, horizontalUnrolled, o, (y + q) * w, offset);
+      y += 3;
+      continue;
+    }
     const pair = verticalUnrolled && y + 1 < h;
     const count = pair ? col.length + 1 : col.length;
     for (let j = 0; j < count; j++) {
@@ -148,6 +160,23 @@ function verticalSymmetricPair(rows: Float32Array[], k: Float64Array, r: number,
       line[pad + x] = k0 * v3 + k1 * (v2 + v4) + k2 * (v1 + v5) + k3 * (v0 + v6);
       next[pad + x] = k0 * v4 + k1 * (v3 + v5) + k2 * (v2 + v6) + k3 * (v1 + v7);
     }
+  }
+}
+
+/** Output rows y … y+3 of a symmetric 7-tap column from source rows y−3 … y+6 (rows[0 … 9]): 2.5 loads per output. */
+function verticalRadius3Quad(rows: Float32Array[], k: Float64Array, w: number, lines: Float64Array[], pad: number): void {
+  const k0 = k[3], k1 = k[4], k2 = k[5], k3 = k[6];
+  const r0 = rows[0], r1 = rows[1], r2 = rows[2], r3 = rows[3], r4 = rows[4];
+  const r5 = rows[5], r6 = rows[6], r7 = rows[7], r8 = rows[8], r9 = rows[9];
+  const l0 = lines[0], l1 = lines[1], l2 = lines[2], l3 = lines[3];
+  for (let x = 0; x < w; x++) {
+    const v0 = r0[x], v1 = r1[x], v2 = r2[x], v3 = r3[x], v4 = r4[x];
+    const v5 = r5[x], v6 = r6[x], v7 = r7[x], v8 = r8[x], v9 = r9[x];
+    const i = pad + x;
+    l0[i] = k0 * v3 + k1 * (v2 + v4) + k2 * (v1 + v5) + k3 * (v0 + v6);
+    l1[i] = k0 * v4 + k1 * (v3 + v5) + k2 * (v2 + v6) + k3 * (v1 + v7);
+    l2[i] = k0 * v5 + k1 * (v4 + v6) + k2 * (v3 + v7) + k3 * (v2 + v8);
+    l3[i] = k0 * v6 + k1 * (v5 + v7) + k2 * (v4 + v8) + k3 * (v3 + v9);
   }
 }
 

@@ -1,6 +1,7 @@
 // Three projects: pure computations, the HTTP API on a real PostgreSQL, and the built app in headless Chromium.
 const tsTransform = { '^.+\\.tsx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }] };
-const common = { testEnvironment: 'node', transform: tsTransform, moduleFileExtensions: ['ts', 'tsx', 'js', 'json'] };
+// Hooks and tests get 60 s: set-up copies a database, and the machine may be busy.
+const common = { testEnvironment: 'node', transform: tsTransform, moduleFileExtensions: ['ts', 'tsx', 'js', 'json'], testTimeout: 60_000 };
 
 module.exports = {
   projects: [

@@ -18,4 +18,4 @@ npm run -s typecheck
 build_web
 log "running the tests"
 export KW_TEST_DATABASE_URL="postgres://postgres@127.0.0.1:$KW_PG_PORT"
-npx jest --ci "$@"
+npx jest --ci --maxWorkers=2 "$@"

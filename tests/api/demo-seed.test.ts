@@ -1,10 +1,11 @@
 // The demo plant seed (issue 4): through the app's own services, idempotent, rules tried and released
 // by two people, history made by running the released rules.
-import { seedDemoPlant } from '../../server/seed/demo-plant';
-import { seedDemoUsers } from '../../server/seed/demo-users';
 import { createTestApp, type TestApp } from '../support/app';
+import { runInNode } from '../support/in-node';
 
-jest.setTimeout(240_000);
+jest.setTimeout(600_000);
+const OPTIONS = { referencePhotos: 9, historyDays: 2, perStationPerDay: 3 };
+const seed = () => runInNode<{ seconds: number }>('tests/support/seed-in-node.ts', 'seedPlantInto', [t.db.url, t.config.imageDir, OPTIONS]);
 
 let t: TestApp;
 const counts = async () =>
@@ -19,9 +20,8 @@ const counts = async () =>
 
 beforeAll(async () => {
   t = await createTestApp();
-  await seedDemoUsers(t.db.dataSource);
-  await seedDemoPlant(t.services, { referencePhotos: 9, historyDays: 2, perStationPerDay: 3 });
-});
+  await seed();
+}, 600_000);
 afterAll(() => t.close());
 
 test('the plant has two lines and four calibrated stations', async () => {
@@ -68,6 +68,6 @@ test('the history was made by running the released rules: every inspection has i
 
 test('seeding again changes nothing', async () => {
   const before = await counts();
-  await seedDemoPlant(t.services, { referencePhotos: 9, historyDays: 2, perStationPerDay: 3 });
+  await seed();
   expect(await counts()).toEqual(before);
 });

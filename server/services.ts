@@ -51,7 +51,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     preview: new PreviewService(dataSource, store, rules, pool),
     trials,
     inspections,
-    records: new RecordsService(dataSource, store, audit, inspections, rules, trials),
+    records: new RecordsService(dataSource, store, audit, inspections, rules, trials, kernels),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -5,6 +5,7 @@ import type { RuleVersion } from '../../../shared/api/rules';
 import { SIGNATURE_MEANING_LABELS } from '../../../shared/api/rules';
 import type { Trial } from '../../../shared/api/trials';
 import type { RuleDocument } from '../../../shared/rules/schema';
+import type { KernelLibrary } from '../../../shared/vision/pipeline';
 
 const SAFETY =
   'A verdict is a decision aid validated on the rule’s reference set. Released limits must follow the part’s drawing and the ' +
@@ -72,16 +73,16 @@ export async function inspectionReport(inspection: Inspection, version: RuleVers
   const q = inspection.quality as { focus?: number; clipped?: number; mean?: number };
   doc.text(`focus ${q.focus?.toFixed(1) ?? '?'}, clipped share ${q.clipped !== undefined ? (q.clipped * 100).toFixed(2) + ' %' : '?'}, mean ${q.mean?.toFixed(1) ?? '?'}`);
   signatures(doc, version);
+  doc.moveDown().fontSize(8).fillColor('#555').text(SAFETY).fillColor('black').fontSize(10);
 
   doc.addPage();
   heading(doc, 'Photo');
-  doc.image(await printable(photo), { fit: [495, 330] });
+  doc.image(await printable(photo), { fit: [495, 310] });
   if (evidence) {
     doc.moveDown(0.5);
     heading(doc, 'Evidence (failing regions and blobs outlined)');
-    doc.image(await printable(evidence), { fit: [495, 330] });
+    doc.image(await printable(evidence), { fit: [495, 310] });
   }
-  doc.moveDown().fontSize(8).fillColor('#555').text(SAFETY);
   return collect(doc);
 }
 
@@ -96,7 +97,7 @@ function stepText(step: RuleDocument['steps'][number]): string {
 }
 
 /** One rule version: steps, kernels, gauges and limits, trial summary, signatures. */
-export async function ruleVersionReport(version: RuleVersion, trial: Trial | null): Promise<Buffer> {
+export async function ruleVersionReport(version: RuleVersion, trial: Trial | null, kernels: KernelLibrary): Promise<Buffer> {
   const doc = newDocument(`${version.ruleName}, version ${version.number}`);
   const rule = version.document as RuleDocument;
   field(doc, 'State', version.state);
@@ -110,9 +111,12 @@ export async function ruleVersionReport(version: RuleVersion, trial: Trial | nul
   heading(doc, 'Steps');
   rule.steps.forEach((step, i) => {
     doc.text(`${i + 1}. ${stepText(step)}`);
-    if (step.op === 'kernel' && 'matrix' in step && step.matrix) {
+    if (step.op === 'kernel') {
+      const named = step.kernel ? kernels.get(step.kernel) : undefined;
+      const matrix = step.matrix ?? named?.matrix;
+      if (named) doc.fontSize(8).fillColor('#555').text(`   ${named.description} Divisor ${named.divisor}, offset ${named.offset}. Source: ${named.source}`).fillColor('black');
       doc.font('Courier').fontSize(8);
-      for (const row of step.matrix) doc.text('   ' + row.map((v) => String(v).padStart(6)).join(' '));
+      for (const row of matrix ?? []) doc.text('   ' + row.map((v) => String(v).padStart(6)).join(' '));
       doc.font('Helvetica').fontSize(10);
     }
   });

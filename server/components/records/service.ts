@@ -10,6 +10,7 @@ import type { AuditService } from '../audit/service';
 import type { UserEntity } from '../auth/entities';
 import { actorOf } from '../auth/service';
 import type { InspectionsService } from '../inspections/service';
+import type { KernelsService } from '../kernels/service';
 import type { RulesService } from '../rules/service';
 import type { TrialsService } from '../trials/service';
 import { inspectionReport, ruleVersionReport } from './pdf';
@@ -42,6 +43,7 @@ export class RecordsService {
     private readonly inspections: InspectionsService,
     private readonly rules: RulesService,
     private readonly trials: TrialsService,
+    private readonly kernels: KernelsService,
   ) {}
 
   /** One page, newest or oldest first, continued by a keyset cursor (stays fast on millions of rows). */
@@ -134,7 +136,7 @@ export class RecordsService {
   async ruleVersionPdf(actor: UserEntity, versionId: string): Promise<Buffer> {
     const version = await this.rules.version(versionId);
     const trialId = version.submittedTrialId ?? (await this.trials.listForVersion(versionId)).find((t) => t.state === 'done')?.id ?? null;
-    const pdf = await ruleVersionReport(version, trialId ? await this.trials.get(trialId) : null);
+    const pdf = await ruleVersionReport(version, trialId ? await this.trials.get(trialId) : null, await this.kernels.library());
     await this.audit.recordAlone({ actor: actorOf(actor), action: 'export.rule-version-pdf', entityType: 'rule-version', entityId: versionId });
     return pdf;
   }

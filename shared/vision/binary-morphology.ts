@@ -8,12 +8,18 @@ import { imageLike, type Image } from './image';
 /** Radius the packed path handles: a shift must stay within the neighbouring word. */
 export const MAX_PACKED_RADIUS = 31;
 
-/** A mask packed row by row: bit i of word k of row y is pixel (32k + i, y). */
-interface PackedMask {
+/** A mask packed row by row: bit i of word k of row y is pixel (32k + i, y); bits past the last column are 0. */
+export interface PackedMask {
   readonly width: number;
   readonly height: number;
   readonly wordsPerRow: number;
   readonly words: Int32Array;
+}
+
+/** An all-zero packed mask of this size, for a step that writes its mask in both forms. */
+export function createPackedMask(width: number, height: number): PackedMask {
+  const wordsPerRow = (width + 31) >>> 5;
+  return { width, height, wordsPerRow, words: new Int32Array(wordsPerRow * height) };
 }
 
 /** Bit pattern of the float32 value 1 (IEEE 754 binary32). */
@@ -152,27 +158,30 @@ function packedExtreme(src: PackedMask, r: number, takeMax: boolean, outside: 0 
  * The step on a 0/1 mask through packed bits, or null when the image holds other values.
  * With reflect and replicate, positions outside the image never change a minimum or maximum over
  * the square (they repeat pixels within reach); constant brings in zeros.
+ * `packed`, when the previous step wrote `src` in packed form too (see `thresholdOtsu`), is used
+ * instead of packing `src` again.
  */
-export function binaryMorphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image): Image | null {
+export function binaryMorphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, packed?: PackedMask): Image | null {
   if (radius < 1 || radius > MAX_PACKED_RADIUS) return null;
-  const packed = packMask(src);
-  if (!packed) return null;
+  const given = packed && packed.width === src.width && packed.height === src.height ? packed : null;
+  const source = given ?? packMask(src);
+  if (!source) return null;
   const erodeOutside: 0 | 1 = border === 'constant' ? 0 : 1;
   const erodeOnce = (m: PackedMask) => packedExtreme(m, radius, false, erodeOutside);
   const dilateOnce = (m: PackedMask) => packedExtreme(m, radius, true, 0);
   let result: PackedMask;
   switch (op) {
     case 'erode':
-      result = erodeOnce(packed);
+      result = erodeOnce(source);
       break;
     case 'dilate':
-      result = dilateOnce(packed);
+      result = dilateOnce(source);
       break;
     case 'open':
-      result = dilateOnce(erodeOnce(packed));
+      result = dilateOnce(erodeOnce(source));
       break;
     case 'close':
-      result = erodeOnce(dilateOnce(packed));
+      result = erodeOnce(dilateOnce(source));
       break;
   }
   const dst = imageLike(src, out);

@@ -5,7 +5,7 @@
 // Masks (every value 0 or 1) go through packed bits (binary-morphology.ts); this file is the
 // path for any other values.
 import type { MorphologyOp } from '../rules/schema';
-import { binaryMorphology } from './binary-morphology';
+import { binaryMorphology, type PackedMask } from './binary-morphology';
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { createImage, imageLike, type Image } from './image';
 
@@ -17,9 +17,12 @@ export function dilate(src: Image, radius: number, border: BorderMode, out?: Ima
   return binaryMorphology(src, 'dilate', radius, border, out) ?? extremeFilter(src, radius, border, true, out);
 }
 
-/** Opening (erode then dilate) removes specks; closing (dilate then erode) fills pinholes. */
-export function morphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, scratch?: Image): Image {
-  return binaryMorphology(src, op, radius, border, out) ?? valueMorphology(src, op, radius, border, out, scratch);
+/**
+ * Opening (erode then dilate) removes specks; closing (dilate then erode) fills pinholes.
+ * `packed`: the same mask already in packed bits, from the step that wrote it.
+ */
+export function morphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, scratch?: Image, packed?: PackedMask): Image {
+  return binaryMorphology(src, op, radius, border, out, packed) ?? valueMorphology(src, op, radius, border, out, scratch);
 }
 
 /** The value path of every operation, for any image (the reference the packed mask path is tested against). */

@@ -2,6 +2,7 @@
 // float32 out), gauges, verdict. Pure computation: kernels of the library come from the caller.
 import type { FieldIssue } from '../api/errors';
 import { validateRuleDocument, type Gauge, type GaugeMeasure, type GaugeUnit, type Limits, type RuleDocument, type Step } from '../rules/schema';
+import { createPackedMask, type PackedMask } from './binary-morphology';
 import type { BorderMode } from './border';
 import { correlate, type LargeKernelCorrelator } from './convolve';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
@@ -112,15 +113,16 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
 
   const steps: StepRun[] = [];
   const outputs: (Image | null)[] = [input];
-  // Range of the current image when its step measured it on the way (NaN: not known).
-  const range: ValueRange = { min: NaN, max: NaN };
+  const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, packedReady: false };
   let current = input;
   let currentKind: OutputKind = 'intensity';
   rule.steps.forEach((step, i) => {
     const t0 = now();
     const out = take();
     const scratch = step.op === 'open' || step.op === 'close' ? take() : undefined;
-    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options, range);
+    const next = rule.steps[i + 1];
+    const packNext = next !== undefined && (next.op === 'erode' || next.op === 'dilate' || next.op === 'open' || next.op === 'close');
+    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options, handover, packNext);
     if (scratch) spare.push(scratch);
     const ms = now() - t0;
     const kind = outputKind(step, kernels[i], currentKind);
@@ -176,6 +178,17 @@ function checkCalibration(rule: RuleDocument, mmPerPx?: number): void {
   if (issues.length > 0) throw new RuleRunError('missing_calibration', issues[0].message, issues);
 }
 
+/**
+ * What a step measured or wrote on the way that the next step would otherwise compute again:
+ * the range of a gradient magnitude (for Otsu), a threshold's mask in packed bits (for morphology).
+ */
+interface Handover {
+  range: ValueRange;
+  packed: PackedMask | null;
+  /** True when `packed` holds the current image. */
+  packedReady: boolean;
+}
+
 function applyStep(
   step: Step,
   src: Image,
@@ -184,10 +197,14 @@ function applyStep(
   scratch: Image | undefined,
   kernel: Kernel | null,
   options: RunOptions,
-  range: ValueRange,
+  handover: Handover,
+  packNext: boolean,
 ): Image {
+  const range = handover.range;
   const known = { min: range.min, max: range.max };
   range.min = range.max = NaN;
+  const packedIn = handover.packedReady && handover.packed ? handover.packed : undefined;
+  handover.packedReady = false;
   switch (step.op) {
     case 'kernel':
       return correlate(src, kernel!, border, { out, largeKernelCorrelator: options.largeKernelCorrelator, largeKernelTaps: options.largeKernelTaps });
@@ -205,13 +222,18 @@ function applyStep(
       return laplacianOfGaussian(src, step.sigma, border, out);
     case 'threshold':
       if (step.method === 'fixed') return thresholdFixed(src, step.value, step.invert, out);
-      if (step.method === 'otsu') return thresholdOtsu(src, step.invert, out, known).mask;
+      if (step.method === 'otsu') {
+        if (!packNext) return thresholdOtsu(src, step.invert, out, known).mask;
+        handover.packed ??= createPackedMask(src.width, src.height);
+        handover.packedReady = true;
+        return thresholdOtsu(src, step.invert, out, known, handover.packed).mask;
+      }
       return thresholdAdaptiveMean(src, step.size, step.c, border, step.invert, out);
     case 'erode':
     case 'dilate':
     case 'open':
     case 'close':
-      return morphology(src, step.op, step.radius, border, out, scratch);
+      return morphology(src, step.op, step.radius, border, out, scratch, packedIn);
   }
 }
 

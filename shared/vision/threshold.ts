@@ -1,6 +1,7 @@
 // Thresholds: every method writes a mask, 1 where the pixel is above its threshold, else 0
 // (inverted on request). Otsu and adaptive mean choose the threshold from the data.
 import type { BorderMode } from './border';
+import type { PackedMask } from './binary-morphology';
 import { imageLike, type Image, type ValueRange } from './image';
 import { boxFilter } from './smoothing';
 
@@ -148,8 +149,15 @@ export function otsuBin(counts: ArrayLike<number>): number {
 /**
  * Otsu's method: mask = 1 where the pixel's bin is above the chosen bin k; a flat image gives an empty mask.
  * `range`, when the previous step measured it (see `gradient`), saves a pass over the image.
+ * `packed` (of the image's size) receives the mask in packed bits as well, for a following morphology step.
  */
-export function thresholdOtsu(src: Image, invert = false, out?: Image, range?: ValueRange): { mask: Image; bin: number; threshold: number } {
+export function thresholdOtsu(
+  src: Image,
+  invert = false,
+  out?: Image,
+  range?: ValueRange,
+  packed?: PackedMask,
+): { mask: Image; bin: number; threshold: number } {
   const dst = imageLike(src, out);
   const s = src.data;
   const o = dst.data;
@@ -157,13 +165,16 @@ export function thresholdOtsu(src: Image, invert = false, out?: Image, range?: V
   const k = hist.flat ? -1 : otsuBin(hist.counts);
   const above = invert ? 0 : 1;
   const below = 1 - above;
+  const bits = packed && packed.width === src.width && packed.height === src.height ? packed : null;
   if (k < 0) {
     o.fill(below);
+    if (bits) fillPacked(bits, below);
     return { mask: dst, bin: -1, threshold: NaN };
   }
   // bin(v) > k  ⇔  (v − origin)·binsPerUnit ≥ k + 1  (the top bin only collects values at max).
   const cut = hist.origin + (k + 1) / hist.binsPerUnit;
-  writeAboveBin(s, hist.origin, hist.binsPerUnit, k, invert, o);
+  if (bits) writeAboveBinPacked(s, hist.origin, hist.binsPerUnit, k, invert, o, bits);
+  else writeAboveBin(s, hist.origin, hist.binsPerUnit, k, invert, o);
   return { mask: dst, bin: k, threshold: hist.integerLevels ? k : cut };
 }
 
@@ -178,6 +189,35 @@ function writeAboveBin(s: Float32Array, origin: number, scale: number, k: number
   for (let p = 0; p < s.length; p++) {
     o[p] = flip ^ (((((s[p] - origin) * scale) | 0) - edge) >>> 31);
   }
+}
+
+/** writeAboveBin, also setting bit i of each word for the pixel's 1 (bits past the last column stay 0). */
+function writeAboveBinPacked(s: Float32Array, origin: number, scale: number, k: number, invert: boolean, o: Float32Array, packed: PackedMask): void {
+  const { width: w, height: h, wordsPerRow, words } = packed;
+  const edge = k + 1;
+  const flip = invert ? 0 : 1;
+  for (let y = 0; y < h; y++) {
+    const row = y * w;
+    for (let word = 0; word < wordsPerRow; word++) {
+      const x0 = row + (word << 5);
+      const n = Math.min(32, w - (word << 5));
+      let acc = 0;
+      for (let i = 0; i < n; i++) {
+        const bit = flip ^ (((((s[x0 + i] - origin) * scale) | 0) - edge) >>> 31);
+        o[x0 + i] = bit;
+        acc |= bit << i;
+      }
+      words[y * wordsPerRow + word] = acc;
+    }
+  }
+}
+
+/** Every pixel set to `value` (0 or 1) in packed form. */
+function fillPacked(packed: PackedMask, value: number): void {
+  const { width: w, wordsPerRow, words } = packed;
+  const lastBits = w - ((wordsPerRow - 1) << 5);
+  const lastWord = value === 0 ? 0 : lastBits === 32 ? -1 : (1 << lastBits) - 1;
+  for (let p = 0; p < words.length; p++) words[p] = value === 0 ? 0 : (p + 1) % wordsPerRow === 0 ? lastWord : -1;
 }
 
 /** mask = in > (mean of the size × size neighbourhood) − c, the neighbourhood using the rule's border. */

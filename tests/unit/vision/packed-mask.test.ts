@@ -1,7 +1,11 @@
 // The packed-bit morphology reads float32 bit patterns; values that are 0 or 1 as numbers but not
 // as the usual patterns (−0) must still count as a mask, and anything else must go the value way.
+import fc from 'fast-check';
+import type { BorderMode, MorphologyOp } from '../../../shared/rules/schema';
+import { createPackedMask } from '../../../shared/vision/binary-morphology';
 import { imageFromSamples } from '../../../shared/vision/image';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
+import { thresholdOtsu } from '../../../shared/vision/threshold';
 
 test('a mask holding −0 is opened like the same mask with +0', () => {
   const values = [1, 1, 1, -0, 1, 1, 1, 1, 0, 1, 1, 1, -0, -0, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 0];
@@ -15,4 +19,39 @@ test('a value just above 1 (same high bits as 1.0) is not taken for a mask pixel
   // Dilation is the maximum over each pixel and its neighbours (replicate edge): 1.0000001 spreads.
   expect(Array.from(morphology(img, 'dilate', 1, 'replicate').data)).toEqual(Array.from(valueMorphology(img, 'dilate', 1, 'replicate').data));
   expect(morphology(img, 'dilate', 1, 'replicate').data[0]).toBeCloseTo(1.0000001, 6);
+});
+
+test('an Otsu mask handed over in packed bits gives the morphology result of the mask itself', () => {
+  fc.assert(
+    fc.property(
+      fc.integer({ min: 1, max: 70 }).chain((w) =>
+        fc.integer({ min: 1, max: 9 }).chain((h) =>
+          fc.array(fc.double({ min: 0, max: 300, noNaN: true }), { minLength: w * h, maxLength: w * h }).map((v) => imageFromSamples(w, h, v)),
+        ),
+      ),
+      fc.boolean(),
+      fc.constantFrom<MorphologyOp>('erode', 'dilate', 'open', 'close'),
+      fc.integer({ min: 1, max: 3 }),
+      fc.constantFrom<BorderMode>('reflect', 'replicate', 'constant'),
+      (img, invert, op, radius, border) => {
+        const packed = createPackedMask(img.width, img.height);
+        const handed = thresholdOtsu(img, invert, undefined, undefined, packed).mask;
+        const plain = thresholdOtsu(img, invert).mask;
+        expect(Array.from(handed.data)).toEqual(Array.from(plain.data));
+        const viaBits = morphology(handed, op, radius, border, undefined, undefined, packed);
+        expect(Array.from(viaBits.data)).toEqual(Array.from(valueMorphology(plain, op, radius, border).data));
+      },
+    ),
+    { numRuns: 300 },
+  );
+});
+
+test('a flat image hands over an all-0 (or, inverted, all-1) packed mask', () => {
+  for (const invert of [false, true]) {
+    const img = imageFromSamples(35, 2, new Array(70).fill(7));
+    const packed = createPackedMask(35, 2);
+    const mask = thresholdOtsu(img, invert, undefined, undefined, packed).mask;
+    const dilated = morphology(mask, 'dilate', 1, 'reflect', undefined, undefined, packed);
+    expect(Array.from(dilated.data)).toEqual(new Array(70).fill(invert ? 1 : 0));
+  }
 });

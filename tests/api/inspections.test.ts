@@ -1,6 +1,6 @@
-import sharp from 'sharp';
 import request from 'supertest';
 import { inspectionSchema } from '../../shared/api/inspections';
+import { spotPhoto, SPOT_RULE } from '../support/photos';
 import { createTestApp, TEST_PASSWORD, type TestApp } from '../support/app';
 
 jest.setTimeout(60_000);
@@ -11,22 +11,8 @@ let stationId: string;
 let releasedId: string;
 let draftId: string;
 
-async function photo(seed: number, defectSide: number, level = 120): Promise<Buffer> {
-  const w = 64;
-  const h = 48;
-  const px = Buffer.alloc(w * h);
-  for (let i = 0; i < px.length; i++) px[i] = level + ((i * 13 + seed * 7) % 5);
-  for (let y = 10; y < 10 + defectSide; y++) for (let x = 20; x < 20 + defectSide; x++) px[y * w + x] = 250;
-  return sharp(px, { raw: { width: w, height: h, channels: 1 } }).png().toBuffer();
-}
-
-const RULE = {
-  format: 'kernwright-rule/1',
-  name: 'Bright spot',
-  quality: { minMean: 60 },
-  steps: [{ op: 'threshold', method: 'fixed', value: 200 }],
-  gauges: [{ name: 'Spot area', measure: 'largest-blob-area', unit: 'mm2', limits: { max: 0.02 } }],
-};
+const photo = spotPhoto;
+const RULE = { ...SPOT_RULE, gauges: [{ ...SPOT_RULE.gauges[0], unit: 'mm2', limits: { max: 0.02 } }] };
 
 beforeAll(async () => {
   t = await createTestApp();

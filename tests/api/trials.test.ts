@@ -1,7 +1,7 @@
-import sharp from 'sharp';
 import request from 'supertest';
 import { trialSchema, sweepSchema } from '../../shared/api/trials';
 import { JobQueue } from '../../server/lib/jobs';
+import { spotPhoto, SPOT_RULE } from '../support/photos';
 import { createTestApp, type TestApp } from '../support/app';
 
 jest.setTimeout(60_000);
@@ -11,23 +11,8 @@ let engineer: { Authorization: string };
 let setId: string;
 let versionId: string;
 
-// A 64×48 grey photo; a defect is a bright square of the given side; "dark" photos fail the quality gate.
-async function photo(seed: number, defectSide: number, level = 120): Promise<Buffer> {
-  const w = 64;
-  const h = 48;
-  const px = Buffer.alloc(w * h, level);
-  for (let i = 0; i < px.length; i++) px[i] = level + ((i * 13 + seed * 7) % 5);
-  for (let y = 10; y < 10 + defectSide; y++) for (let x = 20; x < 20 + defectSide; x++) px[y * w + x] = 250;
-  return sharp(px, { raw: { width: w, height: h, channels: 1 } }).png().toBuffer();
-}
-
-const RULE = {
-  format: 'kernwright-rule/1',
-  name: 'Bright spot',
-  quality: { minMean: 60 },
-  steps: [{ op: 'threshold', method: 'fixed', value: 200 }],
-  gauges: [{ name: 'Spot area', measure: 'largest-blob-area', unit: 'px2', limits: { max: 20 } }],
-};
+const photo = spotPhoto;
+const RULE = SPOT_RULE;
 
 async function upload(files: { name: string; bytes: Buffer }[], label: string) {
   let req = request(t.app).post(`/api/reference-sets/${setId}/images`).set(engineer).field('label', label);

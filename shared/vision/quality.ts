@@ -62,7 +62,7 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
       lapSum += lap;
       lapSquares += lap * lap;
       sum += centre;
-      clipped += centre >= top ? 1 : 0;
+      clipped += +(centre >= top);
       left = centre;
       centre = right;
     }

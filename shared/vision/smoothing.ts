@@ -12,16 +12,35 @@ export function gaussianBlur(src: Image, sigma: number, border: BorderMode, out?
 
 /**
  * Mean of the size × size neighbourhood (divisor always size², border pixels included).
- * Running column sums move down one row at a time; a running row sum moves across.
+ * Running column sums move down one row at a time; running row sums move across, two of them
+ * (even and odd columns) so that each addition waits only on the one two pixels back.
  */
 export function boxFilter(src: Image, size: number, border: BorderMode, out?: Image): Image {
+  return boxPass(src, size, border, imageLike(src, out), null);
+}
+
+/** What the adaptive-mean threshold compares each pixel with: mask = flip ^ (in > mean − c). */
+export interface MeanComparison {
+  readonly c: number;
+  readonly flip: 0 | 1;
+}
+
+/**
+ * mask = in > (mean of the size × size neighbourhood) − c, straight from the box filter's running
+ * sums: the mean (rounded to float32, as the box filter stores it) never goes through memory.
+ */
+export function boxMeanThreshold(src: Image, size: number, border: BorderMode, comparison: MeanComparison, out?: Image): Image {
+  return boxPass(src, size, border, imageLike(src, out === src ? undefined : out), comparison);
+}
+
+function boxPass(src: Image, size: number, border: BorderMode, dst: Image, comparison: MeanComparison | null): Image {
   const { width: w, height: h, data } = src;
   const r = (size - 1) >> 1;
-  const dst = imageLike(src, out);
   const o = dst.data;
   const rowOffsets = rowOffsetTable(h, w, r, r + 1, border);
   const colTable = borderTable(w, r, r, border);
-  const sums = new Float64Array(w + 2 * r);
+  // Two spare zeros at the end: the odd running sum reads up to two entries past the last window.
+  const sums = new Float64Array(w + 2 * r + 2);
   const scale = 1 / (size * size);
   // Column sums for output row 0: rows −r … r.
   for (let t = 0; t < size; t++) {
@@ -31,20 +50,49 @@ export function boxFilter(src: Image, size: number, border: BorderMode, out?: Im
   }
   for (let y = 0; y < h; y++) {
     fillRowBorder(sums, w, r, colTable);
-    let acc = 0;
-    for (let i = 0; i < size; i++) acc += sums[i];
-    const base = y * w;
-    o[base] = acc * scale;
-    for (let x = 1; x < w; x++) {
-      acc += sums[x + size - 1] - sums[x - 1];
-      o[base + x] = acc * scale;
-    }
+    if (comparison) windowMask(sums, size, w, scale, data, comparison.c, comparison.flip, o, y * w);
+    else windowMeans(sums, size, w, scale, o, y * w);
     if (y + 1 === h) break;
     // Slide the column sums down: add row y+r+1, drop row y−r.
     const add = rowOffsets[y + size];
     const drop = rowOffsets[y];
-    if (add !== OUTSIDE) for (let x = 0; x < w; x++) sums[r + x] += data[add + x];
-    if (drop !== OUTSIDE) for (let x = 0; x < w; x++) sums[r + x] -= data[drop + x];
+    if (add !== OUTSIDE && drop !== OUTSIDE) {
+      for (let x = 0; x < w; x++) sums[r + x] += data[add + x] - data[drop + x];
+    } else if (add !== OUTSIDE) {
+      for (let x = 0; x < w; x++) sums[r + x] += data[add + x];
+    } else if (drop !== OUTSIDE) {
+      for (let x = 0; x < w; x++) sums[r + x] -= data[drop + x];
+    }
   }
   return dst;
+}
+
+/** o[base + x] = scale · Σ_{i<size} sums[x + i] for x = 0 … w−1, as two interleaved running sums. */
+function windowMeans(sums: Float64Array, size: number, w: number, scale: number, o: Float32Array, base: number): void {
+  let even = 0;
+  for (let i = 0; i < size; i++) even += sums[i];
+  let odd = even + sums[size] - sums[0];
+  let x = 0;
+  for (; x + 1 < w; x += 2) {
+    o[base + x] = even * scale;
+    o[base + x + 1] = odd * scale;
+    even += sums[x + size] + sums[x + size + 1] - (sums[x] + sums[x + 1]);
+    odd += sums[x + size + 1] + sums[x + size + 2] - (sums[x + 1] + sums[x + 2]);
+  }
+  if (x < w) o[base + x] = even * scale;
+}
+
+/** windowMeans, then o = flip ^ (in > mean − c) with the mean rounded to float32 (+(a > b) has no branch). */
+function windowMask(sums: Float64Array, size: number, w: number, scale: number, s: Float32Array, c: number, flip: number, o: Float32Array, base: number): void {
+  let even = 0;
+  for (let i = 0; i < size; i++) even += sums[i];
+  let odd = even + sums[size] - sums[0];
+  let x = 0;
+  for (; x + 1 < w; x += 2) {
+    o[base + x] = flip ^ +(s[base + x] > Math.fround(even * scale) - c);
+    o[base + x + 1] = flip ^ +(s[base + x + 1] > Math.fround(odd * scale) - c);
+    even += sums[x + size] + sums[x + size + 1] - (sums[x] + sums[x + 1]);
+    odd += sums[x + size + 1] + sums[x + size + 2] - (sums[x + 1] + sums[x + 2]);
+  }
+  if (x < w) o[base + x] = flip ^ +(s[base + x] > Math.fround(even * scale) - c);
 }

@@ -8,7 +8,6 @@ import type { Region } from '../../shared/rules/schema';
 import { RuleRunError, type RuleRun } from '../../shared/vision/pipeline';
 import { colors, radius, space } from '../../lib/theme';
 import { useKernelLibrary } from '../../hooks/useKernels';
-import { useLayout } from '../../hooks/useLayout';
 import { useReferenceImages } from '../../hooks/useReferenceSets';
 import { compareWithServer, useLocalPreview, usePhotoSamples, useServerPreview } from '../../hooks/usePreview';
 import { AppText } from '../AppText';
@@ -58,7 +57,6 @@ function stepOutputs(run: RuleRun) {
 
 export function PreviewPanel(props: PreviewPanelProps) {
   const { document, changedAt, partType, smallestDefectMm, stations, stationId, onStation, target, onTarget, regions, drawing, onRegionDrawn } = props;
-  const layout = useLayout();
   const kernels = useKernelLibrary();
   const station = stations.find((s) => s.id === stationId) ?? null;
   const setImages = useReferenceImages(target.setId, { label: null, defectKind: null, limit: PICKER_PAGE, offset: 0 });
@@ -68,6 +66,7 @@ export function PreviewPanel(props: PreviewPanelProps) {
   const server = useServerPreview();
   const [selected, setSelected] = useState<number | null>(null);
   const [zoom, setZoom] = useState<(typeof ZOOMS)[number]>('1');
+  const [frameWidth, setFrameWidth] = useState(480);
 
   useEffect(() => server.reset(), [JSON.stringify(document), target.imageId, stationId]); // eslint-disable-line react-hooks/exhaustive-deps
 
@@ -75,7 +74,7 @@ export function PreviewPanel(props: PreviewPanelProps) {
   const shownIndex = selected !== null && outputs.some((o) => o.index === selected) ? selected : outputs[outputs.length - 1]?.index ?? 0;
   const shown = outputs.find((o) => o.index === shownIndex);
   const comparison = preview.run && server.data ? compareWithServer(preview.run, server.data) : null;
-  const largeSide = (layout === 'wide' ? 720 : 360) * Number(zoom);
+  const largeSide = Math.round(Math.max(320, frameWidth) * Number(zoom));
 
   return (
     <View style={styles.panel}>
@@ -106,7 +105,11 @@ export function PreviewPanel(props: PreviewPanelProps) {
           {(preview.error instanceof RuleRunError ? preview.error.issues : [{ path: '', message: preview.error.message }]).map((issue) => (
             <AppText key={`${issue.path}-${issue.message}`}>{issue.path ? `${issue.path}: ${issue.message}` : issue.message}</AppText>
           ))}
-          <AppText tone="muted">Correct the marked steps or gauges; the preview updates by itself.</AppText>
+          <AppText tone="muted">
+            {preview.error instanceof RuleRunError && preview.error.code === 'missing_calibration'
+              ? 'Choose a calibrated station above; the preview updates by itself.'
+              : 'Correct the marked steps or gauges; the preview updates by itself.'}
+          </AppText>
         </View>
       ) : !preview.run ? (
         <LoadingState label="Running the rule on the photo…" />
@@ -153,14 +156,23 @@ export function PreviewPanel(props: PreviewPanelProps) {
                 <ChoiceChips label="Zoom" choices={ZOOMS.map((z) => ({ value: z, label: `${z}×` }))} value={zoom} onChange={setZoom} />
               </View>
               {drawing ? <AppText tone="caution">✎ Drag across the photo, or tap two opposite corners, to set the region.</AppText> : null}
-              <ScrollView horizontal>
-                <ScrollView style={zoom === '1' ? undefined : styles.zoomBox}>
-                  <View style={{ width: zoom === '1' ? '100%' : largeSide, minWidth: zoom === '1' ? (layout === 'wide' ? 640 : 320) : undefined }}>
+              <View onLayout={(e) => setFrameWidth(e.nativeEvent.layout.width)}>
+                {zoom === '1' ? (
+                  <View>
                     <StepCanvas image={shown.image} kind={shown.kind} maxSide={largeSide} label={`${shown.title} output, large`} />
                     <RegionOverlay regions={regions} drawing={drawing} aspect={shown.image.width / shown.image.height} onDrawn={onRegionDrawn} />
                   </View>
-                </ScrollView>
-              </ScrollView>
+                ) : (
+                  <ScrollView horizontal style={styles.zoomBox}>
+                    <ScrollView style={styles.zoomBox}>
+                      <View style={{ width: frameWidth * Number(zoom) }}>
+                        <StepCanvas image={shown.image} kind={shown.kind} maxSide={largeSide} label={`${shown.title} output, zoomed ${zoom} times`} />
+                        <RegionOverlay regions={regions} drawing={drawing} aspect={shown.image.width / shown.image.height} onDrawn={onRegionDrawn} />
+                      </View>
+                    </ScrollView>
+                  </ScrollView>
+                )}
+              </View>
             </View>
           ) : null}
 

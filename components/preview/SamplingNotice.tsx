@@ -9,7 +9,7 @@ export function SamplingNotice({ smallestDefectMm, mmPerPx, stationName }: { sma
   if (mmPerPx === null || stationName === null) return <AppText variant="caption" tone="muted">Choose a calibrated station to check the smallest defect’s size in pixels.</AppText>;
   const check = samplingCheck(smallestDefectMm, mmPerPx);
   const look = check.verdict === 'ok' ? styles.ok : check.verdict === 'below-recommended' ? styles.caution : styles.refuse;
-  const heading = check.verdict === 'ok' ? '✓ The camera can see the smallest defect' : check.verdict === 'below-recommended' ? '⚠ The smallest defect is barely visible' : '⛔ The camera cannot see the smallest defect';
+  const heading = check.verdict === 'ok' ? '✓ The camera can see the smallest defect' : check.verdict === 'below-recommended' ? '⚠ The smallest defect is barely visible' : '✕ The camera cannot see the smallest defect';
   return (
     <View style={[styles.box, look]} accessibilityRole={check.verdict === 'ok' ? undefined : 'alert'}>
       <AppText variant="label" tone={check.verdict === 'ok' ? 'notice' : check.verdict === 'below-recommended' ? 'caution' : 'danger'}>{heading}</AppText>

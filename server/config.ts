@@ -17,6 +17,9 @@ export interface Config {
   signInLimit: { windowMs: number; maxFailures: number };
   logLevel: string;
   version: string;
+  smtp: { host: string; port: number; from: string };
+  /** Start the stand-in mail server on loopback (the demo; off when a real SMTP host is set). */
+  fakeSmtp: boolean;
 }
 
 const repoRoot = path.resolve(__dirname, '..', fs.existsSync(path.join(__dirname, '..', 'package.json')) ? '' : '..');
@@ -63,5 +66,12 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     },
     logLevel: env.KW_LOG_LEVEL || 'info',
     version: pkg.version,
+    smtp: {
+      host: env.KW_SMTP_HOST || '127.0.0.1',
+      // Beside the app's own port by default, so two checkouts side by side do not collide.
+      port: intFrom(env.KW_SMTP_PORT, intFrom(env.PORT, 8081, 'PORT') + 1000, 'KW_SMTP_PORT'),
+      from: env.KW_MAIL_FROM || 'Kernwright <kernwright@fernwick.example>',
+    },
+    fakeSmtp: !env.KW_SMTP_HOST && env.KW_FAKE_SMTP !== '0',
   };
 }

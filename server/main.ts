@@ -2,7 +2,9 @@ import { createApp } from './app';
 import { loadConfig } from './config';
 import { makeDataSource } from './db/data-source';
 import { JobQueue } from './lib/jobs';
+import { startFakeSmtp } from './lib/fake-smtp';
 import { createLogger } from './lib/logger';
+import path from 'node:path';
 import { createServices } from './services';
 import { loadKernelLibrary } from './vision/kernel-library';
 import { VisionPool } from './vision/pool';
@@ -15,6 +17,11 @@ async function main() {
   await dataSource.initialize();
   if (await dataSource.showMigrations()) throw new Error('The database has migrations that have not run; run `npm start` (it migrates) or `npm run db:migrate`');
 
+  if (config.fakeSmtp) {
+    const dir = path.join(config.dataDir, 'mail');
+    await startFakeSmtp({ port: config.smtp.port, dir });
+    logger.info({ port: config.smtp.port, dir }, 'stand-in mail server on loopback; messages are kept as .eml files');
+  }
   const pool = new VisionPool({ kernels: await loadKernelLibrary() });
   const jobs = await new JobQueue(config.databaseUrl).start();
   const services = createServices({ config, dataSource, pool, jobs });

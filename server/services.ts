@@ -4,6 +4,7 @@ import { AuthService } from './components/auth/service';
 import { CatalogueService } from './components/catalogue/service';
 import { InspectionsService } from './components/inspections/service';
 import { KernelsService } from './components/kernels/service';
+import { MailService } from './components/mail/service';
 import { PreviewService } from './components/preview/service';
 import { RecordsService } from './components/records/service';
 import { ReferencesService } from './components/references/service';
@@ -33,7 +34,8 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
   const store: ImageStore = new LocalImageStore(config.imageDir);
   const signer = new ImageUrlSigner(config.jwtSecret);
   const kernels = new KernelsService(dataSource, audit);
-  const rules = new RulesService(dataSource, audit, kernels);
+  const mail = new MailService(dataSource, config.smtp, jobs);
+  const rules = new RulesService(dataSource, audit, kernels, mail);
   const trials = new TrialsService(dataSource, store, signer, audit, pool, jobs);
   const inspections = new InspectionsService(dataSource, store, signer, audit, pool);
   return {
@@ -42,6 +44,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     store,
     signer,
     kernels,
+    mail,
     auth: new AuthService(dataSource, audit, config.jwtSecret, config.tokenTtlSeconds),
     users: new UsersService(dataSource, audit),
     catalogue: new CatalogueService(dataSource, audit),

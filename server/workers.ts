@@ -1,8 +1,16 @@
 import type { JobQueue } from './lib/jobs';
 import type { Services } from './services';
+import { OUTBOX_QUEUE } from './components/mail/service';
 import { TRIAL_QUEUE } from './components/trials/service';
 
 /** Registers the background job handlers of this process. */
 export async function startWorkers(jobs: JobQueue, services: Services): Promise<void> {
   await jobs.work<{ trialId: string }>(TRIAL_QUEUE, ({ trialId }) => services.trials.run(trialId));
+  // A flush that leaves mail waiting fails, so the queue tries again later with backoff.
+  await jobs.work(OUTBOX_QUEUE, async () => {
+    const { waiting } = await services.mail.flush();
+    if (waiting > 0) throw new Error(`${waiting} e-mail(s) still waiting for the mail server`);
+  });
+  // Mail left from before a restart.
+  await services.mail.kick();
 }

@@ -3,6 +3,7 @@ import { UserEntity } from '../components/auth/entities';
 import { DefectKindEntity, PartTypeEntity } from '../components/catalogue/entities';
 import { DisputeEntity, InspectionEntity, MeasurementEntity } from '../components/inspections/entities';
 import { CustomKernelEntity } from '../components/kernels/entities';
+import { OutboxMessageEntity } from '../components/mail/entities';
 import { ReferenceImageEntity, ReferenceSetEntity } from '../components/references/entities';
 import { RuleEntity, RuleVersionEntity, SignatureEntity } from '../components/rules/entities';
 import { LineEntity, StationEntity } from '../components/stations/entities';
@@ -27,4 +28,5 @@ export const ENTITIES = [
   InspectionEntity,
   MeasurementEntity,
   DisputeEntity,
+  OutboxMessageEntity,
 ];

@@ -30,6 +30,8 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     signInLimit: { windowMs: 60_000, maxFailures: 1000 },
     logLevel: 'silent',
     version: 'test',
+    smtp: { host: '127.0.0.1', port: 1, from: 'Kernwright <kernwright@test.example>' },
+    fakeSmtp: false,
     ...overrides,
   };
 }

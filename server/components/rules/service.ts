@@ -19,6 +19,7 @@ import { verifyPassword } from '../auth/passwords';
 import { actorOf } from '../auth/service';
 import { PartTypeEntity } from '../catalogue/entities';
 import type { KernelsService } from '../kernels/service';
+import type { MailService } from '../mail/service';
 import { TrialEntity } from '../trials/entities';
 import { RuleEntity, RuleVersionEntity, SignatureEntity, type SignatureMeaning } from './entities';
 
@@ -38,7 +39,16 @@ export class RulesService {
     private readonly dataSource: DataSource,
     private readonly audit: AuditService,
     private readonly kernels: KernelsService,
+    private readonly mail: MailService,
   ) {}
+
+  private async ruleName(manager: EntityManager, version: RuleVersionEntity): Promise<string> {
+    return (await manager.findOneByOrFail(RuleEntity, { id: version.ruleId })).name;
+  }
+
+  private async emailOf(manager: EntityManager, userId: string): Promise<string | null> {
+    return (await manager.findOneBy(UserEntity, { id: userId }))?.email ?? null;
+  }
 
   /** Validates a rule document with the shared schema and checks that every named kernel exists. */
   async checkDocument(document: unknown): Promise<RuleDocument> {
@@ -236,7 +246,15 @@ export class RulesService {
       version.reviewNote = null;
       await manager.save(version);
       await this.audit.record(manager, { actor: actorOf(actor), action: 'rule-version.submit', entityType: 'rule-version', entityId: id, after: { state: 'in-review', trialId: trial.id }, details: { note } });
+      const reviewers: { email: string }[] = await manager.query(`select email from users where active and 'supervisor' = any(roles) and email is not null and id <> $1`, [actor.id]);
+      const name = await this.ruleName(manager, version);
+      await this.mail.enqueue(manager, {
+        to: reviewers.map((r) => r.email),
+        subject: `Review requested: ${name}, version ${version.number}`,
+        body: `${actor.displayName} submitted version ${version.number} of the rule "${name}" for review.\n\nNote: ${note || '(none)'}\n\nOpen Kernwright's Review area to release it or send it back.`,
+      });
     });
+    await this.mail.kick();
     return this.version(id);
   }
 
@@ -294,7 +312,14 @@ export class RulesService {
         after: { state: 'released', contentHash: version.contentHash },
         details: { meaning: input.meaning, signatureHash: signature.signatureHash, note: input.note },
       });
+      const name = await this.ruleName(manager, version);
+      await this.mail.enqueue(manager, {
+        to: [(await this.emailOf(manager, version.authorId)) ?? ''],
+        subject: `Released: ${name}, version ${version.number}`,
+        body: `${actor.displayName} released version ${version.number} of the rule "${name}" (${input.meaning}) at ${now.toISOString()} UTC.\n\nNote: ${input.note || '(none)'}`,
+      });
     });
+    await this.mail.kick();
     return this.version(id);
   }
 
@@ -309,7 +334,14 @@ export class RulesService {
       version.reviewNote = note;
       await manager.save(version);
       await this.audit.record(manager, { actor: actorOf(actor), action: 'rule-version.send-back', entityType: 'rule-version', entityId: id, after: { state: 'draft' }, details: { note } });
+      const name = await this.ruleName(manager, version);
+      await this.mail.enqueue(manager, {
+        to: [(await this.emailOf(manager, version.authorId)) ?? ''],
+        subject: `Sent back: ${name}, version ${version.number}`,
+        body: `${actor.displayName} sent version ${version.number} of the rule "${name}" back to draft.\n\nWhat must change: ${note}`,
+      });
     });
+    await this.mail.kick();
     return this.version(id);
   }
 

@@ -1,5 +1,10 @@
-import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+import { AreaGate } from '../../../components/AreaGate';
+import { StationsAdmin } from '../../../components/stations/StationsAdmin';
 
 export default function StationsRoute() {
-  return <AreaEmptyScreen area="stations" />;
+  return (
+    <AreaGate area="stations">
+      <StationsAdmin />
+    </AreaGate>
+  );
 }

@@ -1,0 +1,181 @@
+import { useState } from 'react';
+import { useRouter } from 'expo-router';
+import { StyleSheet, View } from 'react-native';
+import { useCalibrateStation, useLines } from '../../hooks/useStations';
+import { validateForm, type FieldErrors } from '../../lib/formErrors';
+import { pickPhoto, type PickedPhoto } from '../../lib/pickPhoto';
+import { colors, radius, space } from '../../lib/theme';
+import { pixelQuantisationUncertaintyMm, scaleFromReference } from '../../shared/calibration';
+import { calibrationRequestSchema } from '../../shared/api/stations';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { Card } from '../Card';
+import { ConfirmDialog } from '../ConfirmDialog';
+import { ErrorBanner } from '../ErrorBanner';
+import { Screen } from '../Screen';
+import { EmptyState, ErrorState, LoadingState } from '../StateViews';
+import { TextField } from '../TextField';
+import { CalibrationSummary, formatScale } from './CalibrationSummary';
+import { pixelDistance, TargetPointPicker, type ImagePoint } from './TargetPointPicker';
+
+function parseNumber(text: string): number {
+  return text.trim() === '' ? Number.NaN : Number(text.replace(',', '.'));
+}
+
+/** Calibrate a station from a target of known length: mm/px and its quantisation uncertainty shown before saving. */
+export function CalibrationScreen({ stationId }: { stationId: string }) {
+  const router = useRouter();
+  const lines = useLines();
+  const calibrate = useCalibrateStation();
+  const [lengthText, setLengthText] = useState('');
+  const [distanceText, setDistanceText] = useState('');
+  const [photo, setPhoto] = useState<PickedPhoto>();
+  const [points, setPoints] = useState<ImagePoint[]>([]);
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const [confirming, setConfirming] = useState(false);
+  const [saved, setSaved] = useState(false);
+
+  const station = lines.data?.flatMap((l) => l.stations).find((s) => s.id === stationId);
+  if (lines.isPending) return <Screen title="Calibration" width="reading"><LoadingState label="Loading the station…" /></Screen>;
+  if (lines.error) return <Screen title="Calibration" width="reading"><ErrorState error={lines.error} onRetry={() => void lines.refetch()} /></Screen>;
+  if (!station)
+    return (
+      <Screen title="Calibration" width="reading">
+        <EmptyState title="No such station" body="It may have been removed. Go back to the stations and choose one." action={<Button label="Back to stations" onPress={() => router.push('/stations')} />} />
+      </Screen>
+    );
+
+  const referenceLengthMm = parseNumber(lengthText);
+  const distancePx = parseNumber(distanceText);
+  const ready = referenceLengthMm > 0 && distancePx > 0;
+  const mmPerPx = ready ? scaleFromReference(referenceLengthMm, distancePx) : null;
+
+  const choosePhoto = async () => {
+    const picked = await pickPhoto('library').catch(() => undefined);
+    if (picked) {
+      setPhoto(picked);
+      setPoints([]);
+    }
+  };
+  const markPoints = (next: ImagePoint[]) => {
+    setPoints(next);
+    if (next.length === 2) {
+      setDistanceText(pixelDistance(next[0], next[1]).toFixed(1));
+      setErrors((e) => ({ ...e, distancePx: undefined }));
+    }
+  };
+  const review = () => {
+    const result = validateForm(calibrationRequestSchema, { referenceLengthMm, distancePx });
+    if (!result.ok) {
+      setErrors({
+        referenceLengthMm: Number.isNaN(referenceLengthMm) ? 'Enter the target’s length in mm' : result.errors.referenceLengthMm,
+        distancePx: Number.isNaN(distancePx) ? 'Mark two edges on the photo or enter the distance in pixels' : result.errors.distancePx,
+      });
+      return;
+    }
+    setConfirming(true);
+  };
+
+  return (
+    <Screen
+      title={`Calibrate ${station.name}`}
+      subtitle={station.lineName}
+      width="reading"
+      actions={<Button label="Back to stations" variant="quiet" compact onPress={() => router.push('/stations')} />}
+    >
+      <Card>
+        <AppText variant="heading">Now</AppText>
+        <CalibrationSummary station={station} />
+      </Card>
+      {saved ? (
+        <View style={styles.notice} role="status">
+          <AppText variant="bodyStrong" tone="notice">✓ Calibration saved. Gauges in mm at this station use it from the next inspection.</AppText>
+        </View>
+      ) : null}
+      <Card style={styles.form}>
+        <AppText variant="heading">New calibration</AppText>
+        <AppText tone="muted">
+          Photograph a target of known size (a gauge block, a ruled plate) at the station, exactly where parts sit, with the station’s camera set-up.
+        </AppText>
+        <TextField
+          label="Known length of the target (mm)"
+          value={lengthText}
+          onChangeText={(text) => {
+            setLengthText(text);
+            setErrors((e) => ({ ...e, referenceLengthMm: undefined }));
+          }}
+          keyboardType="decimal-pad"
+          inputMode="decimal"
+          error={errors.referenceLengthMm}
+        />
+        <Button label={photo ? 'Choose another photo of the target' : 'Choose a photo of the target'} variant="secondary" onPress={() => void choosePhoto()} />
+        {photo ? (
+          <>
+            <AppText variant="caption" tone="muted">{`${photo.fileName}, ${photo.width}×${photo.height} px. Tap the first edge (A), then the second (B).`}</AppText>
+            <TargetPointPicker photo={photo} points={points} onChange={markPoints} />
+          </>
+        ) : null}
+        <TextField
+          label="Distance between the two edges (px)"
+          hint="Measured from the two marks, or typed in from another measurement."
+          value={distanceText}
+          onChangeText={(text) => {
+            setDistanceText(text);
+            setErrors((e) => ({ ...e, distancePx: undefined }));
+          }}
+          keyboardType="decimal-pad"
+          inputMode="decimal"
+          error={errors.distancePx}
+        />
+        <View style={styles.result} role="status" aria-live="polite">
+          {mmPerPx !== null ? (
+            <>
+              <AppText variant="heading">{formatScale(mmPerPx)}</AppText>
+              <AppText>{`Quantisation uncertainty s/√12 = ±${Number(pixelQuantisationUncertaintyMm(mmPerPx).toPrecision(3))} mm per length`}</AppText>
+              <AppText variant="caption" tone="muted">{`${referenceLengthMm} mm over ${distancePx} px. One pixel is ${Number(mmPerPx.toPrecision(4))} mm wide here.`}</AppText>
+            </>
+          ) : (
+            <AppText tone="muted">Enter the length and the distance to see the scale.</AppText>
+          )}
+        </View>
+        <View style={styles.actions}>
+          <Button label="Save calibration" onPress={review} />
+        </View>
+      </Card>
+      <ConfirmDialog
+        visible={confirming}
+        title="Save this calibration?"
+        message={`${station.name} will measure at ${mmPerPx !== null ? formatScale(mmPerPx) : '—'}${station.mmPerPx !== null ? ` instead of ${formatScale(station.mmPerPx)}` : ''}. Every gauge in mm or mm² at this station uses it from the next inspection; earlier inspections keep the scale they were measured with.`}
+        confirmLabel="Save calibration"
+        busy={calibrate.isPending}
+        error={calibrate.error}
+        onCancel={() => {
+          setConfirming(false);
+          calibrate.reset();
+        }}
+        onConfirm={() =>
+          calibrate.mutate(
+            { id: station.id, referenceLengthMm, distancePx },
+            {
+              onSuccess: () => {
+                setConfirming(false);
+                setSaved(true);
+                setLengthText('');
+                setDistanceText('');
+                setPoints([]);
+              },
+            },
+          )
+        }
+      />
+      {calibrate.error && !confirming ? <ErrorBanner error={calibrate.error} /> : null}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  form: { gap: space.md },
+  result: { gap: space.xxs, padding: space.md, borderRadius: radius.md, backgroundColor: colors.surfaceSunken },
+  actions: { flexDirection: 'row', justifyContent: 'flex-end' },
+  notice: { padding: space.md, borderRadius: radius.md, borderWidth: 1, borderLeftWidth: 4, borderColor: colors.notice, backgroundColor: colors.noticeTint },
+});

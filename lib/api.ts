@@ -42,6 +42,8 @@ import {
 } from '../shared/api/rules';
 import { lineSchema, stationSchema, type Line, type Station } from '../shared/api/stations';
 import { sweepSchema, trialResultSchema, trialSchema, type Sweep, type Trial, type TrialResult } from '../shared/api/trials';
+import { recordPageSchema, type RecordPage } from '../shared/api/records';
+import { chainVerificationSchema, type ChainVerificationResult } from '../shared/api/audit';
 import { currentToken, endSession } from './session';
 
 /** Codes the client adds for failures that never reached the API's error shape. */
@@ -536,4 +538,55 @@ export function listTrialResults(trialId: string, query: TrialResultQuery, signa
 
 export function getLimitSweep(trialId: string, gauge: string, bound: 'min' | 'max', signal?: AbortSignal): Promise<Sweep> {
   return request(`/api/trials/${encodeURIComponent(trialId)}/sweep`, { query: { gauge, bound }, schema: sweepSchema, signal });
+}
+
+// Records and the audit trail (auditors, supervisors)
+
+export interface RecordQuery {
+  from?: string;
+  to?: string;
+  stationId?: string;
+  verdict?: 'PASS' | 'FAIL' | 'RETAKE';
+  disputed?: 'true' | 'false';
+  after?: string;
+  limit?: number;
+}
+
+export function listRecords(query: RecordQuery, signal?: AbortSignal): Promise<RecordPage> {
+  return request('/api/records/inspections', { query: { ...query }, schema: recordPageSchema, signal });
+}
+
+export function verifyAuditTrail(signal?: AbortSignal): Promise<ChainVerificationResult> {
+  return request('/api/audit-events/verify', { schema: chainVerificationSchema, signal });
+}
+
+/**
+ * Downloads a file the API streams (CSV export, PDF report) with the session's token, reporting
+ * progress as the bytes arrive; resolves to the file as a Blob and the server's headers.
+ */
+export async function downloadFile(path: string, query: Record<string, QueryValue> = {}, onChunk?: (bytes: number, headers: Headers) => void): Promise<{ blob: Blob; headers: Headers }> {
+  const token = currentToken();
+  let response: Response;
+  try {
+    response = await fetch(buildUrl(path, query), { headers: token ? { Authorization: `Bearer ${token}` } : {} });
+  } catch {
+    throw new ApiError(0, 'network_error', 'Kernwright’s server could not be reached.');
+  }
+  if (!response.ok) {
+    const error = errorFromResponse(response.status, await readJson(response));
+    if (response.status === 401) endSession('expired');
+    throw error;
+  }
+  const reader = response.body?.getReader();
+  if (!reader) return { blob: await response.blob(), headers: response.headers };
+  const parts: Uint8Array[] = [];
+  let bytes = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    parts.push(value);
+    bytes += value.length;
+    onChunk?.(bytes, response.headers);
+  }
+  return { blob: new Blob(parts as BlobPart[], { type: response.headers.get('Content-Type') ?? 'application/octet-stream' }), headers: response.headers };
 }

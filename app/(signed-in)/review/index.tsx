@@ -1,5 +1,10 @@
-import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+import { AreaGate } from '../../../components/AreaGate';
+import { ReviewArea } from '../../../components/review/ReviewArea';
 
 export default function ReviewRoute() {
-  return <AreaEmptyScreen area="review" />;
+  return (
+    <AreaGate area="review">
+      <ReviewArea />
+    </AreaGate>
+  );
 }

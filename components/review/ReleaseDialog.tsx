@@ -1,0 +1,114 @@
+import { useEffect, useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { useReleaseVersion, type SignatureMeaningChoice } from '../../hooks/useReview';
+import { ApiError } from '../../lib/api';
+import { space } from '../../lib/theme';
+import { SIGNATURE_MEANING_LABELS, type RuleVersion } from '../../shared/api/rules';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { ChoiceChips } from '../ChoiceChips';
+import { Dialog } from '../Dialog';
+import { ErrorBanner } from '../ErrorBanner';
+import { TextField } from '../TextField';
+
+interface ReleaseDialogProps {
+  version: RuleVersion;
+  visible: boolean;
+  onClose: () => void;
+  onReleased: (version: RuleVersion) => void;
+}
+
+const MEANINGS: SignatureMeaningChoice[] = ['review', 'approval', 'responsibility'];
+
+/** Release signs the version: the password again, what the signature means, a note, then a last confirmation. */
+export function ReleaseDialog({ version, visible, onClose, onReleased }: ReleaseDialogProps) {
+  const release = useReleaseVersion();
+  const { reset } = release;
+  const [password, setPassword] = useState('');
+  const [meaning, setMeaning] = useState<SignatureMeaningChoice>('approval');
+  const [note, setNote] = useState('');
+  const [confirming, setConfirming] = useState(false);
+  const [passwordError, setPasswordError] = useState<string>();
+
+  useEffect(() => {
+    if (!visible) {
+      setPassword('');
+      setNote('');
+      setConfirming(false);
+      setPasswordError(undefined);
+      reset();
+    }
+  }, [visible, reset]);
+
+  const sign = () =>
+    release.mutate(
+      { id: version.id, password, meaning, note: note.trim() },
+      {
+        onSuccess: onReleased,
+        onError: (error) => {
+          setConfirming(false);
+          const issue = error instanceof ApiError ? error.fieldIssues.find((i) => i.path === 'password') : undefined;
+          if (issue) setPasswordError(`${issue.message}: nothing was signed. Enter your own password.`);
+        },
+      },
+    );
+
+  const generalError = release.error && !(release.error instanceof ApiError && release.error.fieldIssues.some((i) => i.path === 'password')) ? release.error : null;
+
+  return (
+    <Dialog
+      visible={visible}
+      title={confirming ? 'Sign and release?' : `Release ${version.ruleName} v${version.number}`}
+      onClose={onClose}
+      actions={
+        confirming ? (
+          <>
+            <Button label="Back" variant="secondary" onPress={() => setConfirming(false)} disabled={release.isPending} />
+            <Button label="Sign and release" onPress={sign} busy={release.isPending} />
+          </>
+        ) : (
+          <>
+            <Button label="Cancel" variant="secondary" onPress={onClose} />
+            <Button
+              label="Continue"
+              onPress={() => (password ? setConfirming(true) : setPasswordError('Enter your password to sign'))}
+            />
+          </>
+        )
+      }
+    >
+      {confirming ? (
+        <AppText>
+          {`You sign “${SIGNATURE_MEANING_LABELS[meaning]}” for ${version.ruleName} v${version.number}, bound to its content. The version reaches the line at once, replaces the released one, and can no longer change.`}
+        </AppText>
+      ) : (
+        <View style={styles.form}>
+          <AppText>Your signature records your name, the date and time, and what it means. It stays bound to this exact content.</AppText>
+          <ChoiceChips<SignatureMeaningChoice>
+            label="Meaning of your signature"
+            choices={MEANINGS.map((m) => ({ value: m, label: SIGNATURE_MEANING_LABELS[m] }))}
+            value={meaning}
+            onChange={setMeaning}
+          />
+          <TextField
+            label="Your password"
+            value={password}
+            onChangeText={(text) => {
+              setPassword(text);
+              setPasswordError(undefined);
+            }}
+            secureTextEntry
+            autoComplete="current-password"
+            error={passwordError}
+          />
+          <TextField label="Note (optional)" value={note} onChangeText={setNote} multiline numberOfLines={2} maxLength={2000} />
+        </View>
+      )}
+      {generalError ? <ErrorBanner error={generalError} /> : null}
+    </Dialog>
+  );
+}
+
+const styles = StyleSheet.create({
+  form: { gap: space.lg },
+});

@@ -1,0 +1,86 @@
+// What changed between two rule documents (the released version and the one in review), row by row,
+// for the reviewer's side-by-side view. Works on the JSON itself, so any document the API returns can be compared.
+
+export type ChangeKind = 'same' | 'changed' | 'added' | 'removed';
+
+export interface DiffRow {
+  section: 'Settings' | 'Steps' | 'Gauges';
+  label: string;
+  before: string | null;
+  after: string | null;
+  change: ChangeKind;
+}
+
+type Json = Record<string, unknown>;
+
+function asObject(value: unknown): Json {
+  return value && typeof value === 'object' && !Array.isArray(value) ? (value as Json) : {};
+}
+
+function asArray(value: unknown): unknown[] {
+  return Array.isArray(value) ? value : [];
+}
+
+/** A value as a reviewer reads it: `sigma 1.2, size 5`, `x 0.1, y 0.1, w 0.8, h 0.8`. */
+export function describeValue(value: unknown): string {
+  if (value === undefined || value === null) return '—';
+  if (Array.isArray(value)) return `[${value.map(describeValue).join(', ')}]`;
+  if (typeof value === 'object') {
+    return Object.entries(value as Json)
+      .map(([key, inner]) => `${key} ${describeValue(inner)}`)
+      .join(', ');
+  }
+  return String(value);
+}
+
+function describeStep(step: unknown): string {
+  const { op, ...parameters } = asObject(step);
+  const rest = describeValue(parameters);
+  return rest ? `${String(op)}: ${rest}` : String(op);
+}
+
+function row(section: DiffRow['section'], label: string, before: string | null, after: string | null): DiffRow {
+  const change: ChangeKind = before === null ? 'added' : after === null ? 'removed' : before === after ? 'same' : 'changed';
+  return { section, label, before, after, change };
+}
+
+const GAUGE_FIELDS = ['measure', 'step', 'region', 'unit', 'limits'] as const;
+
+/** Rows for every setting, step and gauge field of either document; `before` may be absent (a first version). */
+export function diffRuleDocuments(beforeDocument: unknown | null, afterDocument: unknown): DiffRow[] {
+  const before = beforeDocument === null ? null : asObject(beforeDocument);
+  const after = asObject(afterDocument);
+  const rows: DiffRow[] = [];
+  const text = (doc: Json | null, read: (d: Json) => unknown) => (doc === null ? null : describeValue(read(doc)));
+
+  rows.push(row('Settings', 'Name', text(before, (d) => d.name), text(after, (d) => d.name)));
+  rows.push(row('Settings', 'Input channel', text(before, (d) => asObject(d.input).channel), text(after, (d) => asObject(d.input).channel)));
+  rows.push(row('Settings', 'Border', text(before, (d) => d.border ?? 'reflect'), text(after, (d) => d.border ?? 'reflect')));
+  for (const field of ['minFocus', 'maxClipped', 'minMean']) {
+    rows.push(row('Settings', `Quality gate ${field}`, text(before, (d) => asObject(d.quality)[field]), text(after, (d) => asObject(d.quality)[field])));
+  }
+
+  const stepsBefore = before === null ? [] : asArray(before.steps);
+  const stepsAfter = asArray(after.steps);
+  for (let i = 0; i < Math.max(stepsBefore.length, stepsAfter.length); i++) {
+    rows.push(row('Steps', `Step ${i + 1}`, i < stepsBefore.length ? describeStep(stepsBefore[i]) : null, i < stepsAfter.length ? describeStep(stepsAfter[i]) : null));
+  }
+
+  const gaugesBefore = new Map((before === null ? [] : asArray(before.gauges)).map((g) => [String(asObject(g).name), asObject(g)]));
+  const gaugesAfter = new Map(asArray(after.gauges).map((g) => [String(asObject(g).name), asObject(g)]));
+  const names = [...new Set([...gaugesAfter.keys(), ...gaugesBefore.keys()])];
+  for (const name of names) {
+    const b = gaugesBefore.get(name) ?? null;
+    const a = gaugesAfter.get(name) ?? null;
+    if (!a || !b) {
+      const whole = (g: Json | null) => (g === null ? null : GAUGE_FIELDS.filter((f) => g[f] !== undefined).map((f) => `${f}: ${describeValue(g[f])}`).join('; '));
+      rows.push(row('Gauges', name, whole(b), whole(a)));
+      continue;
+    }
+    for (const field of GAUGE_FIELDS) {
+      if (a[field] === undefined && b[field] === undefined) continue;
+      rows.push(row('Gauges', `${name} · ${field}`, describeValue(b[field]), describeValue(a[field])));
+    }
+  }
+  return rows;
+}

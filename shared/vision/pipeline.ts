@@ -2,7 +2,7 @@
 // float32 out), gauges, verdict. Pure computation: kernels of the library come from the caller.
 import type { FieldIssue } from '../api/errors';
 import { validateRuleDocument, type Gauge, type GaugeMeasure, type GaugeUnit, type Limits, type RuleDocument, type Step } from '../rules/schema';
-import { createPackedMask, type PackedMask } from './binary-morphology';
+import { createPackedMask, MAX_PACKED_RADIUS, type PackedMask } from './binary-morphology';
 import type { BorderMode } from './border';
 import { correlate, type LargeKernelCorrelator } from './convolve';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
@@ -119,7 +119,9 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   rule.steps.forEach((step, i) => {
     const t0 = now();
     const out = take();
-    const scratch = step.op === 'open' || step.op === 'close' ? take() : undefined;
+    // A mask (0/1 from a threshold) is opened or closed in packed bits, which need no scratch image.
+    const packedPath = currentKind === 'mask' && 'radius' in step && step.radius <= MAX_PACKED_RADIUS;
+    const scratch = (step.op === 'open' || step.op === 'close') && !packedPath ? take() : undefined;
     const next = rule.steps[i + 1];
     const packNext = next !== undefined && (next.op === 'erode' || next.op === 'dilate' || next.op === 'open' || next.op === 'close');
     const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options, handover, packNext);

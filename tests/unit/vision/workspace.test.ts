@@ -49,3 +49,13 @@ test('a buffer of another size is never handed out', () => {
   releaseRun(runRule(rule, photo, { workspace }), workspace);
   expect(workspace.take(10, 10).data.length).toBe(100);
 });
+
+test('the standard pipeline (threshold then opening) runs in three image buffers, reused run after run', () => {
+  const standard = { ...rule, gauges: [{ name: 'edges', measure: 'edge-fraction', limits: { max: 0.5 } }] };
+  const workspace = new ImageWorkspace(8);
+  releaseRun(runRule(standard, photo, { retain: 'gauged', workspace }), workspace);
+  // Input, and two step outputs used in turn; the mask is opened in packed bits, without a scratch image.
+  expect(workspace.spareCount).toBe(3);
+  releaseRun(runRule(standard, photo, { retain: 'gauged', workspace }), workspace);
+  expect(workspace.spareCount).toBe(3);
+});

@@ -1,5 +1,10 @@
-import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+import { AreaGate } from '../../../components/AreaGate';
+import { ReferenceSetsList } from '../../../components/references/ReferenceSetsList';
 
 export default function ReferenceSetsRoute() {
-  return <AreaEmptyScreen area="reference-sets" />;
+  return (
+    <AreaGate area="reference-sets">
+      <ReferenceSetsList />
+    </AreaGate>
+  );
 }

@@ -1,0 +1,57 @@
+// Thumbnails of a reference set's photos with their labels; in select mode a press selects instead of labelling.
+import { Image, Pressable, StyleSheet, View } from 'react-native';
+import type { ReferenceImage } from '../../shared/api/references';
+import { colors, radius, space } from '../../lib/theme';
+import { AppText } from '../AppText';
+
+const LABEL_MARKS: Record<ReferenceImage['label'], string> = { good: '✓ good', defective: '✕ defective', retake: '↻ retake', unlabelled: '? unlabelled' };
+
+interface ReferenceImageGridProps {
+  images: ReferenceImage[];
+  selecting: boolean;
+  selected: ReadonlySet<string>;
+  onPress: (image: ReferenceImage) => void;
+}
+
+export function ReferenceImageGrid({ images, selecting, selected, onPress }: ReferenceImageGridProps) {
+  return (
+    <View style={styles.grid}>
+      {images.map((image) => {
+        const isSelected = selected.has(image.id);
+        const labelText = `${LABEL_MARKS[image.label]}${image.defectKind ? ` (${image.defectKind})` : ''}`;
+        return (
+          <Pressable
+            key={image.id}
+            accessibilityRole={selecting ? 'checkbox' : 'button'}
+            accessibilityState={selecting ? { checked: isSelected } : undefined}
+            accessibilityLabel={`${selecting ? 'Select' : 'Label'} ${image.fileName}, ${labelText}`}
+            onPress={() => onPress(image)}
+            style={[styles.tile, isSelected && styles.selected]}
+          >
+            <View>
+              <Image source={{ uri: image.thumbnailUrl ?? image.imageUrl }} style={styles.thumb} resizeMode="cover" />
+              {selecting ? (
+                <View style={[styles.check, isSelected && styles.checkOn]}>
+                  <AppText variant="label" tone={isSelected ? 'onSteel' : 'default'}>{isSelected ? '✓' : ''}</AppText>
+                </View>
+              ) : null}
+            </View>
+            <AppText variant="caption" numberOfLines={1}>{image.fileName}</AppText>
+            <AppText variant="label" numberOfLines={1} tone={image.label === 'defective' ? 'danger' : image.label === 'good' ? 'notice' : image.label === 'retake' ? 'caution' : 'muted'}>
+              {labelText}
+            </AppText>
+          </Pressable>
+        );
+      })}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  tile: { width: 150, padding: space.xs, gap: space.xxs, borderRadius: radius.md, borderWidth: 2, borderColor: colors.line, backgroundColor: colors.surface },
+  selected: { borderColor: colors.steel, backgroundColor: colors.steelTint },
+  thumb: { width: '100%', aspectRatio: 4 / 3, borderRadius: radius.sm, backgroundColor: colors.surfaceSunken },
+  check: { position: 'absolute', top: space.xs, left: space.xs, width: 28, height: 28, borderRadius: radius.sm, borderWidth: 2, borderColor: colors.steel, backgroundColor: colors.surface, alignItems: 'center', justifyContent: 'center' },
+  checkOn: { backgroundColor: colors.steel },
+});

@@ -26,6 +26,7 @@ export interface PoolRunOptions {
 
 /** Spare image buffers kept for the workers at most (20 MB each at 5 MP). */
 const MAX_RETURNED_BUFFERS = 8;
+const BUFFERS_PER_TASK = 3;
 
 function workerSetup(): { filename: string; execArgv: string[]; env: NodeJS.ProcessEnv } {
   const fromSource = __filename.endsWith('.ts');
@@ -69,8 +70,8 @@ export class VisionPool {
 
   /** Runs a rule on a photo in a worker; rejects with RuleRunError for a rule that cannot run. */
   async run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<RuleRun> {
-    const spare = this.returned;
-    this.returned = [];
+    // A run hands back its input and its retained outputs; a few buffers per task spread them over the tasks queued.
+    const spare = this.returned.splice(0, BUFFERS_PER_TASK);
     const task: PipelineTask = { rule, photo, kernels: this.kernels, mmPerPx: options.mmPerPx, retain: options.retain, spare };
     const transferList: ArrayBuffer[] = spare.map((b) => b.buffer as ArrayBuffer);
     if (options.transferPhoto && ownsWholeBuffer(photo.samples)) transferList.push(photo.samples.buffer as ArrayBuffer);

@@ -49,7 +49,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const dataDir = path.resolve(env.KW_DATA_DIR || path.join(repoRoot, '.data'));
   const pgPort = intFrom(env.KW_PG_PORT, 54329, 'KW_PG_PORT');
   const dbName = env.KW_DB_NAME || 'kernwright';
-  const webDir = path.join(repoRoot, 'dist');
+  const webDir = path.resolve(env.KW_WEB_DIR || path.join(repoRoot, 'dist'));
   const pkg = JSON.parse(fs.readFileSync(path.join(repoRoot, 'package.json'), 'utf8')) as { version: string };
   return {
     port: intFrom(env.PORT, 8081, 'PORT'),

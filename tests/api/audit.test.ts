@@ -1,3 +1,4 @@
+import { parse as parseCsv } from 'csv-parse/sync';
 import request from 'supertest';
 import { auditEventPageSchema, chainVerificationSchema } from '../../shared/api/audit';
 import { chainHash, GENESIS_HASH, sha256Hex } from '../../server/components/audit/chain';
@@ -71,6 +72,18 @@ test('pages go back in time with a keyset cursor', async () => {
   expect(first.items).toHaveLength(2);
   const second = await events(`?limit=2&before=${first.nextBefore}`);
   expect(BigInt(second.items[0].seq)).toBeLessThan(BigInt(first.items[1].seq));
+});
+
+test('the trail exports as CSV that parses back, and the export is itself recorded', async () => {
+  const res = await request(t.app).get('/api/audit-events/export.csv').set(auditor);
+  expect(res.status).toBe(200);
+  const rows: Record<string, string>[] = parseCsv(res.text, { columns: true });
+  const { items } = await events('?limit=500');
+  expect(rows.length).toBeGreaterThanOrEqual(items.length - 1);
+  const first = rows[0];
+  expect(first.prev_hash).toBe(GENESIS_HASH);
+  expect(JSON.parse(rows.find((r) => r.action === 'user.update')!.details)).toHaveProperty('changes');
+  expect((await events('?action=export.audit-trail-csv')).items).toHaveLength(1);
 });
 
 test('only auditors and administrators read the trail', async () => {

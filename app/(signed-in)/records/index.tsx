@@ -1,5 +1,10 @@
-import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+import { AreaGate } from '../../../components/AreaGate';
+import { RecordsScreen } from '../../../components/records/RecordsScreen';
 
 export default function RecordsRoute() {
-  return <AreaEmptyScreen area="records" />;
+  return (
+    <AreaGate area="records">
+      <RecordsScreen />
+    </AreaGate>
+  );
 }

@@ -31,5 +31,12 @@ export function auditRoutes(dataSource: DataSource, audit: AuditService): Router
   router.get('/verify', async (_req, res) => {
     res.json(await audit.verifyChain());
   });
+  router.get('/export.csv', async (req, res) => {
+    res.set({
+      'Content-Type': 'text/csv; charset=utf-8; header=present',
+      'Content-Disposition': `attachment; filename="audit-trail-${new Date().toISOString().slice(0, 10)}.csv"`,
+    });
+    await audit.exportCsv(req.user!, res);
+  });
   return router;
 }

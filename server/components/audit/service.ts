@@ -1,3 +1,7 @@
+import type { Writable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
+import { stringify } from 'csv-stringify';
+import QueryStream from 'pg-query-stream';
 import type { DataSource, EntityManager } from 'typeorm';
 import { AuditEventEntity } from './entities';
 import { chainHash, digestOf, GENESIS_HASH, type ChainedContent } from './chain';
@@ -72,6 +76,21 @@ export class AuditService {
   /** Records an event in a transaction of its own (for events that change no other record, such as a failed sign-in). */
   recordAlone(input: AuditInput): Promise<AuditEventEntity> {
     return this.dataSource.transaction((manager) => this.record(manager, input));
+  }
+
+  /** The whole trail as CSV (RFC 4180, ISO 8601 UTC), streamed from a cursor; the export is itself an event. */
+  async exportCsv(actor: { id: string; username: string }, out: Writable): Promise<void> {
+    await this.recordAlone({ actor: { id: actor.id, name: actor.username }, action: 'export.audit-trail-csv', entityType: 'audit-event' });
+    const runner = this.dataSource.createQueryRunner('slave');
+    const client = (await runner.connect()) as { query: (q: QueryStream) => NodeJS.ReadableStream };
+    try {
+      const sql = `select seq, to_char(occurred_at at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') as occurred_at_utc, actor_id, actor_name, action,
+        entity_type, entity_id, before_digest, after_digest, details::text as details, prev_hash, hash from audit_events order by seq`;
+      const columns = ['seq', 'occurred_at_utc', 'actor_id', 'actor_name', 'action', 'entity_type', 'entity_id', 'before_digest', 'after_digest', 'details', 'prev_hash', 'hash'];
+      await pipeline(client.query(new QueryStream(sql, [], { batchSize: 2000 })), stringify({ header: true, columns, record_delimiter: 'windows' }), out);
+    } finally {
+      await runner.release();
+    }
   }
 
   /** Recomputes the whole chain and names the first event whose link or content does not match. */

@@ -1,0 +1,56 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { downloadFile } from '../../lib/api';
+import { fileNameFrom, saveBlob } from '../../lib/saveFile';
+import { colors, radius, space } from '../../lib/theme';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { ErrorBanner } from '../ErrorBanner';
+
+interface ExportButtonProps {
+  label: string;
+  path: string;
+  query?: Record<string, string | undefined>;
+  fallbackName: string;
+  /** For CSV exports: the server sends the number of inspections first, so progress can be shown. */
+  countHeader?: string;
+}
+
+/** Downloads an export with progress (bytes, and inspections when the server says how many). */
+export function ExportButton({ label, path, query = {}, fallbackName, countHeader }: ExportButtonProps) {
+  const [progress, setProgress] = useState<string | null>(null);
+  const [error, setError] = useState<unknown>(null);
+  const run = async () => {
+    setError(null);
+    setProgress('Starting…');
+    try {
+      const { blob, headers } = await downloadFile(path, query, (bytes, h) => {
+        const total = countHeader ? h.get(countHeader) : null;
+        setProgress(`${(bytes / 1e6).toFixed(1)} MB received${total ? ` (${Number(total).toLocaleString()} inspections)` : ''}`);
+      });
+      saveBlob(blob, fileNameFrom(headers, fallbackName));
+      setProgress(null);
+    } catch (e) {
+      setError(e);
+      setProgress(null);
+    }
+  };
+  return (
+    <View style={styles.column}>
+      <Button label={progress ? 'Exporting…' : label} variant="secondary" compact busy={progress !== null} onPress={run} />
+      {progress ? (
+        <View accessibilityRole="progressbar" accessibilityLabel={`${label}: ${progress}`} style={styles.progress}>
+          <AppText variant="caption" tone="muted">
+            {progress}
+          </AppText>
+        </View>
+      ) : null}
+      {error ? <ErrorBanner error={error} nextStep="Try the export again; narrow the filters if it keeps failing." /> : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  column: { gap: space.xs },
+  progress: { paddingVertical: space.xs, paddingHorizontal: space.sm, borderRadius: radius.sm, backgroundColor: colors.surfaceSunken },
+});

@@ -1,0 +1,129 @@
+import { Link } from 'expo-router';
+import { useMemo, useState } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import { useLayout } from '../../hooks/useLayout';
+import { useRecordPages, type RecordFilterValues } from '../../hooks/useRecords';
+import { useSession } from '../../hooks/useSession';
+import { useLines } from '../../hooks/useStations';
+import { colors, minTouchTarget, radius, space } from '../../lib/theme';
+import type { RecordRow } from '../../shared/api/records';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { Card } from '../Card';
+import { ChoiceChips } from '../ChoiceChips';
+import { VerdictMark } from '../inspect/VerdictMark';
+import { Screen } from '../Screen';
+import { EmptyState, ErrorState, LoadingState } from '../StateViews';
+import { TextField } from '../TextField';
+import { AuditTrailCard } from './AuditTrailCard';
+import { ExportButton } from './ExportButton';
+
+type Verdict = NonNullable<RecordFilterValues['verdict']>;
+
+/** YYYY-MM-DD typed by a person → the start of that day in UTC, or undefined while incomplete. */
+function dayStart(text: string): string | undefined {
+  return /^\d{4}-\d{2}-\d{2}$/.test(text) && !Number.isNaN(Date.parse(text)) ? `${text}T00:00:00Z` : undefined;
+}
+function dayAfter(text: string): string | undefined {
+  const start = dayStart(text);
+  return start ? new Date(Date.parse(start) + 86_400_000).toISOString() : undefined;
+}
+
+function RecordLine({ row, phone }: { row: RecordRow; phone: boolean }) {
+  const when = new Date(row.createdAt);
+  return (
+    <Link href={`/records/${row.id}`} asChild>
+      <Pressable accessibilityRole="link" accessibilityLabel={`${row.verdict}, ${row.ruleName} at ${row.stationName}, ${when.toLocaleString()}`} style={StyleSheet.flatten([styles.row, phone && styles.rowPhone])}>
+        <VerdictMark verdict={row.verdict} size={28} />
+        <View style={styles.cellMain}>
+          <AppText variant="bodyStrong">{`${row.verdict}${row.cause ? ` · ${row.cause}` : ''}${row.disputed ? ' · disputed' : ''}`}</AppText>
+          <AppText variant="caption" tone="muted">{`${row.ruleName} v${row.ruleVersionNumber} · ${row.lineName}, ${row.stationName}`}</AppText>
+        </View>
+        <View style={styles.cellSide}>
+          <AppText variant="caption">{when.toLocaleString()}</AppText>
+          <AppText variant="caption" tone="muted">
+            {row.operatorName}
+          </AppText>
+        </View>
+      </Pressable>
+    </Link>
+  );
+}
+
+/** Inspection records: filters, keyset pages, CSV export, and the audit trail's verification. */
+export function RecordsScreen() {
+  const phone = useLayout() === 'phone';
+  const { user } = useSession();
+  const readsTrail = !!user?.roles.some((r) => r === 'auditor' || r === 'admin');
+  const lines = useLines();
+  const [verdict, setVerdict] = useState<Verdict | null>(null);
+  const [stationId, setStationId] = useState<string | null>(null);
+  const [disputed, setDisputed] = useState<boolean | null>(null);
+  const [from, setFrom] = useState('');
+  const [to, setTo] = useState('');
+  const filters: RecordFilterValues = useMemo(
+    () => ({ verdict: verdict ?? undefined, stationId: stationId ?? undefined, disputed: disputed === null ? undefined : disputed ? 'true' : 'false', from: dayStart(from), to: dayAfter(to) }),
+    [verdict, stationId, disputed, from, to],
+  );
+  const pages = useRecordPages(filters);
+  const rows = pages.data?.pages.flatMap((p) => p.items) ?? [];
+  const stations = (lines.data ?? []).flatMap((l) => l.stations.map((s) => ({ value: s.id, label: `${s.name}` })));
+  const exportQuery = Object.fromEntries(Object.entries(filters).map(([k, v]) => [k, v === undefined ? undefined : String(v)]));
+
+  return (
+    <Screen
+      title="Records"
+      subtitle="Every inspection, as recorded: who, where, which rule version, the verdict and its measurements."
+      actions={<ExportButton label="Export CSV" path="/api/records/inspections.csv" query={exportQuery} fallbackName="inspections.csv" countHeader="X-Inspection-Count" />}
+    >
+      <Card style={styles.filters}>
+        <ChoiceChips<Verdict | null>
+          label="Verdict"
+          value={verdict}
+          onChange={setVerdict}
+          choices={[
+            { value: null, label: 'All' },
+            { value: 'PASS', label: 'PASS' },
+            { value: 'FAIL', label: 'FAIL' },
+            { value: 'RETAKE', label: 'RETAKE' },
+          ]}
+        />
+        {stations.length > 0 ? <ChoiceChips<string | null> label="Station" value={stationId} onChange={setStationId} choices={[{ value: null, label: 'All' }, ...stations]} /> : null}
+        <ChoiceChips<boolean | null> label="Disputed" value={disputed} onChange={setDisputed} choices={[{ value: null, label: 'Either' }, { value: true, label: 'Disputed' }, { value: false, label: 'Not disputed' }]} />
+        <View style={[styles.dates, phone && styles.datesPhone]}>
+          <TextField label="From (YYYY-MM-DD, UTC)" value={from} onChangeText={setFrom} placeholder="2026-11-01" autoCapitalize="none" />
+          <TextField label="To (inclusive)" value={to} onChangeText={setTo} placeholder="2026-11-30" autoCapitalize="none" />
+        </View>
+      </Card>
+
+      {pages.isPending ? (
+        <LoadingState label="Loading inspections…" />
+      ) : pages.isError ? (
+        <ErrorState error={pages.error} onRetry={() => pages.refetch()} />
+      ) : rows.length === 0 ? (
+        <EmptyState title="No inspections match" body="Widen the dates or clear a filter. Inspections appear here as operators judge parts at the stations." />
+      ) : (
+        <Card style={styles.list}>
+          <AppText variant="caption" tone="muted">{`${rows.length} shown, newest first${pages.hasNextPage ? '; more below' : ''}`}</AppText>
+          {rows.map((row) => (
+            <RecordLine key={row.id} row={row} phone={phone} />
+          ))}
+          {pages.hasNextPage ? <Button label="Show older inspections" variant="secondary" busy={pages.isFetchingNextPage} onPress={() => pages.fetchNextPage()} /> : null}
+        </Card>
+      )}
+
+      {readsTrail ? <AuditTrailCard /> : null}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  filters: { gap: space.md },
+  dates: { flexDirection: 'row', gap: space.md },
+  datesPhone: { flexDirection: 'column' },
+  list: { gap: space.xs },
+  row: { flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: minTouchTarget, paddingVertical: space.sm, paddingHorizontal: space.sm, borderRadius: radius.md, borderBottomWidth: 1, borderBottomColor: colors.line },
+  rowPhone: { flexWrap: 'wrap' },
+  cellMain: { flex: 1, minWidth: 180, gap: space.xxs },
+  cellSide: { alignItems: 'flex-end', gap: space.xxs },
+});

@@ -1,0 +1,56 @@
+// The auditor's records: filter the table, open an inspection, check the audit trail (issue 8), at both widths.
+import { UserEntity } from '../../server/components/auth/entities';
+import { DEMO_PASSWORD } from '../../server/seed/demo-users';
+import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { spotPhoto, SPOT_RULE } from '../support/photos';
+
+jest.setTimeout(180_000);
+
+let product: RunningProduct;
+beforeAll(async () => {
+  product = await startProduct();
+  const { rules, stations, inspections } = product.services;
+  const users = product.db.dataSource.getRepository(UserEntity);
+  const [engineer, supervisor, operator] = await Promise.all(['engineer', 'supervisor', 'operator'].map((username) => users.findOneByOrFail({ username })));
+  await product.db.dataSource.query(`insert into part_types (code, name, family) values ('plate', 'Plate', 'plate')`);
+  const line = await stations.createLine(supervisor, { name: 'Line 1' });
+  const station = await stations.createStation(supervisor, { lineId: line.id, name: 'Press 1', cameraNote: '' });
+  const rule = await rules.create(engineer, { name: 'Plate spots', partType: 'plate', smallestDefectMm: null, document: SPOT_RULE });
+  const v = rule.versions[0];
+  const [set] = await product.db.dataSource.query(`insert into reference_sets (name, part_type, created_by) values ('s', 'plate', $1) returning id`, [engineer.id]);
+  await product.db.dataSource.query(`insert into trials (rule_version_id, reference_set_id, content_hash, state, started_by) values ($1, $2, $3, 'done', $4)`, [v.id, set.id, v.contentHash, engineer.id]);
+  await rules.submit(engineer, v.id, '');
+  await rules.release(supervisor, v.id, { password: DEMO_PASSWORD, meaning: 'approval', note: '' });
+  for (const [i, side] of [0, 8, 2].entries()) await inspections.inspect(operator, { stationId: station.id, ruleVersionId: v.id, idempotencyKey: `browser-rec-${i}` }, await spotPhoto(i, side));
+});
+afterAll(() => product?.close());
+
+test.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('an auditor finds the failed inspection, opens it and checks the audit trail (%s)', async (name, viewport) => {
+  const browser = await launchBrowser(viewport);
+  try {
+    const page = await browser.newPage();
+    const errors = watchErrors(page);
+    await page.goto(`${product.url}/sign-in`);
+    await page.getByLabel('User name').fill('auditor');
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).waitFor();
+    await page.goto(`${product.url}/records`);
+    await page.getByText('3 shown, newest first').waitFor();
+    await page.getByRole('radio', { name: 'FAIL', exact: true }).click();
+    await page.getByText('1 shown, newest first').waitFor();
+    await page.getByRole('button', { name: 'Check the audit trail' }).click();
+    await page.getByText(/Intact: all \d+ events/).waitFor();
+    await screenshot(page, `records-auditor-${name}`);
+    await page.getByRole('link', { name: /^FAIL, Plate spots at Press 1/ }).click();
+    await page.getByText('Inspection record').waitFor();
+    await page.getByText('Spot area', { exact: true }).first().waitFor();
+    await screenshot(page, `record-detail-auditor-${name}`);
+    expect(errors).toEqual([]);
+  } finally {
+    await browser.close();
+  }
+});

@@ -27,6 +27,8 @@ export type InspectOutcome = { kind: 'verdict'; inspection: Inspection } | { kin
 export function useInspectPhoto() {
   const [progress, setProgress] = useState(0);
   const mutation = useMutation({
+    // Run even when the browser says it is offline: the photo must then go to the device queue, not wait in memory.
+    networkMode: 'always',
     mutationFn: async (upload: InspectionUpload): Promise<InspectOutcome> => {
       setProgress(0);
       try {

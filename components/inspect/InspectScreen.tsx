@@ -160,24 +160,23 @@ export function InspectScreen() {
     );
   }
 
+  // With messages above it, the button follows them directly so that it stays on screen.
+  const busyScreen = queue.count > 0 || queue.delivered.length > 0 || queue.refused.length > 0 || step.kind === 'queued' || Boolean(inspect.error) || Boolean(pickError);
   return (
     <Screen title="Inspect" width="reading">
       {context}
       {queueBanner}
       <DeliveredList delivered={queue.delivered} refused={queue.refused} onDismiss={() => { queue.dismissDelivered(); queue.dismissRefused(); }} />
-      {step.kind === 'queued' ? (
+      {step.kind === 'queued' && queue.count > 0 ? (
         <Card>
-          <AppText variant="heading">⏸ Photo kept on this device</AppText>
-          <AppText>
-            The server could not be reached, so the photo waits here with its own key and is sent when the server answers. Its verdict
-            appears on this screen then. Keep the part aside until it does.
-          </AppText>
+          <AppText variant="heading">◷ Photo kept on this device</AppText>
+          <AppText>Its verdict appears here once the server answers. Keep the part aside until then.</AppText>
         </Card>
       ) : null}
       {inspect.error ? <ErrorBanner error={inspect.error} /> : null}
       {pickError ? <ErrorBanner error={null} message={pickError} nextStep="Try again." /> : null}
       {/* One-handed use: the main button sits in the lower half of a phone screen. */}
-      <View style={[styles.lower, layout === 'phone' && { minHeight: height * 0.45 }]}>
+      <View style={[styles.lower, layout === 'phone' && !busyScreen && { minHeight: height * 0.45 }]}>
         {step.kind === 'sending' ? (
           <UploadProgress fraction={inspect.progress} />
         ) : (

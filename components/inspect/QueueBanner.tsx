@@ -16,7 +16,7 @@ export function QueueBanner({ count, sending, onSendNow }: QueueBannerProps) {
   return (
     <View style={styles.banner} role="status" aria-live="polite" testID="queue-banner">
       <View style={styles.text}>
-        <AppText variant="bodyStrong" tone="caution">{`⏸ ${photos} on this device`}</AppText>
+        <AppText variant="bodyStrong" tone="caution">{`◷ ${photos} on this device`}</AppText>
         <AppText variant="caption">
           The server could not be reached. They are sent by themselves when it answers again, each counted once. Keep the parts aside
           until their verdicts arrive.

@@ -21,7 +21,7 @@ import { TrialPanel } from '../trials/TrialPanel';
 import { GaugeEditor } from './GaugeEditor';
 import { PipelineEditor } from './PipelineEditor';
 import { QualityGateEditor } from './QualityGateEditor';
-import { documentFrom, editorReducer, editorStateFrom, issuesByKey, type EditorAction } from './ruleEditorState';
+import { canonicalJson, documentFrom, editorReducer, editorStateFrom, issuesByKey, type EditorAction } from './ruleEditorState';
 
 interface DraftEditorProps {
   rule: RuleDetail;
@@ -36,7 +36,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   const lines = useLines();
   const save = useSaveDraft();
   const [state, dispatchRaw] = useReducer(editorReducer, version.document, editorStateFrom);
-  const [baseline, setBaseline] = useState(() => JSON.stringify(documentFrom(editorStateFrom(version.document))));
+  const [baseline, setBaseline] = useState(() => canonicalJson(documentFrom(editorStateFrom(version.document))));
   const [changedAt, setChangedAt] = useState(0);
   const [serverIssues, setServerIssues] = useState<FieldIssue[]>([]);
   const [drawingKey, setDrawingKey] = useState<string | null>(null);
@@ -52,7 +52,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   }, []);
 
   const document = useMemo(() => documentFrom(state), [state]);
-  const documentText = JSON.stringify(document);
+  const documentText = canonicalJson(document);
   const unsaved = documentText !== baseline;
   const localIssues = useMemo(() => {
     const result = validateRuleDocument(document);
@@ -76,7 +76,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
       { versionId: version.id, document },
       {
         onSuccess: (saved) => {
-          setBaseline(JSON.stringify(documentFrom(editorStateFrom(saved.document))));
+          setBaseline(canonicalJson(documentFrom(editorStateFrom(saved.document))));
           setNotice(`Saved version ${saved.number} at ${new Date(saved.editedAt).toLocaleTimeString()}.`);
         },
         onError: (error) => setServerIssues(error instanceof ApiError ? error.fieldIssues : []),

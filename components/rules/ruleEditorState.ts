@@ -185,3 +185,10 @@ export function startingDocument(name: string): Record<string, unknown> {
     gauges: [{ name: 'Edge share', measure: 'edge-fraction', region: { shape: 'rect', x: 0.1, y: 0.1, w: 0.8, h: 0.8 }, limits: { max: 0.2 } }],
   };
 }
+
+/** JSON with object keys sorted, so that two documents with the same content compare equal whatever their key order. */
+export function canonicalJson(value: unknown): string {
+  return JSON.stringify(value, (_key, v: unknown) =>
+    v && typeof v === 'object' && !Array.isArray(v) ? Object.fromEntries(Object.entries(v as Record<string, unknown>).sort(([a], [b]) => a.localeCompare(b))) : v,
+  );
+}

@@ -1,0 +1,122 @@
+// The engineer's workbench in a real browser against the real server: build a rule from scratch,
+// see the live preview's verdict on a reference photo (and the server agreeing), run a trial, read
+// its figures and submit the draft for review at wide width; the rules list and a rule page on a phone.
+import type { BrowserContext, Page } from 'playwright-core';
+import { DEMO_PASSWORD } from '../../server/seed/demo-users';
+import { seedDemoPlant } from '../../server/seed/demo-plant';
+import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+
+jest.setTimeout(300_000);
+
+const RULE_NAME = 'Bracket flange scratch check';
+
+let product: RunningProduct;
+beforeAll(async () => {
+  product = await startProduct();
+  await seedDemoPlant(product.services, { referencePhotos: 6, historyDays: 0, perStationPerDay: 0 });
+});
+afterAll(() => product?.close());
+
+async function signIn(page: Page, username: string): Promise<void> {
+  await page.goto(`${product.url}/sign-in`);
+  await page.getByLabel('User name').fill(username);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+}
+
+describe('at wide width', () => {
+  let browser: BrowserContext;
+  beforeAll(async () => {
+    browser = await launchBrowser(WIDE);
+  });
+  afterAll(() => browser?.close());
+
+  test('an engineer builds a rule, previews it, runs a trial and submits it for review', async () => {
+    const page = await browser.newPage();
+    const errors = watchErrors(page);
+    await signIn(page, 'engineer');
+    await page.goto(`${product.url}/rules`);
+
+    // A new rule starts from the simple pipeline.
+    await page.getByRole('button', { name: 'New rule' }).first().click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Rule name').fill(RULE_NAME);
+    await dialog.getByRole('radio', { name: 'Stamped bracket 60×30' }).click();
+    await dialog.getByLabel('Smallest defect to catch (mm, optional)').fill('0.5');
+    await dialog.getByRole('button', { name: 'Create rule' }).click();
+    await page.getByRole('heading', { name: RULE_NAME }).waitFor();
+    await page.getByText('Version 1 (draft) · saved').waitFor();
+
+    // Add a median step and set its size; add a gauge with a limit.
+    await page.getByRole('radio', { name: 'Median' }).click();
+    await page.getByRole('button', { name: 'Add Median' }).click();
+    await page.getByLabel('Size (px)').fill('5');
+    await page.getByText('Step 5: Median').waitFor();
+    await page.getByRole('button', { name: 'Add a gauge' }).click();
+    await page.getByLabel('Gauge name').nth(1).fill('Largest mark');
+    await page.getByLabel('Highest allowed (px²)').fill('400000');
+    await page.getByText(/has unsaved changes/).waitFor();
+    await page.getByRole('button', { name: 'Save draft' }).click();
+    await page.getByText('Version 1 (draft) · saved').waitFor();
+
+    // The live preview on a reference photo, then the server's check of the same numbers.
+    await page.getByRole('radio', { name: /reference photos/ }).first().click();
+    await page.getByRole('radio', { name: /^Photo / }).first().click();
+    const verdict = page.getByRole('heading', { name: /^Preview verdict: (PASS|FAIL|RETAKE)$/ });
+    await verdict.waitFor({ timeout: 60_000 });
+    await page.getByRole('button', { name: 'Show 5. Median large' }).waitFor();
+    await page.getByText('Largest mark', { exact: true }).first().waitFor();
+    await page.getByRole('button', { name: 'Check on server' }).click();
+    await page.getByText('✓ The server agrees with the preview').waitFor({ timeout: 60_000 });
+    await screenshot(page, 'workbench-preview-wide');
+
+    // A trial of the saved draft on the reference set, followed until its figures show.
+    await page.getByRole('button', { name: 'Run trial' }).click();
+    await page.getByText(/^False reject rate/).waitFor({ timeout: 120_000 });
+    await page.getByRole('table', { name: 'Confusion table: labels against verdicts' }).waitFor();
+    expect(await page.getByText(/defective parts passed\)/).first().textContent()).toMatch(/defective parts passed\): (\d+\.\d % \(\d+ of \d+; 95 % interval|no photos)/);
+    await page.getByText(/^Cohen’s kappa/).waitFor();
+    await page.getByRole('radio', { name: 'Largest mark' }).click();
+    await page.getByText(/Press a dot to use its limit/).waitFor();
+    await screenshot(page, 'workbench-trial-wide');
+
+    // Submitting with a note: the version goes to review and can no longer be edited.
+    await page.getByRole('button', { name: 'Submit for review' }).first().click();
+    const submit = page.getByRole('dialog');
+    await submit.getByLabel('Note for the reviewer').fill('Median added against speckle; trial attached.');
+    await submit.getByRole('button', { name: 'Submit for review' }).click();
+    await page.getByText('⧗ v1 In review').waitFor({ timeout: 30_000 });
+    await page.getByRole('button', { name: 'New draft from version 1' }).waitFor();
+    await screenshot(page, 'workbench-submitted-wide');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});
+
+describe('at phone width', () => {
+  let browser: BrowserContext;
+  beforeAll(async () => {
+    browser = await launchBrowser(PHONE);
+  });
+  afterAll(() => browser?.close());
+
+  test('the rules list and a rule page fit a phone', async () => {
+    const page = await browser.newPage();
+    const errors = watchErrors(page);
+    await signIn(page, 'engineer');
+    await page.goto(`${product.url}/rules`);
+    const link = page.getByRole('link', { name: 'Open rule Bracket hole and edge check' });
+    await link.waitFor();
+    await screenshot(page, 'workbench-rules-phone');
+    const box = await link.boundingBox();
+    expect(box!.width).toBeLessThanOrEqual(PHONE.width);
+    expect(box!.height).toBeGreaterThanOrEqual(44);
+    await link.click();
+    await page.getByRole('heading', { name: 'Versions' }).waitFor();
+    await page.getByText(/v1 Released/).first().waitFor();
+    await screenshot(page, 'workbench-rule-phone');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});

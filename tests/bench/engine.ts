@@ -72,20 +72,31 @@ function best(runs: number, fn: () => void): number {
  * Best wall times of ours and OpenCV's, measured in turn (ours, OpenCV, ours, …) after one
  * warm-up each, so that both see the same moments of a shared, busy machine.
  */
-function alternating(runs: number, ours: () => void, opencv: () => void): { ours: number; opencv: number } {
+function alternating(runs: number, ours: () => void, opencv: () => void): { ours: number; opencv: number; oursCpu: number; opencvCpu: number } {
   ours();
   opencv();
   let a = Infinity;
   let b = Infinity;
+  let aCpu = Infinity;
+  let bCpu = Infinity;
+  // CPU time of this process (both run on this thread): leaves out the time other processes held the core.
+  const cpuMs = (since: NodeJS.CpuUsage) => {
+    const used = process.cpuUsage(since);
+    return (used.user + used.system) / 1000;
+  };
   for (let i = 0; i < runs; i++) {
+    let c0 = process.cpuUsage();
     let t0 = performance.now();
     ours();
     a = Math.min(a, performance.now() - t0);
+    aCpu = Math.min(aCpu, cpuMs(c0));
+    c0 = process.cpuUsage();
     t0 = performance.now();
     opencv();
     b = Math.min(b, performance.now() - t0);
+    bCpu = Math.min(bCpu, cpuMs(c0));
   }
-  return { ours: a, opencv: b };
+  return { ours: a, opencv: b, oursCpu: aCpu, opencvCpu: bCpu };
 }
 
 async function bestAsync(runs: number, fn: () => Promise<unknown>): Promise<number> {
@@ -120,7 +131,7 @@ function printRows(label: string, pixels: number, rows: Row[]): void {
   }
 }
 
-async function benchSize(cv: Cv, label: string, width: number, height: number, runs: number): Promise<{ pipelineMs: number; cvPipelineMs: number; fullRunMs: number; photo: RawPhoto }> {
+async function benchSize(cv: Cv, label: string, width: number, height: number, runs: number): Promise<{ pipelineMs: number; cvPipelineMs: number; pipelineCpuMs: number; cvPipelineCpuMs: number; fullRunMs: number; photo: RawPhoto }> {
   const photo = washerPhoto(width, height);
   const pixels = width * height;
   const input = channelImage(photo, 'luma');
@@ -158,7 +169,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
   const range = { min: NaN, max: NaN };
   const packed = createPackedMask(width, height);
   // The headline figure: twice the runs of the single steps.
-  const { ours: pipelineMs, opencv: cvPipelineMs } = alternating(
+  const { ours: pipelineMs, opencv: cvPipelineMs, oursCpu: pipelineCpuMs, opencvCpu: cvPipelineCpuMs } = alternating(
     2 * runs,
     () => {
       gaussianBlur(input, 1, 'reflect', a);
@@ -268,7 +279,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
 
   printRows(label, pixels, rows);
   [u8, f32, mag32, mask8, m1, m2, m3, m4, stats, centroids, square3, cvKernel5, cvKernel15].forEach((m) => m.delete());
-  return { pipelineMs, cvPipelineMs, fullRunMs, photo };
+  return { pipelineMs, cvPipelineMs, pipelineCpuMs, cvPipelineCpuMs, fullRunMs, photo };
 }
 
 async function benchPool(photo: RawPhoto, singleRunMs: number, cvPipelineMs: number): Promise<void> {
@@ -321,6 +332,7 @@ async function main(): Promise<void> {
   SIZES.forEach((s, i) => {
     const r = results[i];
     console.log(`  ${s.label}: ours ${r.pipelineMs.toFixed(1)} ms, OpenCV ${r.cvPipelineMs.toFixed(1)} ms, ratio ${(r.pipelineMs / r.cvPipelineMs).toFixed(2)}; whole rule run ${r.fullRunMs.toFixed(1)} ms`);
+    console.log(`  ${s.label} CPU time: ours ${r.pipelineCpuMs.toFixed(1)} ms, OpenCV ${r.cvPipelineCpuMs.toFixed(1)} ms, ratio ${(r.pipelineCpuMs / r.cvPipelineCpuMs).toFixed(2)}`);
   });
   await benchPool(results[0].photo, results[0].fullRunMs, results[0].cvPipelineMs);
   const mem = process.memoryUsage();

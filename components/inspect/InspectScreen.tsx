@@ -136,16 +136,17 @@ export function InspectScreen() {
                 style={styles.bigAction}
               />
               {inspection.verdict === 'RETAKE' ? <Button label="Next part" variant="secondary" onPress={() => setStep({ kind: 'ready' })} /> : null}
-              {!disputed ? <Button label="Dispute verdict" variant="secondary" onPress={() => setDisputing(true)} /> : null}
+              {disputed ? (
+                <Card>
+                  <AppText variant="bodyStrong">⚑ Disputed</AppText>
+                  <AppText>{`Your note: “${inspection.dispute?.note}”. Keep the part aside for a qualified person.`}</AppText>
+                </Card>
+              ) : (
+                <Button label="Dispute verdict" variant="secondary" onPress={() => setDisputing(true)} />
+              )}
             </View>
           }
         />
-        {disputed ? (
-          <Card>
-            <AppText variant="bodyStrong">⚑ Disputed</AppText>
-            <AppText>{`Your note: “${inspection.dispute?.note}”. Keep the part aside for a qualified person.`}</AppText>
-          </Card>
-        ) : null}
         <SafetyNote />
         <DisputeDialog
           inspection={inspection}

@@ -34,14 +34,14 @@ export function RuleDiffTable({ rows, beforeTitle, afterTitle }: RuleDiffTablePr
             .filter((r) => r.section === section)
             .map((r) => (
               <View key={r.label} style={[styles.row, layout === 'phone' && styles.rowPhone, r.change !== 'same' && styles.rowChanged]}>
-                <View style={styles.labelCell}>
+                <View style={layout === 'phone' ? styles.labelCellPhone : styles.labelCell}>
                   <AppText variant="label">{r.label}</AppText>
                   {r.change !== 'same' ? <AppText variant="caption" tone="caution">{CHANGE_WORDS[r.change]}</AppText> : null}
                 </View>
-                <AppText style={styles.cell} tone={r.before === null ? 'muted' : 'default'} selectable>
+                <AppText style={layout === 'wide' && styles.cell} tone={r.before === null ? 'muted' : 'default'} selectable>
                   {layout === 'phone' ? `${beforeTitle}: ${r.before ?? '(none)'}` : r.before ?? '(none)'}
                 </AppText>
-                <AppText style={styles.cell} tone={r.after === null ? 'muted' : 'default'} selectable>
+                <AppText style={layout === 'wide' && styles.cell} tone={r.after === null ? 'muted' : 'default'} selectable>
                   {layout === 'phone' ? `${afterTitle}: ${r.after ?? '(none)'}` : r.after ?? '(none)'}
                 </AppText>
               </View>
@@ -60,5 +60,6 @@ const styles = StyleSheet.create({
   headerRow: { backgroundColor: colors.surfaceSunken, borderRadius: radius.sm },
   rowChanged: { borderLeftColor: colors.caution, backgroundColor: colors.cautionTint },
   labelCell: { flexBasis: 180, flexShrink: 0, gap: space.xxs },
+  labelCellPhone: { gap: space.xxs },
   cell: { flex: 1 },
 });

@@ -6,7 +6,7 @@ import { DEMO_PASSWORD } from '../../server/seed/demo-users';
 import { seedDemoPlant } from '../../server/seed/demo-plant';
 import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
 
-jest.setTimeout(300_000);
+jest.setTimeout(600_000);
 
 const RULE_NAME = 'Bracket flange scratch check';
 

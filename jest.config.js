@@ -1,9 +1,10 @@
 // Three projects: pure computations, the HTTP API on a real PostgreSQL, and the built app in headless Chromium.
 const tsTransform = { '^.+\\.tsx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }] };
-// Hooks and tests get 60 s: set-up copies a database, and the machine may be busy.
-const common = { testEnvironment: 'node', transform: tsTransform, moduleFileExtensions: ['ts', 'tsx', 'js', 'json'], testTimeout: 60_000 };
+const common = { testEnvironment: 'node', transform: tsTransform, moduleFileExtensions: ['ts', 'tsx', 'js', 'json'] };
 
 module.exports = {
+  // Hooks and tests get 60 s: set-up copies a database, and the machine may be busy (a global option, not a project one).
+  testTimeout: 60_000,
   projects: [
     { ...common, displayName: 'unit', roots: ['<rootDir>/tests/unit'] },
     { ...common, displayName: 'api', roots: ['<rootDir>/tests/api'], globalSetup: '<rootDir>/tests/support/global-setup.ts' },

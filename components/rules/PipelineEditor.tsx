@@ -81,7 +81,7 @@ const styles = StyleSheet.create({
   disabled: { backgroundColor: colors.surfaceMuted, borderStyle: 'dashed', borderColor: colors.control },
   header: { flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', gap: space.sm },
   titles: { flexGrow: 1, flexShrink: 1, flexBasis: 200, gap: space.xxs },
-  tools: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xxs },
+  tools: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xxs, flexShrink: 1, maxWidth: '100%' },
   adder: { gap: space.sm, padding: space.md, borderRadius: radius.lg, backgroundColor: colors.surfaceSunken },
   start: { alignSelf: 'flex-start' },
 });

@@ -6,7 +6,8 @@ import os from 'node:os';
 import path from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
 import { generateDataset } from '../../server/demo';
-import { DEMO_FRAME, seedDemoPlant } from '../../server/seed/demo-plant';
+import { DEMO_FRAME } from '../../server/seed/demo-plant';
+import { seedPlantIntoProduct } from '../support/browser';
 import { DEMO_PASSWORD } from '../../server/seed/demo-users';
 import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
 
@@ -18,7 +19,7 @@ const photos: string[] = [];
 
 beforeAll(async () => {
   product = await startProduct();
-  await seedDemoPlant(product.services, { referencePhotos: 6, historyDays: 1, perStationPerDay: 1 });
+  await seedPlantIntoProduct(product, { referencePhotos: 6, historyDays: 1, perStationPerDay: 1 });
   photoDir = fs.mkdtempSync(path.join(os.tmpdir(), 'kw-operator-photos-'));
   for await (const photo of generateDataset({ count: 3, seed: 41, families: ['washer'], sizes: [DEMO_FRAME], defectShare: 0.5, retakeShare: 0 })) {
     const file = path.join(photoDir, photo.fileName);

@@ -73,7 +73,7 @@ describe('at wide width', () => {
 
     // A trial of the saved draft on the reference set, followed until its figures show.
     await page.getByRole('button', { name: 'Run trial' }).click();
-    await page.getByText(/^False reject rate/).waitFor({ timeout: 120_000 });
+    await page.getByText(/good parts failed\): /).waitFor({ timeout: 120_000 });
     await page.getByRole('table', { name: 'Confusion table: labels against verdicts' }).waitFor();
     expect(await page.getByText(/defective parts passed\)/).first().textContent()).toMatch(/defective parts passed\): (\d+\.\d % \(\d+ of \d+; 95 % interval|no photos)/);
     await page.getByText(/^Cohen’s kappa/).waitFor();

@@ -3,8 +3,7 @@
 // its figures and submit the draft for review at wide width; the rules list and a rule page on a phone.
 import type { BrowserContext, Page } from 'playwright-core';
 import { DEMO_PASSWORD } from '../../server/seed/demo-users';
-import { seedDemoPlant } from '../../server/seed/demo-plant';
-import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
 
 jest.setTimeout(600_000);
 
@@ -13,7 +12,7 @@ const RULE_NAME = 'Bracket flange scratch check';
 let product: RunningProduct;
 beforeAll(async () => {
   product = await startProduct();
-  await seedDemoPlant(product.services, { referencePhotos: 6, historyDays: 0, perStationPerDay: 0 });
+  await seedPlantIntoProduct(product, { referencePhotos: 6, historyDays: 0, perStationPerDay: 0 });
 });
 afterAll(() => product?.close());
 

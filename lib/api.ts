@@ -144,6 +144,41 @@ async function request<T>(path: string, options: RequestOptions<T> = {}): Promis
   return parsed.data;
 }
 
+/**
+ * POSTs multipart form data through XMLHttpRequest, the one browser and React Native transport that
+ * reports upload progress; errors take the same ApiError shape as every other call.
+ */
+function sendForm<T>(path: string, form: FormData, schema: z.ZodType<T>, onProgress?: (fraction: number) => void): Promise<T> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', buildUrl(path));
+    xhr.setRequestHeader('Accept', 'application/json');
+    const token = currentToken();
+    if (token) xhr.setRequestHeader('Authorization', `Bearer ${token}`);
+    xhr.upload.onprogress = (event) => {
+      if (event.lengthComputable && event.total > 0) onProgress?.(event.loaded / event.total);
+    };
+    xhr.onerror = () => reject(new ApiError(0, 'network_error', 'Kernwright’s server could not be reached.'));
+    xhr.onload = () => {
+      let payload: unknown;
+      try {
+        payload = xhr.responseText ? JSON.parse(xhr.responseText) : undefined;
+      } catch {
+        payload = undefined;
+      }
+      if (xhr.status < 200 || xhr.status >= 300) {
+        if (xhr.status === 401) endSession('expired');
+        reject(errorFromResponse(xhr.status, payload));
+        return;
+      }
+      const parsed = schema.safeParse(payload);
+      if (parsed.success) resolve(parsed.data);
+      else reject(new ApiError(xhr.status, 'unreadable_response', 'The server sent an answer this version of the app cannot read.'));
+    };
+    xhr.send(form);
+  });
+}
+
 // Auth
 
 export function signIn(credentials: SignInRequest): Promise<SignInResponse> {
@@ -246,34 +281,7 @@ export function uploadInspection(upload: InspectionUpload, onProgress?: (fractio
   form.append('ruleVersionId', upload.ruleVersionId);
   form.append('idempotencyKey', upload.idempotencyKey);
   form.append('photo', upload.photo, upload.fileName);
-  return new Promise((resolve, reject) => {
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', buildUrl('/api/inspections'));
-    xhr.setRequestHeader('Accept', 'application/json');
-    const token = currentToken();
-    if (token) xhr.setRequestHeader('Authorization', `Bearer ${token}`);
-    xhr.upload.onprogress = (event) => {
-      if (event.lengthComputable && event.total > 0) onProgress?.(event.loaded / event.total);
-    };
-    xhr.onerror = () => reject(new ApiError(0, 'network_error', 'Kernwright’s server could not be reached.'));
-    xhr.onload = () => {
-      let payload: unknown;
-      try {
-        payload = xhr.responseText ? JSON.parse(xhr.responseText) : undefined;
-      } catch {
-        payload = undefined;
-      }
-      if (xhr.status < 200 || xhr.status >= 300) {
-        if (xhr.status === 401) endSession('expired');
-        reject(errorFromResponse(xhr.status, payload));
-        return;
-      }
-      const parsed = inspectionSchema.safeParse(payload);
-      if (parsed.success) resolve(parsed.data);
-      else reject(new ApiError(xhr.status, 'unreadable_response', 'The server sent an answer this version of the app cannot read.'));
-    };
-    xhr.send(form);
-  });
+  return sendForm('/api/inspections', form, inspectionSchema, onProgress);
 }
 
 export function fetchInspection(id: string, signal?: AbortSignal): Promise<Inspection> {
@@ -394,37 +402,9 @@ export function uploadReferencePhotos(setId: string, photos: UploadablePhoto[], 
     // React Native's FormData takes a { uri, name, type } object for a file on the device.
     else form.append('photos', { uri: photo.uri, name: photo.name, type: photo.type } as unknown as Blob);
   }
-  return new Promise((resolve, reject) => {
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', buildUrl(`/api/reference-sets/${encodeURIComponent(setId)}/images`));
-    xhr.setRequestHeader('Accept', 'application/json');
-    const token = currentToken();
-    if (token) xhr.setRequestHeader('Authorization', `Bearer ${token}`);
-    xhr.upload.onprogress = (event) => {
-      if (event.lengthComputable && event.total > 0) options.onProgress?.(event.loaded / event.total);
-    };
-    xhr.onerror = () => reject(new ApiError(0, 'network_error', 'Kernwright’s server could not be reached.'));
-    xhr.onload = () => {
-      let payload: unknown;
-      try {
-        payload = xhr.responseText ? JSON.parse(xhr.responseText) : undefined;
-      } catch {
-        payload = undefined;
-      }
-      if (xhr.status < 200 || xhr.status >= 300) {
-        if (xhr.status === 401) endSession('expired');
-        reject(errorFromResponse(xhr.status, payload));
-        return;
-      }
-      const parsed = uploadResultSchema.safeParse(payload);
-      if (!parsed.success) {
-        reject(new ApiError(xhr.status, 'unreadable_response', 'The server sent an answer this version of the app cannot read.'));
-        return;
-      }
-      options.onProgress?.(1);
-      resolve(parsed.data.outcomes);
-    };
-    xhr.send(form);
+  return sendForm(`/api/reference-sets/${encodeURIComponent(setId)}/images`, form, uploadResultSchema, options.onProgress).then((result) => {
+    options.onProgress?.(1);
+    return result.outcomes;
   });
 }
 

@@ -14,6 +14,9 @@ export const recordFiltersSchema = z.strictObject({
   verdict: verdictSchema.optional(),
   operatorId: z.uuid().optional(),
   disputed: z.enum(['true', 'false']).optional(),
+  partType: z.string().min(1).max(40).optional(),
+  /** The failing gauge or cause stored on the inspection (a Pareto bar). */
+  cause: z.string().min(1).max(120).optional(),
   order: z.enum(['newest', 'oldest']).default('newest'),
 });
 export type RecordFilters = z.output<typeof recordFiltersSchema>;

@@ -16,6 +16,8 @@ export function whereClause(filters: RecordFilters, params: unknown[]): string {
   if (filters.ruleVersionId) parts.push(`i.rule_version_id = ${bind(filters.ruleVersionId)}`);
   if (filters.verdict) parts.push(`i.verdict = ${bind(filters.verdict)}`);
   if (filters.operatorId) parts.push(`i.operator_id = ${bind(filters.operatorId)}`);
+  if (filters.partType) parts.push(`i.part_type = ${bind(filters.partType)}`);
+  if (filters.cause) parts.push(`i.cause = ${bind(filters.cause)}`);
   if (filters.disputed) parts.push(`${filters.disputed === 'true' ? '' : 'not '}exists (select 1 from disputes d where d.inspection_id = i.id)`);
   return parts.length ? parts.join(' and ') : 'true';
 }

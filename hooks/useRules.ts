@@ -7,6 +7,8 @@ export interface RuleFilters {
   search: string;
   state: RuleVersionState | null;
   partType: string | null;
+  /** Only rules the signed-in person created or authored a version of. */
+  mine: boolean;
   limit: number;
   offset: number;
 }
@@ -28,6 +30,7 @@ export function useRuleList(filters: RuleFilters) {
           q: filters.search.trim() || undefined,
           state: filters.state ?? undefined,
           partType: filters.partType ?? undefined,
+          owner: filters.mine ? 'me' : undefined,
           limit: filters.limit,
           offset: filters.offset,
         },

@@ -449,6 +449,8 @@ export interface RuleListQuery {
   q?: string;
   state?: RuleVersionState;
   partType?: string;
+  /** "me" or a person's id. */
+  owner?: string;
   limit: number;
   offset: number;
 }

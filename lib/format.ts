@@ -11,3 +11,8 @@ export function describePage(offset: number, shown: number, total: number): stri
   if (total === 0 || shown === 0) return `0 of ${total}`;
   return `${offset + 1}–${offset + shown} of ${total}`;
 }
+
+/** A share 0..1 as "12.5 %", or "—" when there is none. */
+export function formatPercent(share: number | null | undefined): string {
+  return share === null || share === undefined || Number.isNaN(share) ? '—' : `${(share * 100).toFixed(1)} %`;
+}

@@ -4,17 +4,15 @@ import { colors, radius, space } from '../../lib/theme';
 import type { TrialSummary } from '../../shared/api/trials';
 import { AppText } from '../AppText';
 import { ErrorState, LoadingState } from '../StateViews';
+import { formatPercent } from '../../lib/format';
 
-function percent(value: number | null): string {
-  return value === null ? '—' : `${(value * 100).toFixed(1)} %`;
-}
 
 function Rate({ label, explanation, p }: { label: string; explanation: string; p: TrialSummary['falseRejectRate'] }) {
   return (
     <View style={styles.rate}>
       <AppText variant="label">{label}</AppText>
-      <AppText variant="heading">{percent(p.rate)}</AppText>
-      <AppText variant="caption">{`${p.count} of ${p.of} · 95 % interval ${percent(p.low)} to ${percent(p.high)}`}</AppText>
+      <AppText variant="heading">{formatPercent(p.rate)}</AppText>
+      <AppText variant="caption">{`${p.count} of ${p.of} · 95 % interval ${formatPercent(p.low)} to ${formatPercent(p.high)}`}</AppText>
       <AppText variant="caption" tone="muted">{explanation}</AppText>
     </View>
   );

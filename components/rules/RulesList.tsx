@@ -1,10 +1,10 @@
-// Every rule with its latest and released versions: search, filter by state and part type, create one.
+// Every rule with its latest and released versions and newest trial: search, filter by owner, state and part type, create one.
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { Link, useRouter } from 'expo-router';
 import { RULE_VERSION_STATES, type RuleSummary, type RuleVersionState } from '../../shared/api/rules';
 import { findArea } from '../../lib/navigation';
-import { formatDate } from '../../lib/format';
+import { formatDate, formatPercent } from '../../lib/format';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import { useDebouncedValue } from '../../hooks/useDebouncedValue';
 import { usePartTypes } from '../../hooks/useReferenceSets';
@@ -22,6 +22,13 @@ import { STATE_WORDS, VersionState } from './VersionState';
 
 const PAGE_SIZE = 20;
 
+function describeLastTrial(trial: NonNullable<RuleSummary['lastTrial']>): string {
+  const of = `Last trial (version ${trial.versionNumber}, ${formatDate(trial.createdAt)})`;
+  if (trial.state === 'queued' || trial.state === 'running') return `${of}: still running`;
+  if (trial.state === 'failed') return `${of}: failed, see the rule`;
+  return `${of}: ${formatPercent(trial.agreement)} agree with labels · false rejects ${formatPercent(trial.falseRejectRate)} · escapes ${formatPercent(trial.escapeRate)}`;
+}
+
 function RuleRow({ rule, partTypeName }: { rule: RuleSummary; partTypeName: string }) {
   return (
     <Link href={`/rules/${rule.id}`} asChild>
@@ -29,6 +36,7 @@ function RuleRow({ rule, partTypeName }: { rule: RuleSummary; partTypeName: stri
         <View style={styles.rowMain}>
           <AppText variant="bodyStrong" tone="steel">{`${rule.name} ›`}</AppText>
           <AppText variant="caption" tone="muted">{`${partTypeName}${rule.smallestDefectMm !== null ? ` · smallest defect ${rule.smallestDefectMm} mm` : ''} · by ${rule.createdBy.name}, ${formatDate(rule.createdAt)}`}</AppText>
+          <AppText variant="caption">{rule.lastTrial ? describeLastTrial(rule.lastTrial) : 'No trial yet'}</AppText>
         </View>
         <View style={styles.states}>
           <VersionState state={rule.latestVersion.state} number={rule.latestVersion.number} />
@@ -46,12 +54,13 @@ export function RulesList() {
   const [search, setSearch] = useState('');
   const [state, setState] = useState<RuleVersionState | null>(null);
   const [partType, setPartType] = useState<string | null>(null);
+  const [mine, setMine] = useState(false);
   const [offset, setOffset] = useState(0);
   const [creating, setCreating] = useState(false);
   const debounced = useDebouncedValue(search, 300);
-  const list = useRuleList({ search: debounced, state, partType, limit: PAGE_SIZE, offset });
+  const list = useRuleList({ search: debounced, state, partType, mine, limit: PAGE_SIZE, offset });
   const isEngineer = user?.roles.includes('engineer') ?? false;
-  const filtered = search !== '' || state !== null || partType !== null;
+  const filtered = search !== '' || state !== null || partType !== null || mine;
   const nameOf = (code: string) => partTypes.data?.find((p) => p.code === code)?.name ?? code;
 
   return (
@@ -62,6 +71,12 @@ export function RulesList() {
     >
       <View style={styles.filters}>
         <TextField label="Search rules" placeholder="Name" value={search} onChangeText={(t) => { setSearch(t); setOffset(0); }} autoCorrect={false} />
+        <ChoiceChips
+          label="Owner"
+          choices={[{ value: false, label: 'Everyone’s rules' }, { value: true, label: 'Rules I created or edited' }]}
+          value={mine}
+          onChange={(v) => { setMine(v); setOffset(0); }}
+        />
         <ChoiceChips
           label="State of the latest version"
           choices={[{ value: null, label: 'Any' }, ...RULE_VERSION_STATES.map((s) => ({ value: s, label: STATE_WORDS[s].word }))]}
@@ -80,7 +95,7 @@ export function RulesList() {
         <EmptyState
           title={filtered ? 'No rules match' : 'No rules yet'}
           body={filtered ? 'No rule matches this search and these filters.' : isEngineer ? 'Create the first rule: it starts from a simple edge-finding pipeline you can change.' : 'Engineers create rules; they appear here once they exist.'}
-          action={filtered ? <Button label="Clear search and filters" variant="secondary" onPress={() => { setSearch(''); setState(null); setPartType(null); }} /> : isEngineer ? <Button label="New rule" onPress={() => setCreating(true)} /> : undefined}
+          action={filtered ? <Button label="Clear search and filters" variant="secondary" onPress={() => { setSearch(''); setState(null); setPartType(null); setMine(false); }} /> : isEngineer ? <Button label="New rule" onPress={() => setCreating(true)} /> : undefined}
         />
       ) : (
         <View style={[styles.results, list.isPlaceholderData && styles.stale]}>

@@ -4,16 +4,14 @@ import { StyleSheet, View } from 'react-native';
 import type { TrialSummary } from '../../shared/api/trials';
 import { colors, space } from '../../lib/theme';
 import { AppText } from '../AppText';
+import { formatPercent } from '../../lib/format';
 
 type Proportion = TrialSummary['falseRejectRate'];
 
-function percent(v: number | null): string {
-  return v === null ? '—' : `${(v * 100).toFixed(1)} %`;
-}
 
 export function describeProportion(p: Proportion): string {
   if (p.of === 0 || p.rate === null) return 'no photos to count';
-  return `${percent(p.rate)} (${p.count} of ${p.of}; 95 % interval ${percent(p.low)} to ${percent(p.high)})`;
+  return `${formatPercent(p.rate)} (${p.count} of ${p.of}; 95 % interval ${formatPercent(p.low)} to ${formatPercent(p.high)})`;
 }
 
 const VERDICTS = ['PASS', 'FAIL', 'RETAKE'] as const;

@@ -54,6 +54,18 @@ export type RuleVersion = z.infer<typeof ruleVersionSchema>;
 
 const versionBrief = z.object({ id: z.string(), number: z.number().int(), state: ruleVersionStateSchema, editedAt: z.string() });
 
+/** The newest trial of any of the rule's versions, for the list. */
+const lastTrialBrief = z.object({
+  id: z.string(),
+  versionNumber: z.number().int(),
+  state: z.enum(['queued', 'running', 'done', 'failed']),
+  createdAt: z.string(),
+  /** Share of reference images judged as labelled, and the two error rates (null until done). */
+  agreement: z.number().nullable(),
+  falseRejectRate: z.number().nullable(),
+  escapeRate: z.number().nullable(),
+});
+
 export const ruleSummarySchema = z.object({
   id: z.string(),
   name: z.string(),
@@ -63,6 +75,7 @@ export const ruleSummarySchema = z.object({
   createdAt: z.string(),
   latestVersion: versionBrief,
   releasedVersion: versionBrief.nullable(),
+  lastTrial: lastTrialBrief.nullable(),
 });
 export type RuleSummary = z.infer<typeof ruleSummarySchema>;
 
@@ -81,6 +94,8 @@ export const listRulesQuerySchema = z.strictObject({
   q: z.string().trim().max(120).optional(),
   state: ruleVersionStateSchema.optional(),
   partType: codeSchema.optional(),
+  /** "me": rules the signed-in person created or authored a version of; or a person's id. */
+  owner: z.union([z.literal('me'), z.uuid()]).optional(),
   limit: z.coerce.number().int().min(1).max(200).default(50),
   offset: z.coerce.number().int().min(0).default(0),
 });

@@ -188,3 +188,31 @@ test('the list finds rules by name, part type and state', async () => {
   const byName = (await request(t.app).get('/api/rules?q=send').set(engineer)).body;
   expect(byName.items.map((r: { name: string }) => r.name)).toEqual(['Send me back']);
 });
+
+test('the list narrows to the rules a person owns and shows each rule’s newest trial', async () => {
+  const theirs = await createRule('Dual’s own rule', dualRole);
+  const mine = await createRule('Ines’s trialled rule');
+  const versionId = mine.versions[0].id;
+  await recordDoneTrial(versionId);
+  // A later trial with figures: 9 of 10 agree, 1 of 6 good parts rejected, 0 of 4 defectives passed.
+  const [v] = await t.db.dataSource.query('select content_hash, author_id from rule_versions where id = $1', [versionId]);
+  const [set] = await t.db.dataSource.query('select id from reference_sets order by created_at desc limit 1');
+  const rate = (count: number, of: number) => ({ count, of, rate: count / of, low: null, high: null });
+  const summary = { agreement: rate(9, 10), falseRejectRate: rate(1, 6), escapeRate: rate(0, 4) };
+  await t.db.dataSource.query(
+    `insert into trials (rule_version_id, reference_set_id, content_hash, state, total, processed, started_by, finished_at, summary, created_at)
+     values ($1, $2, $3, 'done', 10, 10, $4, now(), $5, now() + interval '1 minute')`,
+    [versionId, set.id, v.content_hash, v.author_id, JSON.stringify(summary)],
+  );
+
+  const own = (await request(t.app).get('/api/rules?owner=me&limit=200').set(dualRole)).body;
+  const ownIds = own.items.map((r: { id: string }) => r.id);
+  expect(ownIds).toContain(theirs.id);
+  expect(ownIds).not.toContain(mine.id);
+  const byId = (await request(t.app).get(`/api/rules?owner=${mine.createdBy.id}&q=trialled`).set(dualRole)).body;
+  expect(byId.items.map((r: { id: string }) => r.id)).toEqual([mine.id]);
+  expect(byId.items[0].lastTrial).toMatchObject({ versionNumber: 1, state: 'done', agreement: 0.9, falseRejectRate: 1 / 6, escapeRate: 0 });
+  expect(own.items.find((r: { id: string }) => r.id === theirs.id).lastTrial).toBeNull();
+  const bad = await request(t.app).get('/api/rules?owner=someone').set(engineer);
+  expect(bad.status).toBe(400);
+});

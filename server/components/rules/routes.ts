@@ -24,7 +24,7 @@ export function ruleRoutes(rules: RulesService): Router {
   const supervisor = requireRole('supervisor');
 
   router.get('/rules', read, async (req, res) => {
-    res.json(await rules.list(parse(listRulesQuerySchema, req.query)));
+    res.json(await rules.list(parse(listRulesQuerySchema, req.query), req.user!));
   });
   router.post('/rules', engineer, async (req, res) => {
     res.status(201).json(await rules.create(req.user!, parse(createRuleRequestSchema, req.body)));

@@ -20,6 +20,7 @@ import { actorOf } from '../auth/service';
 import { PartTypeEntity } from '../catalogue/entities';
 import type { KernelsService } from '../kernels/service';
 import type { MailService } from '../mail/service';
+import type { TrialSummary } from '../../../shared/api/trials';
 import { TrialEntity } from '../trials/entities';
 import { RuleEntity, RuleVersionEntity, SignatureEntity, type SignatureMeaning } from './entities';
 
@@ -113,6 +114,7 @@ export class RulesService {
     const ids = rules.map((r) => r.id);
     const versions = ids.length ? await this.dataSource.getRepository(RuleVersionEntity).find({ where: { ruleId: In(ids) }, order: { number: 'DESC' } }) : [];
     const names = await this.names(rules.map((r) => r.createdBy));
+    const lastTrials = await this.lastTrials(versions);
     return rules.map((r) => {
       const own = versions.filter((v) => v.ruleId === r.id);
       const released = own.find((v) => v.state === 'released');
@@ -125,15 +127,50 @@ export class RulesService {
         createdAt: r.createdAt.toISOString(),
         latestVersion: this.brief(own[0]),
         releasedVersion: released ? this.brief(released) : null,
+        lastTrial: lastTrials.get(r.id) ?? null,
       };
     });
   }
 
-  async list(query: ListRules): Promise<{ items: RuleSummary[]; total: number }> {
+  /** The newest trial per rule, across its versions. */
+  private async lastTrials(versions: RuleVersionEntity[]): Promise<Map<string, RuleSummary['lastTrial']>> {
+    if (versions.length === 0) return new Map();
+    const byVersion = new Map(versions.map((v) => [v.id, v]));
+    const trials = await this.dataSource
+      .getRepository(TrialEntity)
+      .createQueryBuilder('t')
+      .distinctOn(['v.rule_id'])
+      .innerJoin(RuleVersionEntity, 'v', 'v.id = t.rule_version_id')
+      .where('t.rule_version_id IN (:...ids)', { ids: [...byVersion.keys()] })
+      .orderBy('v.rule_id')
+      .addOrderBy('t.created_at', 'DESC')
+      .getMany();
+    const result = new Map<string, RuleSummary['lastTrial']>();
+    for (const trial of trials) {
+      const version = byVersion.get(trial.ruleVersionId)!;
+      const summary = trial.summary as TrialSummary | null;
+      result.set(version.ruleId, {
+        id: trial.id,
+        versionNumber: version.number,
+        state: trial.state,
+        createdAt: trial.createdAt.toISOString(),
+        agreement: summary?.agreement.rate ?? null,
+        falseRejectRate: summary?.falseRejectRate.rate ?? null,
+        escapeRate: summary?.escapeRate.rate ?? null,
+      });
+    }
+    return result;
+  }
+
+  async list(query: ListRules, viewer: UserEntity): Promise<{ items: RuleSummary[]; total: number }> {
     const qb = this.dataSource.getRepository(RuleEntity).createQueryBuilder('r');
     if (query.q) qb.andWhere('r.name ILIKE :q', { q: `%${query.q.replace(/[\\%_]/g, (c) => '\\' + c)}%` });
     if (query.partType) qb.andWhere('r.part_type = :pt', { pt: query.partType });
     if (query.state) qb.andWhere('exists (select 1 from rule_versions v where v.rule_id = r.id and v.state = :state)', { state: query.state });
+    if (query.owner) {
+      const owner = query.owner === 'me' ? viewer.id : query.owner;
+      qb.andWhere('(r.created_by = :owner or exists (select 1 from rule_versions ov where ov.rule_id = r.id and ov.author_id = :owner))', { owner });
+    }
     const [rules, total] = await qb.orderBy('r.name', 'ASC').take(query.limit).skip(query.offset).getManyAndCount();
     return { items: await this.summaries(rules), total };
   }

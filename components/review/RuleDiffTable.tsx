@@ -1,6 +1,6 @@
 import { StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
-import type { DiffRow } from '../../lib/ruleDiff';
+import type { DiffRow } from '../../shared/rules/diff';
 import { colors, radius, space } from '../../lib/theme';
 import { AppText } from '../AppText';
 

@@ -4,7 +4,7 @@ import { useRouter } from 'expo-router';
 import { useRuleDetail, useRuleVersion, useSendBackVersion, useWithdrawVersion } from '../../hooks/useReview';
 import { useSession } from '../../hooks/useSession';
 import { formatDate } from '../../lib/format';
-import { diffRuleDocuments } from '../../lib/ruleDiff';
+import { diffRuleDocuments } from '../../shared/rules/diff';
 import { space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { Button } from '../Button';

@@ -1,5 +1,6 @@
-// What changed between two rule documents (the released version and the one in review), row by row,
-// for the reviewer's side-by-side view. Works on the JSON itself, so any document the API returns can be compared.
+// What changed between two rule documents, row by row: the reviewer's side-by-side view (released against
+// in review) and the rule history (each version against the one before). Works on the JSON itself, so any
+// document the API returns can be compared; plain TypeScript, so the app and the server share it.
 
 export type ChangeKind = 'same' | 'changed' | 'added' | 'removed';
 

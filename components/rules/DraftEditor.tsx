@@ -18,6 +18,7 @@ import { Card } from '../Card';
 import { ErrorBanner } from '../ErrorBanner';
 import { PreviewPanel, type PreviewTarget } from '../preview/PreviewPanel';
 import { TrialPanel } from '../trials/TrialPanel';
+import { DocumentSettingsEditor } from './DocumentSettingsEditor';
 import { GaugeEditor } from './GaugeEditor';
 import { PipelineEditor } from './PipelineEditor';
 import { QualityGateEditor } from './QualityGateEditor';
@@ -87,8 +88,12 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   const editor = (
     <View style={styles.column}>
       <Card>
+        <AppText variant="heading">Photo input</AppText>
+        <DocumentSettingsEditor state={state} issues={general} dispatch={dispatch} />
+      </Card>
+      <Card>
         <AppText variant="heading">Pipeline</AppText>
-        <AppText variant="caption" tone="muted">Steps run in order; each reads the previous step’s output. Border handling: {state.border}.</AppText>
+        <AppText variant="caption" tone="muted">Steps run in order; each reads the previous step’s output.</AppText>
         <PipelineEditor steps={state.steps} kernels={kernels.data ?? []} canSaveKernel={canEdit} issues={byKey} dispatch={dispatch} />
       </Card>
       <Card>
@@ -139,7 +144,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
       {serverIssues.length > 0 ? (
         <AppText tone="danger" accessibilityRole="alert">{`⚠ The server refused the draft: ${serverIssues.length} problem(s), marked beside the steps and gauges below.`}</AppText>
       ) : null}
-      {general.filter((i) => !i.path.startsWith('quality')).map((issue) => (
+      {general.filter((i) => !i.path.startsWith('quality') && i.path !== 'name').map((issue) => (
         <AppText key={`${issue.path}-${issue.message}`} tone="danger">{`⚠ ${issue.path}: ${issue.message}`}</AppText>
       ))}
       {layout === 'wide' ? (

@@ -95,7 +95,8 @@ export type EditorAction =
   | { type: 'change-gauge'; key: string; gauge: EditorGauge['gauge']; stepKey: string | null }
   | { type: 'remove-gauge'; key: string }
   | { type: 'set-limit'; gaugeName: string; bound: 'min' | 'max'; value: number }
-  | { type: 'set-quality'; quality: QualityLimits | undefined };
+  | { type: 'set-quality'; quality: QualityLimits | undefined }
+  | { type: 'set-settings'; settings: Partial<Pick<EditorState, 'name' | 'border'>> & { channel?: InputChannel } };
 
 export function editorReducer(state: EditorState, action: EditorAction): EditorState {
   switch (action.type) {
@@ -135,6 +136,10 @@ export function editorReducer(state: EditorState, action: EditorAction): EditorS
       return { ...state, gauges: state.gauges.filter((g) => g.key !== action.key) };
     case 'set-quality':
       return { ...state, quality: action.quality };
+    case 'set-settings': {
+      const { channel, ...rest } = action.settings;
+      return { ...state, ...rest, input: channel ? { channel } : state.input };
+    }
     case 'set-limit':
       return {
         ...state,

@@ -52,7 +52,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/kernels', kernelRoutes(s.kernels));
   api.use('/stations', stationRoutes(s.stations));
   api.use('/reference-sets', referenceRoutes(s.references));
-  api.use(ruleRoutes(s.rules));
+  api.use(ruleRoutes(s.rules, s.ruleHistory));
   api.use(trialRoutes(s.trials));
   api.use('/preview', previewRoutes(s.preview));
   api.use('/inspections', inspectionRoutes(s.inspections));

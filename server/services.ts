@@ -8,6 +8,7 @@ import { MailService } from './components/mail/service';
 import { PreviewService } from './components/preview/service';
 import { RecordsService } from './components/records/service';
 import { ReferencesService } from './components/references/service';
+import { RuleHistoryService } from './components/rules/history';
 import { RulesService } from './components/rules/service';
 import { StationsService } from './components/stations/service';
 import { TrialsService } from './components/trials/service';
@@ -51,6 +52,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     stations: new StationsService(dataSource, audit),
     references: new ReferencesService(dataSource, store, signer, audit),
     rules,
+    ruleHistory: new RuleHistoryService(dataSource, rules),
     preview: new PreviewService(dataSource, store, rules, pool),
     trials,
     inspections,

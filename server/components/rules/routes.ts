@@ -12,12 +12,13 @@ import {
 } from '../../../shared/api/rules';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
+import type { RuleHistoryService } from './history';
 import type { RulesService } from './service';
 
 const idParams = z.object({ id: z.uuid('Not a valid id') });
 
 /** Rules and their versions. Engineers write drafts; supervisors review, release and withdraw; auditors read. */
-export function ruleRoutes(rules: RulesService): Router {
+export function ruleRoutes(rules: RulesService, history: RuleHistoryService): Router {
   const router = Router();
   const read = requireRole('engineer', 'supervisor', 'auditor', 'operator');
   const engineer = requireRole('engineer');
@@ -31,6 +32,9 @@ export function ruleRoutes(rules: RulesService): Router {
   });
   router.get('/rules/:id', read, async (req, res) => {
     res.json(await rules.detail(parse(idParams, req.params).id));
+  });
+  router.get('/rules/:id/history', requireRole('engineer', 'supervisor', 'auditor'), async (req, res) => {
+    res.json(await history.history(parse(idParams, req.params).id));
   });
   router.post('/rules/:id/versions', engineer, async (req, res) => {
     const body = parse(newDraftRequestSchema, req.body ?? {});

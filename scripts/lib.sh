@@ -84,6 +84,19 @@ pg_start() {
   pg_create_db "$KW_DB_NAME"
 }
 
+# True when the cluster answers on KW_PG_PORT (started by this checkout or another process).
+pg_reachable() {
+  psql -h 127.0.0.1 -p "$KW_PG_PORT" -U postgres -tAc 'select 1' >/dev/null 2>&1
+}
+
+# "table<TAB>rows" for every table of the public schema, sorted: what a backup must bring back.
+table_counts() {
+  local db="$1" t
+  for t in $(psql -h 127.0.0.1 -p "$KW_PG_PORT" -U postgres -d "$db" -tAc "select tablename from pg_tables where schemaname = 'public' order by tablename"); do
+    printf '%s\t%s\n' "$t" "$(psql -h 127.0.0.1 -p "$KW_PG_PORT" -U postgres -d "$db" -tAc "select count(*) from public.\"$t\"")"
+  done
+}
+
 pg_create_db() {
   psql -h 127.0.0.1 -p "$KW_PG_PORT" -U postgres -tAc "select 1 from pg_database where datname='$1'" | grep -q 1 \
     || psql -h 127.0.0.1 -p "$KW_PG_PORT" -U postgres -qc "create database \"$1\""

@@ -15,6 +15,8 @@ export interface Config {
   /** Folder of the exported web app; null when the server runs the API alone. */
   webDir: string | null;
   signInLimit: { windowMs: number; maxFailures: number };
+  /** Consecutive failed sign-ins that lock an account, and for how long. */
+  lockout: { failures: number; minutes: number };
   logLevel: string;
   version: string;
   smtp: { host: string; port: number; from: string };
@@ -63,6 +65,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signInLimit: {
       windowMs: intFrom(env.KW_SIGN_IN_WINDOW_MS, 15 * 60 * 1000, 'KW_SIGN_IN_WINDOW_MS'),
       maxFailures: intFrom(env.KW_SIGN_IN_MAX_FAILURES, 10, 'KW_SIGN_IN_MAX_FAILURES'),
+    },
+    lockout: {
+      failures: intFrom(env.KW_LOCKOUT_FAILURES, 5, 'KW_LOCKOUT_FAILURES'),
+      minutes: intFrom(env.KW_LOCKOUT_MINUTES, 15, 'KW_LOCKOUT_MINUTES'),
     },
     logLevel: env.KW_LOG_LEVEL || 'info',
     version: pkg.version,

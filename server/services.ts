@@ -46,7 +46,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     signer,
     kernels,
     mail,
-    auth: new AuthService(dataSource, audit, config.jwtSecret, config.tokenTtlSeconds),
+    auth: new AuthService(dataSource, audit, config.jwtSecret, config.tokenTtlSeconds, config.lockout),
     users: new UsersService(dataSource, audit),
     catalogue: new CatalogueService(dataSource, audit),
     stations: new StationsService(dataSource, audit),

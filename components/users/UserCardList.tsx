@@ -22,7 +22,7 @@ export function UserCardList({ users, actions }: { users: readonly User[]; actio
                 {user.username}
               </AppText>
             </View>
-            <UserStatus active={user.active} />
+            <UserStatus active={user.active} lockedUntil={user.lockedUntil} />
           </View>
           <RoleChips roles={user.roles} />
           <AppText variant="caption" tone="muted">

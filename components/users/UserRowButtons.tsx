@@ -18,6 +18,9 @@ export function UserRowButtons({ user, actions }: { user: User; actions: UserRow
           accessibilityLabel={`${user.active ? 'Deactivate' : 'Reactivate'} ${user.displayName}`}
         />
       ) : null}
+      {user.lockedUntil ? (
+        <Button label="Unlock" variant="quiet" compact onPress={() => actions.onUnlock(user)} accessibilityLabel={`Unlock ${user.displayName}'s account now`} />
+      ) : null}
     </View>
   );
 }

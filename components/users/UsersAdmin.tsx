@@ -65,6 +65,8 @@ export function UsersAdmin() {
       toggleActive.reset();
       setToggling(user);
     },
+    onUnlock: (user) =>
+      toggleActive.mutate({ id: user.id, changes: { unlock: true } }, { onSuccess: (saved) => setNotice(`${saved.displayName} can sign in again.`) }),
   };
   const confirmToggle = () => {
     if (!toggling) return;

@@ -51,7 +51,7 @@ export function UsersTable({ users, actions }: { users: readonly User[]; actions
             </AppText>
           </View>
           <View role="cell" style={[styles.cell, columnStyle('status')]}>
-            <UserStatus active={user.active} />
+            <UserStatus active={user.active} lockedUntil={user.lockedUntil} />
           </View>
           <View role="cell" style={[styles.cell, columnStyle('added')]}>
             <AppText numberOfLines={1}>{formatDate(user.createdAt)}</AppText>

@@ -5,6 +5,7 @@ export interface UserRowActions {
   currentUserId: string;
   onEdit: (user: User) => void;
   onToggleActive: (user: User) => void;
+  onUnlock: (user: User) => void;
 }
 
 /** Nobody can lock themselves out: their own account cannot be deactivated from here. */

@@ -26,6 +26,8 @@ export const userSchema = z.object({
   email: z.string().nullable(),
   roles: z.array(roleSchema),
   active: z.boolean(),
+  /** Set while the account is locked after repeated failed sign-ins. */
+  lockedUntil: z.string().nullable(),
   createdAt: z.string(),
   updatedAt: z.string(),
 });

@@ -25,6 +25,8 @@ export const updateUserRequestSchema = z
     roles: rolesSchema.optional(),
     active: z.boolean().optional(),
     password: passwordSchema.optional(),
+    /** Lifts a lock-out after failed sign-ins before it runs out. */
+    unlock: z.literal(true).optional(),
   })
   .refine((body) => Object.keys(body).length > 0, { message: 'Change at least one field' });
 export type UpdateUserRequest = z.input<typeof updateUserRequestSchema>;

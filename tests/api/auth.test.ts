@@ -157,3 +157,42 @@ describe('sign-in rate limit', () => {
     }
   });
 });
+
+describe('account lock-out', () => {
+  // Locking an account after a few consecutive failures is common practice (NIST SP 800-63B §5.2.2
+  // asks verifiers to limit failed attempts); the limit here is the test config's 5.
+  test('five wrong passwords in a row lock the account, audited; even the right password is refused until an administrator unlocks it', async () => {
+    const user = await t.createUser('lotte', ['engineer']);
+    for (let i = 0; i < 4; i++) expect((await signIn({ username: 'lotte', password: 'wrong-password' })).status).toBe(401);
+    // A success in between starts the count again.
+    expect((await signIn({ username: 'lotte', password: TEST_PASSWORD })).status).toBe(200);
+    for (let i = 0; i < 5; i++) expect((await signIn({ username: 'lotte', password: 'wrong-password' })).status).toBe(401);
+
+    const locked = await signIn({ username: 'lotte', password: TEST_PASSWORD });
+    expect(locked.status).toBe(401);
+    expect(locked.body.error.message).toMatch(/locked after repeated failed sign-ins/);
+    const events = await t.db.dataSource.query(`select action, details from audit_events where entity_id = $1 order by seq`, [user.id]);
+    expect(events.filter((e: { action: string }) => e.action === 'account.locked')).toHaveLength(1);
+    expect(events.at(-1)).toMatchObject({ action: 'sign-in.refused', details: { reason: 'account locked' } });
+
+    const admin = { Authorization: `Bearer ${await t.tokenFor('adam')}` };
+    const listed = await request(t.app).get('/api/users?q=lotte').set(admin);
+    expect(listed.body.items[0].lockedUntil).toEqual(expect.any(String));
+    const unlocked = await request(t.app).patch(`/api/users/${user.id}`).set(admin).send({ unlock: true });
+    expect(unlocked.status).toBe(200);
+    expect(unlocked.body.lockedUntil).toBeNull();
+    expect((await signIn({ username: 'lotte', password: TEST_PASSWORD })).status).toBe(200);
+  });
+
+  test('a change of roles revokes the tokens issued before it', async () => {
+    const user = await t.createUser('rolf', ['operator']);
+    const token = await t.tokenFor('rolf');
+    const admin = { Authorization: `Bearer ${await t.tokenFor('adam')}` };
+    expect((await request(t.app).patch(`/api/users/${user.id}`).set(admin).send({ roles: ['operator', 'engineer'] })).status).toBe(200);
+    expect((await request(t.app).get('/api/auth/me').set('Authorization', `Bearer ${token}`)).status).toBe(401);
+    // A change that touches no role leaves the token alone.
+    const fresh = await t.tokenFor('rolf');
+    expect((await request(t.app).patch(`/api/users/${user.id}`).set(admin).send({ displayName: 'Rolf Brandt' })).status).toBe(200);
+    expect((await request(t.app).get('/api/auth/me').set('Authorization', `Bearer ${fresh}`)).status).toBe(200);
+  });
+});

@@ -58,13 +58,15 @@ test('a search text with SQL or LIKE characters is treated as text', async () =>
   expect(res.body.items).toEqual([]);
 });
 
-test('changing roles takes effect on the next request', async () => {
+test('changing roles revokes the old token; the next sign-in carries the new roles', async () => {
   const user = await t.createUser('rolf', ['operator']);
   const token = await t.tokenFor('rolf');
   expect((await request(t.app).get('/api/users').set('Authorization', `Bearer ${token}`)).status).toBe(403);
   const patch = await request(t.app).patch(`/api/users/${user.id}`).set(admin).send({ roles: ['operator', 'admin'] });
   expect(patch.status).toBe(200);
-  expect((await request(t.app).get('/api/users').set('Authorization', `Bearer ${token}`)).status).toBe(200);
+  expect((await request(t.app).get('/api/users').set('Authorization', `Bearer ${token}`)).status).toBe(401);
+  const renewed = await t.tokenFor('rolf');
+  expect((await request(t.app).get('/api/users').set('Authorization', `Bearer ${renewed}`)).status).toBe(200);
 });
 
 test('deactivating a user refuses their existing token and their next sign-in', async () => {

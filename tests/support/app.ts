@@ -28,6 +28,7 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     tokenTtlSeconds: 3600,
     webDir: null,
     signInLimit: { windowMs: 60_000, maxFailures: 1000 },
+    lockout: { failures: 5, minutes: 15 },
     logLevel: 'silent',
     version: 'test',
     smtp: { host: '127.0.0.1', port: 1, from: 'Kernwright <kernwright@test.example>' },

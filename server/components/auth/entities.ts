@@ -29,6 +29,13 @@ export class UserEntity {
   @Column({ name: 'token_version', type: 'integer', default: 0 })
   tokenVersion: number;
 
+  /** Failed sign-ins since the last successful one; reaching the plant's limit locks the account. */
+  @Column({ name: 'failed_sign_ins', type: 'integer', default: 0 })
+  failedSignIns: number;
+
+  @Column({ name: 'locked_until', type: 'timestamptz', nullable: true })
+  lockedUntil: Date | null;
+
   @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
   createdAt: Date;
 

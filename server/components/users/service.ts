@@ -100,7 +100,13 @@ export class UsersService {
       user.passwordHash = passwordHash;
       changes.password = 'changed';
     }
-    if (deactivating || passwordHash !== undefined) user.tokenVersion += 1;
+    if (input.unlock && (user.lockedUntil || user.failedSignIns > 0)) {
+      changes.unlocked = { lockedUntil: user.lockedUntil?.toISOString() ?? null };
+      user.lockedUntil = null;
+      user.failedSignIns = 0;
+    }
+    // A token carries the access of the moment it was issued: changed roles need a fresh sign-in.
+    if (deactivating || passwordHash !== undefined || 'roles' in changes) user.tokenVersion += 1;
     return changes;
   }
 }

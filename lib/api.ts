@@ -43,6 +43,7 @@ import {
 import { lineSchema, stationSchema, type Line, type Station } from '../shared/api/stations';
 import { sweepSchema, trialResultSchema, trialSchema, type Sweep, type Trial, type TrialResult } from '../shared/api/trials';
 import { recordPageSchema, type RecordPage } from '../shared/api/records';
+import { ruleHistorySchema, type RuleHistory } from '../shared/api/rule-history';
 import { chainVerificationSchema, type ChainVerificationResult } from '../shared/api/audit';
 import { currentToken, endSession } from './session';
 
@@ -475,6 +476,11 @@ export function startNewDraft(ruleId: string, fromVersionId?: string): Promise<R
 
 export function getRuleVersion(id: string, signal?: AbortSignal): Promise<RuleVersion> {
   return request(`/api/rule-versions/${encodeURIComponent(id)}`, { schema: ruleVersionSchema, signal });
+}
+
+/** Every version of a rule with its state changes, signatures, trials and what changed (engineers, supervisors, auditors). */
+export function getRuleHistory(ruleId: string, signal?: AbortSignal): Promise<RuleHistory> {
+  return request(`/api/rules/${encodeURIComponent(ruleId)}/history`, { schema: ruleHistorySchema, signal });
 }
 
 export function saveDraftDocument(versionId: string, document: unknown, authorNote?: string): Promise<RuleVersion> {

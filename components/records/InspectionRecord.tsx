@@ -1,8 +1,8 @@
 import { Link } from 'expo-router';
-import { Image, StyleSheet, View } from 'react-native';
+import { Image, Pressable, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
 import { useInspectionRecord } from '../../hooks/useRecords';
-import { space } from '../../lib/theme';
+import { minTouchTarget, space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { Card } from '../Card';
 import { VerdictPanel } from '../inspect/VerdictPanel';
@@ -30,8 +30,19 @@ export function InspectionRecord({ id }: { id: string }) {
         </AppText>
         <AppText>{`Operator: ${i.operator.name}`}</AppText>
         <AppText>{`Part type: ${i.partType}`}</AppText>
-        <Link href={`/rules/${i.ruleId}`} accessibilityLabel={`Open the rule ${i.ruleName}`}>
-          <AppText tone="steel" variant="bodyStrong">{`Rule: ${i.ruleName}, version ${i.ruleVersionNumber} ›`}</AppText>
+        <Link href={`/rules/${i.ruleId}`} asChild>
+          <Pressable accessibilityRole="link" accessibilityLabel={`Open the rule ${i.ruleName}`} style={styles.link}>
+            <AppText tone="steel" variant="bodyStrong">{`Rule: ${i.ruleName}, version ${i.ruleVersionNumber} ›`}</AppText>
+          </Pressable>
+        </Link>
+        <Link href={`/rules/${i.ruleId}/history?version=${i.ruleVersionId}`} asChild>
+          <Pressable
+            accessibilityRole="link"
+            accessibilityLabel={`History of ${i.ruleName}, opened at version ${i.ruleVersionNumber}: its signatures, trials and changes`}
+            style={styles.link}
+          >
+            <AppText tone="steel">{`History of version ${i.ruleVersionNumber}: signatures, trials, changes ›`}</AppText>
+          </Pressable>
         </Link>
         <AppText>{`Calibration: ${i.mmPerPx ? `${i.mmPerPx.toPrecision(5)} mm/px` : 'none'}`}</AppText>
         <AppText tone="muted" variant="caption">{`Recorded in ${Math.round(i.durationMs)} ms · idempotency key ${i.idempotencyKey}`}</AppText>
@@ -53,6 +64,7 @@ export function InspectionRecord({ id }: { id: string }) {
 
 const styles = StyleSheet.create({
   facts: { gap: space.xs },
+  link: { minHeight: minTouchTarget, justifyContent: 'center' },
   photo: { width: '100%', aspectRatio: 4 / 3, maxWidth: 720 },
   photoPhone: { maxWidth: '100%' },
   image: { width: '100%', height: '100%' },

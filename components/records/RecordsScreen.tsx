@@ -1,4 +1,4 @@
-import { Link } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
@@ -52,6 +52,7 @@ function RecordLine({ row, phone }: { row: RecordRow; phone: boolean }) {
 
 /** Inspection records: filters, keyset pages, CSV export, and the audit trail's verification. */
 export function RecordsScreen() {
+  const router = useRouter();
   const phone = useLayout() === 'phone';
   const { user } = useSession();
   const readsTrail = !!user?.roles.some((r) => r === 'auditor' || r === 'admin');
@@ -74,7 +75,12 @@ export function RecordsScreen() {
     <Screen
       title="Records"
       subtitle="Every inspection, as recorded: who, where, which rule version, the verdict and its measurements."
-      actions={<ExportButton label="Export CSV" path="/api/records/inspections.csv" query={exportQuery} fallbackName="inspections.csv" countHeader="X-Inspection-Count" />}
+      actions={
+        <>
+          <Button label="Rule history" variant="secondary" compact accessibilityLabel="Rule history: every rule’s versions, signatures and changes" onPress={() => router.push('/records/rule-history')} />
+          <ExportButton label="Export CSV" path="/api/records/inspections.csv" query={exportQuery} fallbackName="inspections.csv" countHeader="X-Inspection-Count" />
+        </>
+      }
     >
       <Card style={styles.filters}>
         <ChoiceChips<Verdict | null>

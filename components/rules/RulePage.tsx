@@ -50,7 +50,12 @@ export function RulePage({ id }: { id: string }) {
     <Screen
       title={data.name}
       subtitle={`${partTypeName}${data.smallestDefectMm !== null ? ` · smallest defect to catch ${data.smallestDefectMm} mm` : ''} · created by ${data.createdBy.name}`}
-      actions={<Button label="All rules" variant="secondary" onPress={() => router.push('/rules')} />}
+      actions={
+        <>
+          <Button label="History" variant="secondary" accessibilityLabel={`History of ${data.name}: versions, signatures, trials and changes`} onPress={() => router.push(`/rules/${data.id}/history`)} />
+          <Button label="All rules" variant="secondary" onPress={() => router.push('/rules')} />
+        </>
+      }
     >
       <Card>
         <AppText variant="heading">Versions</AppText>

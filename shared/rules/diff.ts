@@ -45,6 +45,41 @@ function row(section: DiffRow['section'], label: string, before: string | null, 
   return { section, label, before, after, change };
 }
 
+/**
+ * Pairs the steps of two pipelines so that an inserted or removed step does not make every later step
+ * look changed: the longest common subsequence of the step descriptions (the dynamic programme of
+ * Wagner & Fischer, "The string-to-string correction problem", JACM 21(1), 1974) stays paired, and
+ * between two kept steps the remaining ones pair up in order as changed, the surplus as added or removed.
+ */
+export function alignSteps(before: readonly string[], after: readonly string[]): { i: number | null; j: number | null }[] {
+  const n = before.length;
+  const m = after.length;
+  // common[i][j]: length of the longest common subsequence of before[i..] and after[j..].
+  const common = Array.from({ length: n + 1 }, () => new Array<number>(m + 1).fill(0));
+  for (let i = n - 1; i >= 0; i--) {
+    for (let j = m - 1; j >= 0; j--) common[i][j] = before[i] === after[j] ? common[i + 1][j + 1] + 1 : Math.max(common[i + 1][j], common[i][j + 1]);
+  }
+  const pairs: { i: number | null; j: number | null }[] = [];
+  let removed: number[] = [];
+  let added: number[] = [];
+  const flushGap = () => {
+    for (let k = 0; k < Math.max(removed.length, added.length); k++) pairs.push({ i: removed[k] ?? null, j: added[k] ?? null });
+    removed = [];
+    added = [];
+  };
+  let i = 0;
+  let j = 0;
+  while (i < n || j < m) {
+    if (i < n && j < m && before[i] === after[j]) {
+      flushGap();
+      pairs.push({ i: i++, j: j++ });
+    } else if (j >= m || (i < n && common[i + 1][j] >= common[i][j + 1])) removed.push(i++);
+    else added.push(j++);
+  }
+  flushGap();
+  return pairs;
+}
+
 const GAUGE_FIELDS = ['measure', 'step', 'region', 'unit', 'limits'] as const;
 
 /** Rows for every setting, step and gauge field of either document; `before` may be absent (a first version). */
@@ -61,10 +96,11 @@ export function diffRuleDocuments(beforeDocument: unknown | null, afterDocument:
     rows.push(row('Settings', `Quality gate ${field}`, text(before, (d) => asObject(d.quality)[field]), text(after, (d) => asObject(d.quality)[field])));
   }
 
-  const stepsBefore = before === null ? [] : asArray(before.steps);
-  const stepsAfter = asArray(after.steps);
-  for (let i = 0; i < Math.max(stepsBefore.length, stepsAfter.length); i++) {
-    rows.push(row('Steps', `Step ${i + 1}`, i < stepsBefore.length ? describeStep(stepsBefore[i]) : null, i < stepsAfter.length ? describeStep(stepsAfter[i]) : null));
+  const stepsBefore = (before === null ? [] : asArray(before.steps)).map(describeStep);
+  const stepsAfter = asArray(after.steps).map(describeStep);
+  for (const { i, j } of alignSteps(stepsBefore, stepsAfter)) {
+    const label = j === null ? `Former step ${i! + 1}` : i === null || i === j ? `Step ${j + 1}` : `Step ${j + 1} (was ${i + 1})`;
+    rows.push(row('Steps', label, i === null ? null : stepsBefore[i], j === null ? null : stepsAfter[j]));
   }
 
   const gaugesBefore = new Map((before === null ? [] : asArray(before.gauges)).map((g) => [String(asObject(g).name), asObject(g)]));

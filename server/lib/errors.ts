@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { z } from 'zod';
 import { zodIssues, type ErrorCode } from '../../shared/api/errors';
+import { MAX_FILES_PER_UPLOAD, MAX_PHOTO_BYTES } from './uploads';
 
 const STATUS: Record<ErrorCode, number> = {
   bad_request: 400,
@@ -39,13 +40,27 @@ function fromZod(error: z.ZodError): AppError {
   return new AppError('validation_failed', message, { issues });
 }
 
+/** Multer's limits, in words that name the limit (server/lib/uploads.ts). */
+function fromUploadLimit(code: string, field: string | undefined): AppError {
+  switch (code) {
+    case 'LIMIT_FILE_SIZE':
+      return new AppError('payload_too_large', `A photo may be at most ${MAX_PHOTO_BYTES / (1024 * 1024)} MB; this one is larger`);
+    case 'LIMIT_FILE_COUNT':
+      return new AppError('payload_too_large', `Send at most ${MAX_FILES_PER_UPLOAD} photos at once`);
+    case 'LIMIT_UNEXPECTED_FILE':
+      return new AppError('bad_request', `Unexpected file field "${field ?? ''}"`);
+    default:
+      return new AppError('bad_request', `The upload is not valid (${code.toLowerCase().replace(/_/g, ' ')})`);
+  }
+}
+
 function toAppError(err: unknown): AppError | null {
   if (err instanceof AppError) return err;
   if (err instanceof z.ZodError) return fromZod(err);
   const e = err as { type?: string; status?: number; code?: string; message?: string };
   if (e?.type === 'entity.parse.failed') return new AppError('bad_request', 'The request body is not valid JSON');
   if (e?.type === 'entity.too.large') return new AppError('payload_too_large', 'The request body is too large');
-  if (e?.code === 'LIMIT_FILE_SIZE') return new AppError('payload_too_large', e.message ?? 'The file is too large');
+  if ((err as { name?: string })?.name === 'MulterError') return fromUploadLimit(e.code ?? '', (err as { field?: string }).field);
   if (e?.code === 'ECONNREFUSED' || e?.code === '57P01' || e?.code === '57P03')
     return new AppError('service_unavailable', 'The database is not reachable; try again in a moment');
   return null;

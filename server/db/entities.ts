@@ -1,3 +1,4 @@
+import { AlertEntity, AlertLimitEntity, AlertSubscriptionEntity } from '../components/alerts/entities';
 import { AuditEventEntity } from '../components/audit/entities';
 import { UserEntity } from '../components/auth/entities';
 import { DefectKindEntity, PartTypeEntity } from '../components/catalogue/entities';
@@ -7,7 +8,9 @@ import { OutboxMessageEntity } from '../components/mail/entities';
 import { ReferenceImageEntity, ReferenceSetEntity } from '../components/references/entities';
 import { RuleEntity, RuleVersionEntity, SignatureEntity } from '../components/rules/entities';
 import { LineEntity, StationEntity } from '../components/stations/entities';
+import { RepeatabilityPhotoEntity, RepeatabilityStudyEntity } from '../components/studies/entities';
 import { TrialEntity, TrialResultEntity } from '../components/trials/entities';
+import { InspectionFailureHourEntity, InspectionHourEntity } from '../components/trends/entities';
 
 /** Every TypeORM entity of the server, registered in one place. */
 export const ENTITIES = [
@@ -29,4 +32,11 @@ export const ENTITIES = [
   MeasurementEntity,
   DisputeEntity,
   OutboxMessageEntity,
+  InspectionHourEntity,
+  InspectionFailureHourEntity,
+  AlertEntity,
+  AlertLimitEntity,
+  AlertSubscriptionEntity,
+  RepeatabilityStudyEntity,
+  RepeatabilityPhotoEntity,
 ];

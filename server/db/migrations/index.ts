@@ -3,6 +3,7 @@ import { AuditTrail1796147129023 } from './1796147129023-AuditTrail';
 import { PlantRulesInspections1796147286651 } from './1796147286651-PlantRulesInspections';
 import { MailOutbox1796153281173 } from './1796153281173-MailOutbox';
 import { AccountLockout1796157769215 } from './1796157769215-AccountLockout';
+import { TrendsAlertsStudies1796157815152 } from './1796157815152-TrendsAlertsStudies';
 
 /** Migrations in the order they run. */
-export const MIGRATIONS: Function[] = [Users1796146987773, AuditTrail1796147129023, PlantRulesInspections1796147286651, MailOutbox1796153281173, AccountLockout1796157769215];
+export const MIGRATIONS: Function[] = [Users1796146987773, AuditTrail1796147129023, PlantRulesInspections1796147286651, MailOutbox1796153281173, AccountLockout1796157769215, TrendsAlertsStudies1796157815152];

@@ -16,6 +16,7 @@ import { recordRoutes } from './components/records/routes';
 import { referenceRoutes } from './components/references/routes';
 import { ruleRoutes } from './components/rules/routes';
 import { stationRoutes } from './components/stations/routes';
+import { trendRoutes } from './components/trends/routes';
 import { trialRoutes } from './components/trials/routes';
 import { userRoutes } from './components/users/routes';
 import type { Config } from './config';
@@ -58,6 +59,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/inspections', inspectionRoutes(s.inspections));
   api.use('/disputes', disputeRoutes(s.inspections));
   api.use(recordRoutes(s.records));
+  api.use('/trends', trendRoutes(s.trends));
   api.use(apiNotFound);
   app.use('/api', api);
 

@@ -22,6 +22,24 @@ export interface Config {
   smtp: { host: string; port: number; from: string };
   /** Start the stand-in mail server on loopback (the demo; off when a real SMTP host is set). */
   fakeSmtp: boolean;
+  /** Hours (UTC) at which the plant's shifts start, ascending; trend charts per shift use them. Absent: DEFAULT_SHIFT_HOURS. */
+  shiftHours?: number[];
+  /** Days of history the alert check reads. Absent: DEFAULT_ALERT_LOOKBACK_DAYS. */
+  alertLookbackDays?: number;
+  /** Minutes between two alert checks. Absent: DEFAULT_ALERT_CHECK_MINUTES. */
+  alertCheckMinutes?: number;
+}
+
+export const DEFAULT_SHIFT_HOURS = [6, 14, 22];
+export const DEFAULT_ALERT_LOOKBACK_DAYS = 30;
+export const DEFAULT_ALERT_CHECK_MINUTES = 15;
+
+function hoursFrom(value: string | undefined, fallback: number[], name: string): number[] {
+  if (value === undefined || value.trim() === '') return fallback;
+  const hours = value.split(',').map((h) => Number(h.trim()));
+  if (hours.some((h, i) => !Number.isInteger(h) || h < 0 || h > 23 || (i > 0 && h <= hours[i - 1])))
+    throw new Error(`${name} must be whole hours 0-23 in ascending order, separated by commas (e.g. 6,14,22), got "${value}"`);
+  return hours;
 }
 
 const repoRoot = path.resolve(__dirname, '..', fs.existsSync(path.join(__dirname, '..', 'package.json')) ? '' : '..');
@@ -79,5 +97,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       from: env.KW_MAIL_FROM || 'Kernwright <kernwright@fernwick.example>',
     },
     fakeSmtp: !env.KW_SMTP_HOST && env.KW_FAKE_SMTP !== '0',
+    shiftHours: hoursFrom(env.KW_SHIFT_HOURS, DEFAULT_SHIFT_HOURS, 'KW_SHIFT_HOURS'),
+    alertLookbackDays: intFrom(env.KW_ALERT_LOOKBACK_DAYS, DEFAULT_ALERT_LOOKBACK_DAYS, 'KW_ALERT_LOOKBACK_DAYS'),
+    alertCheckMinutes: intFrom(env.KW_ALERT_CHECK_MINUTES, DEFAULT_ALERT_CHECK_MINUTES, 'KW_ALERT_CHECK_MINUTES'),
   };
 }

@@ -11,9 +11,10 @@ import { ReferencesService } from './components/references/service';
 import { RuleHistoryService } from './components/rules/history';
 import { RulesService } from './components/rules/service';
 import { StationsService } from './components/stations/service';
+import { TrendsService } from './components/trends/service';
 import { TrialsService } from './components/trials/service';
 import { UsersService } from './components/users/service';
-import type { Config } from './config';
+import { DEFAULT_SHIFT_HOURS, type Config } from './config';
 import { ImageUrlSigner } from './lib/image-urls';
 import type { JobQueue } from './lib/jobs';
 import { LocalImageStore } from './lib/storage/local-store';
@@ -39,6 +40,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
   const rules = new RulesService(dataSource, audit, kernels, mail);
   const trials = new TrialsService(dataSource, store, signer, audit, pool, jobs);
   const inspections = new InspectionsService(dataSource, store, signer, audit, pool);
+  const trends = new TrendsService(dataSource, config.shiftHours ?? DEFAULT_SHIFT_HOURS);
   return {
     dataSource,
     audit,
@@ -57,6 +59,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     trials,
     inspections,
     records: new RecordsService(dataSource, store, audit, inspections, rules, trials, kernels),
+    trends,
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -32,7 +32,8 @@ export type ApiErrorBody = z.infer<typeof apiErrorSchema>;
 export function formatIssuePath(path: readonly PropertyKey[]): string {
   if (path.length === 0) return '(root)';
   return path
-    .map((part, i) => (typeof part === 'number' ? `[${part}]` : i === 0 ? String(part) : `.${String(part)}`))
+    // An empty key would vanish from a dotted path: it is written as [""] instead.
+    .map((part, i) => (typeof part === 'number' ? `[${part}]` : part === '' ? '[""]' : i === 0 ? String(part) : `.${String(part)}`))
     .join('');
 }
 

@@ -21,6 +21,7 @@ import { trialRoutes } from './components/trials/routes';
 import { userRoutes } from './components/users/routes';
 import type { Config } from './config';
 import { apiNotFound, errorHandler } from './lib/errors';
+import { corsForApp, uploadRateLimit } from './lib/http-guards';
 import type { Logger } from './lib/logger';
 import type { Services } from './services';
 
@@ -40,6 +41,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
 
   const api = express.Router();
   api.use(helmet({ contentSecurityPolicy: false }));
+  api.use(corsForApp(config.allowedOrigins));
   api.use(express.json({ limit: '1mb' }));
   api.use('/health', healthRoutes(s.dataSource, config.version));
   api.use('/auth', authRoutes({ auth: s.auth, requireSignIn, signInLimit: config.signInLimit }));
@@ -52,11 +54,12 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/catalogue', catalogueRoutes(s.catalogue));
   api.use('/kernels', kernelRoutes(s.kernels));
   api.use('/stations', stationRoutes(s.stations));
-  api.use('/reference-sets', referenceRoutes(s.references));
+  const uploads = uploadRateLimit(config.uploadsPerMinute);
+  api.use('/reference-sets', uploads, referenceRoutes(s.references));
   api.use(ruleRoutes(s.rules, s.ruleHistory));
   api.use(trialRoutes(s.trials));
   api.use('/preview', previewRoutes(s.preview));
-  api.use('/inspections', inspectionRoutes(s.inspections));
+  api.use('/inspections', uploads, inspectionRoutes(s.inspections));
   api.use('/disputes', disputeRoutes(s.inspections));
   api.use(recordRoutes(s.records));
   api.use('/trends', trendRoutes(s.trends));

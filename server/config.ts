@@ -15,6 +15,10 @@ export interface Config {
   /** Folder of the exported web app; null when the server runs the API alone. */
   webDir: string | null;
   signInLimit: { windowMs: number; maxFailures: number };
+  /** Origins other than the app's own that may call the API from a browser (KW_ALLOWED_ORIGINS, comma-separated). */
+  allowedOrigins: string[];
+  /** Photo uploads allowed per person and minute (inspections and reference photos). */
+  uploadsPerMinute: number;
   /** Consecutive failed sign-ins that lock an account, and for how long. */
   lockout: { failures: number; minutes: number };
   logLevel: string;
@@ -84,6 +88,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       windowMs: intFrom(env.KW_SIGN_IN_WINDOW_MS, 15 * 60 * 1000, 'KW_SIGN_IN_WINDOW_MS'),
       maxFailures: intFrom(env.KW_SIGN_IN_MAX_FAILURES, 10, 'KW_SIGN_IN_MAX_FAILURES'),
     },
+    allowedOrigins: (env.KW_ALLOWED_ORIGINS ?? '').split(',').map((o) => o.trim()).filter(Boolean),
+    uploadsPerMinute: intFrom(env.KW_UPLOADS_PER_MINUTE, 120, 'KW_UPLOADS_PER_MINUTE'),
     lockout: {
       failures: intFrom(env.KW_LOCKOUT_FAILURES, 5, 'KW_LOCKOUT_FAILURES'),
       minutes: intFrom(env.KW_LOCKOUT_MINUTES, 15, 'KW_LOCKOUT_MINUTES'),

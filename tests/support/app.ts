@@ -29,6 +29,8 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     webDir: null,
     signInLimit: { windowMs: 60_000, maxFailures: 1000 },
     lockout: { failures: 5, minutes: 15 },
+    allowedOrigins: ['https://kiosk.fernwick.example'],
+    uploadsPerMinute: 10_000,
     logLevel: 'silent',
     version: 'test',
     smtp: { host: '127.0.0.1', port: 1, from: 'Kernwright <kernwright@test.example>' },

@@ -128,7 +128,7 @@ function judge(input: unknown): 'refused' | 'ran' {
   }
   expectWithinLimits(validation.rule);
   try {
-    const run = runRule(input, PHOTO, { mmPerPx: null });
+    const run = runRule(input, PHOTO);
     expect(['PASS', 'FAIL', 'RETAKE']).toContain(run.verdict);
     return 'ran';
   } catch (err) {

@@ -1,0 +1,31 @@
+import cors from 'cors';
+import type { RequestHandler } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import { AppError } from './errors';
+
+/**
+ * Cross-origin reads only from the origins the plant lists (KW_ALLOWED_ORIGINS); the app itself is
+ * served from the API's own origin and needs none. Other origins get no CORS headers, so browsers
+ * keep their pages from reading the answers.
+ */
+export function corsForApp(allowedOrigins: readonly string[]): RequestHandler {
+  return cors({
+    origin: (origin, done) => done(null, origin !== undefined && allowedOrigins.includes(origin)),
+    methods: ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'],
+    allowedHeaders: ['Authorization', 'Content-Type'],
+    maxAge: 600,
+  });
+}
+
+/** Photo uploads per signed-in person and minute; a station photographs a few parts a minute. */
+export function uploadRateLimit(perMinute: number): RequestHandler {
+  return rateLimit({
+    windowMs: 60_000,
+    limit: perMinute,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    skip: (req) => req.method !== 'POST',
+    keyGenerator: (req) => req.user?.id ?? 'anonymous',
+    handler: (_req, _res, next) => next(new AppError('too_many_requests', `More than ${perMinute} uploads in a minute; wait a moment and send again`)),
+  });
+}

@@ -21,7 +21,7 @@ import { trialRoutes } from './components/trials/routes';
 import { userRoutes } from './components/users/routes';
 import type { Config } from './config';
 import { apiNotFound, errorHandler } from './lib/errors';
-import { corsForApp, uploadRateLimit } from './lib/http-guards';
+import { admissionLimit, corsForApp, uploadRateLimit } from './lib/http-guards';
 import type { Logger } from './lib/logger';
 import type { Services } from './services';
 
@@ -59,7 +59,8 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use(ruleRoutes(s.rules, s.ruleHistory));
   api.use(trialRoutes(s.trials));
   api.use('/preview', previewRoutes(s.preview));
-  api.use('/inspections', uploads, inspectionRoutes(s.inspections));
+  const inspectionAdmission = admissionLimit(config.maxInspectionsInFlight, 'The inspection server is busy; the photo waits and is sent again in a moment');
+  api.use('/inspections', inspectionAdmission, uploads, inspectionRoutes(s.inspections));
   api.use('/disputes', disputeRoutes(s.inspections));
   api.use(recordRoutes(s.records));
   api.use('/trends', trendRoutes(s.trends));

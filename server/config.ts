@@ -17,6 +17,8 @@ export interface Config {
   signInLimit: { windowMs: number; maxFailures: number };
   /** Origins other than the app's own that may call the API from a browser (KW_ALLOWED_ORIGINS, comma-separated). */
   allowedOrigins: string[];
+  /** Inspections worked on at once by this process; more are refused with 503 and Retry-After (load shedding). */
+  maxInspectionsInFlight: number;
   /** Photo uploads allowed per person and minute (inspections and reference photos). */
   uploadsPerMinute: number;
   /** Consecutive failed sign-ins that lock an account, and for how long. */
@@ -90,6 +92,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     },
     allowedOrigins: (env.KW_ALLOWED_ORIGINS ?? '').split(',').map((o) => o.trim()).filter(Boolean),
     uploadsPerMinute: intFrom(env.KW_UPLOADS_PER_MINUTE, 120, 'KW_UPLOADS_PER_MINUTE'),
+    maxInspectionsInFlight: intFrom(env.KW_MAX_INSPECTIONS_IN_FLIGHT, 16, 'KW_MAX_INSPECTIONS_IN_FLIGHT'),
     lockout: {
       failures: intFrom(env.KW_LOCKOUT_FAILURES, 5, 'KW_LOCKOUT_FAILURES'),
       minutes: intFrom(env.KW_LOCKOUT_MINUTES, 15, 'KW_LOCKOUT_MINUTES'),

@@ -29,3 +29,26 @@ export function uploadRateLimit(perMinute: number): RequestHandler {
     handler: (_req, _res, next) => next(new AppError('too_many_requests', `More than ${perMinute} uploads in a minute; wait a moment and send again`)),
   });
 }
+
+/**
+ * Load shedding: at most `maxInFlight` requests of one kind are worked on at once; beyond that the
+ * server answers 503 with Retry-After at once, before reading the upload, so that memory stays
+ * bounded under overload and clients (the operator's photo queue) send again later.
+ */
+export function admissionLimit(maxInFlight: number, busyMessage: string): RequestHandler {
+  let inFlight = 0;
+  return (req, res, next) => {
+    if (req.method !== 'POST') return next();
+    if (inFlight >= maxInFlight) return next(new AppError('service_unavailable', busyMessage));
+    inFlight += 1;
+    let done = false;
+    const release = () => {
+      if (done) return;
+      done = true;
+      inFlight -= 1;
+    };
+    res.once('finish', release);
+    res.once('close', release);
+    next();
+  };
+}

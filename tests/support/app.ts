@@ -31,6 +31,7 @@ export function testConfig(overrides: Partial<Config> = {}): Config {
     lockout: { failures: 5, minutes: 15 },
     allowedOrigins: ['https://kiosk.fernwick.example'],
     uploadsPerMinute: 10_000,
+    maxInspectionsInFlight: 64,
     logLevel: 'silent',
     version: 'test',
     smtp: { host: '127.0.0.1', port: 1, from: 'Kernwright <kernwright@test.example>' },

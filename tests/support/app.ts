@@ -53,6 +53,8 @@ export interface TestApp {
 export interface TestAppOptions {
   /** Run background work through the real PostgreSQL queue (otherwise inline, in the request). */
   queue?: boolean;
+  /** A database of the test's own (already migrated) instead of a copy of the template. */
+  database?: TestDatabase;
 }
 
 /** A pool of two worker threads, started on first use and closed with the test app. */
@@ -71,7 +73,7 @@ function lazyPool(): PipelineRunner & { destroy(): Promise<void> } {
 
 /** The real Express app on a fresh copy of the migrated database. */
 export async function createTestApp(overrides: Partial<Config> = {}, options: TestAppOptions = {}): Promise<TestApp> {
-  const db = await createTestDatabase();
+  const db = options.database ?? (await createTestDatabase());
   const config = testConfig({ databaseUrl: db.url, ...overrides });
   const jobs = options.queue ? await new JobQueue(db.url).start() : null;
   const pool = lazyPool();

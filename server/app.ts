@@ -2,6 +2,7 @@ import express, { type Express } from 'express';
 import helmet from 'helmet';
 import path from 'node:path';
 import { pinoHttp } from 'pino-http';
+import { alertRoutes } from './components/alerts/routes';
 import { auditRoutes } from './components/audit/routes';
 import { createRequireSignIn } from './components/auth/passport';
 import { authRoutes } from './components/auth/routes';
@@ -64,6 +65,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/disputes', disputeRoutes(s.inspections));
   api.use(recordRoutes(s.records));
   api.use('/trends', trendRoutes(s.trends));
+  api.use(alertRoutes(s.alerts));
   api.use(apiNotFound);
   app.use('/api', api);
 

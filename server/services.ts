@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import { AlertsService } from './components/alerts/service';
 import { AuditService } from './components/audit/service';
 import { AuthService } from './components/auth/service';
 import { CatalogueService } from './components/catalogue/service';
@@ -14,7 +15,7 @@ import { StationsService } from './components/stations/service';
 import { TrendsService } from './components/trends/service';
 import { TrialsService } from './components/trials/service';
 import { UsersService } from './components/users/service';
-import { DEFAULT_SHIFT_HOURS, type Config } from './config';
+import { DEFAULT_ALERT_CHECK_MINUTES, DEFAULT_ALERT_LOOKBACK_DAYS, DEFAULT_SHIFT_HOURS, type Config } from './config';
 import { ImageUrlSigner } from './lib/image-urls';
 import type { JobQueue } from './lib/jobs';
 import { LocalImageStore } from './lib/storage/local-store';
@@ -60,6 +61,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     inspections,
     records: new RecordsService(dataSource, store, audit, inspections, rules, trials, kernels),
     trends,
+    alerts: new AlertsService(dataSource, audit, mail, trends, config.alertLookbackDays ?? DEFAULT_ALERT_LOOKBACK_DAYS, config.alertCheckMinutes ?? DEFAULT_ALERT_CHECK_MINUTES),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -1,5 +1,6 @@
 import type { JobQueue } from './lib/jobs';
 import type { Services } from './services';
+import { ALERT_CHECK_QUEUE } from './components/alerts/service';
 import { OUTBOX_QUEUE } from './components/mail/service';
 import { TRIAL_QUEUE } from './components/trials/service';
 
@@ -11,6 +12,11 @@ export async function startWorkers(jobs: JobQueue, services: Services): Promise<
     const { waiting } = await services.mail.flush();
     if (waiting > 0) throw new Error(`${waiting} e-mail(s) still waiting for the mail server`);
   });
+  // The alert check runs in the background every few minutes, once per period however many workers there are.
+  await jobs.work(ALERT_CHECK_QUEUE, async () => {
+    await services.alerts.check();
+  });
+  await jobs.repeat(ALERT_CHECK_QUEUE, services.alerts.checkEveryMinutes);
   // Mail left from before a restart.
   await services.mail.kick();
 }

@@ -9,6 +9,7 @@ export type JobHandler<T> = (data: T) => Promise<void>;
 export class JobQueue {
   private readonly boss: PgBoss;
   private started = false;
+  private readonly timers: NodeJS.Timeout[] = [];
 
   constructor(connectionString: string) {
     this.boss = new PgBoss({ connectionString, schema: 'pgboss', max: 4, supervise: true, schedule: false });
@@ -21,9 +22,30 @@ export class JobQueue {
     return this;
   }
 
-  async send<T extends object>(queue: string, data: T, options: { retryLimit?: number; singletonKey?: string } = {}): Promise<void> {
+  async send<T extends object>(queue: string, data: T, options: { retryLimit?: number; singletonKey?: string; singletonSeconds?: number } = {}): Promise<void> {
     await this.boss.createQueue(queue);
-    await this.boss.send(queue, data, { retryLimit: options.retryLimit ?? 3, retryDelay: 5, retryBackoff: true, singletonKey: options.singletonKey });
+    await this.boss.send(queue, data, {
+      retryLimit: options.retryLimit ?? 3,
+      retryDelay: 5,
+      retryBackoff: true,
+      singletonKey: options.singletonKey,
+      singletonSeconds: options.singletonSeconds,
+    });
+  }
+
+  /**
+   * Sends an empty job to the queue now and every `minutes` after. Every process may do so: the queue
+   * keeps one job per period of `minutes` (pg-boss singletonSeconds), so the work runs once per period.
+   */
+  async repeat(queue: string, minutes: number): Promise<void> {
+    const seconds = minutes * 60;
+    const sendOne = () => this.send(queue, {}, { singletonKey: queue, singletonSeconds: seconds, retryLimit: 2 });
+    await sendOne();
+    const timer = setInterval(() => {
+      sendOne().catch((err: Error) => process.stderr.write(`job queue: could not send ${queue}: ${err.message}\n`));
+    }, seconds * 1000);
+    timer.unref();
+    this.timers.push(timer);
   }
 
   /** Handles one job at a time per worker; a thrown error makes pg-boss retry the job later. */
@@ -35,6 +57,7 @@ export class JobQueue {
   }
 
   async stop(): Promise<void> {
+    for (const timer of this.timers.splice(0)) clearInterval(timer);
     if (this.started) await this.boss.stop({ graceful: true, wait: true, timeout: 10_000 });
     this.started = false;
   }

@@ -16,6 +16,7 @@ export const alertLimitSchema = z.object({
   createdAt: z.string(),
 });
 export type AlertLimit = z.infer<typeof alertLimitSchema>;
+export const alertLimitListSchema = z.object({ items: z.array(alertLimitSchema) });
 
 export const createAlertLimitSchema = z.strictObject({
   ruleId: z.uuid(),

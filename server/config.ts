@@ -34,6 +34,27 @@ export interface Config {
   alertLookbackDays?: number;
   /** Minutes between two alert checks. Absent: DEFAULT_ALERT_CHECK_MINUTES. */
   alertCheckMinutes?: number;
+  /** What this process does (KW_ROLE): serve the API, run background jobs, or both. Absent: 'all'. */
+  role?: ServerRole;
+  /** Worker threads of this process's vision pool (KW_VISION_THREADS). Absent: one per CPU core. */
+  visionThreads?: number;
+  /** Images in an S3-compatible bucket (KW_STORAGE=s3) instead of the local folder imageDir. */
+  s3?: S3Settings;
+}
+
+export const SERVER_ROLES = ['api', 'worker', 'all'] as const;
+/** api: HTTP only (inspections and previews run in its own vision pool); worker: queued jobs only (trials, e-mail, alerts); all: both. */
+export type ServerRole = (typeof SERVER_ROLES)[number];
+
+export interface S3Settings {
+  /** The S3 endpoint (KW_S3_ENDPOINT); null: a stand-in S3 server on loopback, as for the demo. */
+  endpoint: string | null;
+  bucket: string;
+  region: string;
+  /** Bucket name in the path (http://host/bucket/key) rather than in the host name, as most S3-compatible servers want. */
+  pathStyle: boolean;
+  /** Loopback port of the stand-in server when endpoint is null; it keeps objects under <dataDir>/s3. */
+  standInPort: number;
 }
 
 export const DEFAULT_SHIFT_HOURS = [6, 14, 22];
@@ -69,6 +90,25 @@ export function loadOrCreateSecret(dataDir: string): string {
   const secret = crypto.randomBytes(48).toString('base64url');
   fs.writeFileSync(file, secret + '\n', { mode: 0o600, flag: 'wx' });
   return secret;
+}
+
+function roleFrom(value: string | undefined): ServerRole {
+  if (value === undefined || value === '') return 'all';
+  if (!(SERVER_ROLES as readonly string[]).includes(value)) throw new Error(`KW_ROLE must be one of ${SERVER_ROLES.join(', ')}, got "${value}"`);
+  return value as ServerRole;
+}
+
+function s3From(env: NodeJS.ProcessEnv, port: number): S3Settings | undefined {
+  const storage = env.KW_STORAGE || 'local';
+  if (storage === 'local') return undefined;
+  if (storage !== 's3') throw new Error(`KW_STORAGE must be local or s3, got "${storage}"`);
+  return {
+    endpoint: env.KW_S3_ENDPOINT || null,
+    bucket: env.KW_S3_BUCKET || 'kernwright-images',
+    region: env.KW_S3_REGION || 'us-east-1',
+    pathStyle: env.KW_S3_PATH_STYLE !== '0',
+    standInPort: intFrom(env.KW_FAKE_S3_PORT, port + 2000, 'KW_FAKE_S3_PORT'),
+  };
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
@@ -109,5 +149,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     shiftHours: hoursFrom(env.KW_SHIFT_HOURS, DEFAULT_SHIFT_HOURS, 'KW_SHIFT_HOURS'),
     alertLookbackDays: intFrom(env.KW_ALERT_LOOKBACK_DAYS, DEFAULT_ALERT_LOOKBACK_DAYS, 'KW_ALERT_LOOKBACK_DAYS'),
     alertCheckMinutes: intFrom(env.KW_ALERT_CHECK_MINUTES, DEFAULT_ALERT_CHECK_MINUTES, 'KW_ALERT_CHECK_MINUTES'),
+    role: roleFrom(env.KW_ROLE),
+    visionThreads: env.KW_VISION_THREADS ? intFrom(env.KW_VISION_THREADS, 1, 'KW_VISION_THREADS') : undefined,
+    s3: s3From(env, intFrom(env.PORT, 8081, 'PORT')),
   };
 }

@@ -17,6 +17,7 @@ import { recordRoutes } from './components/records/routes';
 import { referenceRoutes } from './components/references/routes';
 import { ruleRoutes } from './components/rules/routes';
 import { stationRoutes } from './components/stations/routes';
+import { studyRoutes } from './components/studies/routes';
 import { trendRoutes } from './components/trends/routes';
 import { trialRoutes } from './components/trials/routes';
 import { userRoutes } from './components/users/routes';
@@ -66,6 +67,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use(recordRoutes(s.records));
   api.use('/trends', trendRoutes(s.trends));
   api.use(alertRoutes(s.alerts));
+  api.use('/studies', studyRoutes(s.studies));
   api.use(apiNotFound);
   app.use('/api', api);
 

@@ -12,6 +12,7 @@ import { ReferencesService } from './components/references/service';
 import { RuleHistoryService } from './components/rules/history';
 import { RulesService } from './components/rules/service';
 import { StationsService } from './components/stations/service';
+import { StudiesService } from './components/studies/service';
 import { TrendsService } from './components/trends/service';
 import { TrialsService } from './components/trials/service';
 import { UsersService } from './components/users/service';
@@ -62,6 +63,7 @@ export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) 
     records: new RecordsService(dataSource, store, audit, inspections, rules, trials, kernels),
     trends,
     alerts: new AlertsService(dataSource, audit, mail, trends, config.alertLookbackDays ?? DEFAULT_ALERT_LOOKBACK_DAYS, config.alertCheckMinutes ?? DEFAULT_ALERT_CHECK_MINUTES),
+    studies: new StudiesService(dataSource, store, audit, pool),
   };
 }
 export type Services = ReturnType<typeof createServices>;

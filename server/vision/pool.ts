@@ -4,14 +4,18 @@
 import os from 'node:os';
 import path from 'node:path';
 import { Piscina } from 'piscina';
+import type { EngineChoice } from '../../shared/vision/engine';
 import type { RawPhoto } from '../../shared/vision/image';
 import { RuleRunError, type KernelLibrary, type RuleRun, type RunOptions } from '../../shared/vision/pipeline';
-import type { PipelineTask, PipelineTaskResult } from './worker';
+import { engineSetting } from './engine-setting';
+import type { PipelineTask, PipelineTaskResult, PipelineWorkerData } from './worker';
 
 export interface VisionPoolOptions {
   kernels: KernelLibrary;
   /** Default: the number of CPU cores. */
   threads?: number;
+  /** The workers' engine; default: KW_ENGINE (auto). */
+  engine?: EngineChoice;
 }
 
 export interface PoolRunOptions {
@@ -53,11 +57,13 @@ export class VisionPool {
   constructor(options: VisionPoolOptions) {
     const threads = options.threads ?? Math.max(1, os.availableParallelism?.() ?? os.cpus().length);
     const setup = workerSetup();
+    const workerData: PipelineWorkerData = { engine: options.engine ?? engineSetting() };
     this.kernels = [...options.kernels.values()];
     this.piscina = new Piscina({
       filename: setup.filename,
       execArgv: setup.execArgv,
       env: setup.env,
+      workerData,
       minThreads: threads,
       maxThreads: threads,
       idleTimeout: 60_000,

@@ -1,15 +1,24 @@
 // Worker-thread entry for the pipeline pool: runs one rule on one photo, off the API's main thread.
 // Errors that belong to the request (invalid rule, unknown kernel, missing calibration) come back
-// as data, so that their code survives the thread boundary. Image buffers are moved back to the
-// caller (transferred, not copied): a 5 MP float32 image is 20 MB. Buffers the caller releases
-// come back with a later task and join this thread's workspace.
+// as data, so that their code survives the thread boundary.
+// Each thread owns its engine memory and reuses it run after run: with the SIMD engine a run
+// computes in the thread's WebAssembly memory and only the images it returns are copied out, into
+// buffers the caller released earlier when there are; with the plain engine the step buffers
+// themselves are moved to the caller (transferred, not copied: a 5 MP float32 image is 20 MB).
+import { workerData } from 'node:worker_threads';
 import { move, transferableSymbol, valueSymbol } from 'piscina';
 import type { FieldIssue } from '../../shared/api/errors';
-import { createImage, type RawPhoto } from '../../shared/vision/image';
+import { setEngine, simdKernels, type EngineChoice } from '../../shared/vision/engine';
+import { createImage, type Image, type RawPhoto } from '../../shared/vision/image';
 import type { KernelDefinition } from '../../shared/vision/kernels';
 import { RuleRunError, runRule, type RuleRun, type RuleRunErrorCode, type RunOptions } from '../../shared/vision/pipeline';
+import { isResident } from '../../shared/vision/wasm/resident-image';
 import { ImageWorkspace } from '../../shared/vision/workspace';
 import { fftCorrelate } from './fft-correlate';
+
+export interface PipelineWorkerData {
+  engine: EngineChoice;
+}
 
 export interface PipelineTask {
   rule: unknown;
@@ -25,26 +34,50 @@ export type PipelineTaskResult =
   | { ok: true; run: RuleRun }
   | { ok: false; error: { code: RuleRunErrorCode; message: string; issues: FieldIssue[] } };
 
+setEngine((workerData as PipelineWorkerData | undefined)?.engine ?? 'auto');
+
 /**
- * Step buffers of this thread, reused by its next runs (returned images are moved out). A run of
- * the standard pipeline uses five image buffers (input, three step outputs, a scratch image).
+ * Step buffers of this thread, reused by its next runs. A run of the standard pipeline uses three
+ * image buffers (input and two step outputs in turn).
  */
 const workspace = new ImageWorkspace(6);
+/** Ordinary buffers for images leaving the thread (SIMD engine), from runs the caller released. */
+const outgoing: Float32Array[] = [];
+const MAX_OUTGOING = 8;
 
 export default function runPipelineTask(task: PipelineTask): PipelineTaskResult {
-  for (const data of task.spare ?? []) workspace.give(createImage(1, data.length, data));
+  const simd = simdKernels() !== null;
+  for (const data of task.spare ?? []) {
+    if (!simd) workspace.give(createImage(1, data.length, data));
+    else if (outgoing.length < MAX_OUTGOING) outgoing.push(data);
+  }
   try {
-    return movingImageBuffers(runRule(task.rule, task.photo, {
+    const run = runRule(task.rule, task.photo, {
       kernels: new Map(task.kernels.map((k) => [k.name, k])),
       mmPerPx: task.mmPerPx,
       retain: task.retain,
       largeKernelCorrelator: fftCorrelate,
       workspace,
-    }));
+    });
+    return movingImageBuffers(inOrdinaryMemory(run));
   } catch (e) {
     if (e instanceof RuleRunError) return { ok: false, error: { code: e.code, message: e.message, issues: e.issues } };
     throw e;
   }
+}
+
+/** The run with every image in ordinary memory: an image in the engine's memory is copied out and its buffer kept for the next run. */
+function inOrdinaryMemory(run: RuleRun): RuleRun {
+  const copyOut = (image: Image): Image => {
+    if (!isResident(image)) return image;
+    const pixels = image.data.length;
+    const index = outgoing.findIndex((b) => b.length === pixels);
+    const buffer = index >= 0 ? outgoing.splice(index, 1)[0] : new Float32Array(pixels);
+    buffer.set(image.data);
+    workspace.give(image);
+    return createImage(image.width, image.height, buffer);
+  };
+  return { ...run, input: copyOut(run.input), steps: run.steps.map((s) => (s.output ? { ...s, output: copyOut(s.output) } : s)) };
 }
 
 /** The result, with the buffers of the input and of every retained step output in the transfer list. */

@@ -3,6 +3,7 @@
 // Same results as the value path in morphology.ts for masks; other images go there instead.
 import type { MorphologyOp } from '../rules/schema';
 import type { BorderMode } from './border';
+import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
 
 /** Radius the packed path handles: a shift must stay within the neighbouring word. */
@@ -164,6 +165,8 @@ function packedExtreme(src: PackedMask, r: number, takeMax: boolean, outside: 0 
 export function binaryMorphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, packed?: PackedMask): Image | null {
   if (radius < 1 || radius > MAX_PACKED_RADIUS) return null;
   const given = packed && packed.width === src.width && packed.height === src.height ? packed : null;
+  const simd = simdKernels();
+  if (simd) return simd.binaryMorphology(src, op, radius, border, out, given ?? undefined);
   const source = given ?? packMask(src);
   if (!source) return null;
   const erodeOutside: 0 | 1 = border === 'constant' ? 0 : 1;

@@ -1,7 +1,9 @@
 // Connected components: blobs are the 8-connected groups of non-zero pixels, optionally restricted
 // to a region given as one span of columns per row. Two-pass labelling with union-find
 // (Rosenfeld & Pfaltz, "Sequential operations in digital picture processing", JACM 13(4), 1966).
+import { simdKernels } from './engine';
 import type { Image } from './image';
+import { labelRuns } from './run-labels';
 
 /** Per row y, the region holds columns start[y] ≤ x < end[y] (empty when start ≥ end). */
 export interface RowSpans {
@@ -48,6 +50,8 @@ function union(parent: Int32Array, a: number, b: number): number {
 }
 
 export function labelBlobs(image: Image, spans: RowSpans = wholeImageSpans(image.width, image.height)): BlobLabels {
+  const simd = simdKernels();
+  if (simd) return labelRuns(simd.nonZeroWords(image), image.width, image.height, spans);
   const { width: w, height: h, data } = image;
   const labels = new Int32Array(w * h);
   let parent = new Int32Array(1024);

@@ -4,6 +4,7 @@
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { imageLike, type Image } from './image';
 import { separate, type Kernel } from './kernels';
+import { simdKernels } from './engine';
 
 /** Correlates a whole image with a non-separable kernel of any size (e.g. through an FFT). */
 export type LargeKernelCorrelator = (src: Image, kernel: Kernel, border: BorderMode) => Image;
@@ -26,6 +27,9 @@ export const DEFAULT_LARGE_KERNEL_TAPS = 27 * 27;
 export function correlate(src: Image, kernel: Kernel, border: BorderMode, options: CorrelateOptions = {}): Image {
   const pair = separate(kernel);
   if (pair) return correlateSeparable(src, pair.column, pair.row, border, options.out, kernel.offset);
+  // The SIMD direct path stays ahead of the FFT up to the largest kernel a rule may hold (31×31).
+  const simd = simdKernels();
+  if (simd) return simd.correlate2d(src, kernel, border, options.out);
   const taps = kernel.rows * kernel.cols;
   if (options.largeKernelCorrelator && taps >= (options.largeKernelTaps ?? DEFAULT_LARGE_KERNEL_TAPS)) {
     const result = options.largeKernelCorrelator(src, kernel, border);
@@ -57,6 +61,8 @@ export function correlateSeparable(
   out?: Image,
   offset = 0,
 ): Image {
+  const simd = simdKernels();
+  if (simd) return simd.separable(src, column, row, border, out, offset);
   const { width: w, height: h, data } = src;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
@@ -254,6 +260,8 @@ function horizontalGeneral(line: Float64Array, k: Float64Array, w: number, o: Fl
  * line with its taps in locals (unrolled for 3, 5 and 7 columns), adding into a row of sums.
  */
 export function correlateDirect(src: Image, kernel: Kernel, border: BorderMode, out?: Image): Image {
+  const simd = simdKernels();
+  if (simd) return simd.correlate2d(src, kernel, border, out);
   const { width: w, height: h, data } = src;
   const { rows, cols, weights, divisor, offset } = kernel;
   const ry = (rows - 1) >> 1;

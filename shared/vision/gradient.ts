@@ -5,6 +5,7 @@ import type { GradientOperator, GradientOutput } from '../rules/schema';
 import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { imageLike, type Image, type ValueRange } from './image';
 import { PREWITT_SMOOTHING, SCHARR_SMOOTHING, SOBEL_SMOOTHING } from './kernels';
+import { simdKernels } from './engine';
 
 const SMOOTHING: Record<GradientOperator, readonly number[]> = {
   sobel: SOBEL_SMOOTHING,
@@ -31,8 +32,11 @@ export function gradient(
   out?: Image,
   range?: ValueRange,
 ): Image {
-  const { width: w, height: h, data } = src;
   const [a, b] = SMOOTHING[operator];
+  // Direction (atan2) has no SIMD kernel: it runs below, on the same buffers.
+  const simd = output !== 'direction' ? simdKernels() : null;
+  if (simd && output !== 'direction') return simd.gradient(src, a, b, output, border, out, range);
+  const { width: w, height: h, data } = src;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
   const rowOffsets = rowOffsetTable(h, w, 1, 1, border);

@@ -1,7 +1,10 @@
 // Second-derivative operators: the discrete Laplacian (4- or 8-neighbour) and the Laplacian of Gaussian.
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { imageLike, type Image } from './image';
-import { gaussianSecondDerivativeWeights, gaussianWeights } from './kernels';
+import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix, LAPLACIAN_4, LAPLACIAN_8 } from './kernels';
+import { simdKernels } from './engine';
+
+const LAPLACIAN_KERNELS = { 4: kernelFromMatrix(LAPLACIAN_4), 8: kernelFromMatrix(LAPLACIAN_8) } as const;
 
 /**
  * 4-neighbour [0 1 0; 1 −4 1; 0 1 0] or 8-neighbour [1 1 1; 1 −8 1; 1 1 1] Laplacian
@@ -9,6 +12,8 @@ import { gaussianSecondDerivativeWeights, gaussianWeights } from './kernels';
  * One pass over three rows, the horizontal neighbours kept in locals as the window slides right.
  */
 export function laplacian(src: Image, neighbours: 4 | 8, border: BorderMode, out?: Image): Image {
+  const simd = simdKernels();
+  if (simd) return simd.correlate2d(src, LAPLACIAN_KERNELS[neighbours], border, out);
   const { width: w, height: h, data } = src;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
@@ -61,9 +66,11 @@ export function laplacian(src: Image, neighbours: 4 | 8, border: BorderMode, out
  * and g″ sums come from the same loads, then out = g″ across the first + g across the second.
  */
 export function laplacianOfGaussian(src: Image, sigma: number, border: BorderMode, out?: Image): Image {
-  const { width: w, height: h, data } = src;
   const g = gaussianWeights(sigma);
   const g2 = gaussianSecondDerivativeWeights(sigma);
+  const simd = simdKernels();
+  if (simd) return simd.laplacianOfGaussian(src, g, g2, border, out);
+  const { width: w, height: h, data } = src;
   const r = (g.length - 1) >> 1;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;

@@ -7,6 +7,7 @@
 import type { MorphologyOp } from '../rules/schema';
 import { binaryMorphology, type PackedMask } from './binary-morphology';
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { simdKernels } from './engine';
 import { createImage, imageLike, type Image } from './image';
 
 export function erode(src: Image, radius: number, border: BorderMode, out?: Image): Image {
@@ -43,6 +44,8 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
 
 /** Minimum (erosion) or maximum (dilation) over the square of side 2r+1, vertical then horizontal. */
 function extremeFilter(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
+  const simd = simdKernels();
+  if (simd) return simd.extreme(src, r, border, takeMax, out);
   const { width: w, height: h, data } = src;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;

@@ -101,6 +101,8 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const kernels = resolveKernels(rule, options.kernels);
   checkCalibration(rule, options.mmPerPx);
   const started = now();
+  // Without a workspace from the caller, the run's images end in ordinary memory (detached below).
+  const ownWorkspace = !options.workspace;
   const workspace = options.workspace ?? new ImageWorkspace();
   const input = channelImage(photo, rule.input.channel, workspace.take(photo.width, photo.height));
   const quality = judgeQuality(qualityFigures(input, photo.bitDepth), rule.quality);
@@ -143,7 +145,11 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const verdict: Verdict = !quality.pass ? 'RETAKE' : measurements.every((m) => m.pass) ? 'PASS' : 'FAIL';
   const retainedSteps = steps.map((s) => (outputs[s.index] ? s : { ...s, output: null }));
   for (const image of spare) workspace.give(image);
-  return { rule, verdict, quality, measurements, steps: retainedSteps, input, bitDepth: photo.bitDepth, ms: now() - started };
+  if (!ownWorkspace) return { rule, verdict, quality, measurements, steps: retainedSteps, input, bitDepth: photo.bitDepth, ms: now() - started };
+  const detached = retainedSteps.map((s) => (s.output ? { ...s, output: workspace.detach(s.output) } : s));
+  const detachedInput = workspace.detach(input);
+  workspace.dispose();
+  return { rule, verdict, quality, measurements, steps: detached, input: detachedInput, bitDepth: photo.bitDepth, ms: now() - started };
 }
 
 /** Hands the buffers of a finished run (input and retained outputs) to the workspace; the run must not be used afterwards. */

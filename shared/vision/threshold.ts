@@ -2,13 +2,19 @@
 // (inverted on request). Otsu and adaptive mean choose the threshold from the data.
 import type { BorderMode } from './border';
 import type { PackedMask } from './binary-morphology';
+import { simdKernels } from './engine';
+import { firstFloat32Where, float32Above } from './float32';
 import { imageLike, type Image, type ValueRange } from './image';
 import { boxMeanThreshold } from './smoothing';
+import type { SimdKernels } from './wasm/simd-kernels';
 
 export const HISTOGRAM_BINS = 256;
 
 /** mask = in > value (or ≤ with invert). */
 export function thresholdFixed(src: Image, value: number, invert = false, out?: Image): Image {
+  const simd = simdKernels();
+  // For float32 v: v > value ⇔ v ≥ the smallest float32 above value.
+  if (simd) return simd.thresholdAt(src, float32Above(value), invert, out);
   const dst = imageLike(src, out);
   const s = src.data;
   const o = dst.data;
@@ -28,6 +34,9 @@ export interface OtsuHistogram {
   readonly flat: boolean;
   /** True for 8-bit data: the bins are the 256 integer levels. */
   readonly integerLevels: boolean;
+  /** Smallest and largest value (NaN left out). */
+  readonly min: number;
+  readonly max: number;
 }
 
 /**
@@ -35,20 +44,35 @@ export interface OtsuHistogram {
  * bins over min…max (DESIGN.md, rule format v1).
  */
 export function otsuHistogram(data: Float32Array, known?: ValueRange): OtsuHistogram {
-  const n = data.length;
   const integral = allIntegers(data);
   const [min, max] = known && isKnown(known) ? [known.min, known.max] : valueRange(data);
+  return binnedHistogram(data.length, integral && min >= 0 && max <= 255, min, max, (origin, scale) => {
+    const counts = new Float64Array(HISTOGRAM_BINS);
+    countBins(data, origin, scale, counts);
+    return counts;
+  });
+}
+
+/** otsuHistogram through the SIMD kernels: the same bins, counted four values at a time. */
+function otsuHistogramSimd(simd: SimdKernels, image: Image, known?: ValueRange): OtsuHistogram {
+  // Every value a whole number in 0–255 is the same test as whole numbers with min ≥ 0 and max ≤ 255.
+  const eightBit = simd.eightBitLevels(image);
+  const [min, max] = known && isKnown(known) ? [known.min, known.max] : simd.valueRange(image);
+  return binnedHistogram(image.data.length, eightBit, min, max, (origin, scale) => simd.histogram(image, origin, scale));
+}
+
+function binnedHistogram(n: number, eightBit: boolean, min: number, max: number, count: (origin: number, scale: number) => Float64Array): OtsuHistogram {
   const flat = !(max > min);
-  const eightBit = integral && min >= 0 && max <= 255;
   const origin = eightBit ? 0 : min;
   const binsPerUnit = eightBit ? 1 : flat ? 0 : HISTOGRAM_BINS / (max - min);
-  const counts = new Float64Array(HISTOGRAM_BINS);
+  let counts: Float64Array;
   if (flat) {
+    counts = new Float64Array(HISTOGRAM_BINS);
     counts[0] = n;
   } else {
-    countBins(data, origin, binsPerUnit, counts);
+    counts = count(origin, binsPerUnit);
   }
-  return { counts, origin, binsPerUnit, flat, integerLevels: eightBit };
+  return { counts, origin, binsPerUnit, flat, integerLevels: eightBit, min, max };
 }
 
 function isKnown(range: ValueRange): boolean {
@@ -158,24 +182,31 @@ export function thresholdOtsu(
   range?: ValueRange,
   packed?: PackedMask,
 ): { mask: Image; bin: number; threshold: number } {
-  const dst = imageLike(src, out);
-  const s = src.data;
-  const o = dst.data;
-  const hist = otsuHistogram(s, range);
+  const simd = simdKernels();
+  const hist = simd ? otsuHistogramSimd(simd, src, range) : otsuHistogram(src.data, range);
   const k = hist.flat ? -1 : otsuBin(hist.counts);
   const above = invert ? 0 : 1;
   const below = 1 - above;
   const bits = packed && packed.width === src.width && packed.height === src.height ? packed : null;
   if (k < 0) {
-    o.fill(below);
+    const dst = imageLike(src, out);
+    dst.data.fill(below);
     if (bits) fillPacked(bits, below);
     return { mask: dst, bin: -1, threshold: NaN };
   }
   // bin(v) > k  ⇔  (v − origin)·binsPerUnit ≥ k + 1  (the top bin only collects values at max).
   const cut = hist.origin + (k + 1) / hist.binsPerUnit;
-  if (bits) writeAboveBinPacked(s, hist.origin, hist.binsPerUnit, k, invert, o, bits);
-  else writeAboveBin(s, hist.origin, hist.binsPerUnit, k, invert, o);
-  return { mask: dst, bin: k, threshold: hist.integerLevels ? k : cut };
+  const threshold = hist.integerLevels ? k : cut;
+  if (simd) {
+    // bin(v) never falls as v grows, so "bin above k" is "v at least the first float32 whose bin is above k".
+    const edge = k + 1;
+    const first = firstFloat32Where(hist.min, hist.max, (v) => (((v - hist.origin) * hist.binsPerUnit) | 0) >= edge);
+    return { mask: simd.thresholdAt(src, first, invert, out, bits ?? undefined), bin: k, threshold };
+  }
+  const dst = imageLike(src, out);
+  if (bits) writeAboveBinPacked(src.data, hist.origin, hist.binsPerUnit, k, invert, dst.data, bits);
+  else writeAboveBin(src.data, hist.origin, hist.binsPerUnit, k, invert, dst.data);
+  return { mask: dst, bin: k, threshold };
 }
 
 /**

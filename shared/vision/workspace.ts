@@ -1,35 +1,74 @@
 // Image buffers reused from one run to the next. A 5 MP float32 image is 20 MB: allocating it
 // costs page faults and garbage-collection pressure that can exceed the filtering itself, so a
-// batch (a trial, a worker thread) keeps a few spare buffers of the last image size.
+// batch (a trial, a worker thread, the preview) keeps a few spare buffers of the last image size.
+// With the SIMD engine the buffers live in its WebAssembly memory, where the kernels work in place.
+import { simdKernels } from './engine';
 import { createImage, type Image } from './image';
+import { isResident, ResidentImage } from './wasm/resident-image';
 
 /** Spare buffers kept at most; a run of the standard pipeline needs two intermediates. */
 const DEFAULT_SPARE_LIMIT = 4;
 
 export class ImageWorkspace {
-  private spare: Float32Array[] = [];
+  private spare: Image[] = [];
 
   constructor(private readonly spareLimit = DEFAULT_SPARE_LIMIT) {}
 
-  /** An image of this size; its previous contents are undefined (every step overwrites its output). */
+  /** An image of this size, where the active engine computes; its previous contents are undefined (every step overwrites its output). */
   take(width: number, height: number): Image {
+    const simd = simdKernels();
     const pixels = width * height;
-    const index = this.spare.findIndex((b) => b.length === pixels);
-    if (index < 0) return createImage(width, height);
-    const [data] = this.spare.splice(index, 1);
-    return createImage(width, height, data);
+    const index = this.spare.findIndex((b) => (simd ? simd.owns(b) : !isResident(b)) && b.data.length === pixels);
+    if (index >= 0) {
+      const [image] = this.spare.splice(index, 1);
+      return image.width === width && image.height === height ? image : reshape(image, width, height);
+    }
+    return simd ? simd.takeImage(width, height) : createImage(width, height);
   }
 
   /** Hands a buffer back; the caller must not use the image afterwards. Detached buffers are ignored. */
   give(image: Image): void {
-    const data = image.data;
-    if (data.length === 0 || this.spare.includes(data)) return;
+    if (this.spare.some((b) => sameBuffer(b, image))) return;
+    if (!isResident(image) && image.data.length === 0) return;
     // Keep the buffers of the latest size only: a station does not change its camera between photos.
-    if (this.spare.length > 0 && this.spare[0].length !== data.length) this.spare = [];
-    if (this.spare.length < this.spareLimit) this.spare.push(data);
+    if (this.spare.length > 0 && this.spare[0].data.length !== image.data.length) this.dispose();
+    if (this.spare.length < this.spareLimit) this.spare.push(image);
+    else free(image);
+  }
+
+  /**
+   * An image in ordinary memory with the same samples: a resident image is copied out and its
+   * buffer handed back (for results that leave the workspace), any other image is returned as it is.
+   */
+  detach(image: Image): Image {
+    if (!isResident(image)) return image;
+    const copy = createImage(image.width, image.height, image.data.slice());
+    this.give(image);
+    return copy;
+  }
+
+  /** Lets go of every spare buffer (those in the engine's WebAssembly memory return to it). */
+  dispose(): void {
+    for (const image of this.spare) free(image);
+    this.spare = [];
   }
 
   get spareCount(): number {
     return this.spare.length;
   }
+}
+
+function sameBuffer(a: Image, b: Image): boolean {
+  if (isResident(a) || isResident(b)) return isResident(a) && isResident(b) && a.heap === b.heap && a.address === b.address;
+  return a.data === b.data;
+}
+
+function free(image: Image): void {
+  if (isResident(image) && image.heap.inUse(image.address)) image.heap.release(image.address);
+}
+
+/** The same buffer seen with another width and height of the same pixel count. */
+function reshape(image: Image, width: number, height: number): Image {
+  if (isResident(image)) return new ResidentImage(image.heap, image.address, width, height);
+  return createImage(width, height, image.data);
 }

@@ -1,0 +1,75 @@
+// Which engine runs the steps: the WebAssembly SIMD kernels (shared/vision/wasm/) or the plain
+// TypeScript path, which stays the reference. 'auto' takes SIMD where WebAssembly SIMD validates
+// and plain otherwise; 'simd' and 'plain' force one (the server reads KW_ENGINE, the browser and
+// tests call setEngine). Steps without a SIMD kernel run the plain code on the same buffers.
+import { instantiateAsync, instantiateSync } from './wasm/loader';
+import type { SimdKernels } from './wasm/simd-kernels';
+import { simdSupported } from './wasm/simd-support';
+
+export type EngineChoice = 'auto' | 'simd' | 'plain';
+export type EngineName = 'simd' | 'plain';
+
+export const ENGINE_CHOICES: readonly EngineChoice[] = ['auto', 'simd', 'plain'];
+
+let choice: EngineChoice = 'auto';
+let kernels: SimdKernels | null = null;
+/** Why the SIMD kernels cannot run here, once known. */
+let unavailable: Error | null = null;
+let loading: Promise<SimdKernels | null> | null = null;
+/** True once the runtime refused to compile the module synchronously. */
+let onlyAsync = false;
+
+export function setEngine(next: EngineChoice): void {
+  if (!ENGINE_CHOICES.includes(next)) throw new RangeError(`unknown engine "${String(next)}": expected one of ${ENGINE_CHOICES.join(', ')}`);
+  choice = next;
+}
+
+export function engineChoice(): EngineChoice {
+  return choice;
+}
+
+/**
+ * The SIMD kernels when they are to run, else null (plain path). With 'simd' forced, throws when they
+ * cannot run here, or in a browser's main thread before prepareEngine() has finished.
+ */
+export function simdKernels(): SimdKernels | null {
+  if (choice === 'plain') return null;
+  if (!kernels && !unavailable && !onlyAsync) loadNow();
+  if (kernels) return kernels;
+  if (choice === 'simd') throw unavailable ?? new Error('the SIMD engine is still loading: await prepareEngine() first');
+  return null;
+}
+
+/** The engine the next step will run on. */
+export function activeEngine(): EngineName {
+  return simdKernels() ? 'simd' : 'plain';
+}
+
+/** Loads the SIMD kernels where only asynchronous compilation is allowed (a browser's main thread); resolves to the engine in use. */
+export async function prepareEngine(): Promise<EngineName> {
+  if (choice !== 'plain' && !kernels && !unavailable) {
+    loading ??= instantiateAsync().then(
+      (loaded) => (kernels = loaded),
+      (error: unknown) => {
+        unavailable = error instanceof Error ? error : new Error(String(error));
+        return null;
+      },
+    );
+    await loading;
+  }
+  return activeEngine();
+}
+
+function loadNow(): void {
+  if (!simdSupported()) {
+    unavailable = new Error('WebAssembly SIMD is not available in this runtime');
+    return;
+  }
+  try {
+    kernels = instantiateSync();
+  } catch (error) {
+    // A browser's main thread refuses to compile it synchronously: prepareEngine() loads it.
+    if (error instanceof RangeError) onlyAsync = true;
+    else unavailable = error instanceof Error ? error : new Error(String(error));
+  }
+}

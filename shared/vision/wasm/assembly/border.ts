@@ -1,0 +1,46 @@
+// Border policy of the WebAssembly kernels, the same as shared/vision/border.ts: which source
+// position stands in for a position outside the image. Modes travel across the boundary as numbers.
+export const REFLECT: i32 = 0;
+export const REPLICATE: i32 = 1;
+export const CONSTANT: i32 = 2;
+/** A position whose value is the constant 0. */
+export const OUTSIDE: i32 = -1;
+
+/** Address of element i of an f32 or i32 array at base. */
+@inline
+export function at(base: usize, i: i32): usize {
+  return base + ((<usize>i) << 2);
+}
+
+/** reflect: gfedcb|abcdefgh|gfedcba (OpenCV BORDER_REFLECT_101), repeated as often as needed; replicate: aaa|abc|ccc; constant: OUTSIDE. */
+export function borderIndex(i: i32, n: i32, mode: i32): i32 {
+  if (i >= 0 && i < n) return i;
+  if (mode == CONSTANT) return OUTSIDE;
+  if (mode == REPLICATE || n == 1) return i < 0 ? 0 : n - 1;
+  const period = 2 * n - 2;
+  let k = i % period;
+  if (k < 0) k += period;
+  return k < n ? k : period - k;
+}
+
+/** Address of source row y of a w-wide image (border applied); `zeros` stands for an outside row. */
+export function rowAddress(src: usize, y: i32, h: i32, w: i32, mode: i32, zeros: usize): usize {
+  const sy = borderIndex(y, h, mode);
+  return sy == OUTSIDE ? zeros : at(src, sy * w);
+}
+
+/** Fills `pad` positions on each side of a line whose n samples sit at line[pad … pad+n−1]. */
+export function fillLineBorder(line: usize, n: i32, pad: i32, mode: i32): void {
+  for (let t = 0; t < pad; t++) {
+    const left = borderIndex(t - pad, n, mode);
+    store<f32>(at(line, t), left == OUTSIDE ? <f32>0 : load<f32>(at(line, pad + left)));
+    const right = borderIndex(n + t, n, mode);
+    store<f32>(at(line, pad + n + t), right == OUTSIDE ? <f32>0 : load<f32>(at(line, pad + right)));
+  }
+}
+
+/** Rounds an address up to the next multiple of 16 (one v128). */
+@inline
+export function align16(p: usize): usize {
+  return (p + 15) & ~(<usize>15);
+}

@@ -1,0 +1,102 @@
+// First-derivative operators (Sobel, Scharr, Prewitt): the x kernel is [a b a]ᵀ ⊗ [−1 0 1], y its
+// transpose. Per row, one vertical pass writes the smoothing s = a·(up + down) + b·centre and the
+// difference t = down − up into two padded lines; then gx = s(x+1) − s(x−1) and
+// gy = a·(t(x−1) + t(x+1)) + b·t(x), four pixels per v128.
+import { align16, at, fillLineBorder, rowAddress } from './border';
+
+export const GRADIENT_X: i32 = 0;
+export const GRADIENT_Y: i32 = 1;
+export const GRADIENT_MAGNITUDE: i32 = 2;
+
+/** Scratch bytes `gradient` needs. */
+export function gradientScratchBytes(w: i32): i32 {
+  return 12 * w + 128;
+}
+
+/**
+ * dst = gx, gy or sqrt(gx² + gy²) of src. For the magnitude, when range ≠ 0, its smallest and
+ * largest value (NaN left out) are stored there as two float32.
+ */
+export function gradient(src: usize, dst: usize, w: i32, h: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
+  const zeros = align16(scratch);
+  memory.fill(zeros, 0, 4 * w);
+  const s = align16(at(zeros, w));
+  const t = align16(at(s, w + 4));
+  const va = f32x4.splat(a), vb = f32x4.splat(b);
+  let lo = f32x4.splat(Infinity);
+  let hi = f32x4.splat(-Infinity);
+  let loScalar: f32 = Infinity;
+  let hiScalar: f32 = -Infinity;
+  for (let y = 0; y < h; y++) {
+    const up = rowAddress(src, y - 1, h, w, mode, zeros);
+    const down = rowAddress(src, y + 1, h, w, mode, zeros);
+    const centre = at(src, y * w);
+    let x = 0;
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      const u = v128.load(up + o), d = v128.load(down + o);
+      v128.store(s + o, f32x4.add(f32x4.mul(va, f32x4.add(u, d)), f32x4.mul(vb, v128.load(centre + o))), 4);
+      v128.store(t + o, f32x4.sub(d, u), 4);
+    }
+    for (; x < w; x++) {
+      const o = (<usize>x) << 2;
+      const u = load<f32>(up + o), d = load<f32>(down + o);
+      store<f32>(s + o, a * (u + d) + b * load<f32>(centre + o), 4);
+      store<f32>(t + o, d - u, 4);
+    }
+    fillLineBorder(s, w, 1, mode);
+    fillLineBorder(t, w, 1, mode);
+    const out = at(dst, y * w);
+    x = 0;
+    if (output == GRADIENT_X) {
+      for (; x + 4 <= w; x += 4) {
+        const o = (<usize>x) << 2;
+        v128.store(out + o, f32x4.sub(v128.load(s + o, 8), v128.load(s + o)));
+      }
+      for (; x < w; x++) {
+        const o = (<usize>x) << 2;
+        store<f32>(out + o, load<f32>(s + o, 8) - load<f32>(s + o));
+      }
+    } else if (output == GRADIENT_Y) {
+      for (; x + 4 <= w; x += 4) {
+        const o = (<usize>x) << 2;
+        v128.store(out + o, f32x4.add(f32x4.mul(va, f32x4.add(v128.load(t + o), v128.load(t + o, 8))), f32x4.mul(vb, v128.load(t + o, 4))));
+      }
+      for (; x < w; x++) {
+        const o = (<usize>x) << 2;
+        store<f32>(out + o, a * (load<f32>(t + o) + load<f32>(t + o, 8)) + b * load<f32>(t + o, 4));
+      }
+    } else {
+      for (; x + 4 <= w; x += 4) {
+        const o = (<usize>x) << 2;
+        const gx = f32x4.sub(v128.load(s + o, 8), v128.load(s + o));
+        const gy = f32x4.add(f32x4.mul(va, f32x4.add(v128.load(t + o), v128.load(t + o, 8))), f32x4.mul(vb, v128.load(t + o, 4)));
+        const m = f32x4.sqrt(f32x4.add(f32x4.mul(gx, gx), f32x4.mul(gy, gy)));
+        v128.store(out + o, m);
+        // pmin(lo, m) is m < lo ? m : lo: a NaN never replaces the extreme found so far.
+        lo = f32x4.pmin(lo, m);
+        hi = f32x4.pmax(hi, m);
+      }
+      for (; x < w; x++) {
+        const o = (<usize>x) << 2;
+        const gx = load<f32>(s + o, 8) - load<f32>(s + o);
+        const gy = a * (load<f32>(t + o) + load<f32>(t + o, 8)) + b * load<f32>(t + o, 4);
+        const m = Mathf.sqrt(gx * gx + gy * gy);
+        store<f32>(out + o, m);
+        if (m < loScalar) loScalar = m;
+        if (m > hiScalar) hiScalar = m;
+      }
+    }
+  }
+  if (range != 0) {
+    for (let lane = 0; lane < 4; lane++) {
+      const l = f32x4.extract_lane(lo, 0), g = f32x4.extract_lane(hi, 0);
+      if (l < loScalar) loScalar = l;
+      if (g > hiScalar) hiScalar = g;
+      lo = v128.shuffle<f32>(lo, lo, 1, 2, 3, 0);
+      hi = v128.shuffle<f32>(hi, hi, 1, 2, 3, 0);
+    }
+    store<f32>(range, loScalar);
+    store<f32>(range, hiScalar, 4);
+  }
+}

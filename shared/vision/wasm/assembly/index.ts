@@ -1,0 +1,14 @@
+// The engine's WebAssembly SIMD kernels (built by scripts/build-wasm.mjs into
+// shared/vision/wasm/module.generated.ts). Every function works on addresses in the module's
+// memory, which shared/vision/wasm/heap.ts manages from the JavaScript side.
+export { separable, laplacianOfGaussian, separableScratchBytes } from './separable';
+export { correlate2d, directScratchBytes } from './direct';
+export { gradient, gradientScratchBytes } from './gradient';
+export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked } from './threshold';
+export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
+export { packNonZero } from './blobs';
+
+/** First address the JavaScript side may use: static data ends below it. */
+export function heapBase(): usize {
+  return __heap_base;
+}

@@ -1,0 +1,301 @@
+// Separable correlation, column ⊗ row, in two 1-D passes per output row: the vertical pass writes one
+// padded line (border filled by the policy), the horizontal pass reads it. Four pixels per v128,
+// float32 arithmetic; symmetric kernels add the mirrored samples first (one multiply per pair).
+import { align16, at, fillLineBorder, rowAddress } from './border';
+
+/** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */
+export function separableScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
+  return 4 * colLen + 4 * w + 8 * (w + rowLen) + 128;
+}
+
+function isSymmetric(k: usize, n: i32): bool {
+  for (let a = 0, b = n - 1; a < b; a++, b--) if (load<f32>(at(k, a)) != load<f32>(at(k, b))) return false;
+  return true;
+}
+
+/**
+ * dst(x,y) = Σⱼ Σᵢ col[j]·row[i]·src(x+i−rx, y+j−ry) + offset, the weights float32 at colK and rowK
+ * (odd lengths), src and dst w×h float32, mode a border mode of border.ts.
+ */
+export function separable(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize): void {
+  const ry = colLen >> 1;
+  const rx = rowLen >> 1;
+  const rows = align16(scratch);
+  const zeros = align16(at(rows, colLen));
+  memory.fill(zeros, 0, 4 * w);
+  const line = align16(at(zeros, w));
+  const colSymmetric = isSymmetric(colK, colLen);
+  const rowSymmetric = isSymmetric(rowK, rowLen);
+  for (let y = 0; y < h; y++) {
+    for (let j = 0; j < colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+    if (colSymmetric) verticalSymmetric(rows, colK, ry, w, at(line, rx));
+    else verticalGeneral(rows, colK, colLen, w, at(line, rx));
+    fillLineBorder(line, w, rx, mode);
+    const out = at(dst, y * w);
+    if (rowSymmetric) horizontalSymmetric(line, rowK, rx, w, out, offset);
+    else horizontalGeneral(line, rowK, rowLen, w, out, offset);
+  }
+}
+
+/**
+ * Laplacian of Gaussian as g″ across the vertically smoothed rows plus g across the vertical second
+ * derivative: both vertical sums come from the same loads. g and g2 are symmetric, 2r+1 long.
+ */
+export function laplacianOfGaussian(src: usize, dst: usize, w: i32, h: i32, g: usize, g2: usize, r: i32, mode: i32, scratch: usize): void {
+  const taps = 2 * r + 1;
+  const rows = align16(scratch);
+  const zeros = align16(at(rows, taps));
+  memory.fill(zeros, 0, 4 * w);
+  const smooth = align16(at(zeros, w));
+  const curve = align16(at(smooth, w + 2 * r + 4));
+  for (let y = 0; y < h; y++) {
+    for (let j = 0; j < taps; j++) store<usize>(at(rows, j), rowAddress(src, y + j - r, h, w, mode, zeros));
+    verticalPair(rows, g, g2, r, w, at(smooth, r), at(curve, r));
+    fillLineBorder(smooth, w, r, mode);
+    fillLineBorder(curve, w, r, mode);
+    horizontalPairSum(smooth, curve, g2, g, r, w, at(dst, y * w));
+  }
+}
+
+function verticalSymmetric(rows: usize, k: usize, r: i32, w: i32, line: usize): void {
+  const c = load<usize>(at(rows, r));
+  const kc = load<f32>(at(k, r));
+  const vc = f32x4.splat(kc);
+  let x = 0;
+  if (r == 1) {
+    const a1 = load<usize>(rows), b1 = load<usize>(at(rows, 2));
+    const k1 = load<f32>(at(k, 2));
+    const v1 = f32x4.splat(k1);
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      v128.store(line + o, f32x4.add(f32x4.mul(vc, v128.load(c + o)), f32x4.mul(v1, f32x4.add(v128.load(a1 + o), v128.load(b1 + o)))));
+    }
+    for (; x < w; x++) {
+      const o = (<usize>x) << 2;
+      store<f32>(line + o, kc * load<f32>(c + o) + k1 * (load<f32>(a1 + o) + load<f32>(b1 + o)));
+    }
+  } else if (r == 2) {
+    const a1 = load<usize>(at(rows, 1)), b1 = load<usize>(at(rows, 3));
+    const a2 = load<usize>(rows), b2 = load<usize>(at(rows, 4));
+    const k1 = load<f32>(at(k, 3)), k2 = load<f32>(at(k, 4));
+    const v1 = f32x4.splat(k1), v2 = f32x4.splat(k2);
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      let acc = f32x4.mul(vc, v128.load(c + o));
+      acc = f32x4.add(acc, f32x4.mul(v1, f32x4.add(v128.load(a1 + o), v128.load(b1 + o))));
+      acc = f32x4.add(acc, f32x4.mul(v2, f32x4.add(v128.load(a2 + o), v128.load(b2 + o))));
+      v128.store(line + o, acc);
+    }
+    for (; x < w; x++) {
+      const o = (<usize>x) << 2;
+      store<f32>(line + o, kc * load<f32>(c + o) + k1 * (load<f32>(a1 + o) + load<f32>(b1 + o)) + k2 * (load<f32>(a2 + o) + load<f32>(b2 + o)));
+    }
+  } else if (r == 3) {
+    const a1 = load<usize>(at(rows, 2)), b1 = load<usize>(at(rows, 4));
+    const a2 = load<usize>(at(rows, 1)), b2 = load<usize>(at(rows, 5));
+    const a3 = load<usize>(rows), b3 = load<usize>(at(rows, 6));
+    const k1 = load<f32>(at(k, 4)), k2 = load<f32>(at(k, 5)), k3 = load<f32>(at(k, 6));
+    const v1 = f32x4.splat(k1), v2 = f32x4.splat(k2), v3 = f32x4.splat(k3);
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      let acc = f32x4.mul(vc, v128.load(c + o));
+      acc = f32x4.add(acc, f32x4.mul(v1, f32x4.add(v128.load(a1 + o), v128.load(b1 + o))));
+      acc = f32x4.add(acc, f32x4.mul(v2, f32x4.add(v128.load(a2 + o), v128.load(b2 + o))));
+      acc = f32x4.add(acc, f32x4.mul(v3, f32x4.add(v128.load(a3 + o), v128.load(b3 + o))));
+      v128.store(line + o, acc);
+    }
+    for (; x < w; x++) {
+      const o = (<usize>x) << 2;
+      store<f32>(
+        line + o,
+        kc * load<f32>(c + o) + k1 * (load<f32>(a1 + o) + load<f32>(b1 + o)) + k2 * (load<f32>(a2 + o) + load<f32>(b2 + o)) + k3 * (load<f32>(a3 + o) + load<f32>(b3 + o)),
+      );
+    }
+  } else {
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      let acc = f32x4.mul(vc, v128.load(c + o));
+      for (let i = 1; i <= r; i++) {
+        const pair = f32x4.add(v128.load(load<usize>(at(rows, r - i)) + o), v128.load(load<usize>(at(rows, r + i)) + o));
+        acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(k, r + i))), pair));
+      }
+      v128.store(line + o, acc);
+    }
+    for (; x < w; x++) {
+      const o = (<usize>x) << 2;
+      let acc = kc * load<f32>(c + o);
+      for (let i = 1; i <= r; i++) acc += load<f32>(at(k, r + i)) * (load<f32>(load<usize>(at(rows, r - i)) + o) + load<f32>(load<usize>(at(rows, r + i)) + o));
+      store<f32>(line + o, acc);
+    }
+  }
+}
+
+/** Any column: Σⱼ k[j]·rows[j]. */
+function verticalGeneral(rows: usize, k: usize, n: i32, w: i32, line: usize): void {
+  let x = 0;
+  for (; x + 4 <= w; x += 4) {
+    const o = (<usize>x) << 2;
+    let acc = f32x4.mul(f32x4.splat(load<f32>(k)), v128.load(load<usize>(rows) + o));
+    for (let j = 1; j < n; j++) acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(k, j))), v128.load(load<usize>(at(rows, j)) + o)));
+    v128.store(line + o, acc);
+  }
+  for (; x < w; x++) {
+    const o = (<usize>x) << 2;
+    let acc = load<f32>(k) * load<f32>(load<usize>(rows) + o);
+    for (let j = 1; j < n; j++) acc += load<f32>(at(k, j)) * load<f32>(load<usize>(at(rows, j)) + o);
+    store<f32>(line + o, acc);
+  }
+}
+
+/** out[x] = Σᵢ k[i]·line[x+i] + offset for a symmetric row (line padded by r on each side). */
+function horizontalSymmetric(line: usize, k: usize, r: i32, w: i32, out: usize, offset: f32): void {
+  const kc = load<f32>(at(k, r));
+  const vc = f32x4.splat(kc);
+  const vo = f32x4.splat(offset);
+  let x = 0;
+  if (r == 0) {
+    for (; x + 4 <= w; x += 4) v128.store(at(out, x), f32x4.add(f32x4.mul(vc, v128.load(at(line, x))), vo));
+    for (; x < w; x++) store<f32>(at(out, x), kc * load<f32>(at(line, x)) + offset);
+  } else if (r == 1) {
+    const k1 = load<f32>(at(k, 2));
+    const v1 = f32x4.splat(k1);
+    for (; x + 4 <= w; x += 4) {
+      const p = at(line, x);
+      const acc = f32x4.add(f32x4.mul(vc, v128.load(p, 4)), f32x4.mul(v1, f32x4.add(v128.load(p), v128.load(p, 8))));
+      v128.store(at(out, x), f32x4.add(acc, vo));
+    }
+    for (; x < w; x++) {
+      const p = at(line, x);
+      store<f32>(at(out, x), kc * load<f32>(p, 4) + k1 * (load<f32>(p) + load<f32>(p, 8)) + offset);
+    }
+  } else if (r == 2) {
+    const k1 = load<f32>(at(k, 3)), k2 = load<f32>(at(k, 4));
+    const v1 = f32x4.splat(k1), v2 = f32x4.splat(k2);
+    for (; x + 4 <= w; x += 4) {
+      const p = at(line, x);
+      let acc = f32x4.mul(vc, v128.load(p, 8));
+      acc = f32x4.add(acc, f32x4.mul(v1, f32x4.add(v128.load(p, 4), v128.load(p, 12))));
+      acc = f32x4.add(acc, f32x4.mul(v2, f32x4.add(v128.load(p), v128.load(p, 16))));
+      v128.store(at(out, x), f32x4.add(acc, vo));
+    }
+    for (; x < w; x++) {
+      const p = at(line, x);
+      store<f32>(at(out, x), kc * load<f32>(p, 8) + k1 * (load<f32>(p, 4) + load<f32>(p, 12)) + k2 * (load<f32>(p) + load<f32>(p, 16)) + offset);
+    }
+  } else if (r == 3) {
+    const k1 = load<f32>(at(k, 4)), k2 = load<f32>(at(k, 5)), k3 = load<f32>(at(k, 6));
+    const v1 = f32x4.splat(k1), v2 = f32x4.splat(k2), v3 = f32x4.splat(k3);
+    for (; x + 4 <= w; x += 4) {
+      const p = at(line, x);
+      let acc = f32x4.mul(vc, v128.load(p, 12));
+      acc = f32x4.add(acc, f32x4.mul(v1, f32x4.add(v128.load(p, 8), v128.load(p, 16))));
+      acc = f32x4.add(acc, f32x4.mul(v2, f32x4.add(v128.load(p, 4), v128.load(p, 20))));
+      acc = f32x4.add(acc, f32x4.mul(v3, f32x4.add(v128.load(p), v128.load(p, 24))));
+      v128.store(at(out, x), f32x4.add(acc, vo));
+    }
+    for (; x < w; x++) {
+      const p = at(line, x);
+      store<f32>(
+        at(out, x),
+        kc * load<f32>(p, 12) + k1 * (load<f32>(p, 8) + load<f32>(p, 16)) + k2 * (load<f32>(p, 4) + load<f32>(p, 20)) + k3 * (load<f32>(p) + load<f32>(p, 24)) + offset,
+      );
+    }
+  } else {
+    for (; x + 4 <= w; x += 4) {
+      const p = at(line, x + r);
+      let acc = f32x4.mul(vc, v128.load(p));
+      for (let i = 1; i <= r; i++) {
+        const d = (<usize>i) << 2;
+        acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(k, r + i))), f32x4.add(v128.load(p - d), v128.load(p + d))));
+      }
+      v128.store(at(out, x), f32x4.add(acc, vo));
+    }
+    for (; x < w; x++) {
+      const p = at(line, x + r);
+      let acc = kc * load<f32>(p);
+      for (let i = 1; i <= r; i++) {
+        const d = (<usize>i) << 2;
+        acc += load<f32>(at(k, r + i)) * (load<f32>(p - d) + load<f32>(p + d));
+      }
+      store<f32>(at(out, x), acc + offset);
+    }
+  }
+}
+
+/** Any row: out[x] = Σᵢ k[i]·line[x+i] + offset. */
+function horizontalGeneral(line: usize, k: usize, n: i32, w: i32, out: usize, offset: f32): void {
+  const vo = f32x4.splat(offset);
+  let x = 0;
+  for (; x + 4 <= w; x += 4) {
+    const p = at(line, x);
+    let acc = f32x4.mul(f32x4.splat(load<f32>(k)), v128.load(p));
+    for (let i = 1; i < n; i++) acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(k, i))), v128.load(at(p, i))));
+    v128.store(at(out, x), f32x4.add(acc, vo));
+  }
+  for (; x < w; x++) {
+    const p = at(line, x);
+    let acc = load<f32>(k) * load<f32>(p);
+    for (let i = 1; i < n; i++) acc += load<f32>(at(k, i)) * load<f32>(at(p, i));
+    store<f32>(at(out, x), acc + offset);
+  }
+}
+
+/** smooth = Σ g·rows and curve = Σ g2·rows down the column, from the same loads (both symmetric, radius r). */
+function verticalPair(rows: usize, g: usize, g2: usize, r: i32, w: i32, smooth: usize, curve: usize): void {
+  const c = load<usize>(at(rows, r));
+  const gc = load<f32>(at(g, r)), g2c = load<f32>(at(g2, r));
+  let x = 0;
+  for (; x + 4 <= w; x += 4) {
+    const o = (<usize>x) << 2;
+    const v = v128.load(c + o);
+    let s = f32x4.mul(f32x4.splat(gc), v);
+    let t = f32x4.mul(f32x4.splat(g2c), v);
+    for (let i = 1; i <= r; i++) {
+      const pair = f32x4.add(v128.load(load<usize>(at(rows, r - i)) + o), v128.load(load<usize>(at(rows, r + i)) + o));
+      s = f32x4.add(s, f32x4.mul(f32x4.splat(load<f32>(at(g, r + i))), pair));
+      t = f32x4.add(t, f32x4.mul(f32x4.splat(load<f32>(at(g2, r + i))), pair));
+    }
+    v128.store(smooth + o, s);
+    v128.store(curve + o, t);
+  }
+  for (; x < w; x++) {
+    const o = (<usize>x) << 2;
+    const v = load<f32>(c + o);
+    let s = gc * v;
+    let t = g2c * v;
+    for (let i = 1; i <= r; i++) {
+      const pair = load<f32>(load<usize>(at(rows, r - i)) + o) + load<f32>(load<usize>(at(rows, r + i)) + o);
+      s += load<f32>(at(g, r + i)) * pair;
+      t += load<f32>(at(g2, r + i)) * pair;
+    }
+    store<f32>(smooth + o, s);
+    store<f32>(curve + o, t);
+  }
+}
+
+/** out[x] = Σᵢ ka[i]·a[x+i] + kb[i]·b[x+i] for symmetric ka, kb of radius r (lines padded by r). */
+function horizontalPairSum(a: usize, b: usize, ka: usize, kb: usize, r: i32, w: i32, out: usize): void {
+  const kac = load<f32>(at(ka, r)), kbc = load<f32>(at(kb, r));
+  let x = 0;
+  for (; x + 4 <= w; x += 4) {
+    const pa = at(a, x + r);
+    const pb = at(b, x + r);
+    let acc = f32x4.add(f32x4.mul(f32x4.splat(kac), v128.load(pa)), f32x4.mul(f32x4.splat(kbc), v128.load(pb)));
+    for (let i = 1; i <= r; i++) {
+      const d = (<usize>i) << 2;
+      acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(ka, r + i))), f32x4.add(v128.load(pa - d), v128.load(pa + d))));
+      acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(kb, r + i))), f32x4.add(v128.load(pb - d), v128.load(pb + d))));
+    }
+    v128.store(at(out, x), acc);
+  }
+  for (; x < w; x++) {
+    const pa = at(a, x + r);
+    const pb = at(b, x + r);
+    let acc = kac * load<f32>(pa) + kbc * load<f32>(pb);
+    for (let i = 1; i <= r; i++) {
+      const d = (<usize>i) << 2;
+      acc += load<f32>(at(ka, r + i)) * (load<f32>(pa - d) + load<f32>(pa + d)) + load<f32>(at(kb, r + i)) * (load<f32>(pb - d) + load<f32>(pb + d));
+    }
+    store<f32>(at(out, x), acc);
+  }
+}

@@ -1,0 +1,143 @@
+// Thresholds and Otsu's histogram. Masks are float32 0 and 1, written without branches:
+// a compare gives all-ones lanes, ANDed with the bit pattern of 1.0.
+import { at } from './border';
+
+const ONE_BITS: i32 = 0x3f800000;
+/** Pixels checked between early exits of the 8-bit test. */
+const BLOCK: i32 = 64;
+/** Bins of each partial histogram: 0 … 256 (a value at the maximum may land on 256 by rounding). */
+const PARTIAL_STRIDE: i32 = 257;
+
+/** 1 when every value is a whole number in 0 … 255 (8-bit data), else 0; stops at the first other value. */
+export function eightBitLevels(src: usize, n: i32): i32 {
+  const zero = f32x4.splat(0), top = f32x4.splat(255);
+  let p = 0;
+  while (p + 4 <= n) {
+    const end = min(n - 3, p + BLOCK);
+    let ok = i32x4.splat(-1);
+    for (; p < end; p += 4) {
+      const v = v128.load(at(src, p));
+      const whole = f32x4.eq(f32x4.trunc(v), v);
+      ok = v128.and(ok, v128.and(whole, v128.and(f32x4.ge(v, zero), f32x4.le(v, top))));
+    }
+    if (!i32x4.all_true(ok)) return 0;
+  }
+  for (; p < n; p++) {
+    const v = load<f32>(at(src, p));
+    if (!(Mathf.trunc(v) == v && v >= 0 && v <= 255)) return 0;
+  }
+  return 1;
+}
+
+/** Smallest and largest value, NaN left out (Infinity and −Infinity when there is none), stored at out as two float32. */
+export function valueRange(src: usize, n: i32, out: usize): void {
+  let lo = f32x4.splat(Infinity);
+  let hi = f32x4.splat(-Infinity);
+  let p = 0;
+  for (; p + 4 <= n; p += 4) {
+    const v = v128.load(at(src, p));
+    // pmin(lo, v) is v < lo ? v : lo, so a NaN never replaces the extreme found so far.
+    lo = f32x4.pmin(lo, v);
+    hi = f32x4.pmax(hi, v);
+  }
+  let l: f32 = Infinity;
+  let g: f32 = -Infinity;
+  for (; p < n; p++) {
+    const v = load<f32>(at(src, p));
+    if (v < l) l = v;
+    if (v > g) g = v;
+  }
+  for (let lane = 0; lane < 4; lane++) {
+    const a = f32x4.extract_lane(lo, 0), b = f32x4.extract_lane(hi, 0);
+    if (a < l) l = a;
+    if (b > g) g = b;
+    lo = v128.shuffle<f32>(lo, lo, 1, 2, 3, 0);
+    hi = v128.shuffle<f32>(hi, hi, 1, 2, 3, 0);
+  }
+  store<f32>(out, l);
+  store<f32>(out, g, 4);
+}
+
+/**
+ * Counts bin(v) = trunc((v − origin)·scale), computed in double precision as the plain engine does
+ * (so both put every value in the same bin; NaN goes to bin 0), into four partial histograms of
+ * 257 int32 at partial (zeroed here), filled in turn so that equal neighbours do not wait on one counter.
+ */
+export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: usize): void {
+  memory.fill(partial, 0, 4 * 4 * PARTIAL_STRIDE);
+  const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
+  const top = i32x4.splat(PARTIAL_STRIDE - 1);
+  const p1 = at(partial, PARTIAL_STRIDE), p2 = at(partial, 2 * PARTIAL_STRIDE), p3 = at(partial, 3 * PARTIAL_STRIDE);
+  let p = 0;
+  for (; p + 4 <= n; p += 4) {
+    const v = v128.load(at(src, p));
+    const low = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v), vo), vs));
+    const high = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 0, 1)), vo), vs));
+    // Lanes 0, 1 from low and 2, 3 from high; bins above 256 cannot occur for values ≤ the maximum, the clamp keeps memory safe.
+    const bins = i32x4.min_u(v128.shuffle<i32>(low, high, 0, 1, 4, 5), top);
+    const b0 = at(partial, i32x4.extract_lane(bins, 0));
+    const b1 = at(p1, i32x4.extract_lane(bins, 1));
+    const b2 = at(p2, i32x4.extract_lane(bins, 2));
+    const b3 = at(p3, i32x4.extract_lane(bins, 3));
+    store<i32>(b0, load<i32>(b0) + 1);
+    store<i32>(b1, load<i32>(b1) + 1);
+    store<i32>(b2, load<i32>(b2) + 1);
+    store<i32>(b3, load<i32>(b3) + 1);
+  }
+  for (; p < n; p++) {
+    const scaled = f64x2.splat((<f64>load<f32>(at(src, p)) - origin) * scale);
+    const bin = i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0);
+    const b = at(partial, bin);
+    store<i32>(b, load<i32>(b) + 1);
+  }
+}
+
+/** dst = 1 where v ≥ cut, else 0 (swapped when invert is 1); NaN is below every cut. */
+export function thresholdAt(src: usize, dst: usize, n: i32, cut: f32, invert: i32): void {
+  const vc = f32x4.splat(cut);
+  const one = i32x4.splat(ONE_BITS);
+  const flip = i32x4.splat(invert ? -1 : 0);
+  let p = 0;
+  for (; p + 4 <= n; p += 4) {
+    const above = v128.xor(f32x4.ge(v128.load(at(src, p)), vc), flip);
+    v128.store(at(dst, p), v128.and(above, one));
+  }
+  for (; p < n; p++) {
+    const above = (load<f32>(at(src, p)) >= cut ? 1 : 0) ^ invert;
+    store<f32>(at(dst, p), <f32>above);
+  }
+}
+
+/**
+ * thresholdAt on a w×h image that also writes the mask in packed bits: bit i of word k of row y is
+ * pixel (32k + i, y); bits past the last column are 0.
+ */
+export function thresholdAtPacked(src: usize, dst: usize, w: i32, h: i32, cut: f32, invert: i32, words: usize): void {
+  const vc = f32x4.splat(cut);
+  const one = i32x4.splat(ONE_BITS);
+  const flip = i32x4.splat(invert ? -1 : 0);
+  const wordsPerRow = (w + 31) >>> 5;
+  for (let y = 0; y < h; y++) {
+    const row = y * w;
+    for (let k = 0; k < wordsPerRow; k++) {
+      const x0 = row + (k << 5);
+      const count = min(32, w - (k << 5));
+      let word = 0;
+      if (count == 32) {
+        for (let g = 0; g < 8; g++) {
+          const p = x0 + (g << 2);
+          const above = v128.xor(f32x4.ge(v128.load(at(src, p)), vc), flip);
+          v128.store(at(dst, p), v128.and(above, one));
+          word |= i32x4.bitmask(above) << (g << 2);
+        }
+      } else {
+        for (let i = 0; i < count; i++) {
+          const bit = (load<f32>(at(src, x0 + i)) >= cut ? 1 : 0) ^ invert;
+          store<f32>(at(dst, x0 + i), <f32>bit);
+          word |= bit << i;
+        }
+      }
+      store<i32>(at(words, y * wordsPerRow + k), word);
+    }
+  }
+}

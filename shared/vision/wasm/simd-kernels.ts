@@ -1,0 +1,255 @@
+// The WebAssembly SIMD kernels as engine operations on images. Images the engine's workspace hands
+// out live in the module's memory (ResidentImage) and are read and written in place; any other
+// image is copied in for the call, and an output that is not resident is copied out.
+import type { MorphologyOp } from '../../rules/schema';
+import type { PackedMask } from '../binary-morphology';
+import type { BorderMode } from '../border';
+import { imageLike, type Image, type ValueRange } from '../image';
+import type { Kernel } from '../kernels';
+import { WasmHeap } from './heap';
+import { ResidentImage } from './resident-image';
+import type { WasmMemory } from './webassembly';
+
+/** The module's exports (shared/vision/wasm/assembly/index.ts); addresses are byte offsets in `memory`. */
+export interface EngineExports {
+  readonly memory: WasmMemory;
+  heapBase(): number;
+  separable(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, mode: number, offset: number, scratch: number): void;
+  separableScratchBytes(w: number, colLen: number, rowLen: number): number;
+  laplacianOfGaussian(src: number, dst: number, w: number, h: number, g: number, g2: number, r: number, mode: number, scratch: number): void;
+  correlate2d(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, scratch: number): void;
+  directScratchBytes(w: number, rows: number, cols: number): number;
+  gradient(src: number, dst: number, w: number, h: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
+  gradientScratchBytes(w: number): number;
+  eightBitLevels(src: number, n: number): number;
+  valueRange(src: number, n: number, out: number): void;
+  histogram(src: number, n: number, origin: number, scale: number, partial: number): void;
+  thresholdAt(src: number, dst: number, n: number, cut: number, invert: number): void;
+  thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number): void;
+  extreme(src: number, dst: number, w: number, h: number, r: number, mode: number, takeMax: number, scratch: number): void;
+  extremeScratchBytes(w: number, r: number): number;
+  packMask(src: number, w: number, h: number, words: number): number;
+  unpackMask(words: number, dst: number, w: number, h: number): void;
+  packedExtreme(src: number, dst: number, w: number, h: number, r: number, takeMax: number, outside: number, scratch: number): void;
+  packedScratchBytes(w: number): number;
+  packNonZero(src: number, w: number, h: number, words: number): void;
+}
+
+const BORDER_CODES: Record<BorderMode, number> = { reflect: 0, replicate: 1, constant: 2 };
+const GRADIENT_CODES = { x: 0, y: 1, magnitude: 2 } as const;
+const HISTOGRAM_BINS = 256;
+/** Bins 0 … 256 in each of the kernel's four partial histograms. */
+const PARTIAL_STRIDE = HISTOGRAM_BINS + 1;
+
+/** Blocks taken for one call, released together at its end. */
+class CallScope {
+  private readonly blocks: number[] = [];
+
+  constructor(private readonly heap: WasmHeap) {}
+
+  alloc(bytes: number): number {
+    const address = this.heap.alloc(bytes);
+    this.blocks.push(address);
+    return address;
+  }
+
+  f32(values: ArrayLike<number>): number {
+    const address = this.alloc(4 * values.length);
+    this.heap.f32(address, values.length).set(values);
+    return address;
+  }
+
+  end(): void {
+    for (const address of this.blocks) this.heap.release(address);
+  }
+}
+
+export class SimdKernels {
+  readonly heap: WasmHeap;
+
+  constructor(private readonly wasm: EngineExports) {
+    this.heap = new WasmHeap(wasm.memory, Math.ceil(wasm.heapBase() / 64) * 64);
+  }
+
+  /** An image in the module's memory; its contents are undefined until a step writes it. */
+  takeImage(width: number, height: number): ResidentImage {
+    return new ResidentImage(this.heap, this.heap.alloc(4 * width * height), width, height);
+  }
+
+  owns(image: Image): image is ResidentImage {
+    return image instanceof ResidentImage && image.heap === this.heap;
+  }
+
+  /** column ⊗ row correlation plus offset. */
+  separable(src: Image, column: ArrayLike<number>, row: ArrayLike<number>, border: BorderMode, out?: Image, offset = 0): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      const col = scope.f32(column);
+      const rw = scope.f32(row);
+      const scratch = scope.alloc(this.wasm.separableScratchBytes(src.width, column.length, row.length));
+      this.wasm.separable(s, d, src.width, src.height, col, column.length, rw, row.length, BORDER_CODES[border], offset, scratch);
+    });
+  }
+
+  /** Direct correlation with any kernel (weights / divisor + offset). */
+  correlate2d(src: Image, kernel: Kernel, border: BorderMode, out?: Image): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      const weights = scope.f32(kernel.weights);
+      const scratch = scope.alloc(this.wasm.directScratchBytes(src.width, kernel.rows, kernel.cols));
+      this.wasm.correlate2d(s, d, src.width, src.height, weights, kernel.rows, kernel.cols, BORDER_CODES[border], 1 / kernel.divisor, kernel.offset, scratch);
+    });
+  }
+
+  /** g″ across the vertically g-smoothed image plus g across its vertical g″ (symmetric weights of one length). */
+  laplacianOfGaussian(src: Image, g: ArrayLike<number>, g2: ArrayLike<number>, border: BorderMode, out?: Image): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      const gw = scope.f32(g);
+      const g2w = scope.f32(g2);
+      const scratch = scope.alloc(this.wasm.separableScratchBytes(src.width, g.length, g.length));
+      this.wasm.laplacianOfGaussian(s, d, src.width, src.height, gw, g2w, (g.length - 1) >> 1, BORDER_CODES[border], scratch);
+    });
+  }
+
+  /** [a b a]ᵀ ⊗ [−1 0 1] (x), its transpose (y), or the magnitude, whose range goes to `range` when given. */
+  gradient(src: Image, a: number, b: number, output: 'x' | 'y' | 'magnitude', border: BorderMode, out?: Image, range?: ValueRange): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      const rangeAddress = range ? scope.alloc(8) : 0;
+      const scratch = scope.alloc(this.wasm.gradientScratchBytes(src.width));
+      this.wasm.gradient(s, d, src.width, src.height, a, b, GRADIENT_CODES[output], BORDER_CODES[border], rangeAddress, scratch);
+      if (range) {
+        const found = this.heap.f32(rangeAddress, 2);
+        range.min = output === 'magnitude' ? found[0] : NaN;
+        range.max = output === 'magnitude' ? found[1] : NaN;
+      }
+    });
+  }
+
+  /** True when every value is a whole number in 0 … 255. */
+  eightBitLevels(image: Image): boolean {
+    return this.read(image, (s) => this.wasm.eightBitLevels(s, image.data.length) === 1);
+  }
+
+  /** [min, max] with NaN left out ([Infinity, −Infinity] when there is no number). */
+  valueRange(image: Image): [number, number] {
+    return this.read(image, (s, scope) => {
+      const out = scope.alloc(8);
+      this.wasm.valueRange(s, image.data.length, out);
+      const found = this.heap.f32(out, 2);
+      return [found[0], found[1]];
+    });
+  }
+
+  /** counts[min(255, trunc((v − origin)·scale))]++ for every v (computed in double precision; NaN counts in bin 0). */
+  histogram(image: Image, origin: number, scale: number): Float64Array {
+    return this.read(image, (s, scope) => {
+      const partial = scope.alloc(4 * 4 * PARTIAL_STRIDE);
+      this.wasm.histogram(s, image.data.length, origin, scale, partial);
+      const sums = this.heap.i32(partial, 4 * PARTIAL_STRIDE);
+      const counts = new Float64Array(HISTOGRAM_BINS);
+      for (let bin = 0; bin < PARTIAL_STRIDE; bin++) {
+        const total = sums[bin] + sums[PARTIAL_STRIDE + bin] + sums[2 * PARTIAL_STRIDE + bin] + sums[3 * PARTIAL_STRIDE + bin];
+        counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += total;
+      }
+      return counts;
+    });
+  }
+
+  /** mask = (v ≥ cut) XOR invert, cut a float32; `packed` receives the mask in packed bits as well. */
+  thresholdAt(src: Image, cut: number, invert: boolean, out?: Image, packed?: PackedMask): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      if (!packed) {
+        this.wasm.thresholdAt(s, d, src.data.length, cut, invert ? 1 : 0);
+        return;
+      }
+      const words = scope.alloc(4 * packed.words.length);
+      this.wasm.thresholdAtPacked(s, d, src.width, src.height, cut, invert ? 1 : 0, words);
+      packed.words.set(this.heap.i32(words, packed.words.length));
+    });
+  }
+
+  /** Minimum (erosion) or maximum (dilation) over the square of side 2r+1, for any values. */
+  extreme(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      const scratch = scope.alloc(this.wasm.extremeScratchBytes(src.width, r));
+      this.wasm.extreme(s, d, src.width, src.height, r, BORDER_CODES[border], takeMax ? 1 : 0, scratch);
+    });
+  }
+
+  /**
+   * A morphology step on a 0/1 mask through packed bits (1 ≤ radius ≤ 31), or null when the image
+   * holds other values. `packed`: the same mask already packed by the step that wrote it.
+   */
+  binaryMorphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, packed?: PackedMask): Image | null {
+    const { width: w, height: h } = src;
+    const count = ((w + 31) >>> 5) * h;
+    const scope = new CallScope(this.heap);
+    try {
+      const first = scope.alloc(4 * count);
+      if (packed) this.heap.i32(first, count).set(packed.words);
+      else if (this.wasm.packMask(this.addressOf(src, scope), w, h, first) === 0) return null;
+      const second = scope.alloc(4 * count);
+      const scratch = scope.alloc(this.wasm.packedScratchBytes(w));
+      // Outside the image: the identity of the operation, or 0 for erosion with the constant border.
+      const erodeOutside = border === 'constant' ? 0 : 1;
+      const pass = (from: number, to: number, takeMax: boolean) =>
+        this.wasm.packedExtreme(from, to, w, h, radius, takeMax ? 1 : 0, takeMax ? 0 : erodeOutside, scratch);
+      let result = second;
+      if (op === 'erode' || op === 'dilate') pass(first, second, op === 'dilate');
+      else {
+        pass(first, second, op === 'close');
+        pass(second, first, op === 'open');
+        result = first;
+      }
+      const dst = imageLike(src, out === src ? undefined : out);
+      if (this.owns(dst)) this.wasm.unpackMask(result, dst.address, w, h);
+      else {
+        const temp = scope.alloc(4 * w * h);
+        this.wasm.unpackMask(result, temp, w, h);
+        dst.data.set(this.heap.f32(temp, w * h));
+      }
+      return dst;
+    } finally {
+      scope.end();
+    }
+  }
+
+  /** Bit i of word k of row y set where pixel (32k + i, y) is not 0 (NaN counts, −0 does not); a copy in ordinary memory. */
+  nonZeroWords(image: Image): Int32Array {
+    return this.read(image, (s, scope) => {
+      const count = ((image.width + 31) >>> 5) * image.height;
+      const words = scope.alloc(4 * count);
+      this.wasm.packNonZero(s, image.width, image.height, words);
+      return this.heap.i32(words, count).slice();
+    });
+  }
+
+  /** Address of the image's samples in the module's memory: its own, or a copy for the call. */
+  private addressOf(image: Image, scope: CallScope): number {
+    if (this.owns(image)) return image.address;
+    return scope.f32(image.data);
+  }
+
+  private read<T>(image: Image, fn: (address: number, scope: CallScope) => T): T {
+    const scope = new CallScope(this.heap);
+    try {
+      return fn(this.addressOf(image, scope), scope);
+    } finally {
+      scope.end();
+    }
+  }
+
+  /** Runs a kernel from src into `out` (or a new image), copying in and out only what is not resident. */
+  private mapImage(src: Image, out: Image | undefined, kernel: (src: number, dst: number, scope: CallScope) => void): Image {
+    const dst = imageLike(src, out === src ? undefined : out);
+    const scope = new CallScope(this.heap);
+    try {
+      const s = this.addressOf(src, scope);
+      const resident = this.owns(dst);
+      const d = resident ? dst.address : scope.alloc(4 * dst.data.length);
+      kernel(s, d, scope);
+      if (!resident) dst.data.set(this.heap.f32(d, dst.data.length));
+    } finally {
+      scope.end();
+    }
+    return dst;
+  }
+}

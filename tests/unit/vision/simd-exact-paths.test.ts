@@ -1,0 +1,165 @@
+// The WebAssembly SIMD kernels against the plain TypeScript path (the reference) where the result is
+// a decision or a selection, not a sum: fixed and Otsu thresholds, morphology on any values and on
+// masks, the blob labelling with its pre-pass, and a rule run that stays on those paths. These must
+// agree bit for bit, NaN, −0 and ties included, on random images of odd and degenerate sizes.
+import fc from 'fast-check';
+import type { MorphologyOp } from '../../../shared/rules/schema';
+import { createPackedMask } from '../../../shared/vision/binary-morphology';
+import { labelBlobs } from '../../../shared/vision/blobs';
+import { regionSpans } from '../../../shared/vision/gauges';
+import { gradient } from '../../../shared/vision/gradient';
+import type { RawPhoto } from '../../../shared/vision/image';
+import { morphology, valueMorphology } from '../../../shared/vision/morphology';
+import { runRule } from '../../../shared/vision/pipeline';
+import { thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
+import { bitsOf, borderMode, imageSize, onBoth, onEngine, sampleImage, seed, type SampleKind } from './engines';
+import { seededRandom } from './images';
+
+const RUNS = { numRuns: 150 };
+const anyKind = fc.constantFrom<SampleKind>('8-bit', '16-bit', 'signed float', 'mask', 'awkward');
+const morphologyOp = fc.constantFrom<MorphologyOp>('erode', 'dilate', 'open', 'close');
+
+test('fixed threshold: the same mask bits, the threshold a sample value, between two, NaN or infinite', () => {
+  fc.assert(
+    fc.property(imageSize, anyKind, seed, fc.boolean(), fc.nat(), fc.constantFrom('sample', 'between', 'NaN', 'Infinity', '-Infinity'), ([w, h], kind, s, invert, pick, how) => {
+      const image = sampleImage(w, h, kind, s);
+      const sample = image.data[pick % image.data.length];
+      const value = how === 'sample' ? sample : how === 'between' ? sample + 1e-9 : Number(how);
+      const { plain, simd } = onBoth(() => thresholdFixed(image, value, invert));
+      expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
+
+test('Otsu: the same bin, threshold and mask bits on 8-bit, 16-bit, float and awkward images, with and without a known range and packed bits', () => {
+  fc.assert(
+    fc.property(imageSize, anyKind, seed, fc.boolean(), fc.boolean(), ([w, h], kind, s, invert, knownRange) => {
+      const image = sampleImage(w, h, kind, s);
+      const run = () => {
+        const range = knownRange ? { min: Math.min(...image.data.filter((v) => !Number.isNaN(v))), max: Math.max(...image.data.filter((v) => !Number.isNaN(v))) } : undefined;
+        const packed = createPackedMask(w, h);
+        const result = thresholdOtsu(image, invert, undefined, range, packed);
+        return { result, words: Array.from(packed.words) };
+      };
+      const { plain, simd } = onBoth(run);
+      expect(simd.result.bin).toBe(plain.result.bin);
+      expect(simd.result.threshold).toBe(plain.result.threshold);
+      expect(bitsOf(simd.result.mask)).toEqual(bitsOf(plain.result.mask));
+      expect(simd.words).toEqual(plain.words);
+    }),
+    RUNS,
+  );
+});
+
+test('Otsu on a gradient magnitude handed its range by the gradient (the rule runner does this): same mask on both engines', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<SampleKind>('8-bit', '16-bit'), seed, ([w, h], kind, s) => {
+      const magnitude = onEngine('plain', () => gradient(sampleImage(w, h, kind, s), 'sobel', 'magnitude', 'reflect'));
+      const { plain, simd } = onBoth(() => {
+        const range = { min: Math.min(...magnitude.data), max: Math.max(...magnitude.data) };
+        return thresholdOtsu(magnitude, false, undefined, range);
+      });
+      expect(simd.bin).toBe(plain.bin);
+      expect(bitsOf(simd.mask)).toEqual(bitsOf(plain.mask));
+    }),
+    RUNS,
+  );
+});
+
+test('morphology on any values (minimum and maximum, NaN and −0 included): identical bits', () => {
+  fc.assert(
+    fc.property(imageSize, anyKind, seed, morphologyOp, fc.integer({ min: 1, max: 4 }), borderMode, ([w, h], kind, s, op, radius, border) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => valueMorphology(image, op, radius, border));
+      expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
+
+test('morphology on masks (packed bits, radius 1 to 31, or handed over by Otsu): identical bits', () => {
+  fc.assert(
+    fc.property(imageSize, seed, morphologyOp, fc.oneof(fc.integer({ min: 1, max: 3 }), fc.integer({ min: 4, max: 31 })), borderMode, fc.boolean(), ([w, h], s, op, radius, border, handed) => {
+      const mask = sampleImage(w, h, 'mask', s);
+      const { plain, simd } = onBoth(() => {
+        if (!handed) return morphology(mask, op, radius, border);
+        const packed = createPackedMask(w, h);
+        const otsu = thresholdOtsu(sampleImage(w, h, '8-bit', s), false, undefined, undefined, packed).mask;
+        return morphology(otsu, op, radius, border, undefined, undefined, packed);
+      });
+      expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
+
+test('blobs (SIMD pre-pass and run labelling against the pixel scan): the same labels, areas and boxes, in the whole image and in regions', () => {
+  const region = fc.oneof(
+    fc.constant(undefined),
+    fc.record({ shape: fc.constant('rect' as const), x: fc.double({ min: 0, max: 0.6, noNaN: true }), y: fc.double({ min: 0, max: 0.6, noNaN: true }), w: fc.double({ min: 0.05, max: 0.6, noNaN: true }), h: fc.double({ min: 0.05, max: 0.6, noNaN: true }) }),
+    fc.record({ shape: fc.constant('circle' as const), cx: fc.double({ min: 0, max: 1, noNaN: true }), cy: fc.double({ min: 0, max: 1, noNaN: true }), r: fc.double({ min: 0.05, max: 0.7, noNaN: true }) }),
+  );
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<SampleKind>('mask', 'awkward', '8-bit'), seed, region, ([w, h], kind, s, shape) => {
+      const image = sampleImage(w, h, kind, s);
+      const spans = regionSpans(w, h, shape);
+      const { plain, simd } = onBoth(() => labelBlobs(image, spans));
+      expect(simd.blobs).toEqual(plain.blobs);
+      expect(Array.from(simd.labels)).toEqual(Array.from(plain.labels));
+    }),
+    RUNS,
+  );
+});
+
+test('blobs of long runs across word boundaries and of a full image: the same on both engines', () => {
+  const rand = seededRandom(99);
+  const w = 131;
+  const h = 37;
+  // Rows of long runs with a few gaps, so that runs cross the 32-pixel words of the pre-pass.
+  const image = sampleImage(w, h, 'mask', 5);
+  for (let p = 0; p < w * h; p++) image.data[p] = rand() < 0.93 ? 1 : 0;
+  const full = sampleImage(w, h, 'mask', 6);
+  full.data.fill(1);
+  for (const input of [image, full]) {
+    const { plain, simd } = onBoth(() => labelBlobs(input));
+    expect(simd.blobs).toEqual(plain.blobs);
+    expect(Array.from(simd.labels)).toEqual(Array.from(plain.labels));
+  }
+});
+
+function photo(w: number, h: number, s: number): RawPhoto {
+  const rand = seededRandom(s);
+  const samples = new Uint8Array(w * h);
+  for (let p = 0; p < w * h; p++) samples[p] = (p % w) * 3 > w && rand() < 0.6 ? 200 + Math.floor(rand() * 40) : Math.floor(rand() * 90);
+  return { width: w, height: h, channels: 1, bitDepth: 8, samples };
+}
+
+test('a rule run on a decision path (threshold, opening, closing, blob gauges) gives identical outputs, measurements and verdict', () => {
+  const rule = {
+    format: 'kernwright-rule/1',
+    name: 'Bright specks',
+    border: 'constant',
+    steps: [
+      { op: 'threshold', method: 'otsu' },
+      { op: 'open', radius: 1 },
+      { op: 'close', radius: 2 },
+      { op: 'dilate', radius: 1 },
+    ],
+    gauges: [
+      { name: 'count', measure: 'blob-count', limits: { max: 40 } },
+      { name: 'largest', measure: 'largest-blob-area', region: { shape: 'circle', cx: 0.5, cy: 0.5, r: 0.4 }, limits: { max: 900 } },
+      { name: 'length', measure: 'largest-blob-length', limits: { max: 30 } },
+      { name: 'share', measure: 'edge-fraction', step: 2, limits: { max: 0.5 } },
+    ],
+  };
+  fc.assert(
+    fc.property(imageSize, seed, ([w, h], s) => {
+      const { plain, simd } = onBoth(() => runRule(rule, photo(w, h, s), { retain: 'all' }));
+      expect(simd.verdict).toBe(plain.verdict);
+      expect(simd.measurements).toEqual(plain.measurements);
+      simd.steps.forEach((step, i) => expect(bitsOf(step.output!)).toEqual(bitsOf(plain.steps[i].output!)));
+    }),
+    { numRuns: 60 },
+  );
+});

@@ -1,0 +1,143 @@
+// The WebAssembly SIMD kernels against the plain TypeScript path (the reference) on the float paths:
+// separable and direct correlation, Gaussian, gradients, Laplacian and LoG, on random images of odd
+// and degenerate sizes, every border mode, 8-bit, 16-bit and signed samples. The two agree within
+// float32 rounding: the bound of float32Tolerance (engines.ts) for the operation's length and scale.
+import fc from 'fast-check';
+import { correlate, correlateSeparable } from '../../../shared/vision/convolve';
+import { gradient } from '../../../shared/vision/gradient';
+import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix, SCHARR_SMOOTHING, SOBEL_SMOOTHING, PREWITT_SMOOTHING } from '../../../shared/vision/kernels';
+import { laplacian, laplacianOfGaussian } from '../../../shared/vision/laplacian';
+import { gaussianBlur } from '../../../shared/vision/smoothing';
+import { borderMode, float32Tolerance, imageSize, l1, largestDifference, largestMagnitude, onBoth, sampleImage, sampleKind, seed } from './engines';
+
+const RUNS = { numRuns: 150 };
+const weight = fc.integer({ min: -40, max: 40 }).map((v) => v / 8);
+const oddLength = fc.constantFrom(1, 3, 5, 7, 9, 13);
+const weights = (n: number) => fc.array(weight, { minLength: n, maxLength: n });
+
+test('separable correlation: SIMD within float32 rounding of plain, any column and row (symmetric or not), with an offset', () => {
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, borderMode, oddLength.chain(weights), oddLength.chain(weights), weight, ([w, h], kind, s, border, column, row, offset) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => correlateSeparable(image, column, row, border, undefined, offset));
+      const magnitude = l1(column) * l1(row) * largestMagnitude(image.data) + Math.abs(offset);
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(column.length + row.length, magnitude));
+    }),
+    RUNS,
+  );
+});
+
+test('symmetric separable kernels (the unrolled radii 1–3 and the general loop) agree within float32 rounding', () => {
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, borderMode, fc.integer({ min: 0, max: 6 }).chain((r) => weights(r + 1)), ([w, h], kind, s, border, half) => {
+      const symmetric = [...half.slice(1).reverse(), ...half];
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => correlateSeparable(image, symmetric, symmetric, border));
+      const magnitude = l1(symmetric) ** 2 * largestMagnitude(image.data);
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(2 * symmetric.length, magnitude));
+    }),
+    RUNS,
+  );
+});
+
+test('Gaussian blur: SIMD within float32 rounding of plain for sigma 0.3 to 4', () => {
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, borderMode, fc.double({ min: 0.3, max: 4, noNaN: true }), ([w, h], kind, s, border, sigma) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => gaussianBlur(image, sigma, border));
+      const taps = gaussianWeights(sigma).length;
+      // The weights sum to 1: Σ|wᵢ·xᵢ| ≤ max |x| per pass.
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(2 * taps, largestMagnitude(image.data)));
+    }),
+    RUNS,
+  );
+});
+
+test('direct correlation of non-separable kernels up to 9×9 (the 3×3 kernel and the general loop): SIMD within float32 rounding', () => {
+  const kernel = fc
+    .tuple(fc.constantFrom(1, 3, 5, 9), fc.constantFrom(1, 3, 5, 7))
+    .chain(([rows, cols]) => fc.tuple(fc.constant(rows), fc.constant(cols), weights(rows * cols), fc.constantFrom(1, 3, 16), weight));
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, borderMode, kernel, ([w, h], kind, s, border, [rows, cols, flat, divisor, offset]) => {
+      const matrix = Array.from({ length: rows }, (_, j) => flat.slice(j * cols, (j + 1) * cols));
+      // A rank-1 matrix would take the separable path; this test is about the direct one.
+      matrix[0][0] += 0.375;
+      const image = sampleImage(w, h, kind, s);
+      const k = kernelFromMatrix(matrix, divisor, offset);
+      const { plain, simd } = onBoth(() => correlate(image, k, border));
+      const magnitude = (l1(matrix.flat()) / divisor) * largestMagnitude(image.data) + Math.abs(offset);
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(rows * cols + 2, magnitude));
+    }),
+    RUNS,
+  );
+});
+
+const OPERATORS = { sobel: SOBEL_SMOOTHING, scharr: SCHARR_SMOOTHING, prewitt: PREWITT_SMOOTHING } as const;
+
+test('Sobel, Scharr and Prewitt x, y and magnitude: SIMD within float32 rounding, and the magnitude range handed on is the output range', () => {
+  fc.assert(
+    fc.property(
+      imageSize,
+      sampleKind,
+      seed,
+      borderMode,
+      fc.constantFrom('sobel', 'scharr', 'prewitt' as const),
+      fc.constantFrom('x', 'y', 'magnitude' as const),
+      ([w, h], kind, s, border, operator, output) => {
+        const image = sampleImage(w, h, kind, s);
+        const range = { min: NaN, max: NaN };
+        const plain = onBoth(() => gradient(image, operator, output, border)).plain;
+        const simd = onBoth(() => gradient(image, operator, output, border, undefined, range)).simd;
+        // One derivative: two smoothings of three taps; the magnitude adds squares and a root.
+        const [a, b] = OPERATORS[operator];
+        const magnitude = 2 * (2 * a + b) * largestMagnitude(image.data);
+        const operations = output === 'magnitude' ? 24 : 8;
+        expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(operations, output === 'magnitude' ? 2 * magnitude : magnitude));
+        if (output === 'magnitude') {
+          expect(range.min).toBe(Math.min(...simd.data));
+          expect(range.max).toBe(Math.max(...simd.data));
+        } else {
+          expect(range).toEqual({ min: NaN, max: NaN });
+        }
+      },
+    ),
+    RUNS,
+  );
+});
+
+test('the gradient direction runs the plain code on both engines: identical bits', () => {
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, borderMode, ([w, h], kind, s, border) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => gradient(image, 'sobel', 'direction', border));
+      expect(Array.from(simd.data)).toEqual(Array.from(plain.data));
+    }),
+    { numRuns: 30 },
+  );
+});
+
+test('4- and 8-neighbour Laplacian: SIMD within float32 rounding (exact for 8- and 16-bit samples, whose sums are whole numbers below 2²⁴)', () => {
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, borderMode, fc.constantFrom(4, 8 as const), ([w, h], kind, s, border, neighbours) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => laplacian(image, neighbours, border));
+      const tolerance = kind === 'signed float' ? float32Tolerance(9, 2 * neighbours * largestMagnitude(image.data)) : 0;
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(tolerance);
+    }),
+    RUNS,
+  );
+});
+
+test('Laplacian of Gaussian: SIMD within float32 rounding of plain', () => {
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, borderMode, fc.double({ min: 0.5, max: 2.5, noNaN: true }), ([w, h], kind, s, border, sigma) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => laplacianOfGaussian(image, sigma, border));
+      const g = gaussianWeights(sigma);
+      const g2 = gaussianSecondDerivativeWeights(sigma);
+      const magnitude = 2 * l1(g) * l1(g2) * largestMagnitude(image.data);
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(4 * g.length, magnitude));
+    }),
+    RUNS,
+  );
+});

@@ -25,6 +25,37 @@ export interface InspectOptions {
   evidence?: boolean;
 }
 
+/** Where one inspection's time went, in ms, phase by phase (the route sends it as Server-Timing). */
+export interface InspectTimings {
+  /** Idempotency check, rule version, station, line and rule looked up. */
+  lookup?: number;
+  decode?: number;
+  /** Handing the photo to a worker, waiting for one, running the rule and receiving the result. */
+  pipeline?: number;
+  /** The engine's own time inside the worker (channel, quality gate, steps, gauges). */
+  engine?: number;
+  /** Each step's time inside the engine, in order. */
+  steps?: { op: string; ms: number }[];
+  /** Writing the photo into the image store. */
+  store?: number;
+  /** Drawing and storing the evidence image (FAIL only). */
+  evidence?: number;
+  /** The transaction: inspection, measurements, audit event. */
+  database?: number;
+  /** Reading the stored inspection back for the answer. */
+  reply?: number;
+}
+
+/** Elapsed ms since the previous lap, recorded under the phase's name. */
+function phaseClock(timings: InspectTimings): (phase: 'lookup' | 'decode' | 'pipeline' | 'store' | 'evidence' | 'database' | 'reply') => void {
+  let last = performance.now();
+  return (phase) => {
+    const now = performance.now();
+    timings[phase] = now - last;
+    last = now;
+  };
+}
+
 /** The first failing gauge, or the quality figure that asked for a retake. */
 export function causeOf(run: RuleRun): string | null {
   if (run.verdict === 'RETAKE') return run.quality.problems[0]?.split(':')[0] ?? 'photo quality';
@@ -90,10 +121,12 @@ export class InspectionsService {
    * inspection, its measurements and its audit event are stored together; the same idempotency
    * key again returns the first inspection instead of a second one.
    */
-  async inspect(actor: UserEntity, request: InspectRequest, photoBytes: Buffer, options: InspectOptions = {}): Promise<{ inspection: Inspection; created: boolean }> {
+  async inspect(actor: UserEntity, request: InspectRequest, photoBytes: Buffer, options: InspectOptions = {}): Promise<{ inspection: Inspection; created: boolean; timings: InspectTimings }> {
     const started = performance.now();
+    const timings: InspectTimings = {};
+    const lap = phaseClock(timings);
     const existing = await this.dataSource.getRepository(InspectionEntity).findOneBy({ idempotencyKey: request.idempotencyKey });
-    if (existing) return { inspection: await this.sameRequestOrConflict(existing, actor, request), created: false };
+    if (existing) return { inspection: await this.sameRequestOrConflict(existing, actor, request), created: false, timings };
 
     const version = await this.dataSource.getRepository(RuleVersionEntity).findOneBy({ id: request.ruleVersionId });
     if (!version) throw notFound('The rule version');
@@ -103,6 +136,7 @@ export class InspectionsService {
     if (!station.active) throw new AppError('conflict', `${station.name} is not in use`);
     const line = await this.dataSource.getRepository(LineEntity).findOneByOrFail({ id: station.lineId });
     const rule = await this.dataSource.getRepository(RuleEntity).findOneByOrFail({ id: version.ruleId });
+    lap('lookup');
 
     let photo;
     try {
@@ -111,9 +145,15 @@ export class InspectionsService {
       if (err instanceof PhotoDecodeError) throw new AppError(err.status === 413 ? 'payload_too_large' : err.status === 415 ? 'unsupported_media' : 'bad_request', `The photo cannot be inspected: ${err.message}`, { code: err.code });
       throw err;
     }
+    lap('decode');
     const run = await this.pool.run(version.document, photo, { mmPerPx: station.mmPerPx ?? undefined, retain: 'gauged' });
+    lap('pipeline');
+    timings.engine = run.ms;
+    timings.steps = run.steps.map((s) => ({ op: s.op, ms: s.ms }));
     const imageHash = await this.store.put(photoBytes);
+    lap('store');
     const evidenceHash = run.verdict === 'FAIL' && options.evidence !== false ? await this.store.put(await this.evidenceOf(run)) : null;
+    lap('evidence');
     const durationMs = performance.now() - started;
 
     try {
@@ -161,12 +201,15 @@ export class InspectionsService {
         });
         return inspection.id;
       });
-      return { inspection: await this.get(id), created: true };
+      lap('database');
+      const inspection = await this.get(id);
+      lap('reply');
+      return { inspection, created: true, timings };
     } catch (err) {
       // The same key raced in from a retry: the first one stored wins.
       if ((err as { code?: string }).code === '23505') {
         const winner = await this.dataSource.getRepository(InspectionEntity).findOneByOrFail({ idempotencyKey: request.idempotencyKey });
-        return { inspection: await this.sameRequestOrConflict(winner, actor, request), created: false };
+        return { inspection: await this.sameRequestOrConflict(winner, actor, request), created: false, timings };
       }
       throw err;
     }

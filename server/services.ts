@@ -19,7 +19,7 @@ import { UsersService } from './components/users/service';
 import { DEFAULT_ALERT_CHECK_MINUTES, DEFAULT_ALERT_LOOKBACK_DAYS, DEFAULT_SHIFT_HOURS, type Config } from './config';
 import { ImageUrlSigner } from './lib/image-urls';
 import type { JobQueue } from './lib/jobs';
-import { LocalImageStore } from './lib/storage/local-store';
+import { openImageStore } from './lib/storage/open-store';
 import type { ImageStore } from './lib/storage/image-store';
 import type { PipelineRunner } from './vision/runner';
 
@@ -35,7 +35,7 @@ export interface ServiceDeps {
 /** The composition root: every service, built once and shared by routes, job workers and the seed. */
 export function createServices({ config, dataSource, pool, jobs }: ServiceDeps) {
   const audit = new AuditService(dataSource);
-  const store: ImageStore = new LocalImageStore(config.imageDir);
+  const store: ImageStore = openImageStore(config);
   const signer = new ImageUrlSigner(config.jwtSecret);
   const kernels = new KernelsService(dataSource, audit);
   const mail = new MailService(dataSource, config.smtp, jobs);

@@ -23,7 +23,10 @@ const PAYLOADS = [
 ];
 
 /** Every list route and the query parameters it reads, with the role that may read it. */
-const TARGETS: { path: string; role: string; params: string[] }[] = [
+const RANGE = { from: '2026-10-01T00:00:00Z', to: '2026-11-01T00:00:00Z' };
+const TREND_PARAMS = ['from', 'to', 'ruleId', 'stationId', 'lineId', 'partType'];
+
+const TARGETS: { path: string; role: string; params: string[]; base?: Record<string, string> }[] = [
   { path: '/api/users', role: 'admin', params: ['q', 'role', 'active', 'limit', 'offset'] },
   { path: '/api/rules', role: 'engineer', params: ['q', 'state', 'partType', 'owner', 'limit', 'offset'] },
   {
@@ -34,7 +37,17 @@ const TARGETS: { path: string; role: string; params: string[] }[] = [
   { path: '/api/records/inspections.csv', role: 'auditor', params: ['cause', 'partType', 'order', 'after'] },
   { path: '/api/audit-events', role: 'auditor', params: ['entityType', 'entityId', 'action', 'before', 'limit'] },
   { path: '/api/disputes', role: 'supervisor', params: ['state', 'limit', 'offset'] },
+  { path: '/api/trends/p-chart', role: 'supervisor', params: [...TREND_PARAMS, 'bucket', 'runRules'], base: RANGE },
+  { path: '/api/trends/pareto', role: 'supervisor', params: TREND_PARAMS, base: RANGE },
+  { path: '/api/alerts', role: 'supervisor', params: ['state', 'after', 'limit'] },
+  { path: '/api/studies/attribute-agreement', role: 'supervisor', params: ['ruleId', 'from', 'to'], base: { source: 'disputes', ruleId: '00000000-0000-4000-8000-000000000000' } },
 ];
+
+/** The rows an answer lists, whatever the route calls them. */
+function listed(body: Record<string, unknown>): number | null {
+  for (const key of ['items', 'points', 'bars']) if (Array.isArray(body[key])) return (body[key] as unknown[]).length;
+  return null;
+}
 
 async function tableCounts(): Promise<unknown> {
   const [row] = await t.db.dataSource.query(`select (select count(*) from users) as users, (select count(*) from rules) as rules`);
@@ -50,16 +63,16 @@ beforeAll(async () => {
 });
 afterAll(() => t.close());
 
-test.each(TARGETS)('$path: injection strings in every parameter are refused or match nothing, and change nothing', async ({ path, role, params }) => {
+test.each(TARGETS)('$path: injection strings in every parameter are refused or match nothing, and change nothing', async ({ path, role, params, base }) => {
   const before = await tableCounts();
   const changes = () => t.db.dataSource.query(`select count(*)::int as n from audit_events where action not like 'export.%'`);
   const changesBefore = await changes();
   for (const param of params) {
     for (const payload of PAYLOADS) {
-      const res = await request(t.app).get(path).query({ [param]: payload }).set(auth[role]);
+      const res = await request(t.app).get(path).query({ ...base, [param]: payload }).set(auth[role]);
       // 400: the parameter's schema refused it. 200: it was taken as plain text and matched nothing.
       expect({ param, payload, refusedOrRead: [200, 400].includes(res.status) }).toEqual({ param, payload, refusedOrRead: true });
-      if (res.status === 200 && res.body.items) expect({ param, payload, items: res.body.items.length }).toEqual({ param, payload, items: 0 });
+      if (res.status === 200) expect({ param, payload, listed: listed(res.body) ?? 0 }).toEqual({ param, payload, listed: 0 });
       expect(res.text).not.toMatch(/\$2[aby]\$/); // no bcrypt hash ever comes back
     }
   }

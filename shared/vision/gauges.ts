@@ -2,6 +2,7 @@
 // compared with its limits (inclusive).
 import type { Gauge, GaugeMeasure, GaugeUnit, Limits, Region } from '../rules/schema';
 import { labelBlobs, wholeImageSpans, type RowSpans } from './blobs';
+import { simdKernels } from './engine';
 import type { Image } from './image';
 
 /**
@@ -45,6 +46,11 @@ export function spanPixelCount(spans: RowSpans): number {
 
 /** Share of the region's pixels that are not 0 (NaN for an empty region). */
 function nonZeroShare(image: Image, spans: RowSpans): number {
+  const simd = simdKernels();
+  if (simd) {
+    const n = spanPixelCount(spans);
+    return n === 0 ? NaN : simd.countNonZero(image, spans.start, spans.end) / n;
+  }
   const w = image.width;
   // Float32 bit patterns: a value is non-zero (NaN included) exactly when a bit other than the sign is set.
   const bits = new Int32Array(image.data.buffer, image.data.byteOffset, image.data.length);

@@ -1,6 +1,7 @@
 // The image quality gate, judged before the part: focus, exposure (clipping) and brightness.
 import type { QualityLimits } from '../rules/schema';
 import { borderIndex } from './border';
+import { simdKernels } from './engine';
 import { maxSampleValue, type BitDepth, type Image } from './image';
 
 export interface QualityFigures {
@@ -27,6 +28,12 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
   const { width: w, height: h, data } = input;
   const n = w * h;
   const top = maxSampleValue(bitDepth);
+  const simd = simdKernels();
+  if (simd) {
+    // The same per-pixel terms in double precision, summed in another order (last-digit differences only).
+    const sums = simd.qualitySums(input, top);
+    return figuresOf(sums.sum, sums.clipped, sums.lapSum, sums.lapSquares, n);
+  }
   let sum = 0;
   let clipped = 0;
   let lapSum = 0;
@@ -67,6 +74,10 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
       centre = right;
     }
   }
+  return figuresOf(sum, clipped, lapSum, lapSquares, n);
+}
+
+function figuresOf(sum: number, clipped: number, lapSum: number, lapSquares: number, n: number): QualityFigures {
   const lapMean = lapSum / n;
   return { focus: Math.max(0, lapSquares / n - lapMean * lapMean), clipped: clipped / n, mean: sum / n };
 }

@@ -1,35 +1,43 @@
-// Benchmark of the vision engine against OpenCV (WebAssembly, @techstark/opencv-js 4.5.2) and
-// sharp (libvips), on photos generated in memory at 5 MP (2592x1944) and 1.3 MP (1280x1024).
-// Prints ns per pixel (best of several runs), ratios, pool throughput and peak memory.
-// Run: npm run bench
+// Benchmark of the vision engine, both its paths (plain TypeScript and WebAssembly SIMD), against
+// OpenCV (WebAssembly, @techstark/opencv-js 4.5.2) and sharp (libvips), on photos generated in memory
+// at 5 MP (2592x1944) and 1.3 MP (1280x1024). Prints ns per pixel (best and median of the runs,
+// every contender timed in turn), the ratios to OpenCV, ns per 1-D pass of the convolutions, the
+// whole rule run, the worker pool's throughput against one thread, the photo-received-to-verdict
+// split of a 5 MP JPEG, peak memory, and the machine's load before and after (it is shared).
+// Run: npm run bench   (BENCH_RUNS=9 for more runs, BENCH_SIZES=5 for the 5 MP photo only)
 import os from 'node:os';
 import sharp from 'sharp';
-import { loadKernelLibrary } from '../../server/vision/kernel-library';
+import { decodePhoto } from '../../server/vision/decode';
 import { fftCorrelate } from '../../server/vision/fft-correlate';
+import { loadKernelLibrary } from '../../server/vision/kernel-library';
 import { VisionPool } from '../../server/vision/pool';
 import { validateRuleDocument, type RuleDocument } from '../../shared/rules/schema';
 import { createPackedMask } from '../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../shared/vision/blobs';
 import { correlateDirect } from '../../shared/vision/convolve';
+import { setEngine, type EngineName } from '../../shared/vision/engine';
+import { measurePixels, regionSpans } from '../../shared/vision/gauges';
 import { gradient } from '../../shared/vision/gradient';
-import { channelImage, createImage, type Image, type RawPhoto } from '../../shared/vision/image';
+import { channelImage, type Image, type RawPhoto } from '../../shared/vision/image';
 import { kernelFromMatrix } from '../../shared/vision/kernels';
 import { laplacian, laplacianOfGaussian } from '../../shared/vision/laplacian';
 import { medianFilter } from '../../shared/vision/median';
 import { morphology } from '../../shared/vision/morphology';
 import { releaseRun, runValidatedRule } from '../../shared/vision/pipeline';
-import { ImageWorkspace } from '../../shared/vision/workspace';
+import { qualityFigures } from '../../shared/vision/quality';
 import { boxFilter, gaussianBlur } from '../../shared/vision/smoothing';
 import { thresholdAdaptiveMean, thresholdOtsu } from '../../shared/vision/threshold';
+import { ImageWorkspace } from '../../shared/vision/workspace';
 import { washerPhoto } from './photos';
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Cv = any;
 
+const ENGINES: EngineName[] = ['plain', 'simd'];
 const SIZES = [
   { label: '5 MP', width: 2592, height: 1944 },
   { label: '1.3 MP', width: 1280, height: 1024 },
-];
+].filter((s) => !process.env.BENCH_SIZES || process.env.BENCH_SIZES.split(',').some((m) => s.label.startsWith(m)));
 
 const STANDARD_RULE: RuleDocument = (() => {
   const v = validateRuleDocument({
@@ -56,103 +64,145 @@ function loadOpenCv(): Promise<{ cv: Cv }> {
   });
 }
 
-/** Best wall time in ms over `runs` runs after one warm-up. */
-function best(runs: number, fn: () => void): number {
-  fn();
-  let min = Infinity;
-  for (let i = 0; i < runs; i++) {
-    const t0 = performance.now();
-    fn();
-    min = Math.min(min, performance.now() - t0);
-  }
-  return min;
+/** Wall and CPU time of one contender, ms: best and median over the runs. */
+interface Timing {
+  best: number;
+  median: number;
+  cpuBest: number;
+  cpuMedian: number;
+}
+
+function summary(wall: number[], cpu: number[]): Timing {
+  const sorted = (a: number[]) => [...a].sort((x, y) => x - y);
+  const w = sorted(wall);
+  const c = sorted(cpu);
+  return { best: w[0], median: w[w.length >> 1], cpuBest: c[0], cpuMedian: c[c.length >> 1] };
 }
 
 /**
- * Best wall times of ours and OpenCV's, measured in turn (ours, OpenCV, ours, …) after one
- * warm-up each, so that both see the same moments of a shared, busy machine.
+ * Times every contender once per round, in turn, after one warm-up each, so that all of them see the
+ * same moments of a shared, busy machine. CPU time is this process's (all run on this thread): it
+ * leaves out the time other processes held the core.
  */
-function alternating(runs: number, ours: () => void, opencv: () => void): { ours: number; opencv: number; oursCpu: number; opencvCpu: number } {
-  ours();
-  opencv();
-  let a = Infinity;
-  let b = Infinity;
-  let aCpu = Infinity;
-  let bCpu = Infinity;
-  // CPU time of this process (both run on this thread): leaves out the time other processes held the core.
-  const cpuMs = (since: NodeJS.CpuUsage) => {
-    const used = process.cpuUsage(since);
-    return (used.user + used.system) / 1000;
-  };
+function inTurn(runs: number, contenders: Record<string, () => unknown>): Record<string, Timing> {
+  const names = Object.keys(contenders);
+  for (const name of names) contenders[name]();
+  const wall: Record<string, number[]> = {};
+  const cpu: Record<string, number[]> = {};
+  for (const name of names) (wall[name] = []), (cpu[name] = []);
   for (let i = 0; i < runs; i++) {
-    let c0 = process.cpuUsage();
-    let t0 = performance.now();
-    ours();
-    a = Math.min(a, performance.now() - t0);
-    aCpu = Math.min(aCpu, cpuMs(c0));
-    c0 = process.cpuUsage();
-    t0 = performance.now();
-    opencv();
-    b = Math.min(b, performance.now() - t0);
-    bCpu = Math.min(bCpu, cpuMs(c0));
+    for (const name of names) {
+      const c0 = process.cpuUsage();
+      const t0 = performance.now();
+      contenders[name]();
+      wall[name].push(performance.now() - t0);
+      const used = process.cpuUsage(c0);
+      cpu[name].push((used.user + used.system) / 1000);
+    }
   }
-  return { ours: a, opencv: b, oursCpu: aCpu, opencvCpu: bCpu };
+  return Object.fromEntries(names.map((n) => [n, summary(wall[n], cpu[n])]));
 }
 
-async function bestAsync(runs: number, fn: () => Promise<unknown>): Promise<number> {
+async function timeAsync(runs: number, fn: () => Promise<unknown>): Promise<Timing> {
   await fn();
-  let min = Infinity;
+  const wall: number[] = [];
+  const cpu: number[] = [];
   for (let i = 0; i < runs; i++) {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     await fn();
-    min = Math.min(min, performance.now() - t0);
+    wall.push(performance.now() - t0);
+    const used = process.cpuUsage(c0);
+    cpu.push((used.user + used.system) / 1000);
   }
-  return min;
+  return summary(wall, cpu);
+}
+
+/** The same step on each engine: the engine is switched before each call (a cheap assignment). */
+function onEngines(buffers: Record<EngineName, Buffers>, step: (b: Buffers) => unknown): Record<string, () => unknown> {
+  return Object.fromEntries(
+    ENGINES.map((engine) => [
+      engine,
+      () => {
+        setEngine(engine);
+        return step(buffers[engine]);
+      },
+    ]),
+  );
+}
+
+/** Inputs and outputs of one engine, where that engine computes (SIMD: its WebAssembly memory, as a rule run has them). */
+interface Buffers {
+  input: Image;
+  a: Image;
+  b: Image;
+  c: Image;
+  magnitude: Image;
+  mask: Image;
+}
+
+function buffersFor(engine: EngineName, photo: RawPhoto): Buffers {
+  setEngine(engine);
+  const workspace = new ImageWorkspace(16);
+  const take = () => workspace.take(photo.width, photo.height);
+  const input = channelImage(photo, 'luma', take());
+  const magnitude = gradient(gaussianBlur(input, 1, 'reflect', take()), 'sobel', 'magnitude', 'reflect', take());
+  return { input, a: take(), b: take(), c: take(), magnitude, mask: thresholdOtsu(magnitude, false, take()).mask };
 }
 
 interface Row {
   step: string;
-  ours: number;
-  opencv?: number;
-  sharp?: number;
+  times: Record<string, Timing>;
+  /** 1-D passes over the image of a convolution step (for ns per pass). */
+  passes?: number;
   note?: string;
 }
 
-const fmt = (ms: number | undefined, pixels: number) => (ms === undefined ? '—' : ((ms * 1e6) / pixels).toFixed(2));
-const ratio = (a: number, b?: number) => (b === undefined ? '—' : (a / b).toFixed(2));
+const nsPerPx = (ms: number | undefined, pixels: number) => (ms === undefined ? '—' : ((ms * 1e6) / pixels).toFixed(2));
+const ratio = (a?: Timing, b?: Timing) => (a && b ? (a.best / b.best).toFixed(2) : '—');
 
 function printRows(label: string, pixels: number, rows: Row[]): void {
-  console.log(`\n${label} (${pixels} px) — ns per pixel, best of runs (ours and OpenCV in turn); ratio = ours / OpenCV`);
-  console.log(`${'step'.padEnd(38)}${'ours'.padStart(9)}${'OpenCV'.padStart(9)}${'sharp'.padStart(9)}${'ratio'.padStart(8)}  note`);
+  console.log(`\n${label} (${pixels} px): ns per pixel, best / median wall time of the runs (all contenders in turn)`);
+  const head = ['plain', 'simd', 'OpenCV', 'sharp'];
+  console.log(`${'step'.padEnd(40)}${head.map((h) => h.padStart(14)).join('')}${'simd/CV'.padStart(9)}${'plain/CV'.padStart(9)}${'simd/pass'.padStart(10)}  note`);
   for (const r of rows) {
+    const cell = (name: string) => {
+      const t = r.times[name.toLowerCase()];
+      return (t ? `${nsPerPx(t.best, pixels)}/${nsPerPx(t.median, pixels)}` : '—').padStart(14);
+    };
+    const perPass = r.passes && r.times.simd ? ((r.times.simd.best * 1e6) / pixels / r.passes).toFixed(2) : '—';
     console.log(
-      `${r.step.padEnd(38)}${fmt(r.ours, pixels).padStart(9)}${fmt(r.opencv, pixels).padStart(9)}${fmt(r.sharp, pixels).padStart(9)}${ratio(r.ours, r.opencv).padStart(8)}  ${r.note ?? ''}`,
+      `${r.step.padEnd(40)}${head.map(cell).join('')}${ratio(r.times.simd, r.times.opencv).padStart(9)}${ratio(r.times.plain, r.times.opencv).padStart(9)}${perPass.padStart(10)}  ${r.note ?? ''}`,
     );
   }
 }
 
-async function benchSize(cv: Cv, label: string, width: number, height: number, runs: number): Promise<{ pipelineMs: number; cvPipelineMs: number; pipelineCpuMs: number; cvPipelineCpuMs: number; fullRunMs: number; photo: RawPhoto }> {
+interface SizeResult {
+  label: string;
+  pipeline: Record<string, Timing>;
+  fullRun: Record<EngineName, Timing>;
+  photo: RawPhoto;
+}
+
+async function benchSize(cv: Cv, label: string, width: number, height: number, runs: number): Promise<SizeResult> {
   const photo = washerPhoto(width, height);
   const pixels = width * height;
-  const input = channelImage(photo, 'luma');
-  const a = createImage(width, height);
-  const b = createImage(width, height);
-  const c = createImage(width, height);
-  const mask = thresholdOtsu(gradient(gaussianBlur(input, 1, 'reflect'), 'sobel', 'magnitude', 'reflect')).mask;
-  const magnitude = gradient(gaussianBlur(input, 1, 'reflect'), 'sobel', 'magnitude', 'reflect');
+  const buffers = { plain: buffersFor('plain', photo), simd: buffersFor('simd', photo) };
+  const plainMask = buffers.plain.mask;
 
   const u8 = new cv.Mat(height, width, cv.CV_8U);
   u8.data.set(photo.samples);
   const f32 = new cv.Mat();
   u8.convertTo(f32, cv.CV_32F);
   const mag32 = new cv.Mat(height, width, cv.CV_32F);
-  mag32.data32F.set(magnitude.data);
+  mag32.data32F.set(buffers.plain.magnitude.data);
   const mask8 = new cv.Mat(height, width, cv.CV_8U);
-  mask8.data.set(mask.data);
+  mask8.data.set(plainMask.data);
   const [m1, m2, m3, m4] = [new cv.Mat(), new cv.Mat(), new cv.Mat(), new cv.Mat()];
   const stats = new cv.Mat();
   const centroids = new cv.Mat();
   const square3 = cv.getStructuringElement(cv.MORPH_RECT, new cv.Size(3, 3));
+  const square7 = cv.getStructuringElement(cv.MORPH_RECT, new cv.Size(7, 7));
   const anchor = new cv.Point(-1, -1);
   const REFLECT = cv.BORDER_REFLECT_101;
   const raw = { raw: { width, height, channels: 1 as const } };
@@ -160,135 +210,187 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
 
   const k5 = [[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]];
   const k15 = Array.from({ length: 15 }, (_, j) => Array.from({ length: 15 }, (_, i) => ((i * 7 + j * 3) % 5) - 2 + (i === j ? 1 : 0)));
+  const k31 = Array.from({ length: 31 }, (_, j) => Array.from({ length: 31 }, (_, i) => ((i * 5 + j * 11) % 7) - 3 + (i === j ? 1 : 0)));
+  const [k5kernel, k15kernel, k31kernel] = [k5, k15, k31].map((k) => kernelFromMatrix(k));
   const cvKernel5 = cv.matFromArray(5, 5, cv.CV_32F, k5.flat());
   const cvKernel15 = cv.matFromArray(15, 15, cv.CV_32F, k15.flat());
+  const cvKernel31 = cv.matFromArray(31, 31, cv.CV_32F, k31.flat());
 
   const rows: Row[] = [];
   // As the rule runner does it: the magnitude's range measured on the way, handed to Otsu, and
   // Otsu's mask handed to the opening in packed bits as well.
-  const range = { min: NaN, max: NaN };
   const packed = createPackedMask(width, height);
+  const openCvPipeline = () => {
+    cv.GaussianBlur(f32, m1, new cv.Size(7, 7), 1, 1, REFLECT);
+    cv.Sobel(m1, m2, cv.CV_32F, 1, 0, 3, 1, 0, REFLECT);
+    cv.Sobel(m1, m3, cv.CV_32F, 0, 1, 3, 1, 0, REFLECT);
+    cv.magnitude(m2, m3, m1);
+    const mm = cv.minMaxLoc(m1);
+    const scale = mm.maxVal > mm.minVal ? 255 / (mm.maxVal - mm.minVal) : 0;
+    m1.convertTo(m4, cv.CV_8U, scale, -mm.minVal * scale);
+    cv.threshold(m4, m2, 0, 1, cv.THRESH_BINARY | cv.THRESH_OTSU);
+    cv.morphologyEx(m2, m3, cv.MORPH_OPEN, square3, anchor, 1, REFLECT);
+  };
   // The headline figure: twice the runs of the single steps.
-  const { ours: pipelineMs, opencv: cvPipelineMs, oursCpu: pipelineCpuMs, opencvCpu: cvPipelineCpuMs } = alternating(
-    2 * runs,
-    () => {
+  const pipeline = inTurn(2 * runs, {
+    ...onEngines(buffers, ({ input, a, b, c }) => {
+      const range = { min: NaN, max: NaN };
       gaussianBlur(input, 1, 'reflect', a);
       gradient(a, 'sobel', 'magnitude', 'reflect', b, range);
       thresholdOtsu(b, false, a, range, packed);
       morphology(a, 'open', 1, 'reflect', b, c, packed);
-    },
-    () => {
-      cv.GaussianBlur(f32, m1, new cv.Size(7, 7), 1, 1, REFLECT);
-      cv.Sobel(m1, m2, cv.CV_32F, 1, 0, 3, 1, 0, REFLECT);
-      cv.Sobel(m1, m3, cv.CV_32F, 0, 1, 3, 1, 0, REFLECT);
-      cv.magnitude(m2, m3, m1);
-      const mm = cv.minMaxLoc(m1);
-      const scale = mm.maxVal > mm.minVal ? 255 / (mm.maxVal - mm.minVal) : 0;
-      m1.convertTo(m4, cv.CV_8U, scale, -mm.minVal * scale);
-      cv.threshold(m4, m2, 0, 1, cv.THRESH_BINARY | cv.THRESH_OTSU);
-      cv.morphologyEx(m2, m3, cv.MORPH_OPEN, square3, anchor, 1, REFLECT);
-    },
-  );
-  // A batch reuses the buffers of finished runs, as a trial or a worker thread does.
-  const workspace = new ImageWorkspace();
-  const fullRunMs = best(runs, () => {
-    releaseRun(runValidatedRule(STANDARD_RULE, photo, { retain: 'gauged', workspace }), workspace);
+    }),
+    opencv: openCvPipeline,
   });
-  rows.push({ step: 'standard pipeline (G1→Sobel mag→Otsu→open1)', ours: pipelineMs, opencv: cvPipelineMs, note: 'OpenCV: 32F filters, 8U Otsu and open' });
-  rows.push({ step: 'whole rule run (+ luma, quality gate, gauge)', ours: fullRunMs });
+  rows.push({ step: 'standard pipeline (G1→Sobel mag→Otsu→open1)', times: pipeline, note: 'OpenCV: 32F filters, 8U Otsu and open' });
+
+  // A batch reuses the buffers of finished runs, as a trial, a worker thread or the preview does.
+  const workspaces = { plain: new ImageWorkspace(), simd: new ImageWorkspace() };
+  const fullRun = inTurn(
+    runs,
+    Object.fromEntries(
+      ENGINES.map((engine) => [
+        engine,
+        () => {
+          setEngine(engine);
+          releaseRun(runValidatedRule(STANDARD_RULE, photo, { retain: 'gauged', workspace: workspaces[engine] }), workspaces[engine]);
+        },
+      ]),
+    ),
+  ) as Record<EngineName, Timing>;
+  rows.push({ step: 'whole rule run (+ luma, quality gate, gauge)', times: fullRun });
 
   rows.push({
     step: 'gaussian sigma 1 (7 taps)',
-    ...alternating(runs, () => gaussianBlur(input, 1, 'reflect', a), () => cv.GaussianBlur(f32, m1, new cv.Size(7, 7), 1, 1, REFLECT)),
-    sharp: await bestAsync(runs, sharpRun((s) => s.blur(1))),
+    passes: 2,
+    times: {
+      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => gaussianBlur(input, 1, 'reflect', a)), opencv: () => cv.GaussianBlur(f32, m1, new cv.Size(7, 7), 1, 1, REFLECT) }),
+      sharp: await timeAsync(runs, sharpRun((s) => s.blur(1))),
+    },
     note: 'sharp: 8-bit in/out',
   });
   rows.push({
+    step: 'gaussian sigma 3 (19 taps)',
+    passes: 2,
+    times: inTurn(runs, { ...onEngines(buffers, ({ input, a }) => gaussianBlur(input, 3, 'reflect', a)), opencv: () => cv.GaussianBlur(f32, m1, new cv.Size(19, 19), 3, 3, REFLECT) }),
+  });
+  rows.push({
     step: 'box 5',
-    ...alternating(runs, () => boxFilter(input, 5, 'reflect', a), () => cv.blur(f32, m1, new cv.Size(5, 5), anchor, REFLECT)),
-    sharp: await bestAsync(runs, sharpRun((s) => s.convolve({ width: 5, height: 5, kernel: Array(25).fill(1), scale: 25 }))),
+    times: {
+      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => boxFilter(input, 5, 'reflect', a)), opencv: () => cv.blur(f32, m1, new cv.Size(5, 5), anchor, REFLECT) }),
+      sharp: await timeAsync(runs, sharpRun((s) => s.convolve({ width: 5, height: 5, kernel: Array(25).fill(1), scale: 25 }))),
+    },
+    note: 'plain code on both engines',
   });
   rows.push({
     step: 'median 5',
-    ...alternating(Math.max(1, runs - 2), () => medianFilter(input, 5, 'reflect', a), () => cv.medianBlur(u8, m4, 5)),
-    sharp: await bestAsync(runs, sharpRun((s) => s.median(5))),
-    note: 'OpenCV and sharp: 8-bit',
+    times: {
+      ...inTurn(Math.max(1, runs - 2), { ...onEngines(buffers, ({ input, a }) => medianFilter(input, 5, 'reflect', a)), opencv: () => cv.medianBlur(u8, m4, 5) }),
+      sharp: await timeAsync(runs, sharpRun((s) => s.median(5))),
+    },
+    note: 'plain code on both engines; OpenCV and sharp: 8-bit',
   });
   rows.push({
     step: 'sobel magnitude',
-    ...alternating(runs, () => gradient(input, 'sobel', 'magnitude', 'reflect', a), () => {
-      cv.Sobel(f32, m2, cv.CV_32F, 1, 0, 3, 1, 0, REFLECT);
-      cv.Sobel(f32, m3, cv.CV_32F, 0, 1, 3, 1, 0, REFLECT);
-      cv.magnitude(m2, m3, m1);
-    }),
-    sharp: await bestAsync(runs, sharpRun((s) => s.convolve({ width: 3, height: 3, kernel: [-1, 0, 1, -2, 0, 2, -1, 0, 1] }))),
+    passes: 2,
+    times: {
+      ...inTurn(runs, {
+        ...onEngines(buffers, ({ input, a }) => gradient(input, 'sobel', 'magnitude', 'reflect', a)),
+        opencv: () => {
+          cv.Sobel(f32, m2, cv.CV_32F, 1, 0, 3, 1, 0, REFLECT);
+          cv.Sobel(f32, m3, cv.CV_32F, 0, 1, 3, 1, 0, REFLECT);
+          cv.magnitude(m2, m3, m1);
+        },
+      }),
+      sharp: await timeAsync(runs, sharpRun((s) => s.convolve({ width: 3, height: 3, kernel: [-1, 0, 1, -2, 0, 2, -1, 0, 1] }))),
+    },
     note: 'sharp: x only, clamped to 8 bits',
   });
   rows.push({
     step: 'sobel x',
-    ...alternating(runs, () => gradient(input, 'sobel', 'x', 'reflect', a), () => cv.Sobel(f32, m2, cv.CV_32F, 1, 0, 3, 1, 0, REFLECT)),
+    passes: 2,
+    times: inTurn(runs, { ...onEngines(buffers, ({ input, a }) => gradient(input, 'sobel', 'x', 'reflect', a)), opencv: () => cv.Sobel(f32, m2, cv.CV_32F, 1, 0, 3, 1, 0, REFLECT) }),
   });
   rows.push({
     step: 'laplacian 4',
-    ...alternating(runs, () => laplacian(input, 4, 'reflect', a), () => cv.Laplacian(f32, m1, cv.CV_32F, 1, 1, 0, REFLECT)),
-    sharp: await bestAsync(runs, sharpRun((s) => s.convolve({ width: 3, height: 3, kernel: [0, 1, 0, 1, -4, 1, 0, 1, 0] }))),
+    passes: 1,
+    times: {
+      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => laplacian(input, 4, 'reflect', a)), opencv: () => cv.Laplacian(f32, m1, cv.CV_32F, 1, 1, 0, REFLECT) }),
+      sharp: await timeAsync(runs, sharpRun((s) => s.convolve({ width: 3, height: 3, kernel: [0, 1, 0, 1, -4, 1, 0, 1, 0] }))),
+    },
     note: 'sharp: clamped to 8 bits',
   });
-  rows.push({ step: 'LoG sigma 1.4', ours: best(runs, () => laplacianOfGaussian(input, 1.4, 'reflect', a)) });
+  rows.push({ step: 'LoG sigma 1.4 (11 taps)', passes: 4, times: inTurn(runs, onEngines(buffers, ({ input, a }) => laplacianOfGaussian(input, 1.4, 'reflect', a))) });
   rows.push({
     step: 'otsu (on the float magnitude)',
-    ...alternating(runs, () => thresholdOtsu(magnitude, false, a), () => {
-      const mm = cv.minMaxLoc(mag32);
-      const scale = 255 / (mm.maxVal - mm.minVal);
-      mag32.convertTo(m4, cv.CV_8U, scale, -mm.minVal * scale);
-      cv.threshold(m4, m2, 0, 1, cv.THRESH_BINARY | cv.THRESH_OTSU);
+    times: inTurn(runs, {
+      ...onEngines(buffers, ({ magnitude, a }) => thresholdOtsu(magnitude, false, a)),
+      opencv: () => {
+        const mm = cv.minMaxLoc(mag32);
+        const scale = 255 / (mm.maxVal - mm.minVal);
+        mag32.convertTo(m4, cv.CV_8U, scale, -mm.minVal * scale);
+        cv.threshold(m4, m2, 0, 1, cv.THRESH_BINARY | cv.THRESH_OTSU);
+      },
     }),
     note: 'OpenCV: scale to 8U, then Otsu',
   });
   rows.push({
     step: 'adaptive mean 15, c 5',
-    ...alternating(runs, () => thresholdAdaptiveMean(input, 15, 5, 'replicate', false, a), () => cv.adaptiveThreshold(u8, m4, 1, cv.ADAPTIVE_THRESH_MEAN_C, cv.THRESH_BINARY, 15, -5)),
-    note: 'OpenCV: 8-bit',
+    times: inTurn(runs, {
+      ...onEngines(buffers, ({ input, a }) => thresholdAdaptiveMean(input, 15, 5, 'replicate', false, a)),
+      opencv: () => cv.adaptiveThreshold(u8, m4, 1, cv.ADAPTIVE_THRESH_MEAN_C, cv.THRESH_BINARY, 15, -5),
+    }),
+    note: 'plain code on both engines; OpenCV: 8-bit',
   });
   rows.push({
     step: 'open r=1 (mask)',
-    ...alternating(runs, () => morphology(mask, 'open', 1, 'reflect', a, b), () => cv.morphologyEx(mask8, m1, cv.MORPH_OPEN, square3, anchor, 1, REFLECT)),
+    times: inTurn(runs, { ...onEngines(buffers, ({ mask, a, b }) => morphology(mask, 'open', 1, 'reflect', a, b)), opencv: () => cv.morphologyEx(mask8, m1, cv.MORPH_OPEN, square3, anchor, 1, REFLECT) }),
     note: 'OpenCV: 8-bit mask',
   });
   rows.push({
+    step: 'open r=3 (any values)',
+    passes: 4,
+    times: inTurn(runs, { ...onEngines(buffers, ({ input, a, b }) => morphology(input, 'open', 3, 'reflect', a, b)), opencv: () => cv.morphologyEx(f32, m1, cv.MORPH_OPEN, square7, anchor, 1, REFLECT) }),
+    note: 'OpenCV: 32F',
+  });
+  rows.push({
     step: 'kernel 5x5 non-separable (direct)',
-    ...alternating(runs, () => correlateDirect(input, kernelFromMatrix(k5), 'reflect', a), () => cv.filter2D(f32, m1, cv.CV_32F, cvKernel5, anchor, 0, REFLECT)),
-    sharp: await bestAsync(runs, sharpRun((s) => s.convolve({ width: 5, height: 5, kernel: k5.flat() }))),
+    passes: 1,
+    times: {
+      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => correlateDirect(input, k5kernel, 'reflect', a)), opencv: () => cv.filter2D(f32, m1, cv.CV_32F, cvKernel5, anchor, 0, REFLECT) }),
+      sharp: await timeAsync(runs, sharpRun((s) => s.convolve({ width: 5, height: 5, kernel: k5.flat() }))),
+    },
     note: 'sharp: clamped to 8 bits',
   });
-  const k15kernel = kernelFromMatrix(k15);
   rows.push({
     step: 'kernel 15x15 non-separable (direct)',
-    ...alternating(1, () => correlateDirect(input, k15kernel, 'reflect', a), () => cv.filter2D(f32, m1, cv.CV_32F, cvKernel15, anchor, 0, REFLECT)),
+    passes: 1,
+    times: inTurn(Math.max(1, runs >> 1), { ...onEngines(buffers, ({ input, a }) => correlateDirect(input, k15kernel, 'reflect', a)), opencv: () => cv.filter2D(f32, m1, cv.CV_32F, cvKernel15, anchor, 0, REFLECT) }),
+    note: 'OpenCV switches to a DFT from 11x11',
   });
-  rows.push({ step: 'kernel 15x15 non-separable (FFT)', ours: best(1, () => fftCorrelate(input, k15kernel, 'reflect')), note: 'ndarray-convolve' });
-  // The largest kernel a rule may hold, where an FFT would have its best chance.
-  const k31 = Array.from({ length: 31 }, (_, j) => Array.from({ length: 31 }, (_, i) => ((i * 5 + j * 11) % 7) - 3 + (i === j ? 1 : 0)));
-  const k31kernel = kernelFromMatrix(k31);
-  rows.push({ step: 'kernel 31x31 non-separable (direct)', ours: best(1, () => correlateDirect(input, k31kernel, 'reflect', a)) });
-  rows.push({ step: 'kernel 31x31 non-separable (FFT)', ours: best(1, () => fftCorrelate(input, k31kernel, 'reflect')), note: 'ndarray-convolve' });
+  rows.push({
+    step: 'kernel 31x31 non-separable (direct)',
+    passes: 1,
+    times: inTurn(1, { ...onEngines(buffers, ({ input, a }) => correlateDirect(input, k31kernel, 'reflect', a)), opencv: () => cv.filter2D(f32, m1, cv.CV_32F, cvKernel31, anchor, 0, REFLECT) }),
+  });
+  rows.push({ step: 'kernel 31x31 non-separable (FFT)', times: { plain: inTurn(1, { fft: () => fftCorrelate(buffers.plain.input, k31kernel, 'reflect') }).fft }, note: 'ndarray-convolve, which the plain engine uses from 27x27' });
   rows.push({
     step: 'blobs, 8-connected',
-    ...alternating(runs, () => labelBlobs(mask), () => cv.connectedComponentsWithStats(mask8, m1, stats, centroids, 8, cv.CV_32S)),
+    times: inTurn(runs, { ...onEngines(buffers, ({ mask }) => labelBlobs(mask)), opencv: () => cv.connectedComponentsWithStats(mask8, m1, stats, centroids, 8, cv.CV_32S) }),
   });
 
   printRows(label, pixels, rows);
-  [u8, f32, mag32, mask8, m1, m2, m3, m4, stats, centroids, square3, cvKernel5, cvKernel15].forEach((m) => m.delete());
-  return { pipelineMs, cvPipelineMs, pipelineCpuMs, cvPipelineCpuMs, fullRunMs, photo };
+  [u8, f32, mag32, mask8, m1, m2, m3, m4, stats, centroids, square3, square7, cvKernel5, cvKernel15, cvKernel31].forEach((m) => m.delete());
+  return { label, pipeline, fullRun, photo };
 }
 
-async function benchPool(photo: RawPhoto, singleRunMs: number, cvPipelineMs: number): Promise<void> {
+async function benchPool(photo: RawPhoto, engine: EngineName, singleRun: Timing): Promise<void> {
   const kernels = await loadKernelLibrary();
   const threads = 2;
-  const pool = new VisionPool({ kernels, threads });
+  const pool = new VisionPool({ kernels, threads, engine });
   const tasks = 8;
   // As a station does: a freshly decoded photo per inspection, moved to the worker; the run's
-  // images handed back once the evidence is made, so that workers compute into them again.
+  // images handed back once the verdict is in, so that workers reuse their buffers.
   const inspect = async () => {
     const fresh: RawPhoto = { ...photo, samples: photo.samples.slice() };
     pool.release(await pool.run(STANDARD_RULE, fresh, { retain: 'gauged', transferPhoto: true }));
@@ -299,45 +401,87 @@ async function benchPool(photo: RawPhoto, singleRunMs: number, cvPipelineMs: num
       for (let i = 0; i < photos / threads; i++) await inspect();
     }));
     await stations(4);
-    let bestMs = Infinity;
-    let cpuMs = Infinity;
-    for (let round = 0; round < 3; round++) {
-      const c0 = process.cpuUsage();
-      const t0 = performance.now();
-      await stations(tasks);
-      bestMs = Math.min(bestMs, performance.now() - t0);
-      const used = process.cpuUsage(c0);
-      cpuMs = Math.min(cpuMs, (used.user + used.system) / 1000);
-    }
-    const perImage = bestMs / tasks;
-    console.log(`\nworker pool (${threads} threads, ${os.cpus().length} cores, 5 MP whole rule runs, ${tasks} photos from ${threads} stations)`);
-    console.log(`  ${(1000 / perImage).toFixed(1)} images/s, ${perImage.toFixed(1)} ms per image (${((perImage * 1e6) / (photo.width * photo.height)).toFixed(2)} ns/px)`);
-    console.log(`  CPU time of all threads ${(cpuMs / tasks).toFixed(1)} ms per image (includes the main thread's photo copies)`);
-    console.log(`  single thread whole run ${singleRunMs.toFixed(1)} ms; speed-up ${(singleRunMs / perImage).toFixed(2)}x`);
-    console.log(`  pool time per image / OpenCV standard pipeline: ${(perImage / cvPipelineMs).toFixed(2)} (target ≤ 0.35)`);
+    const rounds = await timeAsync(5, () => stations(tasks));
+    const perImage = { best: rounds.best / tasks, median: rounds.median / tasks };
+    console.log(`\nworker pool, ${engine} engine (${threads} threads, ${os.cpus().length} cores, 5 MP whole rule runs, ${tasks} photos from ${threads} stations, 5 rounds)`);
+    console.log(`  ${(1000 / perImage.best).toFixed(1)} images/s; ${perImage.best.toFixed(1)} ms per image best, ${perImage.median.toFixed(1)} median`);
+    console.log(`  CPU time of this process (all threads) ${(rounds.cpuBest / tasks).toFixed(1)} ms per image best (includes the main thread's photo copies)`);
+    console.log(`  one thread, whole run in this process: ${singleRun.best.toFixed(1)} ms best, ${singleRun.median.toFixed(1)} median`);
+    console.log(`  throughput against one thread: ${(singleRun.best / perImage.best).toFixed(2)}x (best against best), ${(singleRun.median / perImage.median).toFixed(2)}x (median against median); target ≥ 1.8`);
   } finally {
     await pool.destroy();
   }
 }
 
+/** Photo received → verdict for a 5 MP JPEG, in this process: decode, luma and quality gate, the pipeline's steps, the gauge. */
+async function photoToVerdict(photo: RawPhoto, runs: number): Promise<void> {
+  const jpeg = await sharp(photo.samples, { raw: { width: photo.width, height: photo.height, channels: 1 } }).jpeg({ quality: 90 }).toBuffer();
+  const spans = regionSpans(photo.width, photo.height, undefined);
+  console.log(`\nphoto received → verdict, 5 MP JPEG (${(jpeg.length / 1e6).toFixed(2)} MB, grey), ${runs} runs each, ms best / median`);
+  for (const engine of ENGINES) {
+    setEngine(engine);
+    const workspace = new ImageWorkspace();
+    const phases: Record<string, number[]> = { decode: [], 'luma + quality gate': [], 'pipeline (4 steps)': [], gauge: [] };
+    for (let i = 0; i <= runs; i++) {
+      const t0 = performance.now();
+      const decoded = await decodePhoto(jpeg);
+      const t1 = performance.now();
+      const input = channelImage(decoded, 'luma', workspace.take(decoded.width, decoded.height));
+      qualityFigures(input, decoded.bitDepth);
+      const t2 = performance.now();
+      workspace.give(input);
+      const run = runValidatedRule(STANDARD_RULE, decoded, { retain: 'gauged', workspace });
+      const steps = run.steps.reduce((sum, s) => sum + s.ms, 0);
+      const last = run.steps[run.steps.length - 1].output!;
+      const t3 = performance.now();
+      measurePixels(last, 'edge-fraction', spans);
+      const t4 = performance.now();
+      releaseRun(run, workspace);
+      if (i === 0) continue;
+      phases.decode.push(t1 - t0);
+      phases['luma + quality gate'].push(t2 - t1);
+      phases['pipeline (4 steps)'].push(steps);
+      phases.gauge.push(t4 - t3);
+    }
+    const figures = Object.entries(phases).map(([name, values]) => {
+      const sorted = [...values].sort((a, b) => a - b);
+      return `${name} ${sorted[0].toFixed(1)} / ${sorted[sorted.length >> 1].toFixed(1)}`;
+    });
+    console.log(`  ${engine.padEnd(6)} ${figures.join('; ')}`);
+  }
+  console.log('  database (store the inspection, its measurements and audit event): tests/bench/inspection.ts measures it through the HTTP route');
+}
+
+function load(): string {
+  return os.loadavg().map((l) => l.toFixed(2)).join(' ');
+}
+
 async function main(): Promise<void> {
   sharp.concurrency(1);
   const runs = Number(process.env.BENCH_RUNS ?? 5);
-  console.log(`Kernwright vision benchmark — Node ${process.version}, ${os.cpus()[0]?.model ?? 'cpu'}, load ${os.loadavg().map((l) => l.toFixed(1)).join(' ')}`);
-  console.log('ours: shared/vision (single thread, float32); OpenCV: @techstark/opencv-js 4.5.2 (WebAssembly); sharp 0.35 with concurrency 1');
+  console.log(`Kernwright vision benchmark — Node ${process.version}, ${os.cpus()[0]?.model ?? 'cpu'} × ${os.cpus().length}, load average (1, 5, 15 min) ${load()}`);
+  console.log('plain: shared/vision in TypeScript; simd: its WebAssembly SIMD kernels; both single thread, float32.');
+  console.log('OpenCV: @techstark/opencv-js 4.5.2 (WebAssembly, no SIMD); sharp 0.35 with concurrency 1.');
   const { cv } = await loadOpenCv();
-  const results: Awaited<ReturnType<typeof benchSize>>[] = [];
+  const results: SizeResult[] = [];
   for (const size of SIZES) results.push(await benchSize(cv, size.label, size.width, size.height, runs));
-  console.log('\nstandard pipeline summary (ours / OpenCV, target ≤ 0.6):');
-  SIZES.forEach((s, i) => {
-    const r = results[i];
-    console.log(`  ${s.label}: ours ${r.pipelineMs.toFixed(1)} ms, OpenCV ${r.cvPipelineMs.toFixed(1)} ms, ratio ${(r.pipelineMs / r.cvPipelineMs).toFixed(2)}; whole rule run ${r.fullRunMs.toFixed(1)} ms`);
-    console.log(`  ${s.label} CPU time: ours ${r.pipelineCpuMs.toFixed(1)} ms, OpenCV ${r.cvPipelineCpuMs.toFixed(1)} ms, ratio ${(r.pipelineCpuMs / r.cvPipelineCpuMs).toFixed(2)}`);
-  });
-  await benchPool(results[0].photo, results[0].fullRunMs, results[0].cvPipelineMs);
+  console.log('\nstandard pipeline summary (ms, best / median; target simd / OpenCV ≤ 0.15):');
+  for (const r of results) {
+    const t = r.pipeline;
+    const f = (x: Timing) => `${x.best.toFixed(1)} / ${x.median.toFixed(1)}`;
+    console.log(`  ${r.label}: plain ${f(t.plain)}, simd ${f(t.simd)}, OpenCV ${f(t.opencv)}; simd/OpenCV ${(t.simd.best / t.opencv.best).toFixed(3)} best, ${(t.simd.median / t.opencv.median).toFixed(3)} median; plain/OpenCV ${(t.plain.best / t.opencv.best).toFixed(2)}`);
+    console.log(`  ${r.label} CPU time: plain ${t.plain.cpuBest.toFixed(1)}, simd ${t.simd.cpuBest.toFixed(1)}, OpenCV ${t.opencv.cpuBest.toFixed(1)}; simd/OpenCV ${(t.simd.cpuBest / t.opencv.cpuBest).toFixed(3)}`);
+    console.log(`  ${r.label} whole rule run: plain ${f(r.fullRun.plain)}, simd ${f(r.fullRun.simd)}`);
+  }
+  const fiveMp = results.find((r) => r.label === '5 MP');
+  if (fiveMp) {
+    for (const engine of ENGINES) await benchPool(fiveMp.photo, engine, fiveMp.fullRun[engine]);
+    await photoToVerdict(fiveMp.photo, runs);
+  }
   const mem = process.memoryUsage();
   const mb = (n: number) => (n / 1048576).toFixed(0);
   console.log(`\nmemory: rss ${mb(mem.rss)} MB, heap ${mb(mem.heapUsed)} MB, array buffers ${mb(mem.arrayBuffers)} MB, peak rss (maxRSS) ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+  console.log(`load average at the end ${load()}`);
 }
 
 main().catch((e) => {

@@ -1,72 +1,86 @@
 // Quick per-step timing of the engine alone (no reference libraries), for profiling one change at
-// a time: prints best and median ns per pixel over the runs, on the 5 MP benchmark photo.
+// a time: prints best and median ns per pixel over the runs, on the 5 MP benchmark photo, for each
+// engine (plain TypeScript and WebAssembly SIMD; BENCH_ENGINES=plain or simd for one of them).
 // Run: npx ts-node --transpile-only -P server/tsconfig.json tests/bench/steps.ts [step ...]
 // (node --cpu-prof -r ts-node/register/transpile-only ... gives a profile of the same runs.)
 import { labelBlobs } from '../../shared/vision/blobs';
 import { correlateDirect } from '../../shared/vision/convolve';
+import { setEngine, type EngineName } from '../../shared/vision/engine';
 import { gradient } from '../../shared/vision/gradient';
-import { channelImage, createImage } from '../../shared/vision/image';
+import { channelImage, type Image } from '../../shared/vision/image';
 import { kernelFromMatrix } from '../../shared/vision/kernels';
-import { laplacian } from '../../shared/vision/laplacian';
+import { laplacian, laplacianOfGaussian } from '../../shared/vision/laplacian';
 import { medianFilter } from '../../shared/vision/median';
 import { morphology } from '../../shared/vision/morphology';
 import { boxFilter, gaussianBlur } from '../../shared/vision/smoothing';
 import { thresholdAdaptiveMean, thresholdOtsu } from '../../shared/vision/threshold';
+import { ImageWorkspace } from '../../shared/vision/workspace';
 import { washerPhoto } from './photos';
 
 const width = Number(process.env.BENCH_WIDTH ?? 2592);
 const height = Number(process.env.BENCH_HEIGHT ?? 1944);
 const runs = Number(process.env.BENCH_RUNS ?? 7);
+const engines = (process.env.BENCH_ENGINES ?? 'plain,simd').split(',') as EngineName[];
 const pixels = width * height;
 const photo = washerPhoto(width, height);
-const input = channelImage(photo, 'luma');
-const a = createImage(width, height);
-const b = createImage(width, height);
-const c = createImage(width, height);
-const magnitude = gradient(gaussianBlur(input, 1, 'reflect'), 'sobel', 'magnitude', 'reflect');
-const mask = thresholdOtsu(magnitude).mask;
 const k5 = kernelFromMatrix([[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]]);
 const k15 = kernelFromMatrix(Array.from({ length: 15 }, (_, j) => Array.from({ length: 15 }, (_, i) => ((i * 7 + j * 3) % 5) - 2 + (i === j ? 1 : 0))));
 
-const STEPS: Record<string, () => void> = {
-  pipeline: () => {
-    gaussianBlur(input, 1, 'reflect', a);
-    gradient(a, 'sobel', 'magnitude', 'reflect', b);
-    thresholdOtsu(b, false, a);
-    morphology(a, 'open', 1, 'reflect', b, c);
-  },
-  gaussian: () => gaussianBlur(input, 1, 'reflect', a),
-  sobel: () => gradient(input, 'sobel', 'magnitude', 'reflect', a),
-  sobelx: () => gradient(input, 'sobel', 'x', 'reflect', a),
-  otsu: () => thresholdOtsu(magnitude, false, a),
-  open: () => morphology(mask, 'open', 1, 'reflect', a, b),
-  box: () => boxFilter(input, 5, 'reflect', a),
-  adaptive: () => thresholdAdaptiveMean(input, 15, 5, 'replicate', false, a),
-  median: () => medianFilter(input, 5, 'reflect', a),
-  laplacian: () => laplacian(input, 4, 'reflect', a),
-  k5: () => correlateDirect(input, k5, 'reflect', a),
-  k15: () => correlateDirect(input, k15, 'reflect', a),
-  blobs: () => labelBlobs(mask),
-};
+/** The steps on buffers of the engine's own workspace (for SIMD: in its WebAssembly memory, as a rule run has them). */
+function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
+  const take = (): Image => workspace.take(width, height);
+  const input = channelImage(photo, 'luma', take());
+  const [a, b, c] = [take(), take(), take()];
+  const magnitude = gradient(gaussianBlur(input, 1, 'reflect', a), 'sobel', 'magnitude', 'reflect', take());
+  const mask = thresholdOtsu(magnitude, false, take()).mask;
+  return {
+    pipeline: () => {
+      const range = { min: NaN, max: NaN };
+      gaussianBlur(input, 1, 'reflect', a);
+      gradient(a, 'sobel', 'magnitude', 'reflect', b, range);
+      thresholdOtsu(b, false, a, range);
+      morphology(a, 'open', 1, 'reflect', b, c);
+    },
+    gaussian: () => gaussianBlur(input, 1, 'reflect', a),
+    gaussian3: () => gaussianBlur(input, 3, 'reflect', a),
+    sobel: () => gradient(input, 'sobel', 'magnitude', 'reflect', a),
+    sobelx: () => gradient(input, 'sobel', 'x', 'reflect', a),
+    otsu: () => thresholdOtsu(magnitude, false, a),
+    open: () => morphology(mask, 'open', 1, 'reflect', a, b),
+    open3value: () => morphology(input, 'open', 3, 'reflect', a, b),
+    box: () => boxFilter(input, 5, 'reflect', a),
+    adaptive: () => thresholdAdaptiveMean(input, 15, 5, 'replicate', false, a),
+    median: () => medianFilter(input, 5, 'reflect', a),
+    laplacian: () => laplacian(input, 4, 'reflect', a),
+    log: () => laplacianOfGaussian(input, 1.4, 'reflect', a),
+    k5: () => correlateDirect(input, k5, 'reflect', a),
+    k15: () => correlateDirect(input, k15, 'reflect', a),
+    blobs: () => labelBlobs(mask),
+  };
+}
 
 const chosen = process.argv.slice(2);
-for (const name of chosen.length > 0 ? chosen : Object.keys(STEPS)) {
-  const fn = STEPS[name];
-  if (!fn) throw new Error(`unknown step ${name}; known: ${Object.keys(STEPS).join(' ')}`);
-  fn();
-  const times: number[] = [];
-  const cpu: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const c0 = process.cpuUsage();
-    const t0 = performance.now();
+const ns = (ms: number) => ((ms * 1e6) / pixels).toFixed(2).padStart(7);
+for (const engine of engines) {
+  setEngine(engine);
+  const steps = stepsOn(new ImageWorkspace(16));
+  for (const name of chosen.length > 0 ? chosen : Object.keys(steps)) {
+    const fn = steps[name];
+    if (!fn) throw new Error(`unknown step ${name}; known: ${Object.keys(steps).join(' ')}`);
     fn();
-    times.push(performance.now() - t0);
-    const used = process.cpuUsage(c0);
-    cpu.push((used.user + used.system) / 1000);
+    const times: number[] = [];
+    const cpu: number[] = [];
+    for (let i = 0; i < runs; i++) {
+      const c0 = process.cpuUsage();
+      const t0 = performance.now();
+      fn();
+      times.push(performance.now() - t0);
+      const used = process.cpuUsage(c0);
+      cpu.push((used.user + used.system) / 1000);
+    }
+    times.sort((x, y) => x - y);
+    cpu.sort((x, y) => x - y);
+    // CPU time leaves out the time other processes held the core (the machine is shared).
+    console.log(`${name.padEnd(11)}${engine.padEnd(6)} wall best ${ns(times[0])} median ${ns(times[times.length >> 1])}   cpu best ${ns(cpu[0])} median ${ns(cpu[cpu.length >> 1])} ns/px`);
   }
-  times.sort((x, y) => x - y);
-  cpu.sort((x, y) => x - y);
-  const ns = (ms: number) => ((ms * 1e6) / pixels).toFixed(2).padStart(7);
-  // CPU time leaves out the time other processes held the core (the machine is shared).
-  console.log(`${name.padEnd(10)} wall best ${ns(times[0])} median ${ns(times[times.length >> 1])}   cpu best ${ns(cpu[0])} median ${ns(cpu[cpu.length >> 1])} ns/px`);
 }

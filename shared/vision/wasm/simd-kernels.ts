@@ -33,13 +33,16 @@ export interface EngineExports {
   packedExtreme(src: number, dst: number, w: number, h: number, r: number, takeMax: number, outside: number, scratch: number): void;
   packedScratchBytes(w: number): number;
   packNonZero(src: number, w: number, h: number, words: number): void;
+  qualitySums(src: number, w: number, h: number, top: number, out: number): void;
+  countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
 }
 
 const BORDER_CODES: Record<BorderMode, number> = { reflect: 0, replicate: 1, constant: 2 };
 const GRADIENT_CODES = { x: 0, y: 1, magnitude: 2 } as const;
 const HISTOGRAM_BINS = 256;
-/** Bins 0 … 256 in each of the kernel's four partial histograms. */
+/** Bins 0 … 256 in each of the kernel's partial histograms (HISTOGRAM_TABLES in assembly/threshold.ts). */
 const PARTIAL_STRIDE = HISTOGRAM_BINS + 1;
+const HISTOGRAM_TABLES = 8;
 
 /** Blocks taken for one call, released together at its end. */
 class CallScope {
@@ -141,13 +144,12 @@ export class SimdKernels {
   /** counts[min(255, trunc((v − origin)·scale))]++ for every v (computed in double precision; NaN counts in bin 0). */
   histogram(image: Image, origin: number, scale: number): Float64Array {
     return this.read(image, (s, scope) => {
-      const partial = scope.alloc(4 * 4 * PARTIAL_STRIDE);
+      const partial = scope.alloc(4 * HISTOGRAM_TABLES * PARTIAL_STRIDE);
       this.wasm.histogram(s, image.data.length, origin, scale, partial);
-      const sums = this.heap.i32(partial, 4 * PARTIAL_STRIDE);
+      const sums = this.heap.i32(partial, HISTOGRAM_TABLES * PARTIAL_STRIDE);
       const counts = new Float64Array(HISTOGRAM_BINS);
-      for (let bin = 0; bin < PARTIAL_STRIDE; bin++) {
-        const total = sums[bin] + sums[PARTIAL_STRIDE + bin] + sums[2 * PARTIAL_STRIDE + bin] + sums[3 * PARTIAL_STRIDE + bin];
-        counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += total;
+      for (let table = 0; table < HISTOGRAM_TABLES; table++) {
+        for (let bin = 0; bin < PARTIAL_STRIDE; bin++) counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += sums[table * PARTIAL_STRIDE + bin];
       }
       return counts;
     });
@@ -219,6 +221,27 @@ export class SimdKernels {
       const words = scope.alloc(4 * count);
       this.wasm.packNonZero(s, image.width, image.height, words);
       return this.heap.i32(words, count).slice();
+    });
+  }
+
+  /** The quality gate's sums in double precision: Σv, the number of v ≥ top, Σlap and Σlap² (4-neighbour Laplacian, reflect border). */
+  qualitySums(image: Image, top: number): { sum: number; clipped: number; lapSum: number; lapSquares: number } {
+    return this.read(image, (s, scope) => {
+      const out = scope.alloc(32);
+      this.wasm.qualitySums(s, image.width, image.height, top, out);
+      const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, out, 4);
+      return { sum, clipped, lapSum, lapSquares };
+    });
+  }
+
+  /** Pixels that are not 0 (NaN counts, −0 does not) in columns start[y] … end[y]−1 of each row y. */
+  countNonZero(image: Image, start: Int32Array, end: Int32Array): number {
+    return this.read(image, (s, scope) => {
+      const starts = scope.alloc(4 * image.height);
+      const ends = scope.alloc(4 * image.height);
+      this.heap.i32(starts, image.height).set(start);
+      this.heap.i32(ends, image.height).set(end);
+      return this.wasm.countNonZero(s, image.width, image.height, starts, ends);
     });
   }
 

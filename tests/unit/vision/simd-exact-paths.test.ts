@@ -6,7 +6,7 @@ import fc from 'fast-check';
 import type { MorphologyOp } from '../../../shared/rules/schema';
 import { createPackedMask } from '../../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../../shared/vision/blobs';
-import { regionSpans } from '../../../shared/vision/gauges';
+import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { gradient } from '../../../shared/vision/gradient';
 import type { RawPhoto } from '../../../shared/vision/image';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
@@ -107,6 +107,18 @@ test('blobs (SIMD pre-pass and run labelling against the pixel scan): the same l
       const { plain, simd } = onBoth(() => labelBlobs(image, spans));
       expect(simd.blobs).toEqual(plain.blobs);
       expect(Array.from(simd.labels)).toEqual(Array.from(plain.labels));
+    }),
+    RUNS,
+  );
+});
+
+test('edge fraction (SIMD count of non-zero pixels in the region): the same share', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<SampleKind>('mask', 'awkward'), seed, fc.double({ min: 0.05, max: 0.7, noNaN: true }), ([w, h], kind, s, r) => {
+      const image = sampleImage(w, h, kind, s);
+      const spans = regionSpans(w, h, { shape: 'circle', cx: 0.4, cy: 0.6, r });
+      const { plain, simd } = onBoth(() => [measurePixels(image, 'edge-fraction', spans), measurePixels(image, 'edge-fraction', regionSpans(w, h))]);
+      expect(simd).toEqual(plain);
     }),
     RUNS,
   );

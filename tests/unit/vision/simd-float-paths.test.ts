@@ -7,6 +7,7 @@ import { correlate, correlateSeparable } from '../../../shared/vision/convolve';
 import { gradient } from '../../../shared/vision/gradient';
 import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix, SCHARR_SMOOTHING, SOBEL_SMOOTHING, PREWITT_SMOOTHING } from '../../../shared/vision/kernels';
 import { laplacian, laplacianOfGaussian } from '../../../shared/vision/laplacian';
+import { qualityFigures } from '../../../shared/vision/quality';
 import { gaussianBlur } from '../../../shared/vision/smoothing';
 import { borderMode, float32Tolerance, imageSize, l1, largestDifference, largestMagnitude, onBoth, sampleImage, sampleKind, seed } from './engines';
 
@@ -137,6 +138,24 @@ test('Laplacian of Gaussian: SIMD within float32 rounding of plain', () => {
       const g2 = gaussianSecondDerivativeWeights(sigma);
       const magnitude = 2 * l1(g) * l1(g2) * largestMagnitude(image.data);
       expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(4 * g.length, magnitude));
+    }),
+    RUNS,
+  );
+});
+
+test('quality gate: clipped share exact; mean and focus the same per-pixel terms in double precision, summed in another order', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom('8-bit', '16-bit', 'signed float' as const), seed, ([w, h], kind, s) => {
+      const image = sampleImage(w, h, kind, s);
+      const bitDepth = kind === '16-bit' ? 16 : 8;
+      const { plain, simd } = onBoth(() => qualityFigures(image, bitDepth));
+      expect(simd.clipped).toBe(plain.clipped);
+      // Double-precision sums of n terms in two orders: within n·2⁻⁵³ of the sum of magnitudes (Higham §3.1, from memory).
+      const n = w * h;
+      const doubleBound = (sumOfMagnitudes: number) => 2 * n * 2 ** -53 * sumOfMagnitudes;
+      const largest = largestMagnitude(image.data);
+      expect(Math.abs(simd.mean - plain.mean)).toBeLessThanOrEqual(doubleBound(largest));
+      expect(Math.abs(simd.focus - plain.focus)).toBeLessThanOrEqual(doubleBound((8 * largest) ** 2) * 4);
     }),
     RUNS,
   );

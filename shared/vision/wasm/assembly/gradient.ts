@@ -31,23 +31,48 @@ export function gradient(src: usize, dst: usize, w: i32, h: i32, a: f32, b: f32,
     const up = rowAddress(src, y - 1, h, w, mode, zeros);
     const down = rowAddress(src, y + 1, h, w, mode, zeros);
     const centre = at(src, y * w);
-    let x = 0;
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      const u = v128.load(up + o), d = v128.load(down + o);
-      v128.store(s + o, f32x4.add(f32x4.mul(va, f32x4.add(u, d)), f32x4.mul(vb, v128.load(centre + o))), 4);
-      v128.store(t + o, f32x4.sub(d, u), 4);
+    // The smoothing s serves gx, the difference t serves gy: each line only when its output needs it.
+    if (output == GRADIENT_MAGNITUDE) {
+      let x = 0;
+      for (; x + 4 <= w; x += 4) {
+        const o = (<usize>x) << 2;
+        const u = v128.load(up + o), d = v128.load(down + o);
+        v128.store(s + o, f32x4.add(f32x4.mul(va, f32x4.add(u, d)), f32x4.mul(vb, v128.load(centre + o))), 4);
+        v128.store(t + o, f32x4.sub(d, u), 4);
+      }
+      for (; x < w; x++) {
+        const o = (<usize>x) << 2;
+        const u = load<f32>(up + o), d = load<f32>(down + o);
+        store<f32>(s + o, a * (u + d) + b * load<f32>(centre + o), 4);
+        store<f32>(t + o, d - u, 4);
+      }
+      fillLineBorder(s, w, 1, mode);
+      fillLineBorder(t, w, 1, mode);
+    } else if (output == GRADIENT_X) {
+      let x = 0;
+      for (; x + 4 <= w; x += 4) {
+        const o = (<usize>x) << 2;
+        v128.store(s + o, f32x4.add(f32x4.mul(va, f32x4.add(v128.load(up + o), v128.load(down + o))), f32x4.mul(vb, v128.load(centre + o))), 4);
+      }
+      for (; x < w; x++) {
+        const o = (<usize>x) << 2;
+        store<f32>(s + o, a * (load<f32>(up + o) + load<f32>(down + o)) + b * load<f32>(centre + o), 4);
+      }
+      fillLineBorder(s, w, 1, mode);
+    } else {
+      let x = 0;
+      for (; x + 4 <= w; x += 4) {
+        const o = (<usize>x) << 2;
+        v128.store(t + o, f32x4.sub(v128.load(down + o), v128.load(up + o)), 4);
+      }
+      for (; x < w; x++) {
+        const o = (<usize>x) << 2;
+        store<f32>(t + o, load<f32>(down + o) - load<f32>(up + o), 4);
+      }
+      fillLineBorder(t, w, 1, mode);
     }
-    for (; x < w; x++) {
-      const o = (<usize>x) << 2;
-      const u = load<f32>(up + o), d = load<f32>(down + o);
-      store<f32>(s + o, a * (u + d) + b * load<f32>(centre + o), 4);
-      store<f32>(t + o, d - u, 4);
-    }
-    fillLineBorder(s, w, 1, mode);
-    fillLineBorder(t, w, 1, mode);
     const out = at(dst, y * w);
-    x = 0;
+    let x = 0;
     if (output == GRADIENT_X) {
       for (; x + 4 <= w; x += 4) {
         const o = (<usize>x) << 2;

@@ -7,6 +7,7 @@ export { gradient, gradientScratchBytes } from './gradient';
 export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked } from './threshold';
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero } from './blobs';
+export { qualitySums, countNonZero } from './statistics';
 
 /** First address the JavaScript side may use: static data ends below it. */
 export function heapBase(): usize {

@@ -5,7 +5,7 @@ import { align16, at, fillLineBorder, rowAddress } from './border';
 
 /** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */
 export function separableScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
-  return 4 * colLen + 4 * w + 8 * (w + rowLen) + 128;
+  return 4 * (colLen + 1) + 4 * w + 8 * (w + rowLen) + 8 * (w + rowLen + 4) + 160;
 }
 
 function isSymmetric(k: usize, n: i32): bool {
@@ -24,9 +24,26 @@ export function separable(src: usize, dst: usize, w: i32, h: i32, colK: usize, c
   const zeros = align16(at(rows, colLen));
   memory.fill(zeros, 0, 4 * w);
   const line = align16(at(zeros, w));
+  const next = align16(at(line, w + rowLen + 4));
   const colSymmetric = isSymmetric(colK, colLen);
   const rowSymmetric = isSymmetric(rowK, rowLen);
   for (let y = 0; y < h; y++) {
+    if (colSymmetric && ry >= 1 && ry <= 3 && y + 1 < h) {
+      // Two output rows from the 2r+2 source rows they share: each sample is loaded once for both.
+      for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+      verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(next, rx));
+      fillLineBorder(line, w, rx, mode);
+      fillLineBorder(next, w, rx, mode);
+      if (rowSymmetric) {
+        horizontalSymmetric(line, rowK, rx, w, at(dst, y * w), offset);
+        horizontalSymmetric(next, rowK, rx, w, at(dst, (y + 1) * w), offset);
+      } else {
+        horizontalGeneral(line, rowK, rowLen, w, at(dst, y * w), offset);
+        horizontalGeneral(next, rowK, rowLen, w, at(dst, (y + 1) * w), offset);
+      }
+      y++;
+      continue;
+    }
     for (let j = 0; j < colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
     if (colSymmetric) verticalSymmetric(rows, colK, ry, w, at(line, rx));
     else verticalGeneral(rows, colK, colLen, w, at(line, rx));
@@ -126,6 +143,53 @@ function verticalSymmetric(rows: usize, k: usize, r: i32, w: i32, line: usize): 
       let acc = kc * load<f32>(c + o);
       for (let i = 1; i <= r; i++) acc += load<f32>(at(k, r + i)) * (load<f32>(load<usize>(at(rows, r - i)) + o) + load<f32>(load<usize>(at(rows, r + i)) + o));
       store<f32>(line + o, acc);
+    }
+  }
+}
+
+/** Output rows y (into line) and y+1 (into next) of a symmetric column of radius 1–3; rows[0 … 2r+1] are source rows y−r … y+1+r. */
+function verticalSymmetricPair(rows: usize, k: usize, r: i32, w: i32, line: usize, next: usize): void {
+  const kc = load<f32>(at(k, r)), k1 = load<f32>(at(k, r + 1));
+  const k2 = r >= 2 ? load<f32>(at(k, r + 2)) : <f32>0, k3 = r == 3 ? load<f32>(at(k, r + 3)) : <f32>0;
+  const vc = f32x4.splat(kc), v1 = f32x4.splat(k1), v2 = f32x4.splat(k2), v3 = f32x4.splat(k3);
+  const r0 = load<usize>(rows), r1 = load<usize>(at(rows, 1)), r2 = load<usize>(at(rows, 2)), r3 = load<usize>(at(rows, 3));
+  const r4 = r >= 2 ? load<usize>(at(rows, 4)) : 0, r5 = r >= 2 ? load<usize>(at(rows, 5)) : 0;
+  const r6 = r == 3 ? load<usize>(at(rows, 6)) : 0, r7 = r == 3 ? load<usize>(at(rows, 7)) : 0;
+  let x = 0;
+  if (r == 1) {
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      const a = v128.load(r0 + o), b = v128.load(r1 + o), c = v128.load(r2 + o), d = v128.load(r3 + o);
+      v128.store(line + o, f32x4.add(f32x4.mul(vc, b), f32x4.mul(v1, f32x4.add(a, c))));
+      v128.store(next + o, f32x4.add(f32x4.mul(vc, c), f32x4.mul(v1, f32x4.add(b, d))));
+    }
+  } else if (r == 2) {
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      const a = v128.load(r0 + o), b = v128.load(r1 + o), c = v128.load(r2 + o), d = v128.load(r3 + o), e = v128.load(r4 + o), f = v128.load(r5 + o);
+      v128.store(line + o, f32x4.add(f32x4.add(f32x4.mul(vc, c), f32x4.mul(v1, f32x4.add(b, d))), f32x4.mul(v2, f32x4.add(a, e))));
+      v128.store(next + o, f32x4.add(f32x4.add(f32x4.mul(vc, d), f32x4.mul(v1, f32x4.add(c, e))), f32x4.mul(v2, f32x4.add(b, f))));
+    }
+  } else {
+    for (; x + 4 <= w; x += 4) {
+      const o = (<usize>x) << 2;
+      const a = v128.load(r0 + o), b = v128.load(r1 + o), c = v128.load(r2 + o), d = v128.load(r3 + o);
+      const e = v128.load(r4 + o), f = v128.load(r5 + o), g = v128.load(r6 + o), hh = v128.load(r7 + o);
+      let first = f32x4.add(f32x4.mul(vc, d), f32x4.mul(v1, f32x4.add(c, e)));
+      first = f32x4.add(first, f32x4.mul(v2, f32x4.add(b, f)));
+      v128.store(line + o, f32x4.add(first, f32x4.mul(v3, f32x4.add(a, g))));
+      let second = f32x4.add(f32x4.mul(vc, e), f32x4.mul(v1, f32x4.add(d, f)));
+      second = f32x4.add(second, f32x4.mul(v2, f32x4.add(c, g)));
+      v128.store(next + o, f32x4.add(second, f32x4.mul(v3, f32x4.add(b, hh))));
+    }
+  }
+  // The last columns one row at a time, each from its own 2r+1 rows.
+  for (; x < w; x++) {
+    const o = (<usize>x) << 2;
+    for (let q = 0; q < 2; q++) {
+      let acc = kc * load<f32>(load<usize>(at(rows, r + q)) + o);
+      for (let i = 1; i <= r; i++) acc += load<f32>(at(k, r + i)) * (load<f32>(load<usize>(at(rows, r + q - i)) + o) + load<f32>(load<usize>(at(rows, r + q + i)) + o));
+      store<f32>((q == 0 ? line : next) + o, acc);
     }
   }
 }

@@ -58,38 +58,52 @@ export function valueRange(src: usize, n: i32, out: usize): void {
   store<f32>(out, g, 4);
 }
 
+/** Partial histograms the counting fills in turn. */
+export const HISTOGRAM_TABLES: i32 = 8;
+
 /**
  * Counts bin(v) = trunc((v − origin)·scale), computed in double precision as the plain engine does
- * (so both put every value in the same bin; NaN goes to bin 0), into four partial histograms of
- * 257 int32 at partial (zeroed here), filled in turn so that equal neighbours do not wait on one counter.
+ * (so both put every value in the same bin; NaN goes to bin 0), into eight partial histograms of
+ * 257 int32 at partial (zeroed here): pixel p goes to table p mod 8, so that equal neighbours do not
+ * wait on one counter.
  */
 export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: usize): void {
-  memory.fill(partial, 0, 4 * 4 * PARTIAL_STRIDE);
+  memory.fill(partial, 0, 4 * HISTOGRAM_TABLES * PARTIAL_STRIDE);
   const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
   const top = i32x4.splat(PARTIAL_STRIDE - 1);
-  const p1 = at(partial, PARTIAL_STRIDE), p2 = at(partial, 2 * PARTIAL_STRIDE), p3 = at(partial, 3 * PARTIAL_STRIDE);
+  // Table t starts PARTIAL_STRIDE·t int32 after the first; 1028 bytes apart.
+  const stride = (<usize>PARTIAL_STRIDE) << 2;
   let p = 0;
-  for (; p + 4 <= n; p += 4) {
-    const v = v128.load(at(src, p));
-    const low = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v), vo), vs));
-    const high = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 0, 1)), vo), vs));
-    // Lanes 0, 1 from low and 2, 3 from high; bins above 256 cannot occur for values ≤ the maximum, the clamp keeps memory safe.
-    const bins = i32x4.min_u(v128.shuffle<i32>(low, high, 0, 1, 4, 5), top);
-    const b0 = at(partial, i32x4.extract_lane(bins, 0));
-    const b1 = at(p1, i32x4.extract_lane(bins, 1));
-    const b2 = at(p2, i32x4.extract_lane(bins, 2));
-    const b3 = at(p3, i32x4.extract_lane(bins, 3));
-    store<i32>(b0, load<i32>(b0) + 1);
-    store<i32>(b1, load<i32>(b1) + 1);
-    store<i32>(b2, load<i32>(b2) + 1);
-    store<i32>(b3, load<i32>(b3) + 1);
+  for (; p + 8 <= n; p += 8) {
+    const a = binsOf(v128.load(at(src, p)), vo, vs, top);
+    const b = binsOf(v128.load(at(src, p + 4)), vo, vs, top);
+    count(partial, i32x4.extract_lane(a, 0));
+    count(partial + stride, i32x4.extract_lane(a, 1));
+    count(partial + 2 * stride, i32x4.extract_lane(a, 2));
+    count(partial + 3 * stride, i32x4.extract_lane(a, 3));
+    count(partial + 4 * stride, i32x4.extract_lane(b, 0));
+    count(partial + 5 * stride, i32x4.extract_lane(b, 1));
+    count(partial + 6 * stride, i32x4.extract_lane(b, 2));
+    count(partial + 7 * stride, i32x4.extract_lane(b, 3));
   }
   for (; p < n; p++) {
     const scaled = f64x2.splat((<f64>load<f32>(at(src, p)) - origin) * scale);
-    const bin = i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0);
-    const b = at(partial, bin);
-    store<i32>(b, load<i32>(b) + 1);
+    count(partial, i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0));
   }
+}
+
+/** The four values' bins; above 256 cannot occur for values up to the maximum, the clamp keeps memory safe. */
+@inline
+function binsOf(v: v128, origin: v128, scale: v128, top: v128): v128 {
+  const low = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v), origin), scale));
+  const high = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 0, 1)), origin), scale));
+  return i32x4.min_u(v128.shuffle<i32>(low, high, 0, 1, 4, 5), top);
+}
+
+@inline
+function count(table: usize, bin: i32): void {
+  const address = at(table, bin);
+  store<i32>(address, load<i32>(address) + 1);
 }
 
 /** dst = 1 where v ≥ cut, else 0 (swapped when invert is 1); NaN is below every cut. */

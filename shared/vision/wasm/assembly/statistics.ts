@@ -1,0 +1,93 @@
+// Sums over an image for the quality gate and the gauges, in double precision where the plain engine
+// sums in double precision (each pixel's terms in the same order; the sums themselves in other order).
+import { at, borderIndex, REFLECT } from './border';
+
+/**
+ * out[0] = Σ v, out[1] = number of v ≥ top, out[2] = Σ lap, out[3] = Σ lap² as four float64, where lap
+ * is the 4-neighbour Laplacian with the reflect border, computed per pixel as the plain engine does:
+ * up + down + left + right − 4·centre in double precision (first and last columns: up + down + 2·inner − 4·centre).
+ */
+export function qualitySums(src: usize, w: i32, h: i32, top: f32, out: usize): void {
+  let sum = f64x2.splat(0);
+  let lapSum = f64x2.splat(0);
+  let lapSquares = f64x2.splat(0);
+  let clippedLanes = i32x4.splat(0);
+  let sumScalar: f64 = 0;
+  let lapSumScalar: f64 = 0;
+  let lapSquaresScalar: f64 = 0;
+  let clipped: i32 = 0;
+  const vtop = f32x4.splat(top);
+  const four = f64x2.splat(4);
+  for (let y = 0; y < h; y++) {
+    const c = at(src, y * w);
+    const up = at(src, borderIndex(y - 1, h, REFLECT) * w);
+    const down = at(src, borderIndex(y + 1, h, REFLECT) * w);
+    if (w == 1) {
+      const v = <f64>load<f32>(c);
+      const lap = <f64>load<f32>(up) + <f64>load<f32>(down) - 2 * v;
+      sumScalar += v;
+      clipped += load<f32>(c) >= top ? 1 : 0;
+      lapSumScalar += lap;
+      lapSquaresScalar += lap * lap;
+      continue;
+    }
+    const v0 = <f64>load<f32>(c);
+    const vLast = <f64>load<f32>(at(c, w - 1));
+    const first = <f64>load<f32>(up) + <f64>load<f32>(down) + 2 * <f64>load<f32>(at(c, 1)) - 4 * v0;
+    const last = <f64>load<f32>(at(up, w - 1)) + <f64>load<f32>(at(down, w - 1)) + 2 * <f64>load<f32>(at(c, w - 2)) - 4 * vLast;
+    lapSumScalar += first + last;
+    lapSquaresScalar += first * first + last * last;
+    sumScalar += v0 + vLast;
+    clipped += (load<f32>(c) >= top ? 1 : 0) + (load<f32>(at(c, w - 1)) >= top ? 1 : 0);
+    let x = 1;
+    for (; x + 4 <= w - 1; x += 4) {
+      const o = (<usize>x) << 2;
+      const u = v128.load(up + o), d = v128.load(down + o), l = v128.load(c + o - 4), r = v128.load(c + o + 4), m = v128.load(c + o);
+      clippedLanes = i32x4.sub(clippedLanes, f32x4.ge(m, vtop));
+      // Low and high halves as float64 pairs.
+      let lap = laplacianPair(f64x2.promote_low_f32x4(u), f64x2.promote_low_f32x4(d), f64x2.promote_low_f32x4(l), f64x2.promote_low_f32x4(r), f64x2.promote_low_f32x4(m), four);
+      sum = f64x2.add(sum, f64x2.promote_low_f32x4(m));
+      lapSum = f64x2.add(lapSum, lap);
+      lapSquares = f64x2.add(lapSquares, f64x2.mul(lap, lap));
+      const uh = v128.shuffle<f32>(u, u, 2, 3, 0, 1), dh = v128.shuffle<f32>(d, d, 2, 3, 0, 1), lh = v128.shuffle<f32>(l, l, 2, 3, 0, 1);
+      const rh = v128.shuffle<f32>(r, r, 2, 3, 0, 1), mh = v128.shuffle<f32>(m, m, 2, 3, 0, 1);
+      lap = laplacianPair(f64x2.promote_low_f32x4(uh), f64x2.promote_low_f32x4(dh), f64x2.promote_low_f32x4(lh), f64x2.promote_low_f32x4(rh), f64x2.promote_low_f32x4(mh), four);
+      sum = f64x2.add(sum, f64x2.promote_low_f32x4(mh));
+      lapSum = f64x2.add(lapSum, lap);
+      lapSquares = f64x2.add(lapSquares, f64x2.mul(lap, lap));
+    }
+    for (; x < w - 1; x++) {
+      const centre = <f64>load<f32>(at(c, x));
+      const lap = <f64>load<f32>(at(up, x)) + <f64>load<f32>(at(down, x)) + <f64>load<f32>(at(c, x - 1)) + <f64>load<f32>(at(c, x + 1)) - 4 * centre;
+      sumScalar += centre;
+      clipped += load<f32>(at(c, x)) >= top ? 1 : 0;
+      lapSumScalar += lap;
+      lapSquaresScalar += lap * lap;
+    }
+  }
+  store<f64>(out, sumScalar + f64x2.extract_lane(sum, 0) + f64x2.extract_lane(sum, 1));
+  store<f64>(out, <f64>(clipped + i32x4.extract_lane(clippedLanes, 0) + i32x4.extract_lane(clippedLanes, 1) + i32x4.extract_lane(clippedLanes, 2) + i32x4.extract_lane(clippedLanes, 3)), 8);
+  store<f64>(out, lapSumScalar + f64x2.extract_lane(lapSum, 0) + f64x2.extract_lane(lapSum, 1), 16);
+  store<f64>(out, lapSquaresScalar + f64x2.extract_lane(lapSquares, 0) + f64x2.extract_lane(lapSquares, 1), 24);
+}
+
+/** up + down + left + right − 4·centre, in this order. */
+@inline
+function laplacianPair(up: v128, down: v128, left: v128, right: v128, centre: v128, four: v128): v128 {
+  return f64x2.sub(f64x2.add(f64x2.add(f64x2.add(up, down), left), right), f64x2.mul(four, centre));
+}
+
+/** Number of pixels that are not 0 (NaN counts, −0 does not) in row y's columns start[y] … end[y]−1, summed over the rows. */
+export function countNonZero(src: usize, w: i32, h: i32, starts: usize, ends: usize): i32 {
+  const zero = f32x4.splat(0);
+  let lanes = i32x4.splat(0);
+  let count = 0;
+  for (let y = 0; y < h; y++) {
+    const row = at(src, y * w);
+    const end = min(w, load<i32>(at(ends, y)));
+    let x = max(0, load<i32>(at(starts, y)));
+    for (; x + 4 <= end; x += 4) lanes = i32x4.sub(lanes, f32x4.ne(v128.load(at(row, x)), zero));
+    for (; x < end; x++) count += load<f32>(at(row, x)) != 0 ? 1 : 0;
+  }
+  return count + i32x4.extract_lane(lanes, 0) + i32x4.extract_lane(lanes, 1) + i32x4.extract_lane(lanes, 2) + i32x4.extract_lane(lanes, 3);
+}

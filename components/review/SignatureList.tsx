@@ -3,6 +3,9 @@ import { colors, radius, space } from '../../lib/theme';
 import { SIGNATURE_MEANING_LABELS, type Signature } from '../../shared/api/rules';
 import { AppText } from '../AppText';
 
+// Date, time and time zone, so that the moment of signing reads the same wherever the record is opened.
+const signedAtFormat = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeStyle: 'long' });
+
 function meaningLabel(meaning: string): string {
   return SIGNATURE_MEANING_LABELS[meaning as keyof typeof SIGNATURE_MEANING_LABELS] ?? meaning;
 }
@@ -15,7 +18,7 @@ export function SignatureList({ signatures }: { signatures: Signature[] }) {
       {signatures.map((s) => (
         <View key={s.id} role="listitem" style={[styles.item, !s.valid && styles.invalid]}>
           <AppText variant="bodyStrong">{s.signerName}</AppText>
-          <AppText>{`${meaningLabel(s.meaning)} · ${new Date(s.signedAt).toLocaleString()}`}</AppText>
+          <AppText>{`${meaningLabel(s.meaning)} · ${signedAtFormat.format(new Date(s.signedAt))}`}</AppText>
           <AppText variant="label" tone={s.valid ? 'notice' : 'danger'}>
             {s.valid ? '✓ Valid: matches the signed content' : '✕ Invalid: the content no longer matches what was signed'}
           </AppText>

@@ -55,7 +55,7 @@ export function VersionReview({ versionId }: { versionId: string }) {
       </Card>
 
       <Card>
-        <AppText variant="heading">What changed</AppText>
+        <AppText variant="heading">{compared || rule.isPending ? 'What changed' : 'What the version holds'}</AppText>
         {rule.isPending ? (
           <LoadingState label="Loading the released version…" />
         ) : rule.error ? (
@@ -63,7 +63,7 @@ export function VersionReview({ versionId }: { versionId: string }) {
         ) : (
           <RuleDiffTable
             rows={diffRuleDocuments(compared?.document ?? null, v.document)}
-            beforeTitle={compared ? `v${compared.number} (${compared.state})` : 'No released version'}
+            beforeTitle={compared ? `v${compared.number} (${compared.state})` : null}
             afterTitle={`v${v.number} (this version)`}
           />
         )}
@@ -100,7 +100,7 @@ export function VersionReview({ versionId }: { versionId: string }) {
       <ReleaseDialog version={v} visible={decision === 'release'} onClose={() => setDecision(null)} onReleased={() => setDecision(null)} />
       <NoteDialog
         visible={decision === 'send-back'}
-        title={`Send v${v.number} back`}
+        title={`Send ${v.ruleName} v${v.number} back`}
         message="The version goes back to the engineer as a draft with your note. Nothing reaches the line."
         fieldLabel="What must change"
         requiredMessage="Say what must change"
@@ -112,7 +112,7 @@ export function VersionReview({ versionId }: { versionId: string }) {
       />
       <NoteDialog
         visible={decision === 'withdraw'}
-        title={`Withdraw v${v.number}`}
+        title={`Withdraw ${v.ruleName} v${v.number}`}
         message="Operators can no longer inspect with this version from now on. Earlier inspections keep it as their record. This cannot be undone."
         fieldLabel="Reason for withdrawal"
         requiredMessage="Give the reason"

@@ -16,7 +16,7 @@ import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
 import { CalibrationSummary, formatScale } from './CalibrationSummary';
-import { pixelDistance, TargetPointPicker, type ImagePoint } from './TargetPointPicker';
+import { pixelDistance, TargetPointPicker, type ImagePoint, type MarkPlacement } from './TargetPointPicker';
 
 function parseNumber(text: string): number {
   return text.trim() === '' ? Number.NaN : Number(text.replace(',', '.'));
@@ -31,6 +31,7 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
   const [distanceText, setDistanceText] = useState('');
   const [photo, setPhoto] = useState<PickedPhoto>();
   const [points, setPoints] = useState<ImagePoint[]>([]);
+  const [placement, setPlacement] = useState<MarkPlacement>('tapped');
   const [errors, setErrors] = useState<FieldErrors>({});
   const [confirming, setConfirming] = useState(false);
   const [saved, setSaved] = useState(false);
@@ -57,8 +58,9 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
       setPoints([]);
     }
   };
-  const markPoints = (next: ImagePoint[]) => {
+  const markPoints = (next: ImagePoint[], how: MarkPlacement) => {
     setPoints(next);
+    setPlacement(how);
     if (next.length === 2) {
       setDistanceText(pixelDistance(next[0], next[1]).toFixed(1));
       setErrors((e) => ({ ...e, distancePx: undefined }));
@@ -113,6 +115,13 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
           <>
             <AppText variant="caption" tone="muted">{`${photo.fileName}, ${photo.width}×${photo.height} px. Tap the first edge (A), then the second (B).`}</AppText>
             <TargetPointPicker photo={photo} points={points} onChange={markPoints} />
+            {points.length === 2 && placement !== 'tapped' ? (
+              <AppText variant="caption" tone={placement === 'on-edges' ? 'notice' : 'caution'} role="status">
+                {placement === 'on-edges'
+                  ? `✓ A and B moved onto the edges nearest your taps: (${points[0].x}, ${points[0].y}) and (${points[1].x}, ${points[1].y}) px.`
+                  : '⚠ No clear edge near one of the marks, so both stay where you tapped. Tap closer to the edges, or type the distance.'}
+              </AppText>
+            ) : null}
           </>
         ) : null}
         <TextField
@@ -131,7 +140,7 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
           {mmPerPx !== null ? (
             <>
               <AppText variant="heading">{formatScale(mmPerPx)}</AppText>
-              <AppText>{`Quantisation uncertainty s/√12 = ±${Number(pixelQuantisationUncertaintyMm(mmPerPx).toPrecision(3))} mm per length`}</AppText>
+              <AppText>{`Quantisation uncertainty of one pixel, s/√12 = ±${Number(pixelQuantisationUncertaintyMm(mmPerPx).toPrecision(3))} mm`}</AppText>
               <AppText variant="caption" tone="muted">{`${referenceLengthMm} mm over ${distancePx} px. One pixel is ${Number(mmPerPx.toPrecision(4))} mm wide here.`}</AppText>
             </>
           ) : (
@@ -163,6 +172,8 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
                 setLengthText('');
                 setDistanceText('');
                 setPoints([]);
+                // The form closes up, so that the confirmation and the new scale at the top are in view.
+                setPhoto(undefined);
               },
             },
           )

@@ -1,24 +1,28 @@
-import { useRef, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Image, Pressable, StyleSheet, View, type GestureResponderEvent, type LayoutChangeEvent } from 'react-native';
 import type { PickedPhoto } from '../../lib/pickPhoto';
 import { colors, radius } from '../../lib/theme';
 import { AppText } from '../AppText';
+import { pixelDistance, snapToEdge, type GreyImage, type ImagePoint } from './edgeSnap';
+import { readPhotoGrey } from './photoGrey';
 
-export interface ImagePoint {
-  x: number;
-  y: number;
-}
+export { pixelDistance, type ImagePoint };
 
-/** Distance between two points in the photo's own pixels. */
-export function pixelDistance(a: ImagePoint, b: ImagePoint): number {
-  return Math.hypot(b.x - a.x, b.y - a.y);
-}
+/** What happened to the two marks: moved onto the edges, or left where they were tapped. */
+export type MarkPlacement = 'tapped' | 'on-edges' | 'no-edge-found';
 
 interface TargetPointPickerProps {
   photo: PickedPhoto;
   points: ImagePoint[];
-  onChange: (points: ImagePoint[]) => void;
+  onChange: (points: ImagePoint[], placement: MarkPlacement) => void;
 }
+
+/** How far (photo pixels) a mark may move to reach an edge: a few screen pixels' worth, at least 6. */
+function snapReach(photoPxPerScreenPx: number, a: ImagePoint, b: ImagePoint): number {
+  return Math.min(Math.max(6, 6 * photoPxPerScreenPx), pixelDistance(a, b) / 2 - 1);
+}
+
+const roundTenth = (p: ImagePoint) => ({ x: Math.round(p.x * 10) / 10, y: Math.round(p.y * 10) / 10 });
 
 const MARK = 22;
 
@@ -34,22 +38,47 @@ function offsetInSurface(event: GestureResponderEvent, surface: View | null): Im
   return null;
 }
 
-/** The target's photo; a tap or click marks an edge (two marks measure a distance, a third starts over). */
+/**
+ * The target's photo; a tap or click marks an edge (two marks measure a distance, a third starts
+ * over). Once both are set, each moves along the line between them onto the nearest clear edge.
+ */
 export function TargetPointPicker({ photo, points, onChange }: TargetPointPickerProps) {
   const [displayWidth, setDisplayWidth] = useState(0);
   const surface = useRef<View>(null);
+  const grey = useRef<Promise<GreyImage | null>>(Promise.resolve(null));
+  const taps = useRef(0);
   const scale = displayWidth > 0 ? photo.width / displayWidth : 1;
+
+  useEffect(() => {
+    grey.current = readPhotoGrey(photo.uri).catch(() => null);
+  }, [photo.uri]);
+
   const mark = (event: GestureResponderEvent) => {
     if (displayWidth === 0) return;
     const offset = offsetInSurface(event, surface.current);
     if (!offset) return;
-    const point = { x: Math.round(offset.x * scale * 10) / 10, y: Math.round(offset.y * scale * 10) / 10 };
-    onChange(points.length >= 2 ? [point] : [...points, point]);
+    const tap = ++taps.current;
+    const point = roundTenth({ x: offset.x * scale, y: offset.y * scale });
+    if (points.length !== 1) return onChange([point], 'tapped');
+    const [a, b] = [points[0], point];
+    onChange([a, b], 'tapped');
+    if (pixelDistance(a, b) < 4) return;
+    const reach = snapReach(scale, a, b);
+    void grey.current.then((image) => {
+      // A later tap has started over: this pair is no longer shown.
+      if (!image || tap !== taps.current) return;
+      const snappedA = snapToEdge(image, a, b, reach);
+      const snappedB = snapToEdge(image, b, a, reach);
+      if (snappedA && snappedB) onChange([roundTenth(snappedA), roundTenth(snappedB)], 'on-edges');
+      else onChange([a, b], 'no-edge-found');
+    });
   };
   return (
-    <View onLayout={(e: LayoutChangeEvent) => setDisplayWidth(e.nativeEvent.layout.width)} style={styles.frame}>
+    <View style={styles.frame}>
       <Pressable
         ref={surface}
+        // The photo's own width on screen (inside the frame's border) maps taps to photo pixels.
+        onLayout={(e: LayoutChangeEvent) => setDisplayWidth(e.nativeEvent.layout.width)}
         onPress={mark}
         accessibilityRole="button"
         accessibilityLabel="Photo of the calibration target: tap the first edge, then the second"

@@ -6,7 +6,7 @@ import type { RuleRun } from '../../../shared/vision/pipeline';
 import { AppError, notFound } from '../../lib/errors';
 import type { ImageUrlSigner } from '../../lib/image-urls';
 import type { ImageStore } from '../../lib/storage/image-store';
-import { decodePhoto, PhotoDecodeError } from '../../vision/decode';
+import { decodeUploadedPhoto } from '../../vision/decode-upload';
 import { evidencePng } from '../../vision/encode';
 import type { PipelineRunner } from '../../vision/runner';
 import type { AuditService } from '../audit/service';
@@ -138,13 +138,7 @@ export class InspectionsService {
     const rule = await this.dataSource.getRepository(RuleEntity).findOneByOrFail({ id: version.ruleId });
     lap('lookup');
 
-    let photo;
-    try {
-      photo = await decodePhoto(photoBytes);
-    } catch (err) {
-      if (err instanceof PhotoDecodeError) throw new AppError(err.status === 413 ? 'payload_too_large' : err.status === 415 ? 'unsupported_media' : 'bad_request', `The photo cannot be inspected: ${err.message}`, { code: err.code });
-      throw err;
-    }
+    const photo = await decodeUploadedPhoto(photoBytes);
     lap('decode');
     const run = await this.pool.run(version.document, photo, { mmPerPx: station.mmPerPx ?? undefined, retain: 'gauged' });
     lap('pipeline');

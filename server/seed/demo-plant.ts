@@ -224,4 +224,8 @@ export async function seedDemoPlant(services: Services, options: DemoPlantOption
     if (done % 500 === 0) log(`history: ${done}/${jobs.length} inspections`);
   });
   log(`history: ${jobs.length} inspections over ${days} days`);
+
+  // The alert check once, as the background job would: the drifting deburr cell raises its alerts.
+  const check = await services.alerts.check();
+  log(`alerts: ${check.raised} raised over ${check.series} rule and station series`);
 }

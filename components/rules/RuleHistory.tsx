@@ -20,8 +20,11 @@ import { VersionState } from './VersionState';
 
 const CHANGE_WORDS = { changed: '● changed', added: '+ added', removed: '− removed', same: '' } as const;
 
+// Date, time and time zone, so that a moment in the history reads the same wherever it is opened.
+const momentFormat = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeStyle: 'long' });
+
 function when(iso: string | null): string {
-  return iso ? new Date(iso).toLocaleString() : '—';
+  return iso ? momentFormat.format(new Date(iso)) : '—';
 }
 
 function percent(rate: number | null): string {

@@ -2,7 +2,7 @@ import type { JobQueue } from './lib/jobs';
 import type { Services } from './services';
 import { ALERT_CHECK_QUEUE } from './components/alerts/service';
 import { OUTBOX_QUEUE } from './components/mail/service';
-import { TRIAL_QUEUE } from './components/trials/service';
+import { TRIAL_QUEUE, TRIAL_RESUME_QUEUE } from './components/trials/service';
 
 /** Registers the background job handlers of this process. */
 export async function startWorkers(jobs: JobQueue, services: Services): Promise<void> {
@@ -17,6 +17,13 @@ export async function startWorkers(jobs: JobQueue, services: Services): Promise<
     await services.alerts.check();
   });
   await jobs.repeat(ALERT_CHECK_QUEUE, services.alerts.checkEveryMinutes);
+  // Trials whose worker stopped mid-way (killed, machine lost) go back on the queue: checked every
+  // minute by one worker, and at once when a worker starts (it may be the replacement).
+  await jobs.work(TRIAL_RESUME_QUEUE, async () => {
+    await services.trials.resumeAbandoned();
+  });
+  await jobs.repeat(TRIAL_RESUME_QUEUE, 1);
+  await services.trials.resumeAbandoned();
   // Mail left from before a restart.
   await services.mail.kick();
 }

@@ -44,6 +44,10 @@ export class TrialEntity {
   @Column({ type: 'integer', default: 0 })
   processed: number;
 
+  /** How many times a worker took the trial up; one that stops again and again is failed (MAX_TRIAL_ATTEMPTS). */
+  @Column({ type: 'integer', default: 0 })
+  attempts: number;
+
   /** Confusion matrix, rates with intervals, kappa: filled when the trial is done. */
   @Column({ type: 'jsonb', nullable: true })
   summary: Record<string, unknown> | null;

@@ -20,6 +20,24 @@ import { StationEntity } from '../stations/entities';
 import { TrialEntity, TrialResultEntity } from './entities';
 
 export const TRIAL_QUEUE = 'trial.run';
+/** Looks for trials whose worker stopped (every minute, on one worker; and when a worker starts). */
+export const TRIAL_RESUME_QUEUE = 'trial.resume';
+/** A trial taken up this many times without finishing is failed rather than tried for ever. */
+export const MAX_TRIAL_ATTEMPTS = 5;
+
+/**
+ * The advisory lock that says "a worker is running this trial": PostgreSQL holds it for the
+ * worker's connection and lets it go when that connection ends, so a worker that dies (killed, or
+ * its machine lost) releases its trials without saying so. 64 bits of an MD5 of the id keep
+ * different trials on different locks.
+ */
+const CLAIM_KEY = `('x' || substr(md5('kernwright.trial:' || $1), 1, 16))::bit(64)::bigint`;
+/** Seconds after which PostgreSQL probes a silent worker's connection, the probes' spacing, and how many go unanswered before it ends it. */
+const CLAIM_KEEPALIVE = { idle: 30, interval: 10, count: 3 };
+
+interface TrialClaim {
+  release(): Promise<void>;
+}
 type StartTrial = z.output<typeof startTrialRequestSchema>;
 type ListResults = z.output<typeof listTrialResultsQuerySchema>;
 
@@ -107,21 +125,84 @@ export class TrialsService {
     return this.get(trial.id);
   }
 
+  /** Claims the trial for this worker, or answers null when another live worker holds it. */
+  private async claim(trialId: string): Promise<TrialClaim | null> {
+    const connection = this.dataSource.createQueryRunner();
+    await connection.connect();
+    try {
+      // A machine that vanishes sends no goodbye: keepalive probes let PostgreSQL end its connection, and so its claims, within about a minute.
+      await connection.query(`set tcp_keepalives_idle = ${CLAIM_KEEPALIVE.idle}; set tcp_keepalives_interval = ${CLAIM_KEEPALIVE.interval}; set tcp_keepalives_count = ${CLAIM_KEEPALIVE.count}`);
+      const [{ claimed }] = await connection.query(`select pg_try_advisory_lock(${CLAIM_KEY}) as claimed`, [trialId]);
+      if (!claimed) {
+        await connection.release();
+        return null;
+      }
+    } catch (err) {
+      await connection.release();
+      throw err;
+    }
+    return {
+      async release() {
+        try {
+          await connection.query(`select pg_advisory_unlock(${CLAIM_KEY})`, [trialId]);
+        } finally {
+          await connection.release();
+        }
+      },
+    };
+  }
+
   /**
    * Runs (or resumes) a trial: every photo of the set not yet judged is run through the pool and its
-   * result stored once (the primary key makes a retried job count each photo once).
+   * result stored once (the primary key makes a retried job count each photo once). While it runs,
+   * the worker holds the trial's claim, so a second job for the same trial (a retry, a resume) leaves
+   * it alone, and a worker that dies lets it go for resumeAbandoned() to hand on.
    */
   async run(trialId: string): Promise<void> {
+    const claim = await this.claim(trialId);
+    if (!claim) return;
+    try {
+      await this.runClaimed(trialId);
+    } finally {
+      await claim.release();
+    }
+  }
+
+  /**
+   * Sends every trial that is marked running but claimed by no worker (its worker was killed, or its
+   * machine lost) back to the queue, where the next free worker resumes it. Answers how many.
+   */
+  async resumeAbandoned(): Promise<number> {
+    if (!this.jobs) return 0;
+    const running: { id: string }[] = await this.dataSource.query(`select id from trials where state = 'running' order by created_at`);
+    let resumed = 0;
+    for (const { id } of running) {
+      const claim = await this.claim(id);
+      if (!claim) continue;
+      await claim.release();
+      await this.jobs.send(TRIAL_QUEUE, { trialId: id });
+      resumed += 1;
+    }
+    return resumed;
+  }
+
+  private async runClaimed(trialId: string): Promise<void> {
     const repo = this.dataSource.getRepository(TrialEntity);
     const trial = await repo.findOneBy({ id: trialId });
     if (!trial || trial.state === 'done' || trial.state === 'failed') return;
+    if (trial.attempts >= MAX_TRIAL_ATTEMPTS) {
+      const error = `The trial stopped ${trial.attempts} times before it finished (its worker failed or was stopped each time); start a new trial`;
+      await repo.update({ id: trialId }, { state: 'failed', error, finishedAt: new Date() });
+      return;
+    }
     const version = await this.dataSource.getRepository(RuleVersionEntity).findOneByOrFail({ id: trial.ruleVersionId });
     if (version.contentHash !== trial.contentHash && version.state === 'draft') {
       // The draft changed while the trial waited: run the content the trial was started for is gone.
       await repo.update({ id: trialId }, { state: 'failed', error: 'The draft was edited before the trial ran; start a new trial', finishedAt: new Date() });
       return;
     }
-    await repo.update({ id: trialId }, { state: 'running' });
+    trial.attempts += 1;
+    await repo.update({ id: trialId }, { state: 'running', attempts: trial.attempts });
     const images = await this.dataSource.getRepository(ReferenceImageEntity).find({ where: { setId: trial.referenceSetId }, order: { createdAt: 'ASC', id: 'ASC' } });
     const done = new Set<string>((await this.dataSource.query('select image_id from trial_results where trial_id = $1', [trialId])).map((r: { image_id: string }) => r.image_id));
     try {

@@ -6,7 +6,8 @@ import { useLines } from '../../hooks/useStations';
 import { newIdempotencyKey } from '../../lib/idempotencyKey';
 import { readInspectChoice, saveInspectChoice, type InspectChoice } from '../../lib/inspectChoice';
 import { photoFromFile, pickPhoto, type PickedPhoto } from '../../lib/pickPhoto';
-import { space } from '../../lib/theme';
+import { ApiError } from '../../lib/api';
+import { colors, space } from '../../lib/theme';
 import type { Inspection } from '../../shared/api/inspections';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
@@ -41,6 +42,9 @@ export function InspectScreen() {
 
   const station = lines.data?.flatMap((line) => line.stations).find((s) => s.id === choice?.stationId && s.active);
   const rule = rules.data?.find((r) => r.id === choice?.ruleId);
+  // What this device remembered but can no longer use: a withdrawn rule, a station taken out of use.
+  const lostRule = Boolean(choice && rules.data && !rule);
+  const lostStation = Boolean(choice && lines.data && !station);
 
   const send = useCallback(
     (photo: PickedPhoto) => {
@@ -50,11 +54,15 @@ export function InspectScreen() {
         { photo: photo.blob, fileName: photo.fileName, stationId: station.id, ruleVersionId: rule.releasedVersion.id, idempotencyKey: newIdempotencyKey() },
         {
           onSuccess: (outcome) => setStep(outcome.kind === 'verdict' ? { kind: 'verdict', inspection: outcome.inspection, photo } : { kind: 'queued' }),
-          onError: () => setStep({ kind: 'ready' }),
+          onError: (error) => {
+            setStep({ kind: 'ready' });
+            // Refused as out of date (the version was withdrawn or replaced meanwhile): show what is released now.
+            if (error instanceof ApiError && error.status === 409) void Promise.all([rules.refetch(), lines.refetch()]);
+          },
         },
       );
     },
-    [inspect, rule, station],
+    [inspect, rule, station, rules, lines],
   );
 
   const photograph = async () => {
@@ -95,6 +103,18 @@ export function InspectScreen() {
     return (
       <Screen title="Inspect" subtitle="Choose your station and the released rule for the parts in front of you. This device remembers them." width="reading">
         {queueBanner}
+        {!choosing && (lostRule || lostStation) ? (
+          <Card style={styles.lost} role="alert">
+            <AppText variant="bodyStrong" tone="caution">
+              {lostRule ? '⚠ The rule this device remembered is no longer released' : '⚠ The station this device remembered is no longer in use'}
+            </AppText>
+            <AppText>
+              {lostRule
+                ? 'A supervisor withdrew it, so it no longer judges parts. Choose the released rule for the parts in front of you, or ask your supervisor which one to use.'
+                : 'Choose the station you are working at.'}
+            </AppText>
+          </Card>
+        ) : null}
         <StationRulePicker
           lines={lines.data}
           rules={rules.data}
@@ -200,4 +220,5 @@ const styles = StyleSheet.create({
   lower: { justifyContent: 'flex-end', gap: space.md },
   verdictActions: { gap: space.sm },
   bigAction: { minHeight: 64 },
+  lost: { gap: space.xs, borderLeftWidth: 4, borderLeftColor: colors.caution },
 });

@@ -18,9 +18,12 @@ interface StationRulePickerProps {
 
 /** The operator's station (grouped by line) and one released rule; both are needed before the first photo. */
 export function StationRulePicker({ lines, rules, initial, onChoose }: StationRulePickerProps) {
-  const [stationId, setStationId] = useState<string | null>(initial?.stationId ?? null);
-  const [ruleId, setRuleId] = useState<string | null>(initial?.ruleId ?? null);
   const activeLines = lines.map((line) => ({ ...line, stations: line.stations.filter((s) => s.active) })).filter((line) => line.stations.length > 0);
+  // A remembered choice counts only while it can still be used (a withdrawn rule or an idle station cannot).
+  const [stationId, setStationId] = useState<string | null>(() =>
+    activeLines.some((line) => line.stations.some((s) => s.id === initial?.stationId)) ? initial!.stationId : null,
+  );
+  const [ruleId, setRuleId] = useState<string | null>(() => (rules.some((r) => r.id === initial?.ruleId) ? initial!.ruleId : null));
   return (
     <Card style={styles.card}>
       <AppText variant="heading">Where are you inspecting?</AppText>

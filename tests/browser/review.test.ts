@@ -87,6 +87,7 @@ describe.each([
   let washerV2: string;
   let bracketV2: string;
   let gasketV1: string;
+  let gasketRuleId: string;
   let browser: BrowserContext;
   let page: Page;
   let errors: string[];
@@ -96,7 +97,9 @@ describe.each([
     washerV2 = await submittedVersion(w, 'washer', DEMO_RULES.washer.inReview, washerNote);
     const b = await releasedRule(bracket, 'bracket');
     bracketV2 = await submittedVersion(b, 'bracket', DEMO_RULES.bracket.inProgress, 'A median before the smoothing, against JPEG artefacts');
-    gasketV1 = (await releasedRule(gasket, 'gasket')).versionId;
+    const g = await releasedRule(gasket, 'gasket');
+    gasketV1 = g.versionId;
+    gasketRuleId = g.ruleId;
     browser = await launchBrowser(viewport);
     page = await browser.newPage();
     errors = watchErrors(page);
@@ -209,16 +212,25 @@ describe.each([
     expect(errors).toEqual(['Failed to load resource: the server responded with a status of 400 (Bad Request)']);
   });
 
-  test('the operator no longer finds the withdrawn version among the released rules', async () => {
+  test('an operator whose device remembered the withdrawn version is told so and chooses among the released rules', async () => {
     const operatorBrowser = await launchBrowser(viewport);
     try {
       const operator = await operatorBrowser.newPage();
+      const operatorErrors = watchErrors(operator);
       await signIn(operator, 'operator');
+      // This device last inspected with the gasket rule at its station, before the withdrawal.
+      const [station] = await product.db.dataSource.query(`select id from stations where name = $1`, [STATION_OF.gasket]);
+      await operator.evaluate((choice) => localStorage.setItem('kernwright.inspect.choice', choice), JSON.stringify({ stationId: station.id, ruleId: gasketRuleId }));
       await operator.goto(`${product.url}/inspect`);
+      await operator.getByRole('alert').getByText('⚠ The rule this device remembered is no longer released').waitFor();
       const rules = operator.getByRole('radiogroup', { name: 'Released rules' });
       await rules.getByRole('radio', { name: `${washer} · v2` }).waitFor();
       expect(await rules.getByRole('radio', { name: new RegExp(`^${gasket.replace(/[()]/g, '\\$&')}`) }).count()).toBe(0);
+      // The station is still remembered; no rule is ticked, so nothing can start with the withdrawn one.
+      expect(await operator.getByRole('radio', { name: STATION_OF.gasket }).textContent()).toBe(`✓ ${STATION_OF.gasket}`);
+      expect(await operator.getByRole('button', { name: 'Use this station and rule' }).isDisabled()).toBe(true);
       await screenshot(operator, `review-operator-choice-${widthName}`);
+      expect(operatorErrors).toEqual([]);
     } finally {
       await operatorBrowser.close();
     }

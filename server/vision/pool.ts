@@ -26,6 +26,13 @@ export interface PoolRunOptions {
    * (its samples are empty afterwards). Only a photo that owns its whole buffer is moved.
    */
   transferPhoto?: boolean;
+  /**
+   * Which images come back with the run: 'retained' (default: the input and the retained step
+   * outputs), 'when-failed' (only with a FAIL verdict, for its evidence image) or 'none'. Images
+   * left in the worker cost no copy and no move between threads; a run without them has an input
+   * of no samples and no step outputs.
+   */
+  images?: PipelineTask['images'];
 }
 
 /** Spare image buffers kept for the workers at most (20 MB each at 5 MP). */
@@ -78,7 +85,7 @@ export class VisionPool {
   async run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<RuleRun> {
     // A run hands back its input and its retained outputs; a few buffers per task spread them over the tasks queued.
     const spare = this.returned.splice(0, BUFFERS_PER_TASK);
-    const task: PipelineTask = { rule, photo, kernels: this.kernels, mmPerPx: options.mmPerPx, retain: options.retain, spare };
+    const task: PipelineTask = { rule, photo, kernels: this.kernels, mmPerPx: options.mmPerPx, retain: options.retain, images: options.images, spare };
     const transferList: ArrayBuffer[] = spare.map((b) => b.buffer as ArrayBuffer);
     if (options.transferPhoto && ownsWholeBuffer(photo.samples)) transferList.push(photo.samples.buffer as ArrayBuffer);
     const result = (await this.piscina.run(task, { transferList })) as PipelineTaskResult;

@@ -26,6 +26,8 @@ export interface PipelineTask {
   kernels: KernelDefinition[];
   mmPerPx?: number;
   retain?: RunOptions['retain'];
+  /** Images sent back with the run (see PoolRunOptions.images). */
+  images?: 'retained' | 'when-failed' | 'none';
   /** Buffers of runs the caller released, moved here for reuse. */
   spare?: Float32Array[];
 }
@@ -59,7 +61,9 @@ export default function runPipelineTask(task: PipelineTask): PipelineTaskResult 
       largeKernelCorrelator: fftCorrelate,
       workspace,
     });
-    return movingImageBuffers(inOrdinaryMemory(run));
+    const images = task.images ?? 'retained';
+    if (images === 'retained' || (images === 'when-failed' && run.verdict === 'FAIL')) return movingImageBuffers(inOrdinaryMemory(run));
+    return { ok: true, run: withoutImages(run) };
   } catch (e) {
     if (e instanceof RuleRunError) return { ok: false, error: { code: e.code, message: e.message, issues: e.issues } };
     throw e;
@@ -78,6 +82,14 @@ function inOrdinaryMemory(run: RuleRun): RuleRun {
     return createImage(image.width, image.height, buffer);
   };
   return { ...run, input: copyOut(run.input), steps: run.steps.map((s) => (s.output ? { ...s, output: copyOut(s.output) } : s)) };
+}
+
+/** The run's numbers only: its images stay in this thread's workspace for the next runs. */
+function withoutImages(run: RuleRun): RuleRun {
+  workspace.give(run.input);
+  for (const step of run.steps) if (step.output) workspace.give(step.output);
+  const input: Image = { width: run.input.width, height: run.input.height, data: new Float32Array(0) };
+  return { ...run, input, steps: run.steps.map((s) => ({ ...s, output: null })) };
 }
 
 /** The result, with the buffers of the input and of every retained step output in the transfer list. */

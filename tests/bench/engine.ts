@@ -384,7 +384,11 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
   return { label, pipeline, fullRun, photo };
 }
 
-async function benchPool(photo: RawPhoto, engine: EngineName, singleRun: Timing): Promise<void> {
+/**
+ * Two stations feeding a pool of two worker threads, against one thread. `images`: 'none' as a trial
+ * or the server's preview check needs (numbers only), 'retained' as an inspection with its evidence.
+ */
+async function benchPool(photo: RawPhoto, engine: EngineName, images: 'none' | 'retained', singleRun: Timing): Promise<void> {
   const kernels = await loadKernelLibrary();
   const threads = 2;
   const pool = new VisionPool({ kernels, threads, engine });
@@ -393,7 +397,7 @@ async function benchPool(photo: RawPhoto, engine: EngineName, singleRun: Timing)
   // images handed back once the verdict is in, so that workers reuse their buffers.
   const inspect = async () => {
     const fresh: RawPhoto = { ...photo, samples: photo.samples.slice() };
-    pool.release(await pool.run(STANDARD_RULE, fresh, { retain: 'gauged', transferPhoto: true }));
+    pool.release(await pool.run(STANDARD_RULE, fresh, { retain: 'gauged', transferPhoto: true, images }));
   };
   try {
     // Two stations at once, each sending its next photo when the previous verdict is back.
@@ -403,7 +407,7 @@ async function benchPool(photo: RawPhoto, engine: EngineName, singleRun: Timing)
     await stations(4);
     const rounds = await timeAsync(5, () => stations(tasks));
     const perImage = { best: rounds.best / tasks, median: rounds.median / tasks };
-    console.log(`\nworker pool, ${engine} engine (${threads} threads, ${os.cpus().length} cores, 5 MP whole rule runs, ${tasks} photos from ${threads} stations, 5 rounds)`);
+    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, 5 MP whole rule runs, ${tasks} photos from ${threads} stations, 5 rounds)`);
     console.log(`  ${(1000 / perImage.best).toFixed(1)} images/s; ${perImage.best.toFixed(1)} ms per image best, ${perImage.median.toFixed(1)} median`);
     console.log(`  CPU time of this process (all threads) ${(rounds.cpuBest / tasks).toFixed(1)} ms per image best (includes the main thread's photo copies)`);
     console.log(`  one thread, whole run in this process: ${singleRun.best.toFixed(1)} ms best, ${singleRun.median.toFixed(1)} median`);
@@ -475,7 +479,10 @@ async function main(): Promise<void> {
   }
   const fiveMp = results.find((r) => r.label === '5 MP');
   if (fiveMp) {
-    for (const engine of ENGINES) await benchPool(fiveMp.photo, engine, fiveMp.fullRun[engine]);
+    // Workers run from the TypeScript sources here (ts-node: larger heaps, so dearer collections, than the built server's).
+    await benchPool(fiveMp.photo, 'plain', 'retained', fiveMp.fullRun.plain);
+    await benchPool(fiveMp.photo, 'simd', 'retained', fiveMp.fullRun.simd);
+    await benchPool(fiveMp.photo, 'simd', 'none', fiveMp.fullRun.simd);
     await photoToVerdict(fiveMp.photo, runs);
   }
   const mem = process.memoryUsage();

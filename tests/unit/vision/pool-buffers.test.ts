@@ -57,3 +57,24 @@ test('runs after released runs (their buffers reused by the worker) give the sam
     expect(remote.input.data.length).toBe(40 * 30); // still the caller's until the next task moves it
   }
 }, 60_000);
+
+test('a run asked for no images brings back the same numbers and leaves its images in the worker', async () => {
+  const local = runRule(rule, discPhoto(), { kernels });
+  for (let i = 0; i < 3; i++) {
+    const remote = await pool.run(rule, discPhoto(), { images: 'none' });
+    expect(remote.verdict).toBe(local.verdict);
+    expect(remote.measurements).toEqual(local.measurements);
+    expect(remote.input.data.length).toBe(0);
+    expect(remote.steps.every((s) => s.output === null)).toBe(true);
+  }
+});
+
+test('images when failed: a failing run brings its images for the evidence, a passing one none', async () => {
+  const failing = { ...rule, gauges: [{ name: 'edges', measure: 'edge-fraction', limits: { max: 0.001 } }] };
+  const failed = await pool.run(failing, discPhoto(), { images: 'when-failed' });
+  expect(failed.verdict).toBe('FAIL');
+  expect(Array.from(failed.input.data)).toEqual(Array.from(runRule(failing, discPhoto(), { kernels }).input.data));
+  const passed = await pool.run(rule, discPhoto(), { images: 'when-failed' });
+  expect(passed.verdict).toBe('PASS');
+  expect(passed.input.data.length).toBe(0);
+});

@@ -3,6 +3,7 @@ import { loadKernelLibrary } from '../../../server/vision/kernel-library';
 import { VisionPool } from '../../../server/vision/pool';
 import type { RawPhoto } from '../../../shared/vision/image';
 import { RuleRunError, runRule } from '../../../shared/vision/pipeline';
+import { onEngine } from './engines';
 
 const photo: RawPhoto = (() => {
   const w = 64;
@@ -62,4 +63,16 @@ test('a rule that cannot run rejects with RuleRunError and its code', async () =
     code: 'unknown_kernel',
   });
   await expect(pool.run(rule, photo)).rejects.toBeInstanceOf(RuleRunError);
+}, 60_000);
+
+test('workers given the plain engine compute what the plain engine computes here, bit for bit', async () => {
+  const plainPool = new VisionPool({ kernels, threads: 1, engine: 'plain' });
+  try {
+    const local = onEngine('plain', () => runRule(rule, photo, { kernels, mmPerPx: 0.05 }));
+    const remote = await plainPool.run(rule, photo, { mmPerPx: 0.05 });
+    expect(remote.measurements).toEqual(local.measurements);
+    remote.steps.forEach((s, i) => expect(Array.from(s.output!.data)).toEqual(Array.from(local.steps[i].output!.data)));
+  } finally {
+    await plainPool.destroy();
+  }
 }, 60_000);

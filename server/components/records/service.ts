@@ -128,7 +128,10 @@ export class RecordsService {
     const version = await this.rules.version(inspection.ruleVersionId);
     const [row] = await this.dataSource.query('select image_hash, evidence_hash from inspections where id = $1', [id]);
     if (!row) throw notFound('The inspection');
-    const pdf = await inspectionReport(inspection, version, await this.store.get(row.image_hash), row.evidence_hash ? await this.store.get(row.evidence_hash) : null);
+    const pdf = await inspectionReport(inspection, version, await this.store.get(row.image_hash), row.evidence_hash ? await this.store.get(row.evidence_hash) : null, {
+      name: actor.displayName,
+      at: new Date(),
+    });
     await this.audit.recordAlone({ actor: actorOf(actor), action: 'export.inspection-pdf', entityType: 'inspection', entityId: id });
     return pdf;
   }
@@ -136,7 +139,7 @@ export class RecordsService {
   async ruleVersionPdf(actor: UserEntity, versionId: string): Promise<Buffer> {
     const version = await this.rules.version(versionId);
     const trialId = version.submittedTrialId ?? (await this.trials.listForVersion(versionId)).find((t) => t.state === 'done')?.id ?? null;
-    const pdf = await ruleVersionReport(version, trialId ? await this.trials.get(trialId) : null, await this.kernels.library());
+    const pdf = await ruleVersionReport(version, trialId ? await this.trials.get(trialId) : null, await this.kernels.library(), { name: actor.displayName, at: new Date() });
     await this.audit.recordAlone({ actor: actorOf(actor), action: 'export.rule-version-pdf', entityType: 'rule-version', entityId: versionId });
     return pdf;
   }

@@ -10,7 +10,7 @@ import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { Card } from '../Card';
 import { Pagination } from '../Pagination';
-import { VersionState } from '../rules/VersionState';
+import { VersionStateLabel } from '../review/VersionStateLabel';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
@@ -26,8 +26,14 @@ function RuleLine({ rule }: { rule: RuleSummary }) {
           <AppText variant="caption" tone="muted">{`${rule.latestVersion.number} version${rule.latestVersion.number === 1 ? '' : 's'} · ${rule.partType} · created by ${rule.createdBy.name}`}</AppText>
         </View>
         <View style={styles.states}>
-          {rule.releasedVersion ? <VersionState state={rule.releasedVersion.state} number={rule.releasedVersion.number} /> : null}
-          {rule.releasedVersion?.id !== rule.latestVersion.id ? <VersionState state={rule.latestVersion.state} number={rule.latestVersion.number} /> : null}
+          {[rule.releasedVersion, rule.releasedVersion?.id === rule.latestVersion.id ? null : rule.latestVersion].map((v) =>
+            v ? (
+              <View key={v.id} style={styles.state}>
+                <AppText variant="label">{`v${v.number}`}</AppText>
+                <VersionStateLabel state={v.state} />
+              </View>
+            ) : null,
+          )}
         </View>
       </Pressable>
     </Link>
@@ -73,5 +79,6 @@ const styles = StyleSheet.create({
   list: { gap: space.xs },
   row: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, minHeight: minTouchTarget, paddingVertical: space.sm, paddingHorizontal: space.sm, borderRadius: radius.md, borderBottomWidth: 1, borderBottomColor: colors.line },
   main: { flex: 1, minWidth: 200, gap: space.xxs },
-  states: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
+  states: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  state: { flexDirection: 'row', alignItems: 'center', gap: space.xs },
 });

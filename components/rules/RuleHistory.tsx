@@ -14,11 +14,12 @@ import { Button } from '../Button';
 import { Card } from '../Card';
 import { ExportButton } from '../records/ExportButton';
 import { SignatureList } from '../review/SignatureList';
+import { VersionStateLabel } from '../review/VersionStateLabel';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
-import { VersionState } from './VersionState';
 
-const CHANGE_WORDS = { changed: '● changed', added: '+ added', removed: '− removed', same: '' } as const;
+// Symbols the shipped font has, so that they print the same everywhere.
+const CHANGE_WORDS = { changed: '• changed', added: '+ added', removed: '− removed', same: '' } as const;
 
 // Date, time and time zone, so that a moment in the history reads the same wherever it is opened.
 const momentFormat = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeStyle: 'long' });
@@ -75,7 +76,7 @@ function Changes({ version }: { version: RuleHistoryVersion }) {
 }
 
 function TrialLine({ trial }: { trial: RuleHistoryTrial }) {
-  const marks = [trial.submitted ? '★ submitted with this version' : '', trial.onCurrentContent ? '' : '↺ ran on earlier content of the draft'].filter(Boolean).join(' · ');
+  const marks = [trial.submitted ? '✓ submitted with this version' : '', trial.onCurrentContent ? '' : '↺ ran on earlier content of the draft'].filter(Boolean).join(' · ');
   return (
     <View role="listitem" style={styles.item}>
       <AppText variant="label">{`“${trial.referenceSetName}” · ${trial.state === 'done' ? `finished ${when(trial.finishedAt)}` : trial.state} · started by ${trial.startedBy.name}`}</AppText>
@@ -121,9 +122,9 @@ function VersionCard({ version, open, canPrint, focused }: { version: RuleHistor
     <Card style={[styles.card, focused && styles.focused]}>
       <View style={styles.header}>
         <AppText variant="heading">{`Version ${version.number}`}</AppText>
-        <VersionState state={version.state} />
+        <VersionStateLabel state={version.state} />
       </View>
-      {focused ? <AppText tone="notice" variant="label">▸ The version the inspection you came from was judged with.</AppText> : null}
+      {focused ? <AppText tone="notice" variant="label">→ The version the inspection you came from was judged with.</AppText> : null}
       <AppText>{facts.join(' · ')}</AppText>
       {version.authorNote ? <AppText>{`Author’s note: “${version.authorNote}”`}</AppText> : null}
       {version.reviewNote ? <AppText>{`Review note: “${version.reviewNote}”`}</AppText> : null}

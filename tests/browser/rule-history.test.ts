@@ -96,7 +96,7 @@ test.each([
     // From an inspection record straight to the version it was judged with.
     await page.goto(`${product.url}/records/${inspectionId}`);
     await page.getByRole('link', { name: /^History of Plate bright spots, opened at version 1/ }).click();
-    await page.getByText('▸ The version the inspection you came from was judged with.').waitFor();
+    await page.getByText('→ The version the inspection you came from was judged with.').waitFor();
     await page.getByRole('list', { name: 'Events of version 1' }).waitFor();
     await screenshot(page, `rule-history-from-record-${name}`);
     expect(errors).toEqual([]);

@@ -44,6 +44,28 @@ import { lineSchema, stationSchema, type Line, type Station } from '../shared/ap
 import { sweepSchema, trialResultSchema, trialSchema, type Sweep, type Trial, type TrialResult } from '../shared/api/trials';
 import { recordPageSchema, type RecordPage } from '../shared/api/records';
 import { ruleHistorySchema, type RuleHistory } from '../shared/api/rule-history';
+import { paretoSchema, pChartSchema, trendChoicesSchema, type Pareto, type PChart, type PChartQuery, type TrendChoices, type TrendFilters } from '../shared/api/trends';
+import {
+  alertLimitListSchema,
+  alertLimitSchema,
+  alertPageSchema,
+  alertSchema,
+  alertSubscriptionSchema,
+  type Alert,
+  type AlertLimit,
+  type AlertPage,
+  type AlertSubscription,
+  type CreateAlertLimit,
+} from '../shared/api/alerts';
+import {
+  attributeAgreementSchema,
+  repeatabilityStudyListSchema,
+  repeatabilityStudySchema,
+  type AttributeAgreement,
+  type AttributeAgreementQuery,
+  type CreateRepeatabilityStudy,
+  type RepeatabilityStudy,
+} from '../shared/api/studies';
 import { chainVerificationSchema, type ChainVerificationResult } from '../shared/api/audit';
 import { currentToken, endSession } from './session';
 
@@ -390,6 +412,15 @@ export interface PhotoUploadOptions {
   onProgress?: (sent: number) => void;
 }
 
+/** Adds photos to a multipart body as field "photos". */
+function appendPhotos(form: FormData, photos: UploadablePhoto[]): void {
+  for (const photo of photos) {
+    if ('blob' in photo) form.append('photos', photo.blob, photo.name);
+    // React Native's FormData takes a { uri, name, type } object for a file on the device.
+    else form.append('photos', { uri: photo.uri, name: photo.name, type: photo.type } as unknown as Blob);
+  }
+}
+
 /**
  * Sends photos as multipart field "photos" through XMLHttpRequest, the one browser and React
  * Native transport that reports upload progress.
@@ -398,11 +429,7 @@ export function uploadReferencePhotos(setId: string, photos: UploadablePhoto[], 
   const form = new FormData();
   if (options.label) form.append('label', options.label);
   if (options.defectKind) form.append('defectKind', options.defectKind);
-  for (const photo of photos) {
-    if ('blob' in photo) form.append('photos', photo.blob, photo.name);
-    // React Native's FormData takes a { uri, name, type } object for a file on the device.
-    else form.append('photos', { uri: photo.uri, name: photo.name, type: photo.type } as unknown as Blob);
-  }
+  appendPhotos(form, photos);
   return sendForm(`/api/reference-sets/${encodeURIComponent(setId)}/images`, form, uploadResultSchema, options.onProgress).then((result) => {
     options.onProgress?.(1);
     return result.outcomes;
@@ -533,7 +560,12 @@ export function getLimitSweep(trialId: string, gauge: string, bound: 'min' | 'ma
 export interface RecordQuery {
   from?: string;
   to?: string;
+  lineId?: string;
   stationId?: string;
+  ruleId?: string;
+  partType?: string;
+  /** The failing gauge or cause stored on the inspection (a Pareto bar). */
+  cause?: string;
   verdict?: 'PASS' | 'FAIL' | 'RETAKE';
   disputed?: 'true' | 'false';
   after?: string;
@@ -546,6 +578,69 @@ export function listRecords(query: RecordQuery, signal?: AbortSignal): Promise<R
 
 export function verifyAuditTrail(signal?: AbortSignal): Promise<ChainVerificationResult> {
   return request('/api/audit-events/verify', { schema: chainVerificationSchema, signal });
+}
+
+// Trends: p-charts, causes and alerts (supervisors act on them; engineers and auditors may read)
+
+export function fetchTrendChoices(signal?: AbortSignal): Promise<TrendChoices> {
+  return request('/api/trends/choices', { schema: trendChoicesSchema, signal });
+}
+
+export function fetchPChart(query: PChartQuery, signal?: AbortSignal): Promise<PChart> {
+  return request('/api/trends/p-chart', { query: { ...query }, schema: pChartSchema, signal });
+}
+
+export function fetchPareto(filters: TrendFilters, signal?: AbortSignal): Promise<Pareto> {
+  return request('/api/trends/pareto', { query: { ...filters }, schema: paretoSchema, signal });
+}
+
+export function listAlerts(query: { state: 'open' | 'acknowledged' | 'all'; after?: string; limit: number }, signal?: AbortSignal): Promise<AlertPage> {
+  return request('/api/alerts', { query: { ...query }, schema: alertPageSchema, signal });
+}
+
+export function acknowledgeAlert(id: string, note: string): Promise<Alert> {
+  return request(`/api/alerts/${encodeURIComponent(id)}/acknowledge`, { method: 'POST', body: { note }, schema: alertSchema });
+}
+
+export async function listAlertLimits(signal?: AbortSignal): Promise<AlertLimit[]> {
+  return (await request('/api/alert-limits', { schema: alertLimitListSchema, signal })).items;
+}
+
+export function createAlertLimit(body: CreateAlertLimit): Promise<AlertLimit> {
+  return request('/api/alert-limits', { method: 'POST', body, schema: alertLimitSchema });
+}
+
+export function deleteAlertLimit(id: string): Promise<void> {
+  return request<void>(`/api/alert-limits/${encodeURIComponent(id)}`, { method: 'DELETE' });
+}
+
+export function fetchAlertSubscription(signal?: AbortSignal): Promise<AlertSubscription> {
+  return request('/api/alerts/subscription', { schema: alertSubscriptionSchema, signal });
+}
+
+export function setAlertSubscription(subscribed: boolean): Promise<AlertSubscription> {
+  return request('/api/alerts/subscription', { method: 'PUT', body: { subscribed }, schema: alertSubscriptionSchema });
+}
+
+// Agreement studies (measurement system analysis)
+
+/** Sends 2..50 photos of one part with the study's fields as multipart form data. */
+export function createRepeatabilityStudy(fields: CreateRepeatabilityStudy, photos: UploadablePhoto[], onProgress?: (sent: number) => void): Promise<RepeatabilityStudy> {
+  const form = new FormData();
+  form.append('ruleVersionId', fields.ruleVersionId);
+  form.append('stationId', fields.stationId);
+  form.append('partLabel', fields.partLabel);
+  form.append('knownLabel', fields.knownLabel);
+  appendPhotos(form, photos);
+  return sendForm('/api/studies/repeatability', form, repeatabilityStudySchema, onProgress);
+}
+
+export async function listRepeatabilityStudies(signal?: AbortSignal): Promise<RepeatabilityStudy[]> {
+  return (await request('/api/studies/repeatability', { schema: repeatabilityStudyListSchema, signal })).items;
+}
+
+export function fetchAttributeAgreement(query: AttributeAgreementQuery, signal?: AbortSignal): Promise<AttributeAgreement> {
+  return request('/api/studies/attribute-agreement', { query: { ...query }, schema: attributeAgreementSchema, signal });
 }
 
 /**

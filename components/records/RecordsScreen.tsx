@@ -1,9 +1,10 @@
-import { Link, useRouter } from 'expo-router';
+import { Link, useLocalSearchParams, useRouter } from 'expo-router';
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
 import { useRecordPages, type RecordFilterValues } from '../../hooks/useRecords';
 import { useSession } from '../../hooks/useSession';
+import { useRule } from '../../hooks/useRules';
 import { useLines } from '../../hooks/useStations';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import type { RecordRow } from '../../shared/api/records';
@@ -29,6 +30,57 @@ function dayAfter(text: string): string | undefined {
   return start ? new Date(Date.parse(start) + 86_400_000).toISOString() : undefined;
 }
 
+/** Filters a link brings in the address (a chart point, a cause, an alert): /records?from=…&cause=…. */
+type LinkParams = Partial<Record<'from' | 'to' | 'lineId' | 'stationId' | 'ruleId' | 'verdict' | 'partType' | 'cause', string>>;
+/** Those without a control of their own on this screen, shown as one line that can be cleared. */
+type LinkedFilters = Pick<RecordFilterValues, 'from' | 'to' | 'lineId' | 'ruleId' | 'partType' | 'cause'>;
+
+const isIsoTime = (text: string | undefined): text is string => !!text && /^\d{4}-\d{2}-\d{2}T/.test(text) && !Number.isNaN(Date.parse(text));
+const isMidnight = (iso: string) => iso.slice(11, 19) === '00:00:00';
+
+/** Whole days from the link fill the date fields; other bounds (a shift) stay exact, as a linked filter. */
+function initialFilters(params: LinkParams) {
+  const verdicts: readonly string[] = ['PASS', 'FAIL', 'RETAKE'];
+  const fromIso = isIsoTime(params.from) ? new Date(params.from).toISOString() : undefined;
+  const toIso = isIsoTime(params.to) ? new Date(params.to).toISOString() : undefined;
+  const wholeDays = (!fromIso || isMidnight(fromIso)) && (!toIso || isMidnight(toIso));
+  const linked: LinkedFilters = { lineId: params.lineId, ruleId: params.ruleId, partType: params.partType, cause: params.cause };
+  if (!wholeDays) Object.assign(linked, { from: fromIso, to: toIso });
+  return {
+    verdict: params.verdict && verdicts.includes(params.verdict) ? (params.verdict as Verdict) : null,
+    stationId: params.stationId ?? null,
+    from: wholeDays && fromIso ? fromIso.slice(0, 10) : '',
+    to: wholeDays && toIso ? new Date(Date.parse(toIso) - 86_400_000).toISOString().slice(0, 10) : '',
+    linked,
+  };
+}
+
+function RuleNameText({ id }: { id: string }) {
+  const rule = useRule(id);
+  return <>{rule.data ? `rule ${rule.data.name}` : 'one rule'}</>;
+}
+
+function LinkedFiltersNote({ linked, lineName, onClear }: { linked: LinkedFilters; lineName: string | undefined; onClear: () => void }) {
+  const time = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
+  const parts = [
+    linked.lineId ? (lineName ?? 'one line') : null,
+    linked.partType ? `part type ${linked.partType}` : null,
+    linked.cause ? `cause “${linked.cause}”` : null,
+    linked.from || linked.to ? `${linked.from ? time(linked.from) : '…'} to ${linked.to ? time(linked.to) : '…'}` : null,
+  ].filter(Boolean);
+  return (
+    <View style={styles.linked}>
+      <AppText style={styles.linkedText}>
+        {'Also filtered by the link you followed: '}
+        {linked.ruleId ? <RuleNameText id={linked.ruleId} /> : null}
+        {linked.ruleId && parts.length > 0 ? ', ' : ''}
+        {parts.join(', ')}
+      </AppText>
+      <Button label="Clear these" variant="quiet" compact accessibilityLabel="Clear the filters from the link" onPress={onClear} />
+    </View>
+  );
+}
+
 function RecordLine({ row, phone }: { row: RecordRow; phone: boolean }) {
   const when = new Date(row.createdAt);
   return (
@@ -50,22 +102,46 @@ function RecordLine({ row, phone }: { row: RecordRow; phone: boolean }) {
   );
 }
 
-/** Inspection records: filters, keyset pages, CSV export, and the audit trail's verification. */
+/** Inspection records: filters (first taken from the address), keyset pages, CSV export, and the audit trail's verification. */
 export function RecordsScreen() {
+  const params = useLocalSearchParams<LinkParams>();
+  // A new link while the screen is open starts again from its filters.
+  return <RecordsList key={JSON.stringify(params)} params={params} />;
+}
+
+function RecordsList({ params }: { params: LinkParams }) {
   const router = useRouter();
   const phone = useLayout() === 'phone';
   const { user } = useSession();
   const readsTrail = !!user?.roles.some((r) => r === 'auditor' || r === 'admin');
   const lines = useLines();
-  const [verdict, setVerdict] = useState<Verdict | null>(null);
-  const [stationId, setStationId] = useState<string | null>(null);
+  const [initial] = useState(() => initialFilters(params));
+  const [verdict, setVerdict] = useState<Verdict | null>(initial.verdict);
+  const [stationId, setStationId] = useState<string | null>(initial.stationId);
   const [disputed, setDisputed] = useState<boolean | null>(null);
-  const [from, setFrom] = useState('');
-  const [to, setTo] = useState('');
+  const [from, setFrom] = useState(initial.from);
+  const [to, setTo] = useState(initial.to);
+  const [linked, setLinked] = useState<LinkedFilters>(initial.linked);
   const filters: RecordFilterValues = useMemo(
-    () => ({ verdict: verdict ?? undefined, stationId: stationId ?? undefined, disputed: disputed === null ? undefined : disputed ? 'true' : 'false', from: dayStart(from), to: dayAfter(to) }),
-    [verdict, stationId, disputed, from, to],
+    () => ({
+      verdict: verdict ?? undefined,
+      stationId: stationId ?? undefined,
+      disputed: disputed === null ? undefined : disputed ? 'true' : 'false',
+      from: linked.from ?? dayStart(from),
+      to: linked.to ?? dayAfter(to),
+      lineId: linked.lineId,
+      ruleId: linked.ruleId,
+      partType: linked.partType,
+      cause: linked.cause,
+    }),
+    [verdict, stationId, disputed, from, to, linked],
   );
+  const hasLinked = Object.values(linked).some(Boolean);
+  // Typing a date replaces the exact bounds a link brought.
+  const typeDate = (set: (text: string) => void) => (text: string) => {
+    set(text);
+    setLinked((l) => ({ ...l, from: undefined, to: undefined }));
+  };
   const pages = useRecordPages(filters);
   const rows = pages.data?.pages.flatMap((p) => p.items) ?? [];
   const stations = (lines.data ?? []).flatMap((l) => l.stations.map((s) => ({ value: s.id, label: `${s.name}` })));
@@ -97,9 +173,10 @@ export function RecordsScreen() {
         {stations.length > 0 ? <ChoiceChips<string | null> label="Station" value={stationId} onChange={setStationId} choices={[{ value: null, label: 'All' }, ...stations]} /> : null}
         <ChoiceChips<boolean | null> label="Disputed" value={disputed} onChange={setDisputed} choices={[{ value: null, label: 'Either' }, { value: true, label: 'Disputed' }, { value: false, label: 'Not disputed' }]} />
         <View style={[styles.dates, phone && styles.datesPhone]}>
-          <TextField label="From (YYYY-MM-DD, UTC)" value={from} onChangeText={setFrom} placeholder="2026-11-01" autoCapitalize="none" />
-          <TextField label="To (inclusive)" value={to} onChangeText={setTo} placeholder="2026-11-30" autoCapitalize="none" />
+          <TextField label="From (YYYY-MM-DD, UTC)" value={from} onChangeText={typeDate(setFrom)} placeholder="2026-11-01" autoCapitalize="none" />
+          <TextField label="To (inclusive)" value={to} onChangeText={typeDate(setTo)} placeholder="2026-11-30" autoCapitalize="none" />
         </View>
+        {hasLinked ? <LinkedFiltersNote linked={linked} lineName={lines.data?.find((l) => l.id === linked.lineId)?.name} onClear={() => setLinked({})} /> : null}
       </Card>
 
       {pages.isPending ? (
@@ -132,4 +209,6 @@ const styles = StyleSheet.create({
   rowPhone: { flexWrap: 'wrap' },
   cellMain: { flex: 1, minWidth: 180, gap: space.xxs },
   cellSide: { alignItems: 'flex-end', gap: space.xxs },
+  linked: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm, padding: space.sm, borderRadius: radius.md, backgroundColor: colors.steelTint },
+  linkedText: { flexGrow: 1, flexShrink: 1, flexBasis: 220 },
 });

@@ -1,5 +1,10 @@
-import { AreaEmptyScreen } from '../../../components/AreaEmptyScreen';
+import { AreaGate } from '../../../components/AreaGate';
+import { TrendsArea } from '../../../components/trends/TrendsArea';
 
 export default function TrendsRoute() {
-  return <AreaEmptyScreen area="trends" />;
+  return (
+    <AreaGate area="trends">
+      <TrendsArea />
+    </AreaGate>
+  );
 }

@@ -1,0 +1,91 @@
+import { useEffect, useState } from 'react';
+import { useCreateAlertLimit } from '../../hooks/useAlerts';
+import { ApiError } from '../../lib/api';
+import { createAlertLimitSchema } from '../../shared/api/alerts';
+import type { TrendChoices } from '../../shared/api/trends';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { ChoiceChips } from '../ChoiceChips';
+import { Dialog } from '../Dialog';
+import { ErrorBanner } from '../ErrorBanner';
+import { TextField } from '../TextField';
+
+interface AddLimitDialogProps {
+  visible: boolean;
+  choices: TrendChoices;
+  onClose: () => void;
+}
+
+/** A new defect-fraction limit: which rule, at which station (or all), and the share failed per day that raises an alert. */
+export function AddLimitDialog({ visible, choices, onClose }: AddLimitDialogProps) {
+  const create = useCreateAlertLimit();
+  const [ruleId, setRuleId] = useState<string | null>(null);
+  const [stationId, setStationId] = useState<string | null>(null);
+  const [percentText, setPercentText] = useState('');
+  const [problems, setProblems] = useState<Record<string, string>>({});
+  useEffect(() => {
+    if (!visible) {
+      setRuleId(null);
+      setStationId(null);
+      setPercentText('');
+      setProblems({});
+      create.reset();
+    }
+  }, [visible]); // eslint-disable-line react-hooks/exhaustive-deps -- only when the dialog opens or closes
+
+  const stations = choices.lines.flatMap((l) => l.stations.map((s) => ({ value: s.id as string | null, label: `${s.name} (${l.name})` })));
+  const serverIssues = create.error instanceof ApiError ? Object.fromEntries(create.error.fieldIssues.map((i) => [i.path, i.message])) : {};
+
+  const submit = () => {
+    const percentValue = Number(percentText.replace(',', '.').replace('%', '').trim());
+    const parsed = createAlertLimitSchema.safeParse({
+      ruleId: ruleId ?? undefined,
+      stationId,
+      maxDefectFraction: percentText.trim() === '' || Number.isNaN(percentValue) ? undefined : percentValue / 100,
+    });
+    if (!parsed.success) {
+      const found: Record<string, string> = {};
+      for (const issue of parsed.error.issues) found[String(issue.path[0])] ??= issue.message;
+      if (found.ruleId) found.ruleId = 'Choose the rule the limit watches.';
+      if (found.maxDefectFraction && (percentText.trim() === '' || Number.isNaN(percentValue))) found.maxDefectFraction = 'Type a percentage, e.g. 8 for 8 %.';
+      setProblems(found);
+      return;
+    }
+    setProblems({});
+    create.mutate(parsed.data, { onSuccess: onClose });
+  };
+
+  const fractionProblem = problems.maxDefectFraction ?? serverIssues.maxDefectFraction;
+  return (
+    <Dialog
+      visible={visible}
+      title="Add an alert limit"
+      onClose={onClose}
+      actions={
+        <>
+          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={create.isPending} />
+          <Button label="Add limit" onPress={submit} busy={create.isPending} />
+        </>
+      }
+    >
+      <AppText>An alert is raised when a day’s share of failed parts for the rule passes the limit. Set it from the process’s usual rate and the plant’s quality procedures.</AppText>
+      <ChoiceChips<string | null> label="Rule" value={ruleId} onChange={setRuleId} choices={choices.rules.map((r) => ({ value: r.id, label: r.name }))} />
+      {problems.ruleId || serverIssues.ruleId ? (
+        <AppText variant="caption" tone="danger" accessibilityRole="alert">{`⚠ ${problems.ruleId ?? serverIssues.ruleId}`}</AppText>
+      ) : null}
+      <ChoiceChips<string | null> label="Station" value={stationId} onChange={setStationId} choices={[{ value: null, label: 'Every station' }, ...stations]} />
+      <TextField
+        label="Alert above this share failed per day (%)"
+        value={percentText}
+        onChangeText={(text) => {
+          setPercentText(text);
+          setProblems((p) => ({ ...p, maxDefectFraction: '' }));
+        }}
+        keyboardType="decimal-pad"
+        placeholder="8"
+        error={fractionProblem ? fractionProblem : undefined}
+      />
+      {create.isError && Object.keys(serverIssues).length === 0 ? <ErrorBanner error={create.error} /> : null}
+    </Dialog>
+  );
+}

@@ -1,0 +1,84 @@
+// Failures per cause as bars, largest first, with the cumulative share as a line: the left axis counts
+// failures up to the total, the right axis reads the same height as 0–100 %, so the line ends at the top.
+import { useState } from 'react';
+import { StyleSheet, View, type LayoutChangeEvent } from 'react-native';
+import { BarChart, type barDataItem, type lineDataItem } from 'react-native-gifted-charts';
+import { colors, fonts } from '../../lib/theme';
+import type { Pareto } from '../../shared/api/trends';
+import { CHART_LOOK } from './chartLook';
+
+interface ParetoPlotProps {
+  pareto: Pareto;
+  phone: boolean;
+  onOpenCause: (cause: string) => void;
+}
+
+const HEIGHT = 200;
+const Y_LABEL_WIDTH = 48;
+const SECTIONS = 4;
+
+function shorten(text: string, room: number): string {
+  const chars = Math.max(4, Math.floor(room / 7));
+  return text.length <= chars ? text : `${text.slice(0, chars - 1)}…`;
+}
+
+export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
+  const [width, setWidth] = useState(0);
+  const onLayout = (event: LayoutChangeEvent) => setWidth(Math.floor(event.nativeEvent.layout.width));
+  const bars = pareto.bars;
+  const plotWidth = Math.max(0, width - 2 * Y_LABEL_WIDTH - 8);
+  // A bar at least a touch target wide on a phone (the chart scrolls when causes are many).
+  const barWidth = phone ? 44 : Math.max(24, Math.min(56, Math.floor((plotWidth / Math.max(bars.length, 1)) * 0.6)));
+  const spacing = Math.max(12, Math.round(barWidth * 0.5));
+  const total = Math.max(pareto.totalFailures, 1);
+
+  const barData: barDataItem[] = bars.map((bar) => ({
+    value: bar.count,
+    label: shorten(bar.cause, barWidth + spacing),
+    frontColor: CHART_LOOK.share.colour,
+    onPress: () => onOpenCause(bar.cause),
+  }));
+  const lineData: lineDataItem[] = bars.map((bar) => ({ value: bar.cumulative * total }));
+  const summary = `Causes of failure, largest first: ${bars
+    .slice(0, 5)
+    .map((b) => `${b.cause} ${b.count}`)
+    .join(', ')}${bars.length > 5 ? ', and more' : ''}. The list below has every cause.`;
+
+  return (
+    <View onLayout={onLayout} style={styles.frame} role="img" aria-label={summary}>
+      {width > 0 ? (
+        <BarChart
+          data={barData}
+          height={HEIGHT}
+          width={plotWidth}
+          barWidth={barWidth}
+          spacing={spacing}
+          initialSpacing={spacing}
+          endSpacing={spacing}
+          maxValue={total}
+          noOfSections={SECTIONS}
+          formatYLabel={(label: string) => String(Math.round(Number(label)))}
+          yAxisLabelWidth={Y_LABEL_WIDTH}
+          yAxisTextStyle={styles.axisText}
+          xAxisLabelTextStyle={[styles.axisText, { width: barWidth + spacing }]}
+          labelWidth={barWidth + spacing}
+          xAxisColor={CHART_LOOK.axis}
+          yAxisColor={CHART_LOOK.axis}
+          rulesColor={CHART_LOOK.rules}
+          rulesType="solid"
+          showLine
+          lineData={lineData}
+          lineConfig={{ color: CHART_LOOK.centre.colour, thickness: 2, dataPointsColor: CHART_LOOK.centre.colour, dataPointsRadius: 4 }}
+          secondaryYAxis={{ maxValue: 100, noOfSections: SECTIONS, formatYLabel: (label: string) => `${Math.round(Number(label))} %`, yAxisTextStyle: styles.axisText, yAxisColor: CHART_LOOK.axis, yAxisLabelWidth: Y_LABEL_WIDTH }}
+          showScrollIndicator={phone}
+          nestedScrollEnabled
+        />
+      ) : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  frame: { width: '100%', minHeight: HEIGHT + 48, backgroundColor: colors.surface },
+  axisText: { fontFamily: fonts.regular, fontSize: 11, color: colors.inkMuted, textAlign: 'center' },
+});

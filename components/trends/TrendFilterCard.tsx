@@ -1,0 +1,105 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { usePartTypes } from '../../hooks/useReferenceSets';
+import { space } from '../../lib/theme';
+import type { RunRuleSet, TrendBucket, TrendChoices } from '../../shared/api/trends';
+import { AppText } from '../AppText';
+import { Button } from '../Button';
+import { Card } from '../Card';
+import { ChoiceChips } from '../ChoiceChips';
+import { TextField } from '../TextField';
+import { describeTrendFilters, type TrendFilterValues } from './trendFilters';
+import { rangeProblem, type RangePreset } from './trendRange';
+
+interface TrendFilterCardProps {
+  value: TrendFilterValues;
+  onChange: (value: TrendFilterValues) => void;
+  choices: TrendChoices;
+  /** On a phone the filters fold into one line until asked for. */
+  foldable: boolean;
+}
+
+/** Range, subgroup, run rules, and which rule, line, station and part type the charts cover. */
+export function TrendFilterCard({ value, onChange, choices, foldable }: TrendFilterCardProps) {
+  const [open, setOpen] = useState(!foldable);
+  const set = <K extends keyof TrendFilterValues>(key: K, v: TrendFilterValues[K]) => onChange({ ...value, [key]: v });
+  const line = choices.lines.find((l) => l.id === value.lineId);
+  const stations = (line ? [line] : choices.lines).flatMap((l) => l.stations.map((s) => ({ value: s.id as string | null, label: line ? s.name : `${s.name} (${l.name})` })));
+  const problem = rangeProblem(value.range);
+  const partTypes = usePartTypes();
+  const partTypeName = (code: string) => partTypes.data?.find((t) => t.code === code)?.name ?? code;
+
+  if (foldable && !open) {
+    return (
+      <Card style={styles.folded}>
+        <AppText variant="caption" tone="muted" style={styles.summary}>
+          {describeTrendFilters(value, choices, partTypeName)}
+        </AppText>
+        <Button label="Change filters" variant="secondary" compact onPress={() => setOpen(true)} accessibilityHint="Shows the range, subgroup and filter choices" />
+      </Card>
+    );
+  }
+  return (
+    <Card style={styles.card}>
+      <View style={styles.groups}>
+        <ChoiceChips<RangePreset>
+          label="Range"
+          value={value.range.preset}
+          onChange={(preset) => set('range', { ...value.range, preset })}
+          choices={[
+            { value: '7d', label: '7 days' },
+            { value: '30d', label: '30 days' },
+            { value: '90d', label: '90 days' },
+            { value: 'custom', label: 'Other dates' },
+          ]}
+        />
+        <ChoiceChips<TrendBucket> label="One point per" value={value.bucket} onChange={(b) => set('bucket', b)} choices={[{ value: 'day', label: 'Day' }, { value: 'shift', label: 'Shift' }]} />
+        <ChoiceChips<RunRuleSet>
+          label="Run rules"
+          value={value.runRules}
+          onChange={(r) => set('runRules', r)}
+          choices={[
+            { value: 'western-electric', label: 'Western Electric 1–4' },
+            { value: 'nelson', label: 'Nelson 1–8' },
+          ]}
+        />
+        <View style={styles.group}>
+          <ChoiceChips<string | null> label="Rule" value={value.ruleId} onChange={(id) => set('ruleId', id)} choices={[{ value: null, label: 'All rules' }, ...choices.rules.map((r) => ({ value: r.id, label: r.name }))]} />
+        </View>
+        <View style={styles.group}>
+          <ChoiceChips<string | null>
+            label="Line"
+            value={value.lineId}
+            onChange={(id) => onChange({ ...value, lineId: id, stationId: null })}
+            choices={[{ value: null, label: 'All lines' }, ...choices.lines.map((l) => ({ value: l.id, label: l.name }))]}
+          />
+        </View>
+        <View style={styles.group}>
+          <ChoiceChips<string | null> label="Station" value={value.stationId} onChange={(id) => set('stationId', id)} choices={[{ value: null, label: line ? 'Every station of the line' : 'All stations' }, ...stations]} />
+        </View>
+        {choices.partTypes.length > 0 ? (
+          <View style={styles.group}>
+            <ChoiceChips<string | null> label="Part type" value={value.partType} onChange={(t) => set('partType', t)} choices={[{ value: null, label: 'Every part type' }, ...choices.partTypes.map((t) => ({ value: t, label: partTypeName(t) }))]} />
+          </View>
+        ) : null}
+      </View>
+      {value.range.preset === 'custom' ? (
+        <View style={[styles.dates, foldable && styles.datesStacked]}>
+          <TextField label="First day (YYYY-MM-DD, UTC)" value={value.range.customFrom} onChangeText={(t) => set('range', { ...value.range, customFrom: t.trim() })} placeholder="2026-11-01" autoCapitalize="none" />
+          <TextField label="Last day (inclusive)" value={value.range.customTo} onChangeText={(t) => set('range', { ...value.range, customTo: t.trim() })} placeholder="2026-11-30" autoCapitalize="none" error={value.range.customFrom && value.range.customTo ? problem ?? undefined : undefined} />
+        </View>
+      ) : null}
+      {foldable ? <Button label="Done" variant="secondary" onPress={() => setOpen(false)} accessibilityHint="Folds the filters into one line" /> : null}
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  card: { gap: space.md },
+  folded: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
+  summary: { flexGrow: 1, flexShrink: 1, flexBasis: 200 },
+  dates: { flexDirection: 'row', gap: space.md },
+  datesStacked: { flexDirection: 'column' },
+  groups: { flexDirection: 'row', flexWrap: 'wrap', columnGap: space.xl, rowGap: space.md },
+  group: { maxWidth: '100%', flexShrink: 1 },
+});

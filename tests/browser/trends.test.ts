@@ -1,0 +1,136 @@
+// The supervisor's Trends area in a real browser against the real server, at phone and wide width:
+// the p-chart with its control limits and signals (the same as the server's chart), the same numbers
+// as a table, a cause of the Pareto opening exactly its failed inspections, and an alert acknowledged
+// with a note.
+import type { BrowserContext, Page } from 'playwright-core';
+import { UserEntity } from '../../server/components/auth/entities';
+import { DEMO_PASSWORD } from '../../server/seed/demo-users';
+import type { PChart, Pareto } from '../../shared/api/trends';
+import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+
+jest.setTimeout(600_000);
+
+const DAY_MS = 86_400_000;
+
+let product: RunningProduct;
+let chart: PChart;
+let pareto: Pareto;
+
+/** The screen's first range: the last 30 whole UTC days up to the end of today. */
+function defaultRange(): { from: string; to: string } {
+  const end = Math.floor(Date.now() / DAY_MS) * DAY_MS + DAY_MS;
+  return { from: new Date(end - 30 * DAY_MS).toISOString(), to: new Date(end).toISOString() };
+}
+
+beforeAll(async () => {
+  product = await startProduct();
+  await seedPlantIntoProduct(product, { referencePhotos: 6, historyDays: 10, perStationPerDay: 6 });
+  // A limit every day with a failure passes, so the check below raises alerts whatever the run rules find.
+  const supervisor = await product.db.dataSource.getRepository(UserEntity).findOneByOrFail({ username: 'supervisor' });
+  const [rule] = await product.db.dataSource.query(`select id from rules where name like 'Bracket%'`);
+  await product.services.alerts.createLimit(supervisor, { ruleId: rule.id, stationId: null, maxDefectFraction: 0.01 });
+  await product.services.alerts.check();
+  const range = defaultRange();
+  chart = await product.services.trends.pChart({ ...range, bucket: 'day', runRules: 'western-electric' });
+  pareto = await product.services.trends.pareto(range);
+});
+afterAll(() => product?.close());
+
+async function signIn(page: Page): Promise<void> {
+  await page.goto(`${product.url}/sign-in`);
+  await page.getByLabel('User name').fill('supervisor');
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+}
+
+describe.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('the supervisor at %s width', (name, viewport) => {
+  let browser: BrowserContext;
+  let page: Page;
+  let errors: string[];
+  beforeAll(async () => {
+    browser = await launchBrowser(viewport);
+    page = await browser.newPage();
+    errors = watchErrors(page);
+    await signIn(page);
+  });
+  afterAll(() => browser?.close());
+
+  test('sees the p-chart with its control limits and the signals in words', async () => {
+    expect(chart.points.length).toBeGreaterThan(0);
+    await page.goto(`${product.url}/trends`);
+    const plot = page.getByRole('img', { name: /^p-chart of \d+ subgroups/ });
+    await plot.waitFor();
+    expect(await plot.getAttribute('aria-label')).toContain(`p-chart of ${chart.points.length} subgroups, ${chart.points.filter((p) => p.signal).length} marked`);
+    // The limits are the two dashed step lines.
+    expect(await plot.locator('path[stroke-dasharray]').count()).toBe(2);
+    await page.getByText('control limits (UCL, LCL)').waitFor();
+    const count = chart.signals.length;
+    await page.getByText(count === 0 ? /No run rule fired in this range/ : `${count} signal${count === 1 ? '' : 's'}, newest first`).waitFor();
+    if (count > 0) {
+      const newest = [...chart.signals].sort((a, b) => b.pointIndex - a.pointIndex)[0];
+      await page.getByRole('link', { name: new RegExp(`\\(${newest.rule}\\)|^Western Electric rule ${newest.rule.slice(2)} at`) }).first().waitFor();
+    }
+    await plot.scrollIntoViewIfNeeded();
+    await screenshot(page, `trends-chart-${name}`);
+  });
+
+  test('the table view lists the same number of points', async () => {
+    await page.getByRole('button', { name: 'Show as table' }).click();
+    const table = page.getByRole('table', { name: /^p-chart values/ });
+    await table.waitFor();
+    // One header row, then one row per subgroup.
+    expect(await table.getByRole('row').count()).toBe(chart.points.length + 1);
+    const last = chart.points[chart.points.length - 1];
+    await table.getByRole('row').last().getByText(`${(last.p * 100).toFixed(2)} %`).first().waitFor();
+    await table.scrollIntoViewIfNeeded();
+    await screenshot(page, `trends-table-${name}`);
+    await page.getByRole('button', { name: 'Show as chart' }).click();
+  });
+
+  test('a tap on the largest cause opens exactly its failed inspections', async () => {
+    const top = pareto.bars[0];
+    expect(top).toBeDefined();
+    await page.goto(`${product.url}/trends?section=${name === 'phone' ? 'causes' : 'chart'}`);
+    const plot = page.getByRole('img', { name: /^Causes of failure/ });
+    await plot.waitFor();
+    await plot.scrollIntoViewIfNeeded();
+    await screenshot(page, `trends-causes-${name}`);
+    // The chart package draws each bar as a focusable element inside the chart; the first bar is the largest cause.
+    await plot.locator('div[tabindex="0"]').nth(1).click();
+    await page.waitForURL(/\/records\?/);
+    const url = new URL(page.url());
+    expect(url.searchParams.get('cause')).toBe(top.cause);
+    expect(url.searchParams.get('verdict')).toBe('FAIL');
+    await page.getByText(`cause “${top.cause}”`).waitFor();
+    const shown = Math.min(top.count, 50);
+    await page.getByText(`${shown} shown, newest first`).waitFor();
+    expect(await page.getByRole('link', { name: /^FAIL, / }).count()).toBe(shown);
+    await screenshot(page, `trends-cause-records-${name}`);
+  });
+
+  test('acknowledges an alert with a note', async () => {
+    await page.goto(`${product.url}/trends?section=alerts`);
+    const acknowledge = page.getByRole('button', { name: /^Acknowledge the alert at / }).first();
+    await acknowledge.waitFor();
+    const [{ open }] = await product.db.dataSource.query(`select count(*)::int as open from alerts where acknowledged_at is null`);
+    expect(open).toBeGreaterThan(0);
+    await acknowledge.click();
+    const dialog = page.getByRole('dialog', { name: 'Acknowledge the alert' });
+    await dialog.getByRole('button', { name: 'Acknowledge', exact: true }).click();
+    await dialog.getByText(/Write what was checked or done/).waitFor();
+    const note = `Checked the deburr brush at ${name} width; worn, replaced.`;
+    await dialog.getByLabel('What was checked or done').fill(note);
+    await dialog.getByRole('button', { name: 'Acknowledge', exact: true }).click();
+    await dialog.waitFor({ state: 'detached' });
+    const [row] = await product.db.dataSource.query(`select acknowledgement_note as note from alerts where acknowledgement_note = $1`, [note]);
+    expect(row?.note).toBe(note);
+    await page.getByRole('radio', { name: 'Acknowledged' }).click();
+    await page.getByText(note).waitFor();
+    await screenshot(page, `trends-alert-acknowledged-${name}`);
+    expect(errors).toEqual([]);
+  });
+});

@@ -33,7 +33,7 @@ beforeAll(async () => {
   const dataSource = makeDataSource(url, { poolSize: 4 });
   await dataSource.initialize();
   await dataSource.runMigrations();
-  t = await createTestApp({ imageDir: path.join(work, 'images') }, { database: { url, dataSource, drop: async () => dataSource.isInitialized && dataSource.destroy() } });
+  t = await createTestApp({ imageDir: path.join(work, 'images') }, { database: { url, dataSource, drop: async () => { if (dataSource.isInitialized) await dataSource.destroy(); } } });
   ({ stationId, releasedId } = await releasedRule(t, SPOT_RULE));
   await t.createUser('tomas', ['operator']);
   token = await t.tokenFor('tomas');

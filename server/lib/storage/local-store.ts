@@ -33,6 +33,23 @@ export class LocalImageStore implements ImageStore {
     return hash;
   }
 
+  /**
+   * Deletes temporary files a crashed or killed process left behind in the middle of a write. Only
+   * files older than `olderThanMs` go, so that another process's write in progress is left alone.
+   */
+  async removeLeftovers(olderThanMs = 10 * 60 * 1000): Promise<number> {
+    const entries = await fs.readdir(this.root, { recursive: true, withFileTypes: true }).catch(() => []);
+    const cutoff = Date.now() - olderThanMs;
+    let removed = 0;
+    for (const entry of entries) {
+      if (!entry.isFile() || !entry.name.endsWith('.tmp')) continue;
+      const file = path.join(entry.parentPath ?? entry.path, entry.name);
+      const stat = await fs.stat(file).catch(() => null);
+      if (stat && stat.mtimeMs < cutoff && (await fs.rm(file, { force: true }).then(() => true, () => false))) removed += 1;
+    }
+    return removed;
+  }
+
   async get(hash: string): Promise<Buffer> {
     try {
       return await fs.readFile(this.pathOf(hash));

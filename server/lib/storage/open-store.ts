@@ -27,7 +27,12 @@ export function s3ClientFor(s3: S3Settings, credentials?: { accessKeyId: string;
  */
 export function openImageStore(config: Config): ImageStore {
   const s3 = config.s3;
-  if (!s3) return new LocalImageStore(config.imageDir);
+  if (!s3) {
+    const local = new LocalImageStore(config.imageDir);
+    // Half-written files from a process that died mid-write; a failure here must not stop the server.
+    void local.removeLeftovers().catch(() => undefined);
+    return local;
+  }
   if (s3.endpoint !== null) return new S3ImageStore(s3ClientFor(s3), { bucket: s3.bucket });
   return new S3ImageStore(s3ClientFor(s3, FAKE_S3_CREDENTIALS), {
     bucket: s3.bucket,

@@ -188,3 +188,34 @@ test('a worker thread that dies in the middle of a trial: the job is retried and
     await pool.destroy();
   }
 });
+
+// The two checks below leave their trials unfinished on purpose: they come last, once no worker runs.
+
+test('a trial claimed by a live worker is left alone by a second job and by the requeueing, and requeued once the claim goes', async () => {
+  const [{ id }] = await db.dataSource.query(
+    `insert into trials (rule_version_id, reference_set_id, content_hash, state, total, started_by)
+     select $1, $2, content_hash, 'running', $3, $4 from rule_versions where id = $1 returning id`,
+    [versionId, setId, PHOTOS, engineer.id],
+  );
+  // Another worker's claim: the same advisory lock, held on another PostgreSQL connection.
+  const claims = services.trials as unknown as { claim(trialId: string): Promise<{ release(): Promise<void> } | null> };
+  const held = (await claims.claim(id))!;
+  expect(held).not.toBeNull();
+  await services.trials.run(id);
+  expect(await trialRow(id)).toMatchObject({ state: 'running', processed: 0, attempts: 0 });
+  expect(await services.trials.resumeAbandoned()).toBe(0);
+  await held.release();
+  expect(await services.trials.resumeAbandoned()).toBe(1);
+});
+
+test('a trial taken up five times without finishing is failed with a message rather than tried again', async () => {
+  const [{ id }] = await db.dataSource.query(
+    `insert into trials (rule_version_id, reference_set_id, content_hash, state, total, attempts, started_by)
+     select $1, $2, content_hash, 'running', $3, 5, $4 from rule_versions where id = $1 returning id`,
+    [versionId, setId, PHOTOS, engineer.id],
+  );
+  await services.trials.run(id);
+  const trial = await services.trials.get(id);
+  expect(trial.state).toBe('failed');
+  expect(trial.error).toMatch(/stopped 5 times/);
+});

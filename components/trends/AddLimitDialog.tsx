@@ -9,6 +9,7 @@ import { ChoiceChips } from '../ChoiceChips';
 import { Dialog } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
+import { StationChoice } from './StationChoice';
 
 interface AddLimitDialogProps {
   visible: boolean;
@@ -33,21 +34,18 @@ export function AddLimitDialog({ visible, choices, onClose }: AddLimitDialogProp
     }
   }, [visible]); // eslint-disable-line react-hooks/exhaustive-deps -- only when the dialog opens or closes
 
-  const stations = choices.lines.flatMap((l) => l.stations.map((s) => ({ value: s.id as string | null, label: `${s.name} (${l.name})` })));
   const serverIssues = create.error instanceof ApiError ? Object.fromEntries(create.error.fieldIssues.map((i) => [i.path, i.message])) : {};
 
   const submit = () => {
-    const percentValue = Number(percentText.replace(',', '.').replace('%', '').trim());
-    const parsed = createAlertLimitSchema.safeParse({
-      ruleId: ruleId ?? undefined,
-      stationId,
-      maxDefectFraction: percentText.trim() === '' || Number.isNaN(percentValue) ? undefined : percentValue / 100,
-    });
+    const typed = percentText.replace(',', '.').replace('%', '').trim();
+    const percentValue = typed === '' ? NaN : Number(typed);
+    const parsed = createAlertLimitSchema.safeParse({ ruleId: ruleId ?? undefined, stationId, maxDefectFraction: percentValue / 100 });
     if (!parsed.success) {
       const found: Record<string, string> = {};
       for (const issue of parsed.error.issues) found[String(issue.path[0])] ??= issue.message;
       if (found.ruleId) found.ruleId = 'Choose the rule the limit watches.';
-      if (found.maxDefectFraction && (percentText.trim() === '' || Number.isNaN(percentValue))) found.maxDefectFraction = 'Type a percentage, e.g. 8 for 8 %.';
+      // The schema speaks of fractions; the person typed a percentage.
+      if (found.maxDefectFraction) found.maxDefectFraction = Number.isNaN(percentValue) ? 'Type a percentage, e.g. 8 for 8 %.' : 'Type a percentage above 0 and at most 100.';
       setProblems(found);
       return;
     }
@@ -73,7 +71,7 @@ export function AddLimitDialog({ visible, choices, onClose }: AddLimitDialogProp
       {problems.ruleId || serverIssues.ruleId ? (
         <AppText variant="caption" tone="danger" accessibilityRole="alert">{`⚠ ${problems.ruleId ?? serverIssues.ruleId}`}</AppText>
       ) : null}
-      <ChoiceChips<string | null> label="Station" value={stationId} onChange={setStationId} choices={[{ value: null, label: 'Every station' }, ...stations]} />
+      <StationChoice lines={choices.lines} value={stationId} onChange={setStationId} anyLabel="Every station" />
       <TextField
         label="Alert above this share failed per day (%)"
         value={percentText}

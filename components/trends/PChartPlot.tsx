@@ -15,14 +15,13 @@ interface PChartPlotProps {
 
 const HEIGHT = 220;
 const Y_LABEL_WIDTH = 44;
-/** Room for one x-axis label ("28 Nov", "28 Nov 06:00"); labels in between are left out when points sit closer. */
-const LABEL_ROOM = { day: 52, shift: 84 } as const;
+/** Room for one x-axis label ("28 Nov"); labels in between are left out when points sit closer. */
+const LABEL_ROOM = 52;
 
-/** The subgroup's start, short: the day, and the hour for a shift (UTC, as the subgroups are cut). */
+/** The subgroup's start, short: the day, and under it the hour for a shift (UTC, as the subgroups are cut). */
 function axisText(start: string, bucket: PChart['bucket']): string {
-  const at = new Date(start);
-  const day = at.toLocaleDateString(undefined, { day: 'numeric', month: 'short', timeZone: 'UTC' });
-  return bucket === 'shift' ? `${day} ${start.slice(11, 16)}` : day;
+  const day = new Date(start).toLocaleDateString(undefined, { day: 'numeric', month: 'short', timeZone: 'UTC' });
+  return bucket === 'shift' ? `${day}\n${start.slice(11, 16)}` : day;
 }
 
 /** Points sit a touch target apart on a phone (the chart scrolls sideways); on a wide screen they share the width. */
@@ -37,8 +36,8 @@ export function PChartPlot({ chart, phone, onOpenPoint }: PChartPlotProps) {
   const points = chart.points;
   const plotWidth = Math.max(0, width - Y_LABEL_WIDTH - 24);
   const spacing = pointSpacing(phone, plotWidth, points.length);
-  const labelRoom = LABEL_ROOM[chart.bucket];
-  const labelEvery = Math.max(1, Math.ceil(labelRoom / spacing));
+  const labelLines = chart.bucket === 'shift' ? 2 : 1;
+  const labelEvery = Math.max(1, Math.ceil(LABEL_ROOM / spacing));
   const { max, sections } = niceAxis(Math.max(...points.map((p) => Math.max(p.p, p.ucl)), chart.center ?? 0) * 100 * 1.05);
   const hitSize = Math.max(spacing - 2, 12);
   const signalled = points.filter((p) => p.signal).length;
@@ -48,7 +47,7 @@ export function PChartPlot({ chart, phone, onOpenPoint }: PChartPlotProps) {
   const labelOf = (i: number) => ((points.length - 1 - i) % labelEvery === 0 ? axisText(points[i].start, chart.bucket) : '');
   // Wider than the gap between two points, centred under its point, so a date is not cut short.
   const axisLabel = (text: string) => () => (
-    <Text numberOfLines={1} style={[styles.axisText, { width: labelRoom, marginLeft: -(labelRoom - spacing) / 2 }]}>
+    <Text numberOfLines={labelLines} style={[styles.axisText, { width: LABEL_ROOM, marginLeft: -(LABEL_ROOM - spacing) / 2 }]}>
       {text}
     </Text>
   );
@@ -92,6 +91,7 @@ export function PChartPlot({ chart, phone, onOpenPoint }: PChartPlotProps) {
           noOfSections={sections}
           formatYLabel={(label: string) => `${Number(label).toFixed(max < 5 ? 1 : 0)} %`}
           yAxisLabelWidth={Y_LABEL_WIDTH}
+          xAxisTextNumberOfLines={labelLines}
           yAxisTextStyle={styles.axisText}
           xAxisColor={CHART_LOOK.axis}
           yAxisColor={CHART_LOOK.axis}

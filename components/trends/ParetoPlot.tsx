@@ -15,7 +15,11 @@ interface ParetoPlotProps {
 
 const HEIGHT = 200;
 const Y_LABEL_WIDTH = 48;
-const SECTIONS = 4;
+
+/** As many sections as divide the total evenly (so the count axis reads whole parts), else four. */
+function sectionsFor(total: number): number {
+  return [4, 5, 3, 2].find((n) => total % n === 0) ?? 4;
+}
 
 function shorten(text: string, room: number): string {
   const chars = Math.max(4, Math.floor(room / 7));
@@ -31,6 +35,7 @@ export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
   const barWidth = phone ? 44 : Math.max(24, Math.min(56, Math.floor((plotWidth / Math.max(bars.length, 1)) * 0.6)));
   const spacing = Math.max(12, Math.round(barWidth * 0.5));
   const total = Math.max(pareto.totalFailures, 1);
+  const sections = sectionsFor(total);
 
   const barData: barDataItem[] = bars.map((bar) => ({
     value: bar.count,
@@ -56,8 +61,8 @@ export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
           initialSpacing={spacing}
           endSpacing={spacing}
           maxValue={total}
-          noOfSections={SECTIONS}
-          formatYLabel={(label: string) => String(Math.round(Number(label)))}
+          noOfSections={sections}
+          formatYLabel={(label: string) => String(Math.round(Number(label) * 10) / 10)}
           yAxisLabelWidth={Y_LABEL_WIDTH}
           yAxisTextStyle={styles.axisText}
           xAxisLabelTextStyle={[styles.axisText, { width: barWidth + spacing }]}
@@ -69,7 +74,7 @@ export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
           showLine
           lineData={lineData}
           lineConfig={{ color: CHART_LOOK.centre.colour, thickness: 2, dataPointsColor: CHART_LOOK.centre.colour, dataPointsRadius: 4 }}
-          secondaryYAxis={{ maxValue: 100, noOfSections: SECTIONS, formatYLabel: (label: string) => `${Math.round(Number(label))} %`, yAxisTextStyle: styles.axisText, yAxisColor: CHART_LOOK.axis, yAxisLabelWidth: Y_LABEL_WIDTH }}
+          secondaryYAxis={{ maxValue: 100, noOfSections: sections, formatYLabel: (label: string) => `${Math.round(Number(label))} %`, yAxisTextStyle: styles.axisText, yAxisColor: CHART_LOOK.axis, yAxisLabelWidth: Y_LABEL_WIDTH }}
           showScrollIndicator={phone}
           nestedScrollEnabled
         />

@@ -12,6 +12,7 @@ import { ChoiceChips } from '../ChoiceChips';
 import { ErrorBanner } from '../ErrorBanner';
 import { ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
+import { StationChoice } from './StationChoice';
 
 const MIN_PHOTOS = 2;
 const MAX_PHOTOS = 50;
@@ -86,7 +87,7 @@ export function RepeatabilityForm({ onDone }: RepeatabilityFormProps) {
 
   const serverIssues = create.error instanceof ApiError ? Object.fromEntries(create.error.fieldIssues.map((i) => [i.path, i.message])) : {};
   const problem = (key: string) => problems[key] || serverIssues[key] || undefined;
-  const stations = (lines.data ?? []).flatMap((l) => l.stations.filter((s) => s.active).map((s) => ({ value: s.id as string | null, label: `${s.name} (${l.name})` })));
+  const activeLines = lines.data.map((l) => ({ ...l, stations: l.stations.filter((s) => s.active) }));
 
   return (
     <View style={styles.form}>
@@ -100,8 +101,7 @@ export function RepeatabilityForm({ onDone }: RepeatabilityFormProps) {
         choices={rules.data.map((r) => ({ value: r.releasedVersion!.id, label: `${r.name} v${r.releasedVersion!.number}` }))}
       />
       {problem('ruleVersionId') ? <AppText variant="caption" tone="danger" accessibilityRole="alert">{`⚠ ${problem('ruleVersionId')}`}</AppText> : null}
-      <ChoiceChips<string | null> label="Station" value={stationId} onChange={setStationId} choices={stations} />
-      {problem('stationId') ? <AppText variant="caption" tone="danger" accessibilityRole="alert">{`⚠ ${problem('stationId')}`}</AppText> : null}
+      <StationChoice lines={activeLines} value={stationId} onChange={setStationId} error={problem('stationId')} />
       <TextField label="Part (serial number or tag)" value={partLabel} onChangeText={setPartLabel} placeholder="Bracket S/N 20417" error={problem('partLabel')} maxLength={120} />
       <ChoiceChips<KnownLabel>
         label="What the part is known to be"

@@ -48,5 +48,6 @@ const styles = StyleSheet.create({
   card: { gap: space.sm },
   row: { flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: minTouchTarget },
   text: { flex: 1, gap: space.xxs },
-  switch: { minWidth: minTouchTarget },
+  // react-native-web lays its checkbox over the whole switch, so a taller box is a taller target.
+  switch: { minWidth: minTouchTarget, minHeight: minTouchTarget },
 });

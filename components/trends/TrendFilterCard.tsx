@@ -8,6 +8,7 @@ import { Button } from '../Button';
 import { Card } from '../Card';
 import { ChoiceChips } from '../ChoiceChips';
 import { TextField } from '../TextField';
+import { StationChoice } from './StationChoice';
 import { describeTrendFilters, type TrendFilterValues } from './trendFilters';
 import { rangeProblem, type RangePreset } from './trendRange';
 
@@ -24,7 +25,6 @@ export function TrendFilterCard({ value, onChange, choices, foldable }: TrendFil
   const [open, setOpen] = useState(!foldable);
   const set = <K extends keyof TrendFilterValues>(key: K, v: TrendFilterValues[K]) => onChange({ ...value, [key]: v });
   const line = choices.lines.find((l) => l.id === value.lineId);
-  const stations = (line ? [line] : choices.lines).flatMap((l) => l.stations.map((s) => ({ value: s.id as string | null, label: line ? s.name : `${s.name} (${l.name})` })));
   const problem = rangeProblem(value.range);
   const partTypes = usePartTypes();
   const partTypeName = (code: string) => partTypes.data?.find((t) => t.code === code)?.name ?? code;
@@ -42,27 +42,31 @@ export function TrendFilterCard({ value, onChange, choices, foldable }: TrendFil
   return (
     <Card style={styles.card}>
       <View style={styles.groups}>
-        <ChoiceChips<RangePreset>
-          label="Range"
-          value={value.range.preset}
-          onChange={(preset) => set('range', { ...value.range, preset })}
-          choices={[
-            { value: '7d', label: '7 days' },
-            { value: '30d', label: '30 days' },
-            { value: '90d', label: '90 days' },
-            { value: 'custom', label: 'Other dates' },
-          ]}
-        />
+        <View style={styles.group}>
+          <ChoiceChips<RangePreset>
+            label="Range"
+            value={value.range.preset}
+            onChange={(preset) => set('range', { ...value.range, preset })}
+            choices={[
+              { value: '7d', label: '7 days' },
+              { value: '30d', label: '30 days' },
+              { value: '90d', label: '90 days' },
+              { value: 'custom', label: 'Other dates' },
+            ]}
+          />
+        </View>
         <ChoiceChips<TrendBucket> label="One point per" value={value.bucket} onChange={(b) => set('bucket', b)} choices={[{ value: 'day', label: 'Day' }, { value: 'shift', label: 'Shift' }]} />
-        <ChoiceChips<RunRuleSet>
-          label="Run rules"
-          value={value.runRules}
-          onChange={(r) => set('runRules', r)}
-          choices={[
-            { value: 'western-electric', label: 'Western Electric 1–4' },
-            { value: 'nelson', label: 'Nelson 1–8' },
-          ]}
-        />
+        <View style={styles.group}>
+          <ChoiceChips<RunRuleSet>
+            label="Run rules"
+            value={value.runRules}
+            onChange={(r) => set('runRules', r)}
+            choices={[
+              { value: 'western-electric', label: 'Western Electric 1–4' },
+              { value: 'nelson', label: 'Nelson 1–8' },
+            ]}
+          />
+        </View>
         <View style={styles.group}>
           <ChoiceChips<string | null> label="Rule" value={value.ruleId} onChange={(id) => set('ruleId', id)} choices={[{ value: null, label: 'All rules' }, ...choices.rules.map((r) => ({ value: r.id, label: r.name }))]} />
         </View>
@@ -75,7 +79,7 @@ export function TrendFilterCard({ value, onChange, choices, foldable }: TrendFil
           />
         </View>
         <View style={styles.group}>
-          <ChoiceChips<string | null> label="Station" value={value.stationId} onChange={(id) => set('stationId', id)} choices={[{ value: null, label: line ? 'Every station of the line' : 'All stations' }, ...stations]} />
+          <StationChoice lines={line ? [line] : choices.lines} value={value.stationId} onChange={(id) => set('stationId', id)} anyLabel={line ? 'Every station of the line' : 'All stations'} />
         </View>
         {choices.partTypes.length > 0 ? (
           <View style={styles.group}>

@@ -6,7 +6,7 @@ import { AppText } from '../AppText';
 
 export const STATE_WORDS: Record<RuleVersionState, { symbol: string; word: string }> = {
   draft: { symbol: '✎', word: 'Draft' },
-  'in-review': { symbol: '⧗', word: 'In review' },
+  'in-review': { symbol: '◷', word: 'In review' },
   released: { symbol: '✓', word: 'Released' },
   superseded: { symbol: '↷', word: 'Superseded' },
   withdrawn: { symbol: '⊘', word: 'Withdrawn' },

@@ -80,6 +80,17 @@ test('the records table pages by keyset, newest first, and filters by verdict an
   expect(november.items[0]).toMatchObject({ stationName: 'Press 1', ruleName: 'Plate spots', ruleVersionNumber: 1, verdict: 'FAIL', cause: 'Spot area' });
 });
 
+test('the disputed filter lists exactly the disputed inspections, and its opposite all the others', async () => {
+  const operator = { Authorization: `Bearer ${await t.tokenFor('tomas')}` };
+  expect((await request(t.app).post(`/api/inspections/${failedId}/dispute`).set(operator).send({ note: 'The spot wipes off' })).status).toBe(201);
+  const november = 'from=2026-11-01T00:00:00Z&to=2026-11-30T00:00:00Z';
+  const disputed = recordPageSchema.parse((await request(t.app).get(`/api/records/inspections?${november}&disputed=true`).set(auditor)).body);
+  expect(disputed.items.map((r) => [r.id, r.disputed])).toEqual([[failedId, true]]);
+  const others = recordPageSchema.parse((await request(t.app).get(`/api/records/inspections?${november}&disputed=false`).set(auditor)).body);
+  expect(others.items).toHaveLength(5);
+  expect(others.items.some((r) => r.id === failedId || r.disputed)).toBe(false);
+});
+
 test('filters refuse anything that is not their type, so no text reaches the SQL', async () => {
   for (const query of ["stationId=1' or '1'='1", 'verdict=PASS;drop table inspections', "from=2026-01-01'--", 'after=not-a-cursor', 'order=random()']) {
     const res = await request(t.app).get(`/api/records/inspections?${query}`).set(auditor);

@@ -1,6 +1,6 @@
-import { StyleSheet, Switch, View } from 'react-native';
+import { Pressable, StyleSheet, View } from 'react-native';
 import { useAlertSubscription, useSetAlertSubscription } from '../../hooks/useAlerts';
-import { colors, minTouchTarget, space } from '../../lib/theme';
+import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { Card } from '../Card';
 import { ErrorBanner } from '../ErrorBanner';
@@ -12,9 +12,26 @@ export function SubscriptionSwitch() {
   const subscription = useAlertSubscription();
   const change = useSetAlertSubscription();
   const subscribed = change.isPending ? change.variables : subscription.data?.subscribed;
+  const ready = !subscription.isPending && !subscription.isError && !change.isPending;
   return (
     <Card style={styles.card}>
-      <View style={styles.row}>
+      <Pressable
+        role="switch"
+        aria-checked={!!subscribed}
+        accessibilityLabel={LABEL}
+        accessibilityState={{ checked: !!subscribed, disabled: !ready, busy: change.isPending }}
+        disabled={!ready}
+        onPress={() => change.mutate(!subscribed)}
+        // A switch also answers the space bar (WAI-ARIA switch pattern); Enter comes with the press.
+        {...({
+          onKeyDown: (event: { key: string; preventDefault: () => void }) => {
+            if (event.key !== ' ' || !ready) return;
+            event.preventDefault();
+            change.mutate(!subscribed);
+          },
+        } as object)}
+        style={({ pressed }) => [styles.row, pressed && styles.pressed]}
+      >
         <View style={styles.text}>
           <AppText variant="bodyStrong">{LABEL}</AppText>
           <AppText variant="caption" tone="muted">
@@ -25,19 +42,10 @@ export function SubscriptionSwitch() {
                 : 'Off: alerts only appear here.'}
           </AppText>
         </View>
-        <Switch
-          accessibilityLabel={LABEL}
-          accessibilityState={{ checked: !!subscribed, busy: change.isPending }}
-          value={!!subscribed}
-          disabled={subscription.isPending || subscription.isError || change.isPending}
-          onValueChange={(value) => change.mutate(value)}
-          trackColor={{ false: colors.control, true: colors.steel }}
-          thumbColor={colors.surface}
-          // react-native-web names the thumb's colour when on separately from thumbColor.
-          {...({ activeThumbColor: colors.surface } as object)}
-          style={styles.switch}
-        />
-      </View>
+        <View style={[styles.track, subscribed ? styles.trackOn : styles.trackOff]} aria-hidden>
+          <View style={[styles.thumb, subscribed ? styles.thumbOn : styles.thumbOff]} />
+        </View>
+      </Pressable>
       {subscription.isError ? <ErrorBanner error={subscription.error} onRetry={() => subscription.refetch()} /> : null}
       {change.isError ? <ErrorBanner error={change.error} /> : null}
     </Card>
@@ -46,8 +54,14 @@ export function SubscriptionSwitch() {
 
 const styles = StyleSheet.create({
   card: { gap: space.sm },
-  row: { flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: minTouchTarget },
+  row: { flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: minTouchTarget, borderRadius: radius.md, padding: space.xs },
+  pressed: { backgroundColor: colors.steelTint },
+  // Drawn here rather than with the platform switch, so that the whole row is the one control.
+  track: { width: 44, height: 24, borderRadius: radius.pill, padding: 2, justifyContent: 'center' },
+  trackOn: { backgroundColor: colors.steel },
+  trackOff: { backgroundColor: colors.control },
+  thumb: { width: 20, height: 20, borderRadius: radius.pill, backgroundColor: colors.surface },
+  thumbOn: { alignSelf: 'flex-end' },
+  thumbOff: { alignSelf: 'flex-start' },
   text: { flex: 1, gap: space.xxs },
-  // react-native-web lays its checkbox over the whole switch, so a taller box is a taller target.
-  switch: { minWidth: minTouchTarget, minHeight: minTouchTarget },
 });

@@ -12,7 +12,7 @@ export function describePage(offset: number, shown: number, total: number): stri
   return `${offset + 1}–${offset + shown} of ${total}`;
 }
 
-/** A share 0..1 as "12.5 %", or "—" when there is none. */
-export function formatPercent(share: number | null | undefined): string {
-  return share === null || share === undefined || Number.isNaN(share) ? '—' : `${(share * 100).toFixed(1)} %`;
+/** A share 0..1 as "12.5 %" (or with `digits` decimals), or "—" when there is none. */
+export function formatPercent(share: number | null | undefined, digits = 1): string {
+  return share === null || share === undefined || Number.isNaN(share) ? '—' : `${(share * 100).toFixed(digits)} %`;
 }

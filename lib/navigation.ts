@@ -85,7 +85,8 @@ export const AREAS: readonly Area[] = [
     key: 'trends',
     title: 'Trends',
     href: '/trends',
-    roles: ['supervisor'],
+    // Auditors read the charts and alerts (and the records behind them); only supervisors act on alerts.
+    roles: ['supervisor', 'auditor'],
     purpose:
       'Defect rates per rule, station and shift on p-charts with control limits, and the causes of defects ranked by count.',
     emptyTitle: 'No inspections to chart yet',

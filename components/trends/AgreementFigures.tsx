@@ -3,7 +3,7 @@ import { colors, radius, space } from '../../lib/theme';
 import type { AttributeAgreement } from '../../shared/api/studies';
 import { AppText } from '../AppText';
 import { AcceptanceMark } from './AcceptanceMark';
-import { percent } from './chartLook';
+import { formatPercent } from '../../lib/format';
 
 type FigureKey = 'effectiveness' | 'missRate' | 'falseAlarmRate' | 'kappa';
 
@@ -34,7 +34,7 @@ export function AgreementFigures({ result }: { result: AttributeAgreement }) {
       <View style={styles.figures}>
         {FIGURES.map((f) => {
           const figure = result[f.key];
-          const value = figure.value === null ? '—' : f.asShare ? percent(figure.value) : figure.value.toFixed(2);
+          const value = figure.value === null ? '—' : f.asShare ? formatPercent(figure.value) : figure.value.toFixed(2);
           return (
             <View key={f.key} style={styles.figure} accessibilityLabel={`${f.name}: ${value}, ${figure.acceptance ?? 'not enough data'}. ${f.band}`}>
               <AppText variant="label">{f.name}</AppText>

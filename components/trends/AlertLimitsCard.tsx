@@ -10,7 +10,7 @@ import { Card } from '../Card';
 import { ConfirmDialog } from '../ConfirmDialog';
 import { ErrorState, LoadingState } from '../StateViews';
 import { AddLimitDialog } from './AddLimitDialog';
-import { percent } from './chartLook';
+import { formatPercent } from '../../lib/format';
 
 interface AlertLimitsCardProps {
   choices: TrendChoices;
@@ -41,7 +41,7 @@ export function AlertLimitsCard({ choices, canEdit }: AlertLimitsCardProps) {
           <View key={limit.id} role="listitem" style={styles.row}>
             <View style={styles.text}>
               <AppText variant="bodyStrong">{describeLimit(limit)}</AppText>
-              <AppText variant="caption" tone="muted">{`Alert above ${percent(limit.maxDefectFraction)} failed in a day · set by ${limit.createdBy}`}</AppText>
+              <AppText variant="caption" tone="muted">{`Alert above ${formatPercent(limit.maxDefectFraction)} failed in a day · set by ${limit.createdBy}`}</AppText>
             </View>
             {canEdit ? (
               <Button
@@ -73,7 +73,7 @@ export function AlertLimitsCard({ choices, canEdit }: AlertLimitsCardProps) {
       <ConfirmDialog
         visible={deleting !== null}
         title="Delete this alert limit?"
-        message={deleting ? `${describeLimit(deleting)}: no more alerts will be raised above ${percent(deleting.maxDefectFraction)} a day. Alerts already raised are kept.` : ''}
+        message={deleting ? `${describeLimit(deleting)}: no more alerts will be raised above ${formatPercent(deleting.maxDefectFraction)} a day. Alerts already raised are kept.` : ''}
         confirmLabel="Delete limit"
         destructive
         busy={remove.isPending}

@@ -9,7 +9,7 @@ import { Button } from '../Button';
 import { Card } from '../Card';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { ChartLegend } from './ChartLegend';
-import { percent } from './chartLook';
+import { formatPercent } from '../../lib/format';
 import { PChartPlot } from './PChartPlot';
 import { PChartTable } from './PChartTable';
 import { recordsHref } from './recordsLink';
@@ -49,7 +49,7 @@ export function ControlChartCard({ filters, bucket, runRules, phone }: ControlCh
     body = (
       <>
         <AppText tone="muted">
-          {`p̄ = ${chart.data.center === null ? '—' : percent(chart.data.center, 2)} over ${chart.data.points.reduce((s, p) => s + p.n, 0)} parts judged in ${chart.data.points.length} ${bucket === 'day' ? 'days' : 'shifts'}. Limits p̄ ± 3·√(p̄(1−p̄)/n) follow each subgroup's size.`}
+          {`p̄ = ${chart.data.center === null ? '—' : formatPercent(chart.data.center, 2)} over ${chart.data.points.reduce((s, p) => s + p.n, 0)} parts judged in ${chart.data.points.length} ${bucket === 'day' ? 'days' : 'shifts'}. Limits p̄ ± 3·√(p̄(1−p̄)/n) follow each subgroup's size.`}
         </AppText>
         <View style={styles.toggleRow}>
           <Button

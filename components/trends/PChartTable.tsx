@@ -2,7 +2,7 @@ import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { colors, minTouchTarget, space } from '../../lib/theme';
 import type { PChart } from '../../shared/api/trends';
 import { AppText } from '../AppText';
-import { percent } from './chartLook';
+import { formatPercent } from '../../lib/format';
 
 const COLUMNS = [
   { key: 'start', title: 'Subgroup', width: 132, numeric: false },
@@ -26,7 +26,7 @@ export function PChartTable({ chart, onOpenPoint }: PChartTableProps) {
   for (const s of chart.signals) rulesAt.set(s.pointIndex, [...(rulesAt.get(s.pointIndex) ?? []), s.rule]);
   return (
     <ScrollView horizontal contentContainerStyle={styles.scroller}>
-      <View role="table" aria-label={`p-chart values, ${chart.points.length} subgroups; centre line p̄ ${chart.center === null ? 'none' : percent(chart.center, 2)}`} style={styles.table}>
+      <View role="table" aria-label={`p-chart values, ${chart.points.length} subgroups; centre line p̄ ${chart.center === null ? 'none' : formatPercent(chart.center, 2)}`} style={styles.table}>
         <View role="row" style={[styles.row, styles.head]}>
           {COLUMNS.map((c) => (
             <View key={c.key} role="columnheader" style={[styles.cell, c.numeric && styles.number, { width: c.width }]}>
@@ -41,7 +41,7 @@ export function PChartTable({ chart, onOpenPoint }: PChartTableProps) {
               <View role="cell" style={[styles.cell, { width: COLUMNS[0].width }]}>
                 <AppText variant="caption">{point.label}</AppText>
               </View>
-              {[String(point.n), String(point.defectives), percent(point.p, 2), percent(point.lcl, 2), percent(point.ucl, 2)].map((text, c) => (
+              {[String(point.n), String(point.defectives), formatPercent(point.p, 2), formatPercent(point.lcl, 2), formatPercent(point.ucl, 2)].map((text, c) => (
                 <View key={COLUMNS[c + 1].key} role="cell" style={[styles.cell, styles.number, { width: COLUMNS[c + 1].width }]}>
                   <AppText variant="caption">{text}</AppText>
                 </View>

@@ -6,7 +6,7 @@ import type { TrendFilters } from '../../shared/api/trends';
 import { AppText } from '../AppText';
 import { Card } from '../Card';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
-import { percent } from './chartLook';
+import { formatPercent } from '../../lib/format';
 import { LinkRow } from './LinkRow';
 import { ParetoPlot } from './ParetoPlot';
 import { recordsHref } from './recordsLink';
@@ -45,9 +45,9 @@ export function ParetoCard({ filters, phone }: ParetoCardProps) {
             <LinkRow
               key={bar.cause}
               title={`${i + 1}. ${bar.cause}`}
-              detail={`${bar.count} failed · ${percent(bar.count / totalFailures)} of failures · ${percent(bar.cumulative)} cumulative`}
+              detail={`${bar.count} failed · ${formatPercent(bar.count / totalFailures)} of failures · ${formatPercent(bar.cumulative)} cumulative`}
               share={bar.count / totalFailures}
-              accessibilityLabel={`${bar.cause}: ${bar.count} failed parts, ${percent(bar.cumulative)} cumulative. Open these inspections.`}
+              accessibilityLabel={`${bar.cause}: ${bar.count} failed parts, ${formatPercent(bar.cumulative)} cumulative. Open these inspections.`}
               onPress={() => openCause(bar.cause)}
             />
           ))}
@@ -63,9 +63,9 @@ export function ParetoCard({ filters, phone }: ParetoCardProps) {
               <LinkRow
                 key={station.stationId}
                 title={`${station.stationName} · ${station.lineName}`}
-                detail={`${percent(station.p)} failed · ${station.defectives} of ${station.n} judged`}
+                detail={`${formatPercent(station.p)} failed · ${station.defectives} of ${station.n} judged`}
                 share={station.p}
-                accessibilityLabel={`${station.stationName} on ${station.lineName}: ${percent(station.p)} failed, ${station.defectives} of ${station.n}. Open its failed inspections.`}
+                accessibilityLabel={`${station.stationName} on ${station.lineName}: ${formatPercent(station.p)} failed, ${station.defectives} of ${station.n}. Open its failed inspections.`}
                 onPress={() => openStation(station.stationId)}
               />
             ))}

@@ -21,7 +21,3 @@ export function niceAxis(largest: number): { max: number; sections: number } {
   return { max: 10 * power, sections: 5 };
 }
 
-/** A share 0..1 as a percentage with the precision a chart label needs. */
-export function percent(share: number, digits = 1): string {
-  return `${(share * 100).toFixed(digits)} %`;
-}

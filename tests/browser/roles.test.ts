@@ -11,7 +11,7 @@ const EXPECTED_AREAS: Record<string, string[]> = {
   engineer: ['Home', 'Rules', 'Reference sets'],
   operator: ['Home', 'Inspect'],
   supervisor: ['Home', 'Review', 'Rules', 'Stations', 'Trends', 'Records'],
-  auditor: ['Home', 'Rules', 'Records'],
+  auditor: ['Home', 'Rules', 'Trends', 'Records'],
   admin: ['Home', 'Stations', 'Users'],
 };
 

@@ -28,9 +28,9 @@ export function ChoiceChips<T extends string | boolean | null>({ label, choices,
           return (
             <Pressable
               key={String(choice.value)}
-              accessibilityRole="radio"
-              accessibilityLabel={choice.label}
-              accessibilityState={{ checked: selected }}
+              role="radio"
+              aria-label={choice.label}
+              aria-checked={selected}
               onPress={() => onChange(choice.value)}
               style={({ pressed }) => [styles.chip, selected && styles.chipSelected, pressed && !selected && styles.chipPressed]}
             >

@@ -220,7 +220,7 @@ describe.each([
       await signIn(operator, 'operator');
       // This device last inspected with the gasket rule at its station, before the withdrawal.
       const [station] = await product.db.dataSource.query(`select id from stations where name = $1`, [STATION_OF.gasket]);
-      await operator.evaluate((choice) => localStorage.setItem('kernwright.inspect.choice', choice), JSON.stringify({ stationId: station.id, ruleId: gasketRuleId }));
+      await operator.evaluate(`localStorage.setItem('kernwright.inspect.choice', ${JSON.stringify(JSON.stringify({ stationId: station.id, ruleId: gasketRuleId }))})`);
       await operator.goto(`${product.url}/inspect`);
       await operator.getByRole('alert').getByText('⚠ The rule this device remembered is no longer released').waitFor();
       const rules = operator.getByRole('radiogroup', { name: 'Released rules' });

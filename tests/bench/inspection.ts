@@ -7,32 +7,16 @@
 // the time from sending the photo to receiving the verdict, and the server's own split per phase
 // (its Server-Timing header). Figures only: nothing here passes or fails on time.
 //
-// Run: KW_BENCH_PG_URL=postgres://postgres@127.0.0.1:54339 npx ts-node --transpile-only -P server/tsconfig.json tests/bench/inspection.ts
+// Run: KW_BENCH_PG_URL=postgres://postgres@127.0.0.1:54339 npm run bench:inspection
 // Settings: KW_BENCH_SEQUENTIAL (100 uploads), KW_BENCH_PER_STATION (25 uploads per concurrent station),
 // KW_BENCH_CONCURRENCY (2,4), KW_BENCH_PHOTOS (12 distinct photos), KW_BENCH_KEEP=1 keeps the database and log.
-import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
-import { Client } from 'pg';
-import { RuleEntity } from '../../server/components/rules/entities';
-import { makeDataSource } from '../../server/db/data-source';
-import { generateDataset, PART_FAMILIES } from '../../server/demo';
-import { seedDemoPlant } from '../../server/seed/demo-plant';
-import { DEMO_PASSWORD, seedDemoUsers } from '../../server/seed/demo-users';
-import { MemoizingRunner } from '../../server/seed/memo-runner';
-import { UserEntity } from '../../server/components/auth/entities';
-import { createServices } from '../../server/services';
-import { loadKernelLibrary } from '../../server/vision/kernel-library';
-import { VisionPool } from '../../server/vision/pool';
-import { testConfig } from '../support/app';
 import { formatRow, mean, parseServerTiming, percentile, type TimingMetric } from './latency';
-
-const ROOT = path.join(__dirname, '..', '..');
-const FRAME = { width: 2592, height: 1944 };
-const RULE_NAME = 'Washer rim and bore check';
+import { admin, FRAME, photographWashers, PG_URL, preparePlant, processCpuMs, RULE_NAME, signIn, startServer, uniqueJpeg, type GeneratedPhoto } from './plant-server';
 
 function setting(name: string, fallback: number): number {
   const value = Number(process.env[name] ?? fallback);
@@ -45,117 +29,6 @@ const PER_STATION = setting('KW_BENCH_PER_STATION', 25);
 const PHOTOS = setting('KW_BENCH_PHOTOS', 12);
 const CONCURRENCY = (process.env.KW_BENCH_CONCURRENCY ?? '2,4').split(',').map(Number).filter((n) => n > 0);
 const WARM_UP = 6;
-
-const PG_URL = (process.env.KW_BENCH_PG_URL ?? process.env.KW_TEST_DATABASE_URL ?? 'postgres://postgres@127.0.0.1:54339').replace(/\/$/, '');
-
-async function admin(sql: string): Promise<void> {
-  const client = new Client({ connectionString: `${PG_URL}/postgres` });
-  await client.connect();
-  try {
-    await client.query(sql);
-  } finally {
-    await client.end();
-  }
-}
-
-interface Plant {
-  ruleVersionId: string;
-  stationIds: string[];
-}
-
-/** Migrates the database, seeds the demo users and rules, and adds stations calibrated for 5 MP washers. */
-async function preparePlant(databaseUrl: string, imageDir: string, stations: number): Promise<Plant> {
-  const dataSource = makeDataSource(databaseUrl, { poolSize: 4 });
-  await dataSource.initialize();
-  const pool = new VisionPool({ kernels: await loadKernelLibrary(), threads: 2 });
-  try {
-    await dataSource.runMigrations({ transaction: 'each' });
-    await seedDemoUsers(dataSource);
-    const services = createServices({ config: testConfig({ databaseUrl, imageDir }), dataSource, pool: new MemoizingRunner(pool), jobs: null });
-    await seedDemoPlant(services, { referencePhotos: 6, historyDays: 0 });
-    const supervisor = await dataSource.getRepository(UserEntity).findOneByOrFail({ username: 'supervisor' });
-    const line = await services.stations.createLine(supervisor, { name: 'Benchmark line' });
-    const mmPerPx = PART_FAMILIES.washer.fieldOfViewMm / FRAME.width;
-    const stationIds: string[] = [];
-    for (let i = 1; i <= stations; i++) {
-      const station = await services.stations.createStation(supervisor, { lineId: line.id, name: `5 MP station ${i}`, cameraNote: `${FRAME.width}×${FRAME.height} JPEG` });
-      await services.stations.calibrate(supervisor, station.id, { referenceLengthMm: 20, distancePx: 20 / mmPerPx });
-      stationIds.push(station.id);
-    }
-    const rule = await dataSource.getRepository(RuleEntity).findOneByOrFail({ name: RULE_NAME });
-    const released = (await services.rules.detail(rule.id)).releasedVersion;
-    if (!released) throw new Error(`${RULE_NAME} has no released version`);
-    return { ruleVersionId: released.id, stationIds };
-  } finally {
-    await pool.destroy();
-    await dataSource.destroy();
-  }
-}
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = net.createServer();
-    server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => {
-      const port = (server.address() as net.AddressInfo).port;
-      server.close(() => resolve(port));
-    });
-  });
-}
-
-/** server/main.ts in a child process, API only, mail to a closed port (nothing here sends any). */
-async function startServer(databaseUrl: string, dataDir: string, logFile: string): Promise<{ url: string; child: ChildProcess }> {
-  const port = await freePort();
-  const log = fs.openSync(logFile, 'a');
-  const child = spawn(process.execPath, ['-r', 'ts-node/register/transpile-only', path.join(ROOT, 'server', 'main.ts')], {
-    cwd: ROOT,
-    stdio: ['ignore', log, log],
-    env: {
-      ...process.env,
-      TS_NODE_PROJECT: path.join(ROOT, 'server', 'tsconfig.json'),
-      PORT: String(port),
-      DATABASE_URL: databaseUrl,
-      KW_DATA_DIR: dataDir,
-      KW_WEB_DIR: path.join(dataDir, 'no-web-app'),
-      KW_SMTP_HOST: '127.0.0.1',
-      KW_SMTP_PORT: '9',
-      // One operator's token uploads for every station here: lift the per-person limit, not the server's own.
-      KW_UPLOADS_PER_MINUTE: process.env.KW_UPLOADS_PER_MINUTE ?? '100000',
-    },
-  });
-  const url = `http://127.0.0.1:${port}`;
-  const deadline = Date.now() + 120_000;
-  while (Date.now() < deadline) {
-    if (child.exitCode !== null) throw new Error(`the server stopped (exit ${child.exitCode}); see ${logFile}`);
-    try {
-      if ((await fetch(`${url}/api/health`)).ok) return { url, child };
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  throw new Error(`the server did not answer within 120 s; see ${logFile}`);
-}
-
-interface GeneratedPhoto {
-  jpeg: Buffer;
-  label: string;
-}
-
-async function photographWashers(count: number): Promise<GeneratedPhoto[]> {
-  const photos: GeneratedPhoto[] = [];
-  for await (const photo of generateDataset({ count, seed: 2592, families: ['washer'], sizes: [FRAME], defectShare: 1 / 3, retakeShare: 0, sixteenBitShare: 0, jpegShare: 1 })) {
-    photos.push({ jpeg: photo.buffer, label: photo.truth.label });
-  }
-  return photos;
-}
-
-/** The same photo with a JPEG comment naming the upload, so that every upload is stored as a new image (content-addressed store). */
-function uniqueJpeg(jpeg: Buffer, tag: string): Buffer {
-  const text = Buffer.from(tag, 'latin1');
-  const segment = Buffer.from([0xff, 0xfe, ((text.length + 2) >> 8) & 0xff, (text.length + 2) & 0xff]);
-  return Buffer.concat([jpeg.subarray(0, 2), segment, text, jpeg.subarray(2)]);
-}
 
 interface Sample {
   ms: number;
@@ -190,27 +63,12 @@ class Uploader {
   }
 }
 
-async function signIn(url: string): Promise<string> {
-  const response = await fetch(`${url}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ username: 'operator', password: DEMO_PASSWORD }) });
-  if (!response.ok) throw new Error(`sign-in failed: ${response.status}`);
-  return ((await response.json()) as { token: string }).token;
-}
-
 interface RunResult {
   label: string;
   samples: Sample[];
   wallMs: number;
   /** CPU time of the server process, all its threads, over the run. */
   serverCpuMs: number;
-}
-
-const CLOCK_TICKS_PER_SECOND = Number(execFileSync('getconf', ['CLK_TCK']).toString().trim()) || 100;
-
-/** User + system CPU time of a process and all its threads (Linux /proc/PID/stat, fields 14 and 15). */
-function processCpuMs(pid: number): number {
-  const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
-  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
-  return ((Number(fields[11]) + Number(fields[12])) * 1000) / CLOCK_TICKS_PER_SECOND;
 }
 
 async function runStations(label: string, uploader: Uploader, serverPid: number, stationIds: string[], perStation: number): Promise<RunResult> {

@@ -54,6 +54,22 @@ function fromUploadLimit(code: string, field: string | undefined): AppError {
   }
 }
 
+/** Connection-level codes: refused or reset sockets, PostgreSQL shutting down (57P01-57P03) or the link lost (08xxx). */
+const UNAVAILABLE_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT', '57P01', '57P02', '57P03', '08000', '08001', '08003', '08006']);
+
+/**
+ * The database went away under the request. A lost connection shows up in several guises: the
+ * driver's code, pg's "Connection terminated" without one, or TypeORM failing to roll back on the
+ * dead connection (QueryRunnerAlreadyReleasedError), which hides the first error.
+ */
+function isDatabaseUnavailable(err: unknown): boolean {
+  const e = err as { code?: string; name?: string; message?: string; driverError?: { code?: string; message?: string } } | null;
+  if (!e) return false;
+  if (UNAVAILABLE_CODES.has(e.code ?? '') || UNAVAILABLE_CODES.has(e.driverError?.code ?? '')) return true;
+  if (e.name === 'QueryRunnerAlreadyReleasedError') return true;
+  return /Connection terminated|connection is closed|Client has encountered a connection error|timeout exceeded when trying to connect/i.test(`${e.message ?? ''} ${e.driverError?.message ?? ''}`);
+}
+
 function toAppError(err: unknown): AppError | null {
   if (err instanceof AppError) return err;
   if (err instanceof z.ZodError) return fromZod(err);
@@ -61,8 +77,7 @@ function toAppError(err: unknown): AppError | null {
   if (e?.type === 'entity.parse.failed') return new AppError('bad_request', 'The request body is not valid JSON');
   if (e?.type === 'entity.too.large') return new AppError('payload_too_large', 'The request body is too large');
   if ((err as { name?: string })?.name === 'MulterError') return fromUploadLimit(e.code ?? '', (err as { field?: string }).field);
-  if (e?.code === 'ECONNREFUSED' || e?.code === '57P01' || e?.code === '57P03')
-    return new AppError('service_unavailable', 'The database is not reachable; try again in a moment');
+  if (isDatabaseUnavailable(err)) return new AppError('service_unavailable', 'The database is not reachable; try again in a moment');
   return null;
 }
 

@@ -85,7 +85,7 @@ describe('at wide width', () => {
     const submit = page.getByRole('dialog');
     await submit.getByLabel('Note for the reviewer').fill('Median added against speckle; trial attached.');
     await submit.getByRole('button', { name: 'Submit for review' }).click();
-    await page.getByText('⧗ v1 In review').waitFor({ timeout: 30_000 });
+    await page.getByText('◷ v1 In review').waitFor({ timeout: 30_000 });
     await page.getByRole('button', { name: 'New draft from version 1' }).waitFor();
     await screenshot(page, 'workbench-submitted-wide');
     expect(errors).toEqual([]);

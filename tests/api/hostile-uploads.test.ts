@@ -80,6 +80,15 @@ const HOSTILE: Hostile[] = [
   { name: 'an HTML page', file: 'part.html', type: 'text/html', bytes: async () => Buffer.from('<!doctype html><script>alert(1)</script>'), status: 415, message: /not an image/ },
 ];
 
+const inspect = (bytes: Buffer, file: string, type: string) =>
+  request(t.app)
+    .post('/api/inspections')
+    .set(operator)
+    .field('stationId', stationId)
+    .field('ruleVersionId', releasedId)
+    .field('idempotencyKey', crypto.randomUUID())
+    .attach('photo', bytes, { filename: file, contentType: type });
+
 async function storedFiles(): Promise<number> {
   const files = await fs.readdir(imageDir, { recursive: true, withFileTypes: true }).catch(() => []);
   return files.filter((f) => f.isFile()).length;
@@ -110,13 +119,7 @@ afterAll(async () => {
 describe.each(HOSTILE)('$name', ({ file, type, bytes, status, message }) => {
   test('is refused by the inspection route, leaving nothing behind', async () => {
     const before = { rows: await rowCounts(), files: await storedFiles() };
-    const res = await request(t.app)
-      .post('/api/inspections')
-      .set(operator)
-      .field('stationId', stationId)
-      .field('ruleVersionId', releasedId)
-      .field('idempotencyKey', crypto.randomUUID())
-      .attach('photo', await bytes(), { filename: file, contentType: type });
+    const res = await inspect(await bytes(), file, type);
     expect(res.status).toBe(status);
     expect(res.body.error.message).toMatch(message);
     expect({ rows: await rowCounts(), files: await storedFiles() }).toEqual(before);
@@ -134,25 +137,13 @@ describe.each(HOSTILE)('$name', ({ file, type, bytes, status, message }) => {
 
 test('a file over the size limit is refused before it is read in full, with the limit named', async () => {
   const before = { rows: await rowCounts(), files: await storedFiles() };
-  const res = await request(t.app)
-    .post('/api/inspections')
-    .set(operator)
-    .field('stationId', stationId)
-    .field('ruleVersionId', releasedId)
-    .field('idempotencyKey', crypto.randomUUID())
-    .attach('photo', Buffer.alloc(MAX_PHOTO_BYTES + 1), { filename: 'big.png', contentType: 'image/png' });
+  const res = await inspect(Buffer.alloc(MAX_PHOTO_BYTES + 1), 'big.png', 'image/png');
   expect(res.status).toBe(413);
   expect(res.body.error.message).toMatch(/MB/);
   expect({ rows: await rowCounts(), files: await storedFiles() }).toEqual(before);
 });
 
 test('after all that, a good photo is still inspected', async () => {
-  const res = await request(t.app)
-    .post('/api/inspections')
-    .set(operator)
-    .field('stationId', stationId)
-    .field('ruleVersionId', releasedId)
-    .field('idempotencyKey', crypto.randomUUID())
-    .attach('photo', await spotPhoto(12, 0), { filename: 'part.png', contentType: 'image/png' });
+  const res = await inspect(await spotPhoto(12, 0), 'part.png', 'image/png');
   expect(res.status).toBe(201);
 });

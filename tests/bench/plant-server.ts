@@ -5,7 +5,6 @@ import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
-import { Client } from 'pg';
 import { UserEntity } from '../../server/components/auth/entities';
 import { RuleEntity } from '../../server/components/rules/entities';
 import { makeDataSource } from '../../server/db/data-source';
@@ -17,6 +16,7 @@ import { createServices } from '../../server/services';
 import { loadKernelLibrary } from '../../server/vision/kernel-library';
 import { VisionPool } from '../../server/vision/pool';
 import { testConfig } from '../support/app';
+import { adminQuery } from './bench-db';
 
 const ROOT = path.join(__dirname, '..', '..');
 export const FRAME = { width: 2592, height: 1944 };
@@ -25,14 +25,8 @@ export const RULE_NAME = 'Washer rim and bore check';
 
 export const PG_URL = (process.env.KW_BENCH_PG_URL ?? process.env.KW_TEST_DATABASE_URL ?? 'postgres://postgres@127.0.0.1:54339').replace(/\/$/, '');
 
-export async function admin(sql: string): Promise<void> {
-  const client = new Client({ connectionString: `${PG_URL}/postgres` });
-  await client.connect();
-  try {
-    await client.query(sql);
-  } finally {
-    await client.end();
-  }
+export function admin(sql: string): Promise<void> {
+  return adminQuery(PG_URL, sql);
 }
 
 

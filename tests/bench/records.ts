@@ -13,7 +13,6 @@ import crypto from 'node:crypto';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
-import { Client } from 'pg';
 import type { DataSource } from 'typeorm';
 import type { RecordFilters } from '../../shared/api/records';
 import { createApp } from '../../server/app';
@@ -23,28 +22,14 @@ import { makeDataSource } from '../../server/db/data-source';
 import { createLogger } from '../../server/lib/logger';
 import { createServices } from '../../server/services';
 import { testConfig } from '../support/app';
+import { adminQuery, argument, noPipelines as noPipelinesFor, seconds } from './bench-db';
+import { percentile } from './latency';
 
 const PASSWORD = 'bench-records-password';
 const PAGE = 50;
 const RUNS = 20;
-const noPipelines = { run: () => Promise.reject(new Error('no pipelines in the records benchmark')) };
+const noPipelines = noPipelinesFor('records');
 
-function argument(name: string): string | undefined {
-  const i = process.argv.indexOf(name);
-  return i >= 0 ? process.argv[i + 1] : undefined;
-}
-
-async function admin(serverUrl: string, sql: string): Promise<void> {
-  const client = new Client({ connectionString: `${serverUrl}/postgres` });
-  await client.connect();
-  try {
-    await client.query(sql);
-  } finally {
-    await client.end();
-  }
-}
-
-const seconds = (since: number) => (performance.now() - since) / 1000;
 
 /**
  * A year of a plant with two lines of four stations, three part types with two rule versions each
@@ -114,11 +99,6 @@ async function seed(ds: DataSource, inspections: number): Promise<void> {
   await q('vacuum analyze measurements');
   await q('vacuum analyze disputes');
   console.log(`  vacuum analyze in ${seconds(started).toFixed(1)} s`);
-}
-
-function percentile(values: number[], p: number): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
 }
 
 interface PlanNode {
@@ -344,7 +324,7 @@ async function main(): Promise<void> {
   // --reuse NAME measures a database kept by an earlier run (--keep) again, after migrating it.
   const reuse = argument('--reuse');
   const name = reuse ?? `kw_bench_records_${crypto.randomBytes(4).toString('hex')}`;
-  if (!reuse) await admin(serverUrl, `create database "${name}"`);
+  if (!reuse) await adminQuery(serverUrl, `create database "${name}"`);
   const url = `${serverUrl}/${name}`;
   const ds = makeDataSource(url, { poolSize: 4 });
   const keep = reuse !== undefined || process.argv.includes('--keep');
@@ -368,7 +348,7 @@ async function main(): Promise<void> {
   } finally {
     if (ds.isInitialized) await ds.destroy();
     if (keep) console.log(`\nkept database ${url}`);
-    else await admin(serverUrl, `drop database if exists "${name}" with (force)`);
+    else await adminQuery(serverUrl, `drop database if exists "${name}" with (force)`);
   }
 }
 

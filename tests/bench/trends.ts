@@ -7,39 +7,19 @@
 //   settings: KW_BENCH_PG_URL (postgres://postgres@127.0.0.1:54339); the database is dropped afterwards unless --keep.
 import crypto from 'node:crypto';
 import os from 'node:os';
-import { Client } from 'pg';
 import type { DataSource } from 'typeorm';
 import type { PChartQuery, TrendFilters } from '../../shared/api/trends';
 import { makeDataSource } from '../../server/db/data-source';
 import { createServices, type Services } from '../../server/services';
 import { testConfig } from '../support/app';
+import { adminQuery, argument, noPipelines as noPipelinesFor, seconds } from './bench-db';
+import { percentile } from './latency';
 
 const RUNS = 10;
 const DAYS = 90;
-const noPipelines = { run: () => Promise.reject(new Error('no pipelines in the trends benchmark')) };
+const noPipelines = noPipelinesFor('trends');
 
-function argument(name: string): string | undefined {
-  const i = process.argv.indexOf(name);
-  return i >= 0 ? process.argv[i + 1] : undefined;
-}
 
-async function admin(serverUrl: string, sql: string): Promise<void> {
-  const client = new Client({ connectionString: `${serverUrl}/postgres` });
-  await client.connect();
-  try {
-    await client.query(sql);
-  } finally {
-    await client.end();
-  }
-}
-
-const seconds = (since: number) => (performance.now() - since) / 1000;
-
-/** Nearest-rank percentile. */
-function percentile(values: readonly number[], p: number): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  return sorted[Math.max(1, Math.ceil((p / 100) * sorted.length)) - 1];
-}
 
 /**
  * 90 days of a plant with 4 lines of 5 stations, 4 part types with one released rule each (a station
@@ -139,7 +119,7 @@ async function main(): Promise<void> {
   const name = `kw_bench_trends_${crypto.randomBytes(4).toString('hex')}`;
   console.log(`Trends benchmark: ${inspections.toLocaleString('en')} inspections over ${DAYS} days, database ${name}`);
   console.log(`  machine: ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')}`);
-  await admin(serverUrl, `create database "${name}"`);
+  await adminQuery(serverUrl, `create database "${name}"`);
   const url = `${serverUrl}/${name}`;
   const ds = makeDataSource(url, { poolSize: 4 });
   try {
@@ -152,7 +132,7 @@ async function main(): Promise<void> {
   } finally {
     await ds.destroy();
     if (process.argv.includes('--keep')) console.log(`  kept: ${url}`);
-    else await admin(serverUrl, `drop database if exists "${name}" with (force)`);
+    else await adminQuery(serverUrl, `drop database if exists "${name}" with (force)`);
   }
 }
 

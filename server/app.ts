@@ -1,4 +1,5 @@
 import express, { type Express } from 'express';
+import type { DataSource } from 'typeorm';
 import helmet from 'helmet';
 import path from 'node:path';
 import { pinoHttp } from 'pino-http';
@@ -22,7 +23,7 @@ import { trendRoutes } from './components/trends/routes';
 import { trialRoutes } from './components/trials/routes';
 import { userRoutes } from './components/users/routes';
 import type { Config } from './config';
-import { apiNotFound, errorHandler } from './lib/errors';
+import { apiNotFound, createErrorHandler } from './lib/errors';
 import { admissionLimit, corsForApp, uploadRateLimit } from './lib/http-guards';
 import type { Logger } from './lib/logger';
 import type { Services } from './services';
@@ -31,6 +32,13 @@ export interface AppDeps {
   config: Config;
   services: Services;
   logger: Logger;
+}
+
+/** True when the database does not answer a trivial query within two seconds. */
+function databaseDown(dataSource: DataSource): Promise<boolean> {
+  const probe = dataSource.query('select 1').then(() => false, () => true);
+  const timeout = new Promise<boolean>((resolve) => setTimeout(() => resolve(true), 2000).unref());
+  return Promise.race([probe, timeout]);
 }
 
 /** Builds the Express app (API + the exported web app); listening is main.ts's job. */
@@ -77,6 +85,6 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
     // Single-page app: every other path is a client route.
     app.get('/{*splat}', (_req, res) => res.sendFile(path.join(webDir, 'index.html')));
   }
-  app.use(errorHandler);
+  app.use(createErrorHandler(() => databaseDown(s.dataSource)));
   return app;
 }

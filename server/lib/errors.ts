@@ -81,22 +81,33 @@ function toAppError(err: unknown): AppError | null {
   return null;
 }
 
-export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
-  if (res.headersSent) {
-    // A streamed answer (an export) failed midway: cut it off so the client sees an incomplete download.
-    req.log?.error({ err }, 'error after the answer had started');
-    res.destroy(err instanceof Error ? err : undefined);
-    return;
-  }
-  const known = toAppError(err);
-  if (!known) {
-    req.log?.error({ err }, 'unhandled error');
-    res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server; it has been logged' } });
-    return;
-  }
-  if (known.code === 'service_unavailable') res.set('Retry-After', '5');
-  res.status(known.status).json({ error: { code: known.code, message: known.message, details: known.details } });
-};
+/**
+ * The one error answer. `databaseDown` is asked about an error nobody recognised: when the database
+ * does not answer either, the request failed because of it, and the client is told to try again (503)
+ * rather than that something broke (500), whatever guise the lost connection took.
+ */
+export function createErrorHandler(databaseDown: () => Promise<boolean> = async () => false): ErrorRequestHandler {
+  return (err, req, res, _next) => {
+    if (res.headersSent) {
+      // A streamed answer (an export) failed midway: cut it off so the client sees an incomplete download.
+      req.log?.error({ err }, 'error after the answer had started');
+      res.destroy(err instanceof Error ? err : undefined);
+      return;
+    }
+    const answer = (error: AppError) => {
+      if (error.code === 'service_unavailable') res.set('Retry-After', '5');
+      res.status(error.status).json({ error: { code: error.code, message: error.message, details: error.details } });
+    };
+    const known = toAppError(err);
+    if (known) return answer(known);
+    void databaseDown().then((down) => {
+      req.log?.error({ err, databaseDown: down }, 'unhandled error');
+      if (down) return answer(new AppError('service_unavailable', 'The database is not reachable; try again in a moment'));
+      res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server; it has been logged' } });
+    });
+  };
+}
+
 
 export const apiNotFound: RequestHandler = (req, _res, next) => {
   next(new AppError('not_found', `No API route ${req.method} ${req.originalUrl}`));

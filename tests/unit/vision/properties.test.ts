@@ -73,7 +73,10 @@ test('convolution is linear: K(a·f + c·g) = a·K(f) + c·K(g)', () => {
         const kf = correlate(f, kernel, b);
         const kg = correlate(g, kernel, b);
         const right = imageFromSamples(w, h, kf.data.map((v, i) => a * v + c * kg.data[i]));
-        expect(closeTo(left, right, 1e-5)).toBe(true);
+        // Float32 rounding scales with what is summed, not with the result: a kernel whose taps add up
+        // to 0 on a flat neighbourhood gives 0 exactly in real numbers and rounding noise in float32.
+        const summed = matrix.flat().reduce((sum, tap) => sum + Math.abs(tap), 0) * (Math.abs(a) * maxAbs(f.data) + Math.abs(c) * maxAbs(g.data));
+        expect(left.data.every((v, i) => Math.abs(v - right.data[i]) <= 1e-5 * summed)).toBe(true);
       },
     ),
   );

@@ -4,6 +4,7 @@
 import { useEffect, useRef, useState } from 'react';
 import { useMutation, useQuery } from '@tanstack/react-query';
 import type { PreviewResult } from '../shared/api/preview';
+import { prepareEngine, type EngineName } from '../shared/vision/engine';
 import { ImageWorkspace } from '../shared/vision/workspace';
 import { releaseRun, RuleRunError, runRule, type KernelLibrary, type RuleRun } from '../shared/vision/pipeline';
 import { fetchPhotoSamples, runServerPreview, type PhotoSamples } from '../lib/api';
@@ -32,6 +33,8 @@ export interface LocalPreview {
   /** From the change that asked for this run to the updated preview on screen, in ms. */
   changeToPreviewMs: number | null;
   running: boolean;
+  /** The engine the preview runs on: WebAssembly SIMD where the browser has it, else plain TypeScript. */
+  engine: EngineName | null;
 }
 
 interface LocalPreviewInput {
@@ -44,22 +47,47 @@ interface LocalPreviewInput {
 }
 
 export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx }: LocalPreviewInput): LocalPreview {
-  const workspace = useRef(new ImageWorkspace());
+  // The runs' images live in the engine's memory (WebAssembly with the SIMD engine), reused run after run.
+  const workspace = useRef<ImageWorkspace | null>(null);
+  workspace.current ??= new ImageWorkspace();
   const current = useRef<RuleRun | null>(null);
   const [outcome, setOutcome] = useState<{ run: RuleRun | null; error: RuleRunError | Error | null; askedAt: number }>({ run: null, error: null, askedAt: 0 });
   const [changeToPreviewMs, setChangeToPreviewMs] = useState<number | null>(null);
   const [running, setRunning] = useState(false);
+  const [engine, setEngineName] = useState<EngineName | null>(null);
   const documentKey = JSON.stringify(document);
 
+  // A browser compiles the SIMD module asynchronously on its main thread: the first run waits for it (a few ms).
   useEffect(() => {
-    if (!samples) return;
+    let mounted = true;
+    void prepareEngine().then((name) => mounted && setEngineName(name));
+    return () => {
+      mounted = false;
+    };
+  }, []);
+
+  // Leaving the editor hands the last run's buffers back and lets go of the spare ones.
+  useEffect(
+    () => () => {
+      const ws = workspace.current;
+      if (!ws) return;
+      if (current.current) releaseRun(current.current, ws);
+      current.current = null;
+      ws.dispose();
+    },
+    [],
+  );
+
+  useEffect(() => {
+    if (!samples || engine === null) return;
+    const ws = workspace.current!;
     setRunning(true);
     const askedAt = changedAt;
     const timer = setTimeout(() => {
-      if (current.current) releaseRun(current.current, workspace.current);
+      if (current.current) releaseRun(current.current, ws);
       current.current = null;
       try {
-        const run = runRule(JSON.parse(documentKey), samples, { kernels, mmPerPx, workspace: workspace.current, retain: 'all' });
+        const run = runRule(JSON.parse(documentKey), samples, { kernels, mmPerPx, workspace: ws, retain: 'all' });
         current.current = run;
         setOutcome({ run, error: null, askedAt });
       } catch (error) {
@@ -68,7 +96,7 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
       setRunning(false);
     }, PREVIEW_DEBOUNCE_MS);
     return () => clearTimeout(timer);
-  }, [documentKey, samples, kernels, mmPerPx, changedAt]);
+  }, [documentKey, samples, kernels, mmPerPx, changedAt, engine]);
 
   // Child canvases draw in their own effects, which run before this one; the next frame is when the picture is on screen.
   useEffect(() => {
@@ -77,7 +105,7 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
     return () => cancelAnimationFrame(frame);
   }, [outcome]);
 
-  return { run: outcome.run, error: outcome.error, changeToPreviewMs, running };
+  return { run: outcome.run, error: outcome.error, changeToPreviewMs, running, engine };
 }
 
 export interface ServerComparison {

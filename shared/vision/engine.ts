@@ -5,6 +5,7 @@
 import { instantiateAsync, instantiateSync } from './wasm/loader';
 import type { SimdKernels } from './wasm/simd-kernels';
 import { simdSupported } from './wasm/simd-support';
+import { warmUp } from './wasm/warm-up';
 
 export type EngineChoice = 'auto' | 'simd' | 'plain';
 export type EngineName = 'simd' | 'plain';
@@ -49,7 +50,10 @@ export function activeEngine(): EngineName {
 export async function prepareEngine(): Promise<EngineName> {
   if (choice !== 'plain' && !kernels && !unavailable) {
     loading ??= instantiateAsync().then(
-      (loaded) => (kernels = loaded),
+      (loaded) => {
+        warmUp(loaded);
+        return (kernels = loaded);
+      },
       (error: unknown) => {
         unavailable = error instanceof Error ? error : new Error(String(error));
         return null;
@@ -66,7 +70,9 @@ function loadNow(): void {
     return;
   }
   try {
-    kernels = instantiateSync();
+    const loaded = instantiateSync();
+    warmUp(loaded);
+    kernels = loaded;
   } catch (error) {
     // A browser's main thread refuses to compile it synchronously: prepareEngine() loads it.
     if (error instanceof RangeError) onlyAsync = true;

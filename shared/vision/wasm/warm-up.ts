@@ -1,0 +1,37 @@
+// Runs every kernel on a 512×512 image right after the module is instantiated. V8 first runs
+// WebAssembly through its baseline compiler and moves a function to its optimising compiler once it
+// has run for a while, so without this the first photo's steps run several times slower (measured in
+// Chromium: 750 ms for the first 5 MP preview update, 60 ms for the next).
+import { gaussianWeights, kernelFromMatrix } from '../kernels';
+import type { SimdKernels } from './simd-kernels';
+
+const SIDE = 512;
+
+export function warmUp(kernels: SimdKernels): void {
+  const a = kernels.takeImage(SIDE, SIDE);
+  const b = kernels.takeImage(SIDE, SIDE);
+  const c = kernels.takeImage(SIDE, SIDE);
+  const data = a.data;
+  for (let p = 0; p < data.length; p++) data[p] = ((p * 7919) % 251) + (p % SIDE > SIDE / 2 ? 60 : 0);
+  const range = { min: NaN, max: NaN };
+  for (const sigma of [0.5, 0.8, 1, 2]) kernels.separable(a, gaussianWeights(sigma), gaussianWeights(sigma), 'reflect', b);
+  kernels.separable(a, [1, 2, 1], [-1, 0, 1], 'replicate', b);
+  kernels.correlate2d(a, kernelFromMatrix([[0, 1, 0], [1, -4, 1], [0, 1, 0]]), 'reflect', b);
+  kernels.correlate2d(a, kernelFromMatrix([[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]]), 'reflect', b);
+  kernels.laplacianOfGaussian(a, gaussianWeights(1.4), gaussianWeights(1.4), 'reflect', b);
+  kernels.gradient(a, 1, 2, 'x', 'reflect', b);
+  kernels.gradient(a, 1, 2, 'y', 'reflect', b);
+  kernels.gradient(a, 1, 2, 'magnitude', 'reflect', b, range);
+  kernels.eightBitLevels(a);
+  kernels.valueRange(b);
+  kernels.histogram(b, range.min, 256 / (range.max - range.min));
+  kernels.thresholdAt(b, (range.min + range.max) / 2, false, c, { width: SIDE, height: SIDE, wordsPerRow: SIDE / 32, words: new Int32Array((SIDE / 32) * SIDE) });
+  kernels.thresholdAt(b, (range.min + range.max) / 2, false, c);
+  kernels.binaryMorphology(c, 'open', 1, 'reflect', b);
+  kernels.extreme(a, 1, 'reflect', false, b);
+  kernels.extreme(a, 2, 'reflect', true, b);
+  kernels.nonZeroWords(c);
+  kernels.countNonZero(c, new Int32Array(SIDE), new Int32Array(SIDE).fill(SIDE));
+  kernels.qualitySums(a, 255);
+  for (const image of [a, b, c]) kernels.heap.release(image.address);
+}

@@ -126,7 +126,9 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
     const scratch = (step.op === 'open' || step.op === 'close') && !packedPath ? take() : undefined;
     const next = rule.steps[i + 1];
     const packNext = next !== undefined && (next.op === 'erode' || next.op === 'dilate' || next.op === 'open' || next.op === 'close');
-    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options, handover, packNext);
+    // A mask that only the next step reads, and only in packed bits, need not be written as float32.
+    const onlyPacked = packNext && 'radius' in next && next.radius <= MAX_PACKED_RADIUS && !retainAll && !needed.has(i + 1);
+    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options, handover, packNext, onlyPacked);
     if (scratch) spare.push(scratch);
     const ms = now() - t0;
     const kind = outputKind(step, kernels[i], currentKind);
@@ -207,6 +209,7 @@ function applyStep(
   options: RunOptions,
   handover: Handover,
   packNext: boolean,
+  onlyPacked: boolean,
 ): Image {
   const range = handover.range;
   const known = { min: range.min, max: range.max };
@@ -234,7 +237,7 @@ function applyStep(
         if (!packNext) return thresholdOtsu(src, step.invert, out, known).mask;
         handover.packed ??= createPackedMask(src.width, src.height);
         handover.packedReady = true;
-        return thresholdOtsu(src, step.invert, out, known, handover.packed).mask;
+        return thresholdOtsu(src, step.invert, out, known, handover.packed, !onlyPacked).mask;
       }
       return thresholdAdaptiveMean(src, step.size, step.c, border, step.invert, out);
     case 'erode':

@@ -173,7 +173,8 @@ export function otsuBin(counts: ArrayLike<number>): number {
 /**
  * Otsu's method: mask = 1 where the pixel's bin is above the chosen bin k; a flat image gives an empty mask.
  * `range`, when the previous step measured it (see `gradient`), saves a pass over the image.
- * `packed` (of the image's size) receives the mask in packed bits as well, for a following morphology step.
+ * `packed` (of the image's size) receives the mask in packed bits as well, for a following morphology step;
+ * with `writeMask` false it receives it only, and the mask image's contents are left undefined.
  */
 export function thresholdOtsu(
   src: Image,
@@ -181,6 +182,7 @@ export function thresholdOtsu(
   out?: Image,
   range?: ValueRange,
   packed?: PackedMask,
+  writeMask = true,
 ): { mask: Image; bin: number; threshold: number } {
   const simd = simdKernels();
   const hist = simd ? otsuHistogramSimd(simd, src, range) : otsuHistogram(src.data, range);
@@ -188,9 +190,10 @@ export function thresholdOtsu(
   const above = invert ? 0 : 1;
   const below = 1 - above;
   const bits = packed && packed.width === src.width && packed.height === src.height ? packed : null;
+  const maskToo = writeMask || !bits;
   if (k < 0) {
     const dst = imageLike(src, out);
-    dst.data.fill(below);
+    if (maskToo) dst.data.fill(below);
     if (bits) fillPacked(bits, below);
     return { mask: dst, bin: -1, threshold: NaN };
   }
@@ -201,10 +204,10 @@ export function thresholdOtsu(
     // bin(v) never falls as v grows, so "bin above k" is "v at least the first float32 whose bin is above k".
     const edge = k + 1;
     const first = firstFloat32Where(hist.min, hist.max, (v) => (((v - hist.origin) * hist.binsPerUnit) | 0) >= edge);
-    return { mask: simd.thresholdAt(src, first, invert, out, bits ?? undefined), bin: k, threshold };
+    return { mask: simd.thresholdAt(src, first, invert, out, bits ?? undefined, maskToo), bin: k, threshold };
   }
   const dst = imageLike(src, out);
-  if (bits) writeAboveBinPacked(src.data, hist.origin, hist.binsPerUnit, k, invert, dst.data, bits);
+  if (bits) writeAboveBinPacked(src.data, hist.origin, hist.binsPerUnit, k, invert, maskToo ? dst.data : null, bits);
   else writeAboveBin(src.data, hist.origin, hist.binsPerUnit, k, invert, dst.data);
   return { mask: dst, bin: k, threshold };
 }
@@ -222,8 +225,8 @@ function writeAboveBin(s: Float32Array, origin: number, scale: number, k: number
   }
 }
 
-/** writeAboveBin, also setting bit i of each word for the pixel's 1 (bits past the last column stay 0). */
-function writeAboveBinPacked(s: Float32Array, origin: number, scale: number, k: number, invert: boolean, o: Float32Array, packed: PackedMask): void {
+/** writeAboveBin (when o is given), setting bit i of each word for the pixel's 1 (bits past the last column stay 0). */
+function writeAboveBinPacked(s: Float32Array, origin: number, scale: number, k: number, invert: boolean, o: Float32Array | null, packed: PackedMask): void {
   const { width: w, height: h, wordsPerRow, words } = packed;
   const edge = k + 1;
   const flip = invert ? 0 : 1;
@@ -233,10 +236,14 @@ function writeAboveBinPacked(s: Float32Array, origin: number, scale: number, k: 
       const x0 = row + (word << 5);
       const n = Math.min(32, w - (word << 5));
       let acc = 0;
-      for (let i = 0; i < n; i++) {
-        const bit = flip ^ (((((s[x0 + i] - origin) * scale) | 0) - edge) >>> 31);
-        o[x0 + i] = bit;
-        acc |= bit << i;
+      if (o) {
+        for (let i = 0; i < n; i++) {
+          const bit = flip ^ (((((s[x0 + i] - origin) * scale) | 0) - edge) >>> 31);
+          o[x0 + i] = bit;
+          acc |= bit << i;
+        }
+      } else {
+        for (let i = 0; i < n; i++) acc |= (flip ^ (((((s[x0 + i] - origin) * scale) | 0) - edge) >>> 31)) << i;
       }
       words[y * wordsPerRow + word] = acc;
     }

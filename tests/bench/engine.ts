@@ -6,6 +6,7 @@
 // split of a 5 MP JPEG, peak memory, and the machine's load before and after (it is shared).
 // Run: npm run bench   (BENCH_RUNS=9 for more runs, BENCH_SIZES=5 for the 5 MP photo only)
 import os from 'node:os';
+import { Worker } from 'node:worker_threads';
 import sharp from 'sharp';
 import { decodePhoto } from '../../server/vision/decode';
 import { fftCorrelate } from '../../server/vision/fft-correlate';
@@ -217,8 +218,8 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
   const cvKernel31 = cv.matFromArray(31, 31, cv.CV_32F, k31.flat());
 
   const rows: Row[] = [];
-  // As the rule runner does it: the magnitude's range measured on the way, handed to Otsu, and
-  // Otsu's mask handed to the opening in packed bits as well.
+  // As the rule runner does it when the intermediate outputs are not kept: the magnitude's range
+  // measured on the way and handed to Otsu, Otsu's mask handed to the opening in packed bits only.
   const packed = createPackedMask(width, height);
   const openCvPipeline = () => {
     cv.GaussianBlur(f32, m1, new cv.Size(7, 7), 1, 1, REFLECT);
@@ -237,7 +238,8 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
       const range = { min: NaN, max: NaN };
       gaussianBlur(input, 1, 'reflect', a);
       gradient(a, 'sobel', 'magnitude', 'reflect', b, range);
-      thresholdOtsu(b, false, a, range, packed);
+      // Only the opening reads Otsu's mask, in packed bits: the rule runner then writes no float32 mask.
+      thresholdOtsu(b, false, a, range, packed, false);
       morphology(a, 'open', 1, 'reflect', b, c, packed);
     }),
     opencv: openCvPipeline,
@@ -388,7 +390,9 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
  * Two stations feeding a pool of two worker threads, against one thread. `images`: 'none' as a trial
  * or the server's preview check needs (numbers only), 'retained' as an inspection with its evidence.
  */
-async function benchPool(photo: RawPhoto, engine: EngineName, images: 'none' | 'retained', singleRun: Timing): Promise<void> {
+async function benchPool(size: SizeResult, engine: EngineName, images: 'none' | 'retained'): Promise<void> {
+  const { photo } = size;
+  const singleRun = size.fullRun[engine];
   const kernels = await loadKernelLibrary();
   const threads = 2;
   const pool = new VisionPool({ kernels, threads, engine });
@@ -407,7 +411,7 @@ async function benchPool(photo: RawPhoto, engine: EngineName, images: 'none' | '
     await stations(4);
     const rounds = await timeAsync(5, () => stations(tasks));
     const perImage = { best: rounds.best / tasks, median: rounds.median / tasks };
-    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, 5 MP whole rule runs, ${tasks} photos from ${threads} stations, 5 rounds)`);
+    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, ${size.label} whole rule runs, ${tasks} photos from ${threads} stations, 5 rounds)`);
     console.log(`  ${(1000 / perImage.best).toFixed(1)} images/s; ${perImage.best.toFixed(1)} ms per image best, ${perImage.median.toFixed(1)} median`);
     console.log(`  CPU time of this process (all threads) ${(rounds.cpuBest / tasks).toFixed(1)} ms per image best (includes the main thread's photo copies)`);
     console.log(`  one thread, whole run in this process: ${singleRun.best.toFixed(1)} ms best, ${singleRun.median.toFixed(1)} median`);
@@ -415,6 +419,24 @@ async function benchPool(photo: RawPhoto, engine: EngineName, images: 'none' | '
   } finally {
     await pool.destroy();
   }
+}
+
+/**
+ * Copying a 20 MB float32 image with one thread, then with two threads at once: how much of the
+ * memory system a second worker finds left (whole-image passes are bound by it once two working
+ * sets no longer fit the shared cache).
+ */
+async function memoryBandwidth(): Promise<void> {
+  const source = `const { parentPort } = require('node:worker_threads');
+    const a = new Float32Array(5_000_000).fill(1), b = new Float32Array(5_000_000);
+    for (let i = 0; i < 5; i++) b.set(a);
+    const t0 = performance.now(); for (let i = 0; i < 40; i++) b.set(a);
+    parentPort.postMessage((performance.now() - t0) / 40);`;
+  const copy = () => new Promise<number>((resolve, reject) => new Worker(source, { eval: true }).once('message', resolve).once('error', reject));
+  const one = await copy();
+  const two = await Promise.all([copy(), copy()]);
+  const rate = (ms: number) => `${(40e6 / ms / 1e6).toFixed(1)} GB/s`;
+  console.log(`\nmemory: copying 20 MB (read + write) ${rate(one)} with one thread, ${two.map(rate).join(' and ')} with two at once`);
 }
 
 /** Photo received → verdict for a 5 MP JPEG, in this process: decode, luma and quality gate, the pipeline's steps, the gauge. */
@@ -477,14 +499,17 @@ async function main(): Promise<void> {
     console.log(`  ${r.label} CPU time: plain ${t.plain.cpuBest.toFixed(1)}, simd ${t.simd.cpuBest.toFixed(1)}, OpenCV ${t.opencv.cpuBest.toFixed(1)}; simd/OpenCV ${(t.simd.cpuBest / t.opencv.cpuBest).toFixed(3)}`);
     console.log(`  ${r.label} whole rule run: plain ${f(r.fullRun.plain)}, simd ${f(r.fullRun.simd)}`);
   }
-  const fiveMp = results.find((r) => r.label === '5 MP');
-  if (fiveMp) {
-    // Workers run from the TypeScript sources here (ts-node: larger heaps, so dearer collections, than the built server's).
-    await benchPool(fiveMp.photo, 'plain', 'retained', fiveMp.fullRun.plain);
-    await benchPool(fiveMp.photo, 'simd', 'retained', fiveMp.fullRun.simd);
-    await benchPool(fiveMp.photo, 'simd', 'none', fiveMp.fullRun.simd);
-    await photoToVerdict(fiveMp.photo, runs);
+  await memoryBandwidth();
+  // Workers run from the TypeScript sources here (ts-node: larger heaps, so dearer collections, than the built server's).
+  for (const r of results) {
+    if (r.label === '5 MP') {
+      await benchPool(r, 'plain', 'retained');
+      await benchPool(r, 'simd', 'retained');
+    }
+    await benchPool(r, 'simd', 'none');
   }
+  const fiveMp = results.find((r) => r.label === '5 MP');
+  if (fiveMp) await photoToVerdict(fiveMp.photo, runs);
   const mem = process.memoryUsage();
   const mb = (n: number) => (n / 1048576).toFixed(0);
   console.log(`\nmemory: rss ${mb(mem.rss)} MB, heap ${mb(mem.heapUsed)} MB, array buffers ${mb(mem.arrayBuffers)} MB, peak rss (maxRSS) ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);

@@ -25,7 +25,7 @@ export interface EngineExports {
   valueRange(src: number, n: number, out: number): void;
   histogram(src: number, n: number, origin: number, scale: number, partial: number): void;
   thresholdAt(src: number, dst: number, n: number, cut: number, invert: number): void;
-  thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number): void;
+  thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number, writeMask: number): void;
   extreme(src: number, dst: number, w: number, h: number, r: number, mode: number, takeMax: number, scratch: number): void;
   extremeScratchBytes(w: number, r: number): number;
   packMask(src: number, w: number, h: number, words: number): number;
@@ -155,17 +155,20 @@ export class SimdKernels {
     });
   }
 
-  /** mask = (v ≥ cut) XOR invert, cut a float32; `packed` receives the mask in packed bits as well. */
-  thresholdAt(src: Image, cut: number, invert: boolean, out?: Image, packed?: PackedMask): Image {
+  /**
+   * mask = (v ≥ cut) XOR invert, cut a float32; `packed` receives the mask in packed bits as well
+   * (only, with writeMask false: the output image's contents are then left as they were).
+   */
+  thresholdAt(src: Image, cut: number, invert: boolean, out?: Image, packed?: PackedMask, writeMask = true): Image {
     return this.mapImage(src, out, (s, d, scope) => {
       if (!packed) {
         this.wasm.thresholdAt(s, d, src.data.length, cut, invert ? 1 : 0);
         return;
       }
       const words = scope.alloc(4 * packed.words.length);
-      this.wasm.thresholdAtPacked(s, d, src.width, src.height, cut, invert ? 1 : 0, words);
+      this.wasm.thresholdAtPacked(s, d, src.width, src.height, cut, invert ? 1 : 0, words, writeMask ? 1 : 0);
       packed.words.set(this.heap.i32(words, packed.words.length));
-    });
+    }, writeMask || !packed);
   }
 
   /** Minimum (erosion) or maximum (dilation) over the square of side 2r+1, for any values. */
@@ -260,8 +263,11 @@ export class SimdKernels {
     }
   }
 
-  /** Runs a kernel from src into `out` (or a new image), copying in and out only what is not resident. */
-  private mapImage(src: Image, out: Image | undefined, kernel: (src: number, dst: number, scope: CallScope) => void): Image {
+  /**
+   * Runs a kernel from src into `out` (or a new image), copying in and out only what is not resident
+   * (out only when the kernel writes the output image).
+   */
+  private mapImage(src: Image, out: Image | undefined, kernel: (src: number, dst: number, scope: CallScope) => void, writesOutput = true): Image {
     const dst = imageLike(src, out === src ? undefined : out);
     const scope = new CallScope(this.heap);
     try {
@@ -269,7 +275,7 @@ export class SimdKernels {
       const resident = this.owns(dst);
       const d = resident ? dst.address : scope.alloc(4 * dst.data.length);
       kernel(s, d, scope);
-      if (!resident) dst.data.set(this.heap.f32(d, dst.data.length));
+      if (!resident && writesOutput) dst.data.set(this.heap.f32(d, dst.data.length));
     } finally {
       scope.end();
     }

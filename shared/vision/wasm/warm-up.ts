@@ -26,6 +26,7 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.valueRange(b);
   kernels.histogram(b, range.min, 256 / (range.max - range.min));
   kernels.thresholdAt(b, (range.min + range.max) / 2, false, c, { width: SIDE, height: SIDE, wordsPerRow: SIDE / 32, words: new Int32Array((SIDE / 32) * SIDE) });
+  kernels.thresholdAt(b, (range.min + range.max) / 2, false, c, { width: SIDE, height: SIDE, wordsPerRow: SIDE / 32, words: new Int32Array((SIDE / 32) * SIDE) }, false);
   kernels.thresholdAt(b, (range.min + range.max) / 2, false, c);
   kernels.binaryMorphology(c, 'open', 1, 'reflect', b);
   kernels.extreme(a, 1, 'reflect', false, b);

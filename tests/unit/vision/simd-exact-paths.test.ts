@@ -94,6 +94,31 @@ test('morphology on masks (packed bits, radius 1 to 31, or handed over by Otsu):
   );
 });
 
+test('Otsu writing packed bits only (the rule runner when the next step alone reads the mask): the same bits, the mask image untouched, the same opening', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<SampleKind>('8-bit', 'signed float'), seed, fc.boolean(), borderMode, ([w, h], kind, s, invert, border) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => {
+        const both = createPackedMask(w, h);
+        const mask = thresholdOtsu(image, invert, undefined, undefined, both).mask;
+        const only = createPackedMask(w, h);
+        const untouched = sampleImage(w, h, 'awkward', s);
+        const before = bitsOf(untouched);
+        thresholdOtsu(image, invert, untouched, undefined, only, false);
+        const opened = morphology(untouched, 'open', 1, border, undefined, undefined, only);
+        return { same: Array.from(only.words).join() === Array.from(both.words).join(), kept: bitsOf(untouched).join() === before.join(), opened: bitsOf(opened), expected: bitsOf(morphology(mask, 'open', 1, border)) };
+      });
+      for (const r of [plain, simd]) {
+        expect(r.same).toBe(true);
+        expect(r.kept).toBe(true);
+        expect(r.opened).toEqual(r.expected);
+      }
+      expect(simd.opened).toEqual(plain.opened);
+    }),
+    RUNS,
+  );
+});
+
 test('blobs (SIMD pre-pass and run labelling against the pixel scan): the same labels, areas and boxes, in the whole image and in regions', () => {
   const region = fc.oneof(
     fc.constant(undefined),

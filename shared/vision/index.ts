@@ -14,3 +14,5 @@ export * from './gauges';
 export * from './quality';
 export * from './pipeline';
 export * from './workspace';
+export * from './engine';
+export * from './photo-channel';

@@ -7,11 +7,12 @@ import type { BorderMode } from './border';
 import { correlate, type LargeKernelCorrelator } from './convolve';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
-import { channelImage, type BitDepth, type Image, type RawPhoto, type ValueRange } from './image';
+import type { BitDepth, Image, RawPhoto, ValueRange } from './image';
 import { kernelFromMatrix, type Kernel, type KernelDefinition } from './kernels';
 import { laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
 import { morphology } from './morphology';
+import { inputChannel } from './photo-channel';
 import { judgeQuality, qualityFigures, type QualityJudgement } from './quality';
 import { boxFilter, gaussianBlur } from './smoothing';
 import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from './threshold';
@@ -104,7 +105,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   // Without a workspace from the caller, the run's images end in ordinary memory (detached below).
   const ownWorkspace = !options.workspace;
   const workspace = options.workspace ?? new ImageWorkspace();
-  const input = channelImage(photo, rule.input.channel, workspace.take(photo.width, photo.height));
+  const input = inputChannel(photo, rule.input.channel, workspace.take(photo.width, photo.height));
   const quality = judgeQuality(qualityFigures(input, photo.bitDepth), rule.quality);
 
   const retainAll = (options.retain ?? 'all') === 'all';

@@ -24,6 +24,7 @@ import { kernelFromMatrix } from '../../shared/vision/kernels';
 import { laplacian, laplacianOfGaussian } from '../../shared/vision/laplacian';
 import { medianFilter } from '../../shared/vision/median';
 import { morphology } from '../../shared/vision/morphology';
+import { inputChannel } from '../../shared/vision/photo-channel';
 import { releaseRun, runValidatedRule } from '../../shared/vision/pipeline';
 import { qualityFigures } from '../../shared/vision/quality';
 import { boxFilter, gaussianBlur } from '../../shared/vision/smoothing';
@@ -443,7 +444,8 @@ async function memoryBandwidth(): Promise<void> {
 async function photoToVerdict(photo: RawPhoto, runs: number): Promise<void> {
   const jpeg = await sharp(photo.samples, { raw: { width: photo.width, height: photo.height, channels: 1 } }).jpeg({ quality: 90 }).toBuffer();
   const spans = regionSpans(photo.width, photo.height, undefined);
-  console.log(`\nphoto received → verdict, 5 MP JPEG (${(jpeg.length / 1e6).toFixed(2)} MB, grey), ${runs} runs each, ms best / median`);
+  const channels = (await sharp(jpeg).metadata()).channels;
+  console.log(`\nphoto received → verdict, 5 MP JPEG (${(jpeg.length / 1e6).toFixed(2)} MB, decoded with ${channels} channels), ${runs} runs each, ms best / median`);
   for (const engine of ENGINES) {
     setEngine(engine);
     const workspace = new ImageWorkspace();
@@ -452,7 +454,7 @@ async function photoToVerdict(photo: RawPhoto, runs: number): Promise<void> {
       const t0 = performance.now();
       const decoded = await decodePhoto(jpeg);
       const t1 = performance.now();
-      const input = channelImage(decoded, 'luma', workspace.take(decoded.width, decoded.height));
+      const input = inputChannel(decoded, 'luma', workspace.take(decoded.width, decoded.height));
       qualityFigures(input, decoded.bitDepth);
       const t2 = performance.now();
       workspace.give(input);

@@ -35,6 +35,7 @@ export interface EngineExports {
   packNonZero(src: number, w: number, h: number, words: number): void;
   qualitySums(src: number, w: number, h: number, top: number, out: number): void;
   countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
+  lumaRgb8(src: number, channels: number, n: number, dst: number, wr: number, wg: number, wb: number): void;
 }
 
 const BORDER_CODES: Record<BorderMode, number> = { reflect: 0, replicate: 1, constant: 2 };
@@ -246,6 +247,23 @@ export class SimdKernels {
       this.heap.i32(ends, image.height).set(end);
       return this.wasm.countNonZero(s, image.width, image.height, starts, ends);
     });
+  }
+
+  /** wr·R + wg·G + wb·B of interleaved 8-bit RGB or RGBA samples into `out`, in double precision rounded once (the plain engine's bits). */
+  lumaRgb8(samples: Uint8Array, channels: 3 | 4, weights: { red: number; green: number; blue: number }, out: Image): Image {
+    const pixels = out.data.length;
+    const scope = new CallScope(this.heap);
+    try {
+      const src = scope.alloc(samples.length);
+      new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
+      const resident = this.owns(out);
+      const dst = resident ? out.address : scope.alloc(4 * pixels);
+      this.wasm.lumaRgb8(src, channels, pixels, dst, weights.red, weights.green, weights.blue);
+      if (!resident) out.data.set(this.heap.f32(dst, pixels));
+    } finally {
+      scope.end();
+    }
+    return out;
   }
 
   /** Address of the image's samples in the module's memory: its own, or a copy for the call. */

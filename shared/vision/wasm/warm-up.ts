@@ -34,5 +34,7 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.nonZeroWords(c);
   kernels.countNonZero(c, new Int32Array(SIDE), new Int32Array(SIDE).fill(SIDE));
   kernels.qualitySums(a, 255);
+  kernels.lumaRgb8(new Uint8Array(3 * SIDE * SIDE).fill(99), 3, { red: 0.299, green: 0.587, blue: 0.114 }, b);
+  kernels.lumaRgb8(new Uint8Array(4 * SIDE * SIDE).fill(99), 4, { red: 0.299, green: 0.587, blue: 0.114 }, b);
   for (const image of [a, b, c]) kernels.heap.release(image.address);
 }

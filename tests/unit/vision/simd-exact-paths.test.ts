@@ -8,7 +8,8 @@ import { createPackedMask } from '../../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../../shared/vision/blobs';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { gradient } from '../../../shared/vision/gradient';
-import type { RawPhoto } from '../../../shared/vision/image';
+import { channelImage, type RawPhoto } from '../../../shared/vision/image';
+import { inputChannel } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { runRule } from '../../../shared/vision/pipeline';
 import { thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
@@ -18,6 +19,20 @@ import { seededRandom } from './images';
 const RUNS = { numRuns: 150 };
 const anyKind = fc.constantFrom<SampleKind>('8-bit', '16-bit', 'signed float', 'mask', 'awkward');
 const morphologyOp = fc.constantFrom<MorphologyOp>('erode', 'dilate', 'open', 'close');
+
+test('luma of 8-bit RGB and RGBA photos (BT.601 in double precision, rounded once): the same bits from the SIMD kernel', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<3 | 4>(3, 4), seed, ([w, h], channels, s) => {
+      const rand = seededRandom(s);
+      const samples = Uint8Array.from({ length: w * h * channels }, () => Math.floor(rand() * 256));
+      const photo: RawPhoto = { width: w, height: h, channels, bitDepth: 8, samples };
+      const plain = onEngine('plain', () => channelImage(photo, 'luma'));
+      const simd = onEngine('simd', () => inputChannel(photo, 'luma'));
+      expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
 
 test('fixed threshold: the same mask bits, the threshold a sample value, between two, NaN or infinite', () => {
   fc.assert(

@@ -8,6 +8,7 @@ export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked }
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero } from './blobs';
 export { qualitySums, countNonZero } from './statistics';
+export { lumaRgb8 } from './channels';
 
 /** First address the JavaScript side may use: static data ends below it. */
 export function heapBase(): usize {

@@ -57,15 +57,13 @@ function ownsWholeBuffer(array: ArrayBufferView): boolean {
 
 export class VisionPool {
   private readonly piscina: Piscina;
-  private readonly kernels: PipelineTask['kernels'];
   /** Buffers of released runs, sent along with the next task so that a worker reuses them. */
   private returned: Float32Array[] = [];
 
   constructor(options: VisionPoolOptions) {
     const threads = options.threads ?? Math.max(1, os.availableParallelism?.() ?? os.cpus().length);
     const setup = workerSetup();
-    const workerData: PipelineWorkerData = { engine: options.engine ?? engineSetting() };
-    this.kernels = [...options.kernels.values()];
+    const workerData: PipelineWorkerData = { engine: options.engine ?? engineSetting(), kernels: [...options.kernels.values()] };
     this.piscina = new Piscina({
       filename: setup.filename,
       execArgv: setup.execArgv,
@@ -85,7 +83,7 @@ export class VisionPool {
   async run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<RuleRun> {
     // A run hands back its input and its retained outputs; a few buffers per task spread them over the tasks queued.
     const spare = this.returned.splice(0, BUFFERS_PER_TASK);
-    const task: PipelineTask = { rule, photo, kernels: this.kernels, mmPerPx: options.mmPerPx, retain: options.retain, images: options.images, spare };
+    const task: PipelineTask = { rule, photo, mmPerPx: options.mmPerPx, retain: options.retain, images: options.images, spare };
     const transferList: ArrayBuffer[] = spare.map((b) => b.buffer as ArrayBuffer);
     if (options.transferPhoto && ownsWholeBuffer(photo.samples)) transferList.push(photo.samples.buffer as ArrayBuffer);
     const result = (await this.piscina.run(task, { transferList })) as PipelineTaskResult;

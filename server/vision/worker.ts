@@ -11,19 +11,20 @@ import type { FieldIssue } from '../../shared/api/errors';
 import { setEngine, simdKernels, type EngineChoice } from '../../shared/vision/engine';
 import { createImage, type Image, type RawPhoto } from '../../shared/vision/image';
 import type { KernelDefinition } from '../../shared/vision/kernels';
-import { RuleRunError, runRule, type RuleRun, type RuleRunErrorCode, type RunOptions } from '../../shared/vision/pipeline';
+import { RuleRunError, runRule, type KernelLibrary, type RuleRun, type RuleRunErrorCode, type RunOptions } from '../../shared/vision/pipeline';
 import { isResident } from '../../shared/vision/wasm/resident-image';
 import { ImageWorkspace } from '../../shared/vision/workspace';
 import { fftCorrelate } from './fft-correlate';
 
 export interface PipelineWorkerData {
   engine: EngineChoice;
+  /** The pool's kernel library, sent once to each thread instead of with every task. */
+  kernels: KernelDefinition[];
 }
 
 export interface PipelineTask {
   rule: unknown;
   photo: RawPhoto;
-  kernels: KernelDefinition[];
   mmPerPx?: number;
   retain?: RunOptions['retain'];
   /** Images sent back with the run (see PoolRunOptions.images). */
@@ -36,7 +37,9 @@ export type PipelineTaskResult =
   | { ok: true; run: RuleRun }
   | { ok: false; error: { code: RuleRunErrorCode; message: string; issues: FieldIssue[] } };
 
-setEngine((workerData as PipelineWorkerData | undefined)?.engine ?? 'auto');
+const setup = workerData as PipelineWorkerData | undefined;
+setEngine(setup?.engine ?? 'auto');
+const kernels: KernelLibrary = new Map((setup?.kernels ?? []).map((k) => [k.name, k]));
 
 /**
  * Step buffers of this thread, reused by its next runs. A run of the standard pipeline uses three
@@ -55,7 +58,7 @@ export default function runPipelineTask(task: PipelineTask): PipelineTaskResult 
   }
   try {
     const run = runRule(task.rule, task.photo, {
-      kernels: new Map(task.kernels.map((k) => [k.name, k])),
+      kernels,
       mmPerPx: task.mmPerPx,
       retain: task.retain,
       largeKernelCorrelator: fftCorrelate,

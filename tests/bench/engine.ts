@@ -5,7 +5,10 @@
 // whole rule run, the worker pool's throughput against one thread, the photo-received-to-verdict
 // split of a 5 MP JPEG, peak memory, and the machine's load before and after (it is shared).
 // Run: npm run bench   (BENCH_RUNS=9 for more runs, BENCH_SIZES=5 for the 5 MP photo only)
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
 import os from 'node:os';
+import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 import sharp from 'sharp';
 import { decodePhoto } from '../../server/vision/decode';
@@ -391,11 +394,34 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
  * Two stations feeding a pool of two worker threads, against one thread. `images`: 'none' as a trial
  * or the server's preview check needs (numbers only), 'retained' as an inspection with its evidence.
  */
+/**
+ * The pool as the built server runs it: its workers load compiled JavaScript. From the TypeScript
+ * sources (ts-node in every worker) their heaps hold the compiler, and each collection costs several
+ * times more. The server is compiled once into a temporary folder (BENCH_POOL_FROM_SOURCE=1: don't).
+ */
+let builtPool: typeof VisionPool | null = null;
+function poolClass(): typeof VisionPool {
+  if (process.env.BENCH_POOL_FROM_SOURCE === '1') return VisionPool;
+  if (builtPool) return builtPool;
+  const root = path.join(__dirname, '..', '..');
+  // Inside the repository (git-ignored), so that the compiled files find node_modules.
+  const dir = path.join(root, 'tests', 'artifacts', 'bench-server');
+  fs.rmSync(dir, { recursive: true, force: true });
+  // Type errors elsewhere in the server do not stop tsc from writing the files.
+  spawnSync('npx', ['tsc', '-p', 'server/tsconfig.build.json', '--outDir', dir], { cwd: root, stdio: 'ignore' });
+  const compiled = path.join(dir, 'server', 'vision', 'pool.js');
+  if (!fs.existsSync(compiled)) throw new Error(`compiling the server into ${dir} gave no ${compiled}`);
+  // eslint-disable-next-line @typescript-eslint/no-require-imports
+  builtPool = (require(compiled) as typeof import('../../server/vision/pool')).VisionPool;
+  return builtPool;
+}
+
 async function benchPool(size: SizeResult, engine: EngineName, images: 'none' | 'retained'): Promise<void> {
   const { photo } = size;
   const kernels = await loadKernelLibrary();
   const threads = 2;
-  const pool = new VisionPool({ kernels, threads, engine });
+  const Pool = poolClass();
+  const pool = new Pool({ kernels, threads, engine });
   const tasks = 16;
   const rounds = 5;
   // As a station does: a freshly decoded photo per inspection, moved to the worker; the run's
@@ -436,7 +462,8 @@ async function benchPool(size: SizeResult, engine: EngineName, images: 'none' | 
     }
     const pooled = summary(poolMs, poolCpu);
     const single = summary(singleMs, singleMs);
-    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, ${size.label} whole rule runs, ${tasks} photos from ${stationCount} stations, ${rounds} rounds)`);
+    const from = Pool === VisionPool ? 'workers from the TypeScript sources' : 'workers from the built server';
+    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, ${from}, ${size.label} whole rule runs, ${tasks} photos from ${stationCount} stations, ${rounds} rounds)`);
     console.log(`  ${(1000 / pooled.best).toFixed(1)} images/s; ${pooled.best.toFixed(1)} ms per image best, ${pooled.median.toFixed(1)} median; CPU time of all threads ${pooled.cpuBest.toFixed(1)} ms per image`);
     console.log(`  one thread, the same runs in turn with the pool's rounds: ${single.best.toFixed(1)} ms per image best, ${single.median.toFixed(1)} median`);
     console.log(`  throughput against one thread: ${(single.best / pooled.best).toFixed(2)}x (best against best), ${(single.median / pooled.median).toFixed(2)}x (median against median); target ≥ 1.8`);
@@ -525,7 +552,6 @@ async function main(): Promise<void> {
     console.log(`  ${r.label} whole rule run: plain ${f(r.fullRun.plain)}, simd ${f(r.fullRun.simd)}`);
   }
   await memoryBandwidth();
-  // Workers run from the TypeScript sources here (ts-node: larger heaps, so dearer collections, than the built server's).
   for (const r of results) {
     if (r.label === '5 MP') {
       await benchPool(r, 'plain', 'retained');

@@ -1,4 +1,12 @@
 import PgBoss from 'pg-boss';
+import pg from 'pg';
+
+/**
+ * pg-boss creates a queue's partition table on first use; two processes doing so at once can
+ * deadlock, so creation is serialised across processes by this session-level advisory lock.
+ */
+const CREATE_QUEUE_LOCK = "select pg_advisory_lock(hashtext('kernwright.pgboss.create_queue'))";
+const CREATE_QUEUE_UNLOCK = "select pg_advisory_unlock(hashtext('kernwright.pgboss.create_queue'))";
 
 export type JobHandler<T> = (data: T) => Promise<void>;
 
@@ -10,8 +18,12 @@ export class JobQueue {
   private readonly boss: PgBoss;
   private started = false;
   private readonly timers: NodeJS.Timeout[] = [];
+  private readonly declared = new Map<string, Promise<void>>();
+  private readonly lockPool: pg.Pool;
 
   constructor(connectionString: string) {
+    this.lockPool = new pg.Pool({ connectionString, max: 1, idleTimeoutMillis: 10_000 });
+    this.lockPool.on('error', (err) => process.stderr.write(`job queue: ${err.message}\n`));
     this.boss = new PgBoss({ connectionString, schema: 'pgboss', max: 4, supervise: true, schedule: false });
     this.boss.on('error', (err) => process.stderr.write(`job queue: ${err.message}\n`));
   }
@@ -22,8 +34,34 @@ export class JobQueue {
     return this;
   }
 
+  /** Creates the queue if it does not exist yet; each process asks the database once per queue. */
+  declare(queue: string): Promise<void> {
+    let declaring = this.declared.get(queue);
+    if (!declaring) {
+      declaring = this.createQueue(queue);
+      this.declared.set(queue, declaring);
+      declaring.catch(() => this.declared.delete(queue));
+    }
+    return declaring;
+  }
+
+  private async createQueue(queue: string): Promise<void> {
+    if (await this.boss.getQueue(queue)) return;
+    const client = await this.lockPool.connect();
+    try {
+      await client.query(CREATE_QUEUE_LOCK);
+      try {
+        await this.boss.createQueue(queue);
+      } finally {
+        await client.query(CREATE_QUEUE_UNLOCK);
+      }
+    } finally {
+      client.release();
+    }
+  }
+
   async send<T extends object>(queue: string, data: T, options: { retryLimit?: number; singletonKey?: string; singletonSeconds?: number } = {}): Promise<void> {
-    await this.boss.createQueue(queue);
+    await this.declare(queue);
     await this.boss.send(queue, data, {
       retryLimit: options.retryLimit ?? 3,
       retryDelay: 5,
@@ -50,7 +88,7 @@ export class JobQueue {
 
   /** Handles one job at a time per worker; a thrown error makes pg-boss retry the job later. */
   async work<T extends object>(queue: string, handler: JobHandler<T>, options: { workers?: number } = {}): Promise<void> {
-    await this.boss.createQueue(queue);
+    await this.declare(queue);
     for (let i = 0; i < (options.workers ?? 1); i++) {
       await this.boss.work<T>(queue, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => handler(job.data));
     }
@@ -60,5 +98,6 @@ export class JobQueue {
     for (const timer of this.timers.splice(0)) clearInterval(timer);
     if (this.started) await this.boss.stop({ graceful: true, wait: true, timeout: 10_000 });
     this.started = false;
+    await this.lockPool.end().catch(() => undefined);
   }
 }

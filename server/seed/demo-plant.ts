@@ -8,6 +8,7 @@ import type { RuleDocument } from '../../shared/rules/schema';
 import { UserEntity } from '../components/auth/entities';
 import { DefectKindEntity, PartTypeEntity } from '../components/catalogue/entities';
 import { InspectionEntity } from '../components/inspections/entities';
+import { ensureInspectionMonths } from '../components/inspections/partitions';
 import { ReferenceSetEntity } from '../components/references/entities';
 import { RuleEntity } from '../components/rules/entities';
 import { LineEntity, StationEntity } from '../components/stations/entities';
@@ -217,6 +218,8 @@ export async function seedDemoPlant(services: Services, options: DemoPlantOption
       }
     }
   }
+  // The history's months get their partitions first, so that its rows do not land in DEFAULT.
+  await ensureInspectionMonths(ds, new Date(today.getTime() - days * 86_400_000), today);
   let done = 0;
   await runWithConcurrency(jobs, 4, async (job) => {
     await services.inspections.inspect(operator, { stationId: job.station.id, ruleVersionId: released.get(job.station.family)!, idempotencyKey: job.key }, job.photo, { at: job.at });

@@ -17,6 +17,7 @@ import type { DataSource } from 'typeorm';
 import type { RecordFilters } from '../../shared/api/records';
 import { createApp } from '../../server/app';
 import { hashPassword } from '../../server/components/auth/passwords';
+import { ensureInspectionMonths } from '../../server/components/inspections/partitions';
 import { encodeCursor } from '../../server/components/records/query';
 import { makeDataSource } from '../../server/db/data-source';
 import { createLogger } from '../../server/lib/logger';
@@ -64,6 +65,8 @@ async function seed(ds: DataSource, inspections: number): Promise<void> {
      from (select row_number() over (order by code) - 1 as k, code from part_types) p
      join rules r on r.part_type = p.code join rule_versions v on v.rule_id = r.id`,
   );
+  // Each month of the year in its own partition, as the daily job would have made them.
+  await ensureInspectionMonths(ds, new Date(Date.now() - 365 * 86_400_000), new Date());
   let started = performance.now();
   // Spread over the last 365 days in time order, as a plant records them; (g * 2654435761) mod 1000 is a cheap
   // well-mixed number per row (Knuth's multiplicative hash) for the verdict, cause and operator.
@@ -85,15 +88,15 @@ async function seed(ds: DataSource, inspections: number): Promise<void> {
   await q('drop table bench_station, bench_operator, bench_version');
   started = performance.now();
   await q(
-    `insert into measurements (inspection_id, position, gauge, value, unit, limit_min, limit_max, pass)
-     select i.id, p.pos, i.part_type || case p.pos when 0 then ' edge area' else ' notch count' end,
+    `insert into measurements (inspection_id, inspection_created_at, position, gauge, value, unit, limit_min, limit_max, pass)
+     select i.id, i.created_at, p.pos, i.part_type || case p.pos when 0 then ' edge area' else ' notch count' end,
             case p.pos when 0 then 0.1 + (i.duration_ms - 40) / 60 else (i.duration_ms::int - 40) % 4 end,
             case p.pos when 0 then 'mm2' else '' end, null, case p.pos when 0 then 0.5 else 3 end,
             i.cause is distinct from i.part_type || case p.pos when 0 then ' edge area' else ' notch count' end
      from inspections i cross join (values (0), (1)) p(pos)`,
   );
   console.log(`  measurements: ${(2 * inspections).toLocaleString('en')} rows in ${seconds(started).toFixed(1)} s`);
-  await q(`insert into disputes (inspection_id, raised_by, note, raised_at) select id, operator_id, 'Looks fine to me', created_at + interval '5 minutes' from inspections where idempotency_key like 'bench-%000'`);
+  await q(`insert into disputes (inspection_id, inspection_created_at, raised_by, note, raised_at) select id, created_at, operator_id, 'Looks fine to me', created_at + interval '5 minutes' from inspections where idempotency_key like 'bench-%000'`);
   started = performance.now();
   await q('vacuum analyze inspections');
   await q('vacuum analyze measurements');
@@ -112,11 +115,11 @@ interface PlanNode {
   Plans?: PlanNode[];
 }
 
-/** How a plan reads the inspections table: the index (or a whole-table scan) and how many rows it visits. */
+/** How a plan reads the inspections table's monthly partitions: the index (or a whole-partition scan) and how many rows it visits. */
 function inspectionsAccess(plan: PlanNode): string {
   const found: string[] = [];
   const visit = (node: PlanNode) => {
-    if (node['Relation Name'] === 'inspections') {
+    if (/^inspections(_y\d{4}m\d{2}|_default)?$/.test(node['Relation Name'] ?? '')) {
       const visited = ((node['Actual Rows'] ?? 0) + (node['Rows Removed by Filter'] ?? 0)) * (node['Actual Loops'] ?? 1);
       const how = node['Node Type'] === 'Seq Scan' ? 'SEQ SCAN' : `${node['Index Name'] ?? node['Node Type']}${node['Scan Direction'] === 'Backward' ? ' (backward)' : ''}`;
       found.push(`${how}, ${visited.toLocaleString('en')} rows visited`);

@@ -9,6 +9,7 @@ import crypto from 'node:crypto';
 import os from 'node:os';
 import type { DataSource } from 'typeorm';
 import type { PChartQuery, TrendFilters } from '../../shared/api/trends';
+import { ensureInspectionMonths } from '../../server/components/inspections/partitions';
 import { makeDataSource } from '../../server/db/data-source';
 import { createServices, type Services } from '../../server/services';
 import { testConfig } from '../support/app';
@@ -41,6 +42,8 @@ async function seed(ds: DataSource, inspections: number): Promise<void> {
   );
   await q(`create unlogged table bench_station as select row_number() over (order by s.name) - 1 as k, s.id, s.line_id from stations s`);
   await q(`create unlogged table bench_version as select row_number() over (order by r.part_type) - 1 as k, v.id, v.rule_id, r.part_type from rule_versions v join rules r on r.id = v.rule_id`);
+  // Each month of the history in its own partition, as the daily job would have made them.
+  await ensureInspectionMonths(ds, new Date(Date.now() - DAYS * 86_400_000), new Date());
   const started = performance.now();
   // (g * 2654435761) mod 1000 is a cheap well-mixed number per row (Knuth's multiplicative hash) for the verdict and cause.
   await q(

@@ -6,9 +6,14 @@ import { StationEntity } from '../stations/entities';
 export const VERDICTS = ['PASS', 'FAIL', 'RETAKE'] as const;
 export type Verdict = (typeof VERDICTS)[number];
 
-/** One part judged at a station by a released rule version. Append-only (trigger). */
+/**
+ * One part judged at a station by a released rule version. Append-only (trigger). The table is
+ * partitioned by month of created_at (migration PartitionInspectionsByMonth, partitions.ts): the
+ * key is (id, created_at), and an idempotency key is unique through the inspection_keys table.
+ */
 @Entity('inspections')
 @Index('IDX_inspections_created_at', ['createdAt'])
+@Index('IDX_inspections_idempotency_key', ['idempotencyKey'])
 @Index('IDX_inspections_station_created', ['stationId', 'createdAt'])
 @Index('IDX_inspections_version_created', ['ruleVersionId', 'createdAt'])
 // Keyset pages of the records filtered by a value that may be rare (tests/bench/records.ts measured them).
@@ -21,8 +26,8 @@ export class InspectionEntity {
   @PrimaryGeneratedColumn('uuid')
   id: string;
 
-  /** Sent by the client so that a retried upload is stored once. */
-  @Column({ name: 'idempotency_key', type: 'varchar', length: 80, unique: true })
+  /** Sent by the client so that a retried upload is stored once (unique through inspection_keys, kept by a trigger). */
+  @Column({ name: 'idempotency_key', type: 'varchar', length: 80 })
   idempotencyKey: string;
 
   @Column({ name: 'rule_version_id', type: 'uuid' })
@@ -77,9 +82,16 @@ export class InspectionEntity {
   @Column({ name: 'duration_ms', type: 'double precision' })
   durationMs: number;
 
-  @Column({ name: 'created_at', type: 'timestamptz', default: () => 'now()' })
+  /** Part of the key: the partition key, so every unique constraint must include it. */
+  @PrimaryColumn({ name: 'created_at', type: 'timestamptz', default: () => 'now()' })
   createdAt: Date;
 }
+
+/** The inspection an inspection's measurement or dispute belongs to, through the partitioned table's key. */
+const INSPECTION_KEY = [
+  { name: 'inspection_id', referencedColumnName: 'id' },
+  { name: 'inspection_created_at', referencedColumnName: 'createdAt' },
+];
 
 /** One gauge's value in an inspection, with the limits that applied. Append-only (trigger). */
 @Entity('measurements')
@@ -87,8 +99,12 @@ export class MeasurementEntity {
   @PrimaryColumn({ name: 'inspection_id', type: 'uuid' })
   inspectionId: string;
 
+  /** The inspection's created_at, for the foreign key into the partitioned inspections. */
+  @Column({ name: 'inspection_created_at', type: 'timestamptz' })
+  inspectionCreatedAt: Date;
+
   @ManyToOne(() => InspectionEntity, { onDelete: 'RESTRICT' })
-  @JoinColumn({ name: 'inspection_id' })
+  @JoinColumn(INSPECTION_KEY)
   inspection?: InspectionEntity;
 
   @PrimaryColumn({ type: 'smallint' })
@@ -123,8 +139,12 @@ export class DisputeEntity {
   @Column({ name: 'inspection_id', type: 'uuid', unique: true })
   inspectionId: string;
 
+  /** The inspection's created_at, for the foreign key into the partitioned inspections. */
+  @Column({ name: 'inspection_created_at', type: 'timestamptz' })
+  inspectionCreatedAt: Date;
+
   @ManyToOne(() => InspectionEntity, { onDelete: 'RESTRICT' })
-  @JoinColumn({ name: 'inspection_id' })
+  @JoinColumn(INSPECTION_KEY)
   inspection?: InspectionEntity;
 
   @Column({ name: 'raised_by', type: 'uuid' })

@@ -1,7 +1,6 @@
 import crypto from 'node:crypto';
 import type { RawPhoto } from '../../shared/vision/image';
-import type { RuleRun } from '../../shared/vision/pipeline';
-import type { PoolRunOptions } from '../vision/pool';
+import type { PooledRun, PoolRunOptions } from '../vision/pool';
 import type { PipelineRunner } from '../vision/runner';
 import { digestOf } from '../lib/digest';
 
@@ -11,13 +10,13 @@ import { digestOf } from '../lib/digest';
  * photos; the engine is deterministic, so a repeat would compute the same verdict again.
  */
 export class MemoizingRunner implements PipelineRunner {
-  private readonly runs = new Map<string, Promise<RuleRun>>();
+  private readonly runs = new Map<string, Promise<PooledRun>>();
 
   constructor(private readonly inner: PipelineRunner) {}
 
-  run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<RuleRun> {
+  run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<PooledRun> {
     const samples = Buffer.from(photo.samples.buffer, photo.samples.byteOffset, photo.samples.byteLength);
-    const key = `${digestOf(rule)}:${crypto.createHash('sha256').update(samples).digest('hex')}:${photo.width}x${photo.height}x${photo.channels}:${options.mmPerPx ?? ''}:${options.retain ?? ''}`;
+    const key = `${digestOf(rule)}:${crypto.createHash('sha256').update(samples).digest('hex')}:${photo.width}x${photo.height}x${photo.channels}:${options.mmPerPx ?? ''}:${options.retain ?? ''}:${options.images ?? ''}:${options.evidence ?? ''}`;
     let run = this.runs.get(key);
     if (!run) {
       run = this.inner.run(rule, photo, options);

@@ -8,6 +8,7 @@ import type { EngineChoice } from '../../shared/vision/engine';
 import type { RawPhoto } from '../../shared/vision/image';
 import { RuleRunError, type KernelLibrary, type RuleRun, type RunOptions } from '../../shared/vision/pipeline';
 import { engineSetting } from './engine-setting';
+import type { EvidenceRaster } from './evidence';
 import type { PipelineTask, PipelineTaskResult, PipelineWorkerData } from './worker';
 
 export interface VisionPoolOptions {
@@ -33,7 +34,12 @@ export interface PoolRunOptions {
    * of no samples and no step outputs.
    */
   images?: PipelineTask['images'];
+  /** With a FAIL verdict, the worker draws the evidence image (see server/vision/evidence.ts). */
+  evidence?: boolean;
 }
+
+/** A run from the pool, with the evidence raster when it was asked for and the verdict is FAIL. */
+export type PooledRun = RuleRun & { evidence?: EvidenceRaster };
 
 /** Spare image buffers kept for the workers at most (20 MB each at 5 MP). */
 const MAX_RETURNED_BUFFERS = 8;
@@ -80,15 +86,15 @@ export class VisionPool {
   }
 
   /** Runs a rule on a photo in a worker; rejects with RuleRunError for a rule that cannot run. */
-  async run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<RuleRun> {
+  async run(rule: unknown, photo: RawPhoto, options: PoolRunOptions = {}): Promise<PooledRun> {
     // A run hands back its input and its retained outputs; a few buffers per task spread them over the tasks queued.
     const spare = this.returned.splice(0, BUFFERS_PER_TASK);
-    const task: PipelineTask = { rule, photo, mmPerPx: options.mmPerPx, retain: options.retain, images: options.images, spare };
+    const task: PipelineTask = { rule, photo, mmPerPx: options.mmPerPx, retain: options.retain, images: options.images, evidence: options.evidence, spare };
     const transferList: ArrayBuffer[] = spare.map((b) => b.buffer as ArrayBuffer);
     if (options.transferPhoto && ownsWholeBuffer(photo.samples)) transferList.push(photo.samples.buffer as ArrayBuffer);
     const result = (await this.piscina.run(task, { transferList })) as PipelineTaskResult;
     if (!result.ok) throw new RuleRunError(result.error.code, result.error.message, result.error.issues);
-    return result.run;
+    return result.evidence ? { ...result.run, evidence: result.evidence } : result.run;
   }
 
   /**

@@ -14,6 +14,7 @@ import type { KernelDefinition } from '../../shared/vision/kernels';
 import { RuleRunError, runRule, type KernelLibrary, type RuleRun, type RuleRunErrorCode, type RunOptions } from '../../shared/vision/pipeline';
 import { isResident } from '../../shared/vision/wasm/resident-image';
 import { ImageWorkspace } from '../../shared/vision/workspace';
+import { evidenceRaster, type EvidenceRaster } from './evidence';
 import { fftCorrelate } from './fft-correlate';
 
 export interface PipelineWorkerData {
@@ -31,10 +32,12 @@ export interface PipelineTask {
   images?: 'retained' | 'when-failed' | 'none';
   /** Buffers of runs the caller released, moved here for reuse. */
   spare?: Float32Array[];
+  /** Draw the evidence image of a FAIL here, where the run's images are. */
+  evidence?: boolean;
 }
 
 export type PipelineTaskResult =
-  | { ok: true; run: RuleRun }
+  | { ok: true; run: RuleRun; evidence?: EvidenceRaster }
   | { ok: false; error: { code: RuleRunErrorCode; message: string; issues: FieldIssue[] } };
 
 const setup = workerData as PipelineWorkerData | undefined;
@@ -64,9 +67,10 @@ export default function runPipelineTask(task: PipelineTask): PipelineTaskResult 
       largeKernelCorrelator: fftCorrelate,
       workspace,
     });
+    const evidence = task.evidence && run.verdict === 'FAIL' ? evidenceRaster(run) : undefined;
     const images = task.images ?? 'retained';
-    if (images === 'retained' || (images === 'when-failed' && run.verdict === 'FAIL')) return movingImageBuffers(inOrdinaryMemory(run));
-    return { ok: true, run: withoutImages(run) };
+    if (images === 'retained' || (images === 'when-failed' && run.verdict === 'FAIL')) return movingBuffers(inOrdinaryMemory(run), evidence);
+    return movingBuffers(withoutImages(run), evidence);
   } catch (e) {
     if (e instanceof RuleRunError) return { ok: false, error: { code: e.code, message: e.message, issues: e.issues } };
     throw e;
@@ -95,12 +99,14 @@ function withoutImages(run: RuleRun): RuleRun {
   return { ...run, input, steps: run.steps.map((s) => ({ ...s, output: null })) };
 }
 
-/** The result, with the buffers of the input and of every retained step output in the transfer list. */
-function movingImageBuffers(run: RuleRun): PipelineTaskResult {
+/** The result, with the buffers of the input, of every retained step output and of the evidence in the transfer list. */
+function movingBuffers(run: RuleRun, evidence: EvidenceRaster | undefined): PipelineTaskResult {
   const buffers = new Set<ArrayBuffer>();
-  buffers.add(run.input.data.buffer as ArrayBuffer);
+  if (run.input.data.length > 0) buffers.add(run.input.data.buffer as ArrayBuffer);
   for (const step of run.steps) if (step.output) buffers.add(step.output.data.buffer as ArrayBuffer);
-  const result: PipelineTaskResult = { ok: true, run };
+  if (evidence) buffers.add(evidence.rgb.buffer as ArrayBuffer);
+  const result: PipelineTaskResult = evidence ? { ok: true, run, evidence } : { ok: true, run };
+  if (buffers.size === 0) return result;
   // piscina sends a value marked movable with its transfer list instead of cloning the buffers.
   return move({ [transferableSymbol]: [...buffers], [valueSymbol]: result }) as unknown as PipelineTaskResult;
 }

@@ -7,7 +7,8 @@ import { AppError, notFound } from '../../lib/errors';
 import type { ImageUrlSigner } from '../../lib/image-urls';
 import type { ImageStore } from '../../lib/storage/image-store';
 import { decodeUploadedPhoto } from '../../vision/decode-upload';
-import { evidencePng } from '../../vision/encode';
+import { evidencePngOf } from '../../vision/encode';
+import type { EvidenceRaster } from '../../vision/evidence';
 import type { PipelineRunner } from '../../vision/runner';
 import type { AuditService } from '../audit/service';
 import { UserEntity } from '../auth/entities';
@@ -140,14 +141,23 @@ export class InspectionsService {
 
     const photo = await decodeUploadedPhoto(photoBytes);
     lap('decode');
-    const run = await this.pool.run(version.document, photo, { mmPerPx: station.mmPerPx ?? undefined, retain: 'gauged' });
+    // The photo is written while the pipeline runs; the row that names it commits only after both.
+    const storing = this.store.put(photoBytes);
+    storing.catch(() => undefined);
+    const run = await this.pool.run(version.document, photo, {
+      mmPerPx: station.mmPerPx ?? undefined,
+      retain: 'gauged',
+      images: 'none',
+      transferPhoto: true,
+      evidence: options.evidence !== false,
+    });
     lap('pipeline');
     timings.engine = run.ms;
     timings.steps = run.steps.map((s) => ({ op: s.op, ms: s.ms }));
-    const imageHash = await this.store.put(photoBytes);
-    lap('store');
-    const evidenceHash = run.verdict === 'FAIL' && options.evidence !== false ? await this.store.put(await this.evidenceOf(run)) : null;
+    const evidenceHash = run.evidence ? await this.store.put(await this.evidenceOf(run, run.evidence)) : null;
     lap('evidence');
+    const imageHash = await storing;
+    lap('store');
     const durationMs = performance.now() - started;
 
     try {
@@ -176,7 +186,6 @@ export class InspectionsService {
             MeasurementEntity,
             run.measurements.map((m, position) => ({
               inspectionId: inspection.id,
-              inspectionCreatedAt: inspection.createdAt,
               position,
               gauge: m.name,
               value: m.value,
@@ -210,10 +219,10 @@ export class InspectionsService {
     }
   }
 
-  private evidenceOf(run: RuleRun): Promise<Buffer> {
+  private evidenceOf(run: RuleRun, raster: EvidenceRaster): Promise<Buffer> {
     let png = this.evidence.get(run);
     if (!png) {
-      png = evidencePng(run);
+      png = evidencePngOf(raster);
       this.evidence.set(run, png);
     }
     return png;
@@ -231,8 +240,6 @@ export class InspectionsService {
     if (!inspection) throw notFound('The inspection');
     await this.dataSource.transaction(async (manager) => {
       if (await manager.existsBy(DisputeEntity, { inspectionId })) throw new AppError('conflict', 'This verdict is already disputed');
-      // inspection_created_at is filled in by the database (kw_fill_inspection_created_at): a Date read back
-      // would lose the microseconds of a row not written by this service, and miss the foreign key.
       await manager.insert(DisputeEntity, { inspectionId, raisedBy: actor.id, note, raisedAt: new Date() });
       await this.audit.record(manager, { actor: actorOf(actor), action: 'inspection.dispute', entityType: 'inspection', entityId: inspectionId, details: { note } });
     });

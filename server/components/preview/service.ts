@@ -26,7 +26,7 @@ export class PreviewService {
     if (stationId && !station) throw notFound('The station');
     const photo = await decodePhoto(await this.store.get(image.contentHash));
     try {
-      const run = await this.pool.run(checked, photo, { mmPerPx: station?.mmPerPx ?? undefined, retain: 'gauged' });
+      const run = await this.pool.run(checked, photo, { mmPerPx: station?.mmPerPx ?? undefined, retain: 'gauged', images: 'none', transferPhoto: true });
       return {
         verdict: run.verdict,
         quality: { focus: run.quality.focus, clipped: run.quality.clipped, mean: run.quality.mean, pass: run.quality.pass, problems: [...run.quality.problems] },

@@ -64,7 +64,7 @@ export class StudiesService {
     const judge = async (i: number): Promise<RuleRun> => {
       const photo = await decodeUploadedPhoto(photos[i], `Photo ${i + 1}`, `photos[${i}]`);
       try {
-        return await this.pool.run(version.document, photo, { mmPerPx: station.mmPerPx ?? undefined, retain: 'gauged' });
+        return await this.pool.run(version.document, photo, { mmPerPx: station.mmPerPx ?? undefined, retain: 'gauged', images: 'none', transferPhoto: true });
       } catch (err) {
         if (err instanceof RuleRunError) throw new AppError('conflict', `Version ${version.number} cannot be run at ${station.name}: ${err.message}`, { issues: err.issues });
         throw err;

@@ -226,7 +226,7 @@ export class TrialsService {
   private async judge(trial: TrialEntity, document: RuleDocument, image: ReferenceImageEntity): Promise<void> {
     const started = performance.now();
     const photo = await decodePhoto(await this.store.get(image.contentHash));
-    const run = await this.pool.run(document, photo, { mmPerPx: trial.mmPerPx ?? undefined, retain: 'gauged' });
+    const run = await this.pool.run(document, photo, { mmPerPx: trial.mmPerPx ?? undefined, retain: 'gauged', images: 'none', transferPhoto: true });
     const durationMs = performance.now() - started;
     const measurements: StoredMeasurement[] = run.measurements.map((m) => ({ name: m.name, value: m.value, unit: m.unit, limits: m.limits, pass: m.pass }));
     const labelled = image.label !== 'unlabelled';

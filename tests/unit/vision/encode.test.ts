@@ -1,7 +1,9 @@
 // Display and evidence images: masks black/white, signed values centred on grey, failing regions outlined.
 import sharp from 'sharp';
 import { decodePhoto } from '../../../server/vision/decode';
-import { displayPng, displaySamples, evidenceSamples } from '../../../server/vision/encode';
+import { displaySamples } from '../../../server/vision/display';
+import { displayPng } from '../../../server/vision/encode';
+import { evidenceRaster } from '../../../server/vision/evidence';
 import { imageFromSamples } from '../../../shared/vision/image';
 import { runRule } from '../../../shared/vision/pipeline';
 
@@ -42,10 +44,36 @@ test('the evidence image outlines a failing region in red and its largest blob i
     { width: w, height: h, channels: 1, bitDepth: 8, samples },
   );
   expect(run.verdict).toBe('FAIL');
-  const rgb = evidenceSamples(run);
+  const { rgb, factor } = evidenceRaster(run);
+  expect(factor).toBe(1);
   const at = (x: number, y: number) => Array.from(rgb.subarray(3 * (y * w + x), 3 * (y * w + x) + 3));
   expect(at(5, 5)).toEqual([230, 30, 30]); // region corner
   expect(at(8, 8)).toEqual([255, 170, 0]); // blob outline
   expect(at(9, 9)).toEqual([220, 220, 220]); // blob inside
   expect(at(1, 1)).toEqual([30, 30, 30]); // untouched photo
+});
+
+test("a large photo's evidence is shrunk by a whole factor, each pixel the block's mean, outlines kept visible", () => {
+  const w = 20;
+  const h = 20;
+  const samples = new Uint8Array(w * h).fill(30);
+  samples[1] = 70; // block (0, 0) = mean of 30, 70, 30, 30 = 40
+  for (let y = 8; y < 12; y++) for (let x = 8; x < 12; x++) samples[y * w + x] = 220;
+  const run = runRule(
+    {
+      format: 'kernwright-rule/1',
+      name: 'evidence',
+      steps: [{ op: 'threshold', method: 'fixed', value: 100 }],
+      gauges: [{ name: 'spot', measure: 'largest-blob-area', region: { shape: 'rect', x: 0.25, y: 0.25, w: 0.5, h: 0.5 }, limits: { max: 4 } }],
+    },
+    { width: w, height: h, channels: 1, bitDepth: 8, samples },
+  );
+  const raster = evidenceRaster(run, 10);
+  expect([raster.width, raster.height, raster.factor]).toEqual([10, 10, 2]);
+  const at = (x: number, y: number) => Array.from(raster.rgb.subarray(3 * (y * 10 + x), 3 * (y * 10 + x) + 3));
+  expect(at(0, 0)).toEqual([40, 40, 40]);
+  expect(at(2, 2)).toEqual([230, 30, 30]); // the region's corner (5, 5)
+  expect(at(4, 4)).toEqual([255, 170, 0]); // the blob's outline (8, 8)
+  expect(at(5, 5)).toEqual([255, 170, 0]); // the blob's outline (11, 11)
+  expect(at(8, 1)).toEqual([30, 30, 30]);
 });

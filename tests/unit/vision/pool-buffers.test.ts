@@ -1,4 +1,5 @@
 // Buffers crossing the thread boundary: a moved photo and released runs must not change any result.
+import { evidenceRaster } from '../../../server/vision/evidence';
 import { loadKernelLibrary } from '../../../server/vision/kernel-library';
 import { VisionPool } from '../../../server/vision/pool';
 import type { RawPhoto } from '../../../shared/vision/image';
@@ -77,4 +78,16 @@ test('images when failed: a failing run brings its images for the evidence, a pa
   const passed = await pool.run(rule, discPhoto(), { images: 'when-failed' });
   expect(passed.verdict).toBe('PASS');
   expect(passed.input.data.length).toBe(0);
+});
+
+test('evidence drawn in the worker: a failing run without images brings the same evidence raster as one drawn here', async () => {
+  const failing = { ...rule, gauges: [{ name: 'edges', measure: 'edge-fraction', region: { shape: 'circle', cx: 0.5, cy: 0.5, r: 0.3 }, limits: { max: 0.001 } }] };
+  const remote = await pool.run(failing, discPhoto(), { images: 'none', retain: 'gauged', evidence: true });
+  expect(remote.verdict).toBe('FAIL');
+  expect(remote.input.data.length).toBe(0);
+  const here = evidenceRaster(runRule(failing, discPhoto(), { kernels, retain: 'gauged' }));
+  expect(remote.evidence).toMatchObject({ width: 40, height: 30, factor: 1 });
+  expect(Buffer.from(remote.evidence!.rgb).equals(Buffer.from(here.rgb))).toBe(true);
+  const passed = await pool.run(rule, discPhoto(), { images: 'none', evidence: true });
+  expect(passed.evidence).toBeUndefined();
 });

@@ -186,6 +186,7 @@ export class InspectionsService {
             MeasurementEntity,
             run.measurements.map((m, position) => ({
               inspectionId: inspection.id,
+              inspectionCreatedAt: inspection.createdAt,
               position,
               gauge: m.name,
               value: m.value,
@@ -240,6 +241,8 @@ export class InspectionsService {
     if (!inspection) throw notFound('The inspection');
     await this.dataSource.transaction(async (manager) => {
       if (await manager.existsBy(DisputeEntity, { inspectionId })) throw new AppError('conflict', 'This verdict is already disputed');
+      // inspection_created_at is filled in by the database (kw_fill_inspection_created_at): a Date read back
+      // would lose the microseconds of a row not written by this service, and miss the foreign key.
       await manager.insert(DisputeEntity, { inspectionId, raisedBy: actor.id, note, raisedAt: new Date() });
       await this.audit.record(manager, { actor: actorOf(actor), action: 'inspection.dispute', entityType: 'inspection', entityId: inspectionId, details: { note } });
     });

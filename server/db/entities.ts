@@ -7,7 +7,7 @@ import { CustomKernelEntity } from '../components/kernels/entities';
 import { OutboxMessageEntity } from '../components/mail/entities';
 import { ReferenceImageEntity, ReferenceSetEntity } from '../components/references/entities';
 import { RuleEntity, RuleVersionEntity, SignatureEntity } from '../components/rules/entities';
-import { LineEntity, StationEntity } from '../components/stations/entities';
+import { LineEntity, StationEntity, StationPartTypeEntity } from '../components/stations/entities';
 import { RepeatabilityPhotoEntity, RepeatabilityStudyEntity } from '../components/studies/entities';
 import { TrialEntity, TrialResultEntity } from '../components/trials/entities';
 import { InspectionFailureHourEntity, InspectionHourEntity } from '../components/trends/entities';
@@ -20,6 +20,7 @@ export const ENTITIES = [
   DefectKindEntity,
   LineEntity,
   StationEntity,
+  StationPartTypeEntity,
   CustomKernelEntity,
   RuleEntity,
   RuleVersionEntity,

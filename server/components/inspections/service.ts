@@ -15,6 +15,7 @@ import { UserEntity } from '../auth/entities';
 import { actorOf } from '../auth/service';
 import { RuleEntity, RuleVersionEntity } from '../rules/entities';
 import { LineEntity, StationEntity } from '../stations/entities';
+import { requireStationInspects } from '../stations/part-types';
 import { DisputeEntity, InspectionEntity, MeasurementEntity } from './entities';
 
 type InspectRequest = z.output<typeof inspectRequestSchema>;
@@ -137,6 +138,7 @@ export class InspectionsService {
     if (!station.active) throw new AppError('conflict', `${station.name} is not in use`);
     const line = await this.dataSource.getRepository(LineEntity).findOneByOrFail({ id: station.lineId });
     const rule = await this.dataSource.getRepository(RuleEntity).findOneByOrFail({ id: version.ruleId });
+    await requireStationInspects(this.dataSource, station, rule.partType);
     lap('lookup');
 
     const photo = await decodeUploadedPhoto(photoBytes);

@@ -1,4 +1,5 @@
-import { Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryColumn, PrimaryGeneratedColumn } from 'typeorm';
+import { PartTypeEntity } from '../catalogue/entities';
 
 @Entity('lines')
 export class LineEntity {
@@ -47,4 +48,23 @@ export class StationEntity {
 
   @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
   createdAt: Date;
+}
+
+/** A part type a station inspects: operators there are offered only the released rules for its part types. */
+@Entity('station_part_types')
+export class StationPartTypeEntity {
+  @PrimaryColumn({ name: 'station_id', type: 'uuid' })
+  stationId: string;
+
+  @ManyToOne(() => StationEntity, { onDelete: 'CASCADE' })
+  @JoinColumn({ name: 'station_id' })
+  station?: StationEntity;
+
+  @PrimaryColumn({ name: 'part_type', type: 'varchar', length: 40 })
+  partType: string;
+
+  // A part type still inspected somewhere cannot leave the catalogue.
+  @ManyToOne(() => PartTypeEntity, { onDelete: 'RESTRICT' })
+  @JoinColumn({ name: 'part_type' })
+  partTypeEntry?: PartTypeEntity;
 }

@@ -7,8 +7,12 @@ import type { AuditService } from '../audit/service';
 import { UserEntity } from '../auth/entities';
 import { actorOf } from '../auth/service';
 import { LineEntity, StationEntity } from './entities';
+import { partTypesByStation, replacePartTypes, requireKnownPartTypes } from './part-types';
 
 const UNIQUE_VIOLATION = '23505';
+
+/** Callers inside the server (seed, tests) may leave out the part types: none are assigned then. */
+type CreateStation = Omit<z.output<typeof createStationRequestSchema>, 'partTypes'> & { partTypes?: string[] };
 
 export class StationsService {
   constructor(
@@ -16,7 +20,7 @@ export class StationsService {
     private readonly audit: AuditService,
   ) {}
 
-  private async toDto(station: StationEntity, lineName: string): Promise<Station> {
+  private async toDto(station: StationEntity, lineName: string, partTypes: string[]): Promise<Station> {
     const calibratedBy = station.calibratedBy ? (await this.dataSource.getRepository(UserEntity).findOneBy({ id: station.calibratedBy }))?.displayName ?? null : null;
     return {
       id: station.id,
@@ -29,17 +33,19 @@ export class StationsService {
       calibratedAt: station.calibratedAt?.toISOString() ?? null,
       calibratedBy,
       active: station.active,
+      partTypes,
     };
   }
 
   async lines(): Promise<Line[]> {
     const lines = await this.dataSource.getRepository(LineEntity).find({ order: { name: 'ASC' } });
     const stations = await this.dataSource.getRepository(StationEntity).find({ order: { name: 'ASC' } });
+    const partTypes = await partTypesByStation(this.dataSource.manager, stations.map((s) => s.id));
     return Promise.all(
       lines.map(async (line) => ({
         id: line.id,
         name: line.name,
-        stations: await Promise.all(stations.filter((s) => s.lineId === line.id).map((s) => this.toDto(s, line.name))),
+        stations: await Promise.all(stations.filter((s) => s.lineId === line.id).map((s) => this.toDto(s, line.name, partTypes.get(s.id)!))),
       })),
     );
   }
@@ -47,7 +53,8 @@ export class StationsService {
   async get(id: string): Promise<{ entity: StationEntity; dto: Station }> {
     const entity = await this.dataSource.getRepository(StationEntity).findOne({ where: { id }, relations: { line: true } });
     if (!entity) throw notFound('The station');
-    return { entity, dto: await this.toDto(entity, entity.line!.name) };
+    const partTypes = (await partTypesByStation(this.dataSource.manager, [id])).get(id)!;
+    return { entity, dto: await this.toDto(entity, entity.line!.name, partTypes) };
   }
 
   async createLine(actor: UserEntity, input: z.output<typeof createLineRequestSchema>): Promise<Line> {
@@ -63,12 +70,16 @@ export class StationsService {
     }
   }
 
-  async createStation(actor: UserEntity, input: z.output<typeof createStationRequestSchema>): Promise<Station> {
+  async createStation(actor: UserEntity, input: CreateStation): Promise<Station> {
     if (!(await this.dataSource.getRepository(LineEntity).existsBy({ id: input.lineId }))) throw notFound('The line');
+    const { partTypes = [], ...fields } = input;
+    await requireKnownPartTypes(this.dataSource.manager, partTypes);
     try {
       const id = await this.dataSource.transaction(async (manager) => {
-        const station = await manager.save(manager.create(StationEntity, input));
-        await this.audit.record(manager, { actor: actorOf(actor), action: 'station.create', entityType: 'station', entityId: station.id, after: input });
+        const station = await manager.save(manager.create(StationEntity, fields));
+        await replacePartTypes(manager, station.id, partTypes);
+        const after = { ...fields, partTypes: [...partTypes].sort() };
+        await this.audit.record(manager, { actor: actorOf(actor), action: 'station.create', entityType: 'station', entityId: station.id, after });
         return station.id;
       });
       return (await this.get(id)).dto;
@@ -79,13 +90,17 @@ export class StationsService {
   }
 
   async update(actor: UserEntity, id: string, input: z.output<typeof updateStationRequestSchema>): Promise<Station> {
+    const { partTypes, ...fields } = input;
+    if (partTypes) await requireKnownPartTypes(this.dataSource.manager, partTypes);
     await this.dataSource.transaction(async (manager) => {
       const station = await manager.findOne(StationEntity, { where: { id }, lock: { mode: 'pessimistic_write' } });
       if (!station) throw notFound('The station');
-      const before = { name: station.name, cameraNote: station.cameraNote, active: station.active };
-      Object.assign(station, input);
+      const partTypesBefore = (await partTypesByStation(manager, [id])).get(id)!;
+      const before = { name: station.name, cameraNote: station.cameraNote, active: station.active, partTypes: partTypesBefore };
+      Object.assign(station, fields);
       await manager.save(station);
-      const after = { name: station.name, cameraNote: station.cameraNote, active: station.active };
+      if (partTypes) await replacePartTypes(manager, id, partTypes);
+      const after = { name: station.name, cameraNote: station.cameraNote, active: station.active, partTypes: partTypes ? [...partTypes].sort() : partTypesBefore };
       await this.audit.record(manager, { actor: actorOf(actor), action: 'station.update', entityType: 'station', entityId: id, before, after, details: { before, after } });
     });
     return (await this.get(id)).dto;

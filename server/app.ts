@@ -25,6 +25,7 @@ import { userRoutes } from './components/users/routes';
 import type { Config } from './config';
 import { apiNotFound, createErrorHandler } from './lib/errors';
 import { admissionLimit, corsForApp, uploadRateLimit } from './lib/http-guards';
+import { PostgresRateLimitStore } from './lib/rate-limit-store';
 import type { Logger } from './lib/logger';
 import type { Services } from './services';
 
@@ -54,7 +55,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use(corsForApp(config.allowedOrigins));
   api.use(express.json({ limit: '1mb' }));
   api.use('/health', healthRoutes(s.dataSource, config.version));
-  api.use('/auth', authRoutes({ auth: s.auth, requireSignIn, signInLimit: config.signInLimit }));
+  api.use('/auth', authRoutes({ auth: s.auth, requireSignIn, signInLimit: config.signInLimit, signInStore: new PostgresRateLimitStore(s.dataSource, 'sign-in') }));
   // Signed addresses stand in for sign-in, so that <img> can load stored images.
   api.use('/images', imageRoutes(s.store, s.signer));
   // Everything below needs a signed-in user.
@@ -64,7 +65,7 @@ export function createApp({ config, services: s, logger }: AppDeps): Express {
   api.use('/catalogue', catalogueRoutes(s.catalogue));
   api.use('/kernels', kernelRoutes(s.kernels));
   api.use('/stations', stationRoutes(s.stations));
-  const uploads = uploadRateLimit(config.uploadsPerMinute);
+  const uploads = uploadRateLimit(config.uploadsPerMinute, new PostgresRateLimitStore(s.dataSource, 'uploads'));
   api.use('/reference-sets', uploads, referenceRoutes(s.references));
   api.use(ruleRoutes(s.rules, s.ruleHistory));
   api.use(trialRoutes(s.trials));

@@ -1,6 +1,6 @@
 import cors from 'cors';
 import type { RequestHandler } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { rateLimit, type Store } from 'express-rate-limit';
 import { AppError } from './errors';
 
 /**
@@ -18,10 +18,12 @@ export function corsForApp(allowedOrigins: readonly string[]): RequestHandler {
 }
 
 /** Photo uploads per signed-in person and minute; a station photographs a few parts a minute. */
-export function uploadRateLimit(perMinute: number): RequestHandler {
+export function uploadRateLimit(perMinute: number, store?: Store): RequestHandler {
   return rateLimit({
     windowMs: 60_000,
     limit: perMinute,
+    store,
+    passOnStoreError: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     skip: (req) => req.method !== 'POST',

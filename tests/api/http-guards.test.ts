@@ -48,3 +48,23 @@ test('photo uploads beyond the per-minute limit are refused with 429 and a Retry
   expect(limited.headers['retry-after']).toBeDefined();
   expect((await request(t.app).get('/api/inspections/00000000-0000-4000-8000-000000000000').set(operator)).status).not.toBe(429);
 });
+
+test('two API processes on one database share the limits: uploads and failed sign-ins count in PostgreSQL', async () => {
+  // A second app on the same database stands for a second API process behind the load balancer.
+  const other = await createTestApp({ uploadsPerMinute: 3, signInLimit: { windowMs: 60_000, maxFailures: 4 } }, { database: t.db });
+  const first = await createTestApp({ uploadsPerMinute: 3, signInLimit: { windowMs: 60_000, maxFailures: 4 } }, { database: t.db });
+  await t.createUser('ayla', ['operator']);
+  const ayla = { Authorization: `Bearer ${await t.tokenFor('ayla')}` };
+  const statuses: number[] = [];
+  for (let i = 0; i < 4; i++) statuses.push((await request(i % 2 === 0 ? first.app : other.app).post('/api/inspections').set(ayla).field('stationId', 'x')).status);
+  expect(statuses.slice(0, 3)).not.toContain(429);
+  expect(statuses[3]).toBe(429);
+
+  const wrong = (app: typeof t.app) => request(app).post('/api/auth/sign-in').send({ username: 'ayla', password: 'not-her-password' });
+  const signIns: number[] = [];
+  for (let i = 0; i < 5; i++) signIns.push((await wrong(i % 2 === 0 ? first.app : other.app)).status);
+  expect(signIns.slice(0, 4)).toEqual([401, 401, 401, 401]);
+  expect(signIns[4]).toBe(429);
+  const [{ keys }] = await t.db.dataSource.query(`select count(*)::int as keys from rate_limit_hits where key like 'sign-in:%' or key like 'uploads:%'`);
+  expect(keys).toBeGreaterThanOrEqual(2);
+});

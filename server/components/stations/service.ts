@@ -79,7 +79,7 @@ export class StationsService {
         const station = await manager.save(manager.create(StationEntity, fields));
         await replacePartTypes(manager, station.id, partTypes);
         const after = { ...fields, partTypes: [...partTypes].sort() };
-        await this.audit.record(manager, { actor: actorOf(actor), action: 'station.create', entityType: 'station', entityId: station.id, after });
+        await this.audit.record(manager, { actor: actorOf(actor), action: 'station.create', entityType: 'station', entityId: station.id, after, details: after });
         return station.id;
       });
       return (await this.get(id)).dto;

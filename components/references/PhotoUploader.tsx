@@ -33,6 +33,9 @@ function Bar({ fraction, label }: { fraction: number; label: string }) {
 
 type BatchLabel = ImageLabel;
 
+/** What the server accepts (server/vision/decode.ts and server/lib/uploads.ts), in the engineer's words. */
+const ACCEPTED = 'PNG, JPEG, TIFF or WebP photos, 8 or 16 bit, up to 40 MB and 50 megapixels each.';
+
 export function PhotoUploader({ setId }: { setId: string }) {
   const layout = useLayout();
   const refresh = useRefreshReferenceSet(setId);
@@ -42,6 +45,7 @@ export function PhotoUploader({ setId }: { setId: string }) {
   const [label, setLabel] = useState<BatchLabel>('unlabelled');
   const [defectKind, setDefectKind] = useState<string | null>(null);
   const [dragging, setDragging] = useState(false);
+  const [pickerProblem, setPickerProblem] = useState<string | null>(null);
   const fileInput = useRef<HTMLInputElement | null>(null);
 
   const defaults = { label: label === 'unlabelled' ? undefined : label, defectKind: label === 'defective' ? defectKind ?? undefined : undefined };
@@ -49,11 +53,23 @@ export function PhotoUploader({ setId }: { setId: string }) {
     const photos: (UploadablePhoto & { size: number })[] = Array.from(files ?? []).map((file) => ({ name: file.name, blob: file, size: file.size }));
     if (photos.length > 0) uploads.add(photos, defaults);
   };
+  // On the web the picker throws for a chosen file that is not an image (its message also offers
+  // videos, which a reference set does not take); say so in our words rather than lose the choice.
+  const pickWith = async (launch: () => Promise<ImagePicker.ImagePickerResult>): Promise<ImagePicker.ImagePickerAsset[]> => {
+    setPickerProblem(null);
+    try {
+      const result = await launch();
+      return result.canceled ? [] : result.assets;
+    } catch {
+      setPickerProblem(`The chosen file could not be read as a photo. Choose ${ACCEPTED}`);
+      return [];
+    }
+  };
   const pickFromLibrary = async () => {
-    const result = await ImagePicker.launchImageLibraryAsync({ mediaTypes: ['images'], allowsMultipleSelection: true, quality: 1 });
-    if (result.canceled) return;
+    const assets = await pickWith(() => ImagePicker.launchImageLibraryAsync({ mediaTypes: ['images'], allowsMultipleSelection: true, quality: 1 }));
+    if (assets.length === 0) return;
     const photos = await Promise.all(
-      result.assets.map(async (asset, i) => {
+      assets.map(async (asset, i) => {
         const name = asset.fileName ?? `photo-${Date.now()}-${i + 1}.jpg`;
         if (asset.file) return { name, blob: asset.file as Blob, size: asset.file.size };
         return { name, uri: asset.uri, type: asset.mimeType ?? 'image/jpeg', size: asset.fileSize ?? undefined };
@@ -64,9 +80,8 @@ export function PhotoUploader({ setId }: { setId: string }) {
   const takePhoto = async () => {
     const permission = await ImagePicker.requestCameraPermissionsAsync();
     if (!permission.granted) return;
-    const result = await ImagePicker.launchCameraAsync({ mediaTypes: ['images'], quality: 1 });
-    if (result.canceled) return;
-    const asset = result.assets[0];
+    const [asset] = await pickWith(() => ImagePicker.launchCameraAsync({ mediaTypes: ['images'], quality: 1 }));
+    if (!asset) return;
     const name = asset.fileName ?? `photo-${Date.now()}.jpg`;
     uploads.add([asset.file ? { name, blob: asset.file as Blob, size: asset.file.size } : { name, uri: asset.uri, type: asset.mimeType ?? 'image/jpeg' }], defaults);
   };
@@ -100,19 +115,20 @@ export function PhotoUploader({ setId }: { setId: string }) {
           onDrop={(e) => {
             e.preventDefault();
             setDragging(false);
-            addFiles(Array.from(e.dataTransfer.files).filter((f) => /^image\//.test(f.type) || /\.(png|jpe?g|tiff?)$/i.test(f.name)));
+            // Every dropped file is sent: the server checks the type from the content and names why it refuses one.
+            addFiles(e.dataTransfer.files);
           }}
         >
           <View style={[styles.drop, dragging && styles.dropActive]}>
             <AppText variant="bodyStrong">{dragging ? 'Drop the photos to add them' : 'Drag photos here, or choose them'}</AppText>
-            <AppText variant="caption" tone="muted">PNG or JPEG, 8 or 16 bit. Photos already in the set are recognised by their content and not stored twice.</AppText>
+            <AppText variant="caption" tone="muted">{`${ACCEPTED} Photos already in the set are recognised by their content and not stored twice.`}</AppText>
             <Button label="Choose photos" variant="secondary" onPress={() => fileInput.current?.click()} accessibilityHint="Opens a file picker; you can choose many photos at once" />
           </View>
           <input
             ref={fileInput}
             type="file"
             multiple
-            accept="image/png,image/jpeg,image/tiff"
+            accept="image/png,image/jpeg,image/tiff,image/webp"
             aria-label="Photos to add"
             style={{ display: 'none' }}
             onChange={(e) => {
@@ -125,8 +141,10 @@ export function PhotoUploader({ setId }: { setId: string }) {
         <View style={styles.phoneButtons}>
           <Button label="Choose from library" onPress={() => void pickFromLibrary()} accessibilityHint="You can choose many photos at once" />
           <Button label="Take a photo" variant="secondary" onPress={() => void takePhoto()} />
+          <AppText variant="caption" tone="muted" style={styles.full}>{ACCEPTED}</AppText>
         </View>
       )}
+      {pickerProblem ? <AppText tone="danger" role="alert">{`✕ ${pickerProblem}`}</AppText> : null}
 
       {uploads.items.length > 0 ? (
         <View style={styles.progress}>
@@ -167,4 +185,5 @@ const styles = StyleSheet.create({
   itemHead: { flexDirection: 'row', gap: space.sm },
   grow: { flex: 1 },
   start: { alignSelf: 'flex-start' },
+  full: { flexBasis: '100%' },
 });

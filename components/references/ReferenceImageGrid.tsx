@@ -22,9 +22,9 @@ export function ReferenceImageGrid({ images, selecting, selected, onPress }: Ref
         return (
           <Pressable
             key={image.id}
-            accessibilityRole={selecting ? 'checkbox' : 'button'}
-            accessibilityState={selecting ? { checked: isSelected } : undefined}
-            accessibilityLabel={`${selecting ? 'Select' : 'Label'} ${image.fileName}, ${labelText}`}
+            role={selecting ? 'checkbox' : 'button'}
+            aria-checked={selecting ? isSelected : undefined}
+            aria-label={`${selecting ? 'Select' : 'Label'} ${image.fileName}, ${labelText}`}
             onPress={() => onPress(image)}
             style={[styles.tile, isSelected && styles.selected]}
           >

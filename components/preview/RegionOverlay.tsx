@@ -46,7 +46,23 @@ export function regionFromCorners(a: { x: number; y: number }, b: { x: number; y
   return { shape, cx: round3(x + w / 2), cy: round3(y + h / 2), r: round3(Math.max(0.001, Math.min(1, r))) };
 }
 
-function boxOf(region: Region, aspect: number): { left: number; top: number; width: number; height: number; round: boolean } {
+type Box = { left: number; top: number; width: number; height: number; round: boolean };
+
+/** Room a region's name needs beside the region, in screen pixels (one caption line). */
+const NAME_ROOM_PX = 20;
+
+/**
+ * Where a region's name goes: just outside the region (above, else below), so that it never hides
+ * the pixels being measured; inside only when the region leaves no room on the photo.
+ */
+function namePlacement(box: Box, frameHeight: number) {
+  const side = box.left + box.width / 2 > 0.5 ? styles.nameRight : styles.nameLeft;
+  if (box.top * frameHeight >= NAME_ROOM_PX) return [styles.nameOutside, styles.nameAbove, side];
+  if ((1 - box.top - box.height) * frameHeight >= NAME_ROOM_PX) return [styles.nameOutside, styles.nameBelow, side];
+  return [];
+}
+
+function boxOf(region: Region, aspect: number): Box {
   if (region.shape === 'rect') return { left: region.x, top: region.y, width: region.w, height: region.h, round: false };
   const rx = region.r * Math.min(1, 1 / aspect);
   const ry = region.r * Math.min(1, aspect);
@@ -54,14 +70,14 @@ function boxOf(region: Region, aspect: number): { left: number; top: number; wid
 }
 
 export function RegionOverlay({ regions, drawing, aspect, onDrawn }: RegionOverlayProps) {
-  const size = useRef({ width: 1, height: 1 });
+  const [size, setSize] = useState({ width: 1, height: 1 });
   const start = useRef<{ x: number; y: number; px: number; py: number } | null>(null);
   const [firstCorner, setFirstCorner] = useState<{ x: number; y: number } | null>(null);
   const [rubber, setRubber] = useState<Region | null>(null);
 
   const point = (event: GestureResponderEvent) => ({
-    x: clamp01(event.nativeEvent.locationX / size.current.width),
-    y: clamp01(event.nativeEvent.locationY / size.current.height),
+    x: clamp01(event.nativeEvent.locationX / size.width),
+    y: clamp01(event.nativeEvent.locationY / size.height),
     px: event.nativeEvent.locationX,
     py: event.nativeEvent.locationY,
   });
@@ -70,6 +86,12 @@ export function RegionOverlay({ regions, drawing, aspect, onDrawn }: RegionOverl
     ? {
         onStartShouldSetResponder: () => true,
         onMoveShouldSetResponder: () => true,
+        // A drag over the photo is the drawing: the page's scroll view must not take it over.
+        onResponderTerminationRequest: () => false,
+        onResponderTerminate: () => {
+          start.current = null;
+          setRubber(null);
+        },
         onResponderGrant: (e: GestureResponderEvent) => {
           start.current = point(e);
         },
@@ -99,7 +121,7 @@ export function RegionOverlay({ regions, drawing, aspect, onDrawn }: RegionOverl
     <View
       style={[StyleSheet.absoluteFill, drawing && styles.drawing]}
       onLayout={(e: LayoutChangeEvent) => {
-        size.current = { width: e.nativeEvent.layout.width || 1, height: e.nativeEvent.layout.height || 1 };
+        setSize({ width: e.nativeEvent.layout.width || 1, height: e.nativeEvent.layout.height || 1 });
       }}
       accessibilityLabel={drawing ? 'Drawing area: drag across the photo, or tap two opposite corners' : undefined}
       {...handlers}
@@ -117,7 +139,7 @@ export function RegionOverlay({ regions, drawing, aspect, onDrawn }: RegionOverl
               { left: `${box.left * 100}%`, top: `${box.top * 100}%`, width: `${box.width * 100}%`, height: `${box.height * 100}%`, borderRadius: box.round ? 9999 : 0 },
             ]}
           >
-            <AppText variant="caption" style={styles.regionName} numberOfLines={1}>
+            <AppText variant="caption" style={[styles.regionName, ...namePlacement(box, size.height)]} numberOfLines={1}>
               {name}
             </AppText>
           </View>
@@ -135,10 +157,16 @@ export function RegionOverlay({ regions, drawing, aspect, onDrawn }: RegionOverl
 }
 
 const styles = StyleSheet.create({
-  drawing: { cursor: 'crosshair' } as object,
+  // A mouse drag would otherwise select the region names' text as it crosses them.
+  drawing: { cursor: 'crosshair', userSelect: 'none' } as object,
   region: { position: 'absolute', borderWidth: 2, borderColor: colors.focus, borderStyle: 'dashed' },
   regionActive: { borderStyle: 'solid', borderWidth: 3 },
   regionName: { backgroundColor: colors.surface, color: colors.ink, paddingHorizontal: 2, alignSelf: 'flex-start' },
+  nameOutside: { position: 'absolute', maxWidth: 220 },
+  nameAbove: { bottom: '100%', marginBottom: 2 },
+  nameBelow: { top: '100%', marginTop: 2 },
+  nameLeft: { left: -2 },
+  nameRight: { right: -2 },
   rubber: { borderStyle: 'solid', borderColor: colors.caution },
   corner: { position: 'absolute', width: 12, height: 12, marginLeft: -6, marginTop: -6, borderRadius: 6, borderWidth: 2, borderColor: colors.caution, backgroundColor: colors.surface },
 });

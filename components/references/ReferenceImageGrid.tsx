@@ -2,6 +2,7 @@
 import { Image, Pressable, StyleSheet, View } from 'react-native';
 import type { ReferenceImage } from '../../shared/api/references';
 import { colors, radius, space } from '../../lib/theme';
+import { useDefectKinds } from '../../hooks/useReferenceSets';
 import { AppText } from '../AppText';
 
 const LABEL_MARKS: Record<ReferenceImage['label'], string> = { good: '✓ good', defective: '✕ defective', retake: '↻ retake', unlabelled: '? unlabelled' };
@@ -14,11 +15,14 @@ interface ReferenceImageGridProps {
 }
 
 export function ReferenceImageGrid({ images, selecting, selected, onPress }: ReferenceImageGridProps) {
+  // The defect kind's name as the engineer chose it; its code until the list has loaded.
+  const defectKinds = useDefectKinds();
+  const kindName = (code: string) => defectKinds.data?.find((k) => k.code === code)?.name ?? code;
   return (
     <View style={styles.grid}>
       {images.map((image) => {
         const isSelected = selected.has(image.id);
-        const labelText = `${LABEL_MARKS[image.label]}${image.defectKind ? ` (${image.defectKind})` : ''}`;
+        const labelText = `${LABEL_MARKS[image.label]}${image.defectKind ? ` (${kindName(image.defectKind)})` : ''}`;
         return (
           <Pressable
             key={image.id}

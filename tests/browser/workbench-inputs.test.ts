@@ -381,7 +381,7 @@ describe('at phone width', () => {
     await screenshot(page, 'references-label-dialog-phone');
     await dialog.getByRole('button', { name: 'Label 3 photos' }).click();
     await page.getByText('✓ Labelled 3 photos.').waitFor();
-    await page.getByRole('button', { name: 'Label lot-24.png, ✕ defective (chip)' }).waitFor();
+    await page.getByRole('button', { name: 'Label lot-24.png, ✕ defective (Chip or notch)' }).waitFor();
     await page.getByText(/4 photos: 0 good, 3 defective, 0 retake, 1 unlabelled/).waitFor();
     await screenshot(page, 'references-labelled-phone');
 

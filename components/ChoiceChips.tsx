@@ -49,6 +49,7 @@ const styles = StyleSheet.create({
   group: { gap: space.xs },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   chip: {
+    maxWidth: '100%',
     minHeight: minTouchTarget,
     justifyContent: 'center',
     paddingHorizontal: space.md,

@@ -2,7 +2,7 @@
 // with each photo's progress and outcome (stored, already in the set, refused with the reason).
 import { useCallback, useRef, useState } from 'react';
 import type { ImageLabel } from '../shared/api/references';
-import { uploadReferencePhotos, type UploadablePhoto } from '../lib/api';
+import { ApiError, uploadReferencePhotos, type UploadablePhoto } from '../lib/api';
 import { explainError } from '../lib/errorMessages';
 
 export type UploadStatus = 'waiting' | 'sending' | 'stored' | 'duplicate' | 'refused' | 'failed';
@@ -47,7 +47,10 @@ export function usePhotoUploads(setId: string, onBatchDone: () => void) {
           else if (outcome.status === 'duplicate') update(next.id, { status: 'duplicate', progress: 1, message: 'Already in this set: not stored twice.' });
           else update(next.id, { status: 'refused', progress: 1, message: outcome.message });
         })
-        .catch((error: unknown) => update(next.id, { status: 'failed', message: explainError(error).message }))
+        // A 4xx answer is the server refusing this photo (too large, wrong type): sending it again will not help.
+        .catch((error: unknown) =>
+          update(next.id, { status: error instanceof ApiError && error.status >= 400 && error.status < 500 ? 'refused' : 'failed', message: explainError(error).message }),
+        )
         .finally(() => {
           running.current -= 1;
           if (running.current === 0 && queue.current.length === 0) onBatchDone();

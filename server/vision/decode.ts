@@ -45,7 +45,7 @@ export async function decodePhoto(input: Uint8Array, options: DecodeOptions = {}
   try {
     meta = await sharp(input, { limitInputPixels: false }).metadata();
   } catch {
-    throw new PhotoDecodeError('not_an_image', 'the file is not an image sharp can read (JPEG, PNG, TIFF or WebP expected)');
+    throw new PhotoDecodeError('not_an_image', 'the file is not a readable image (JPEG, PNG, TIFF or WebP expected)');
   }
   const format = meta.format as string | undefined;
   if (!format || !(ACCEPTED_FORMATS as readonly string[]).includes(format)) {

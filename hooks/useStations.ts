@@ -21,11 +21,11 @@ export function useCreateLine() {
 }
 
 export function useCreateStation() {
-  return useStationMutation((body: { lineId: string; name: string; cameraNote: string }) => createStation(body));
+  return useStationMutation((body: { lineId: string; name: string; cameraNote: string; partTypes: string[] }) => createStation(body));
 }
 
 export function useUpdateStation() {
-  return useStationMutation(({ id, changes }: { id: string; changes: { name?: string; cameraNote?: string; active?: boolean } }) => updateStation(id, changes));
+  return useStationMutation(({ id, changes }: { id: string; changes: { name?: string; cameraNote?: string; active?: boolean; partTypes?: string[] } }) => updateStation(id, changes));
 }
 
 export function useCalibrateStation() {

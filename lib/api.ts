@@ -257,11 +257,11 @@ export function createLine(body: { name: string }): Promise<Line> {
   return request('/api/stations/lines', { method: 'POST', body, schema: lineSchema });
 }
 
-export function createStation(body: { lineId: string; name: string; cameraNote?: string }): Promise<Station> {
+export function createStation(body: { lineId: string; name: string; cameraNote?: string; partTypes?: string[] }): Promise<Station> {
   return request('/api/stations', { method: 'POST', body, schema: stationSchema });
 }
 
-export function updateStation(id: string, changes: { name?: string; cameraNote?: string; active?: boolean }): Promise<Station> {
+export function updateStation(id: string, changes: { name?: string; cameraNote?: string; active?: boolean; partTypes?: string[] }): Promise<Station> {
   return request(`/api/stations/${encodeURIComponent(id)}`, { method: 'PATCH', body: changes, schema: stationSchema });
 }
 

@@ -2,6 +2,7 @@ import { useCallback, useState } from 'react';
 import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import { useInspectPhoto, useQueuedPhotos, useReleasedRules } from '../../hooks/useInspections';
 import { useLayout } from '../../hooks/useLayout';
+import { usePartTypes } from '../../hooks/useReferenceSets';
 import { useLines } from '../../hooks/useStations';
 import { newIdempotencyKey } from '../../lib/idempotencyKey';
 import { readInspectChoice, saveInspectChoice, type InspectChoice } from '../../lib/inspectChoice';
@@ -21,6 +22,7 @@ import { PhotographButton } from './PhotographButton';
 import { QueueBanner } from './QueueBanner';
 import { SafetyNote } from './SafetyNote';
 import { StationRulePicker } from './StationRulePicker';
+import { ruleFitsStation } from './stationRules';
 import { UploadProgress } from './UploadProgress';
 import { VerdictPanel } from './VerdictPanel';
 
@@ -32,6 +34,7 @@ export function InspectScreen() {
   const { height } = useWindowDimensions();
   const lines = useLines();
   const rules = useReleasedRules();
+  const partTypes = usePartTypes();
   const queue = useQueuedPhotos();
   const inspect = useInspectPhoto();
   const [choice, setChoice] = useState<InspectChoice | null>(() => readInspectChoice());
@@ -41,10 +44,13 @@ export function InspectScreen() {
   const [pickError, setPickError] = useState<string>();
 
   const station = lines.data?.flatMap((line) => line.stations).find((s) => s.id === choice?.stationId && s.active);
-  const rule = rules.data?.find((r) => r.id === choice?.ruleId);
+  const rememberedRule = rules.data?.find((r) => r.id === choice?.ruleId);
+  // A rule for a part type the station no longer inspects is dropped, as the server would refuse it.
+  const rule = rememberedRule && station && !ruleFitsStation(rememberedRule, station) ? undefined : rememberedRule;
   // What this device remembered but can no longer use: a withdrawn rule, a station taken out of use.
-  const lostRule = Boolean(choice && rules.data && !rule);
+  const lostRule = Boolean(choice && rules.data && !rememberedRule);
   const lostStation = Boolean(choice && lines.data && !station);
+  const misfitRule = Boolean(rememberedRule && station && !rule);
 
   const send = useCallback(
     (photo: PickedPhoto) => {
@@ -103,21 +109,28 @@ export function InspectScreen() {
     return (
       <Screen title="Inspect" subtitle="Choose your station and the released rule for the parts in front of you. This device remembers them." width="reading">
         {queueBanner}
-        {!choosing && (lostRule || lostStation) ? (
+        {!choosing && (lostRule || lostStation || misfitRule) ? (
           <Card style={styles.lost} role="alert">
             <AppText variant="bodyStrong" tone="caution">
-              {lostRule ? '⚠ The rule this device remembered is no longer released' : '⚠ The station this device remembered is no longer in use'}
+              {lostRule
+                ? '⚠ The rule this device remembered is no longer released'
+                : lostStation
+                  ? '⚠ The station this device remembered is no longer in use'
+                  : `⚠ ${station?.name} no longer inspects the part type of the rule this device remembered`}
             </AppText>
             <AppText>
               {lostRule
                 ? 'A supervisor withdrew it, so it no longer judges parts. Choose the released rule for the parts in front of you, or ask your supervisor which one to use.'
-                : 'Choose the station you are working at.'}
+                : lostStation
+                  ? 'Choose the station you are working at.'
+                  : 'A supervisor changed the part types inspected here. Choose one of the station’s released rules.'}
             </AppText>
           </Card>
         ) : null}
         <StationRulePicker
           lines={lines.data}
           rules={rules.data}
+          partTypes={partTypes.data}
           initial={choice}
           onChoose={(next) => {
             saveInspectChoice(next);

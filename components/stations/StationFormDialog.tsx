@@ -1,18 +1,22 @@
 import { useEffect, useState } from 'react';
 import { ApiError } from '../../lib/api';
 import { fieldErrorsFrom, type FieldErrors } from '../../lib/formErrors';
+import type { PartType } from '../../shared/api/catalogue';
 import type { Line, Station } from '../../shared/api/stations';
 import { Button } from '../Button';
 import { ChoiceChips } from '../ChoiceChips';
 import { Dialog } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
+import { PartTypeChecklist } from './PartTypeChecklist';
 
 export interface StationFormValues {
   lineId: string;
   name: string;
   cameraNote: string;
   active: boolean;
+  /** Codes of the part types inspected at the station. */
+  partTypes: string[];
 }
 
 interface StationFormDialogProps {
@@ -20,6 +24,8 @@ interface StationFormDialogProps {
   /** Absent for a new station. */
   station?: Station;
   lines: Line[];
+  /** The catalogue of part types to choose from. */
+  partTypes: readonly PartType[];
   initialLineId?: string;
   busy: boolean;
   error: unknown;
@@ -27,13 +33,13 @@ interface StationFormDialogProps {
   onClose: () => void;
 }
 
-/** A new station on a line, or a station's name, camera note and active flag. */
-export function StationFormDialog({ visible, station, lines, initialLineId, busy, error, onSave, onClose }: StationFormDialogProps) {
-  const [values, setValues] = useState<StationFormValues>({ lineId: '', name: '', cameraNote: '', active: true });
+/** A new station on a line, or a station's name, camera note, part types and active flag. */
+export function StationFormDialog({ visible, station, lines, partTypes, initialLineId, busy, error, onSave, onClose }: StationFormDialogProps) {
+  const [values, setValues] = useState<StationFormValues>({ lineId: '', name: '', cameraNote: '', active: true, partTypes: [] });
   const [errors, setErrors] = useState<FieldErrors>({});
   useEffect(() => {
     if (visible) {
-      setValues({ lineId: station?.lineId ?? initialLineId ?? lines[0]?.id ?? '', name: station?.name ?? '', cameraNote: station?.cameraNote ?? '', active: station?.active ?? true });
+      setValues({ lineId: station?.lineId ?? initialLineId ?? lines[0]?.id ?? '', name: station?.name ?? '', cameraNote: station?.cameraNote ?? '', active: station?.active ?? true, partTypes: station?.partTypes ?? [] });
       setErrors({});
     }
   }, [visible, station, initialLineId, lines]);
@@ -70,6 +76,7 @@ export function StationFormDialog({ visible, station, lines, initialLineId, busy
         numberOfLines={2}
         maxLength={500}
       />
+      <PartTypeChecklist partTypes={partTypes} value={values.partTypes} onChange={(codes) => setValues((v) => ({ ...v, partTypes: codes }))} error={errors.partTypes} />
       {station ? (
         <ChoiceChips
           label="In use"

@@ -1,16 +1,19 @@
 import { useState } from 'react';
 import { useRouter } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
+import { usePartTypes } from '../../hooks/useReferenceSets';
 import { useCreateLine, useCreateStation, useLines, useUpdateStation } from '../../hooks/useStations';
 import { space } from '../../lib/theme';
 import type { Station } from '../../shared/api/stations';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { Card } from '../Card';
+import { ErrorBanner } from '../ErrorBanner';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { UserStatus } from '../users/UserStatus';
 import { CalibrationSummary } from './CalibrationSummary';
+import { PartTypesSummary } from './PartTypesSummary';
 import { LineDialog } from './LineDialog';
 import { StationFormDialog, type StationFormValues } from './StationFormDialog';
 
@@ -20,6 +23,7 @@ type Editing = { kind: 'new-line' } | { kind: 'new-station'; lineId: string } | 
 export function StationsAdmin() {
   const router = useRouter();
   const lines = useLines();
+  const partTypes = usePartTypes();
   const createLine = useCreateLine();
   const createStation = useCreateStation();
   const updateStation = useUpdateStation();
@@ -34,14 +38,15 @@ export function StationsAdmin() {
   const saveStation = (values: StationFormValues) => {
     if (editing?.kind === 'edit-station') {
       const { station } = editing;
-      updateStation.mutate({ id: station.id, changes: { name: values.name, cameraNote: values.cameraNote, active: values.active } }, { onSuccess: close });
+      updateStation.mutate({ id: station.id, changes: { name: values.name, cameraNote: values.cameraNote, active: values.active, partTypes: values.partTypes } }, { onSuccess: close });
     } else {
-      createStation.mutate({ lineId: values.lineId, name: values.name, cameraNote: values.cameraNote }, { onSuccess: close });
+      createStation.mutate({ lineId: values.lineId, name: values.name, cameraNote: values.cameraNote, partTypes: values.partTypes }, { onSuccess: close });
     }
   };
 
   return (
-    <Screen title="Stations" subtitle="Each station’s calibration turns pixels into millimetres for every gauge measured there." actions={<Button label="New line" onPress={() => setEditing({ kind: 'new-line' })} />}>
+    <Screen title="Stations" subtitle="Each station’s calibration turns pixels into millimetres for every gauge measured there; its part types decide which released rules its operators are offered." actions={<Button label="New line" onPress={() => setEditing({ kind: 'new-line' })} />}>
+      {partTypes.error ? <ErrorBanner error={partTypes.error} onRetry={() => void partTypes.refetch()} /> : null}
       {lines.isPending ? (
         <LoadingState label="Loading lines and stations…" />
       ) : lines.error ? (
@@ -65,6 +70,7 @@ export function StationsAdmin() {
                   </View>
                   {station.cameraNote ? <AppText variant="caption" tone="muted">{station.cameraNote}</AppText> : null}
                   <CalibrationSummary station={station} />
+                  <PartTypesSummary station={station} catalogue={partTypes.data} />
                   <View style={styles.actions}>
                     <Button label="Edit" variant="secondary" compact onPress={() => setEditing({ kind: 'edit-station', station })} accessibilityLabel={`Edit ${station.name}`} />
                     <Button label="Calibrate" compact onPress={() => router.push(`/stations/${station.id}`)} accessibilityLabel={`Calibrate ${station.name}`} />
@@ -87,6 +93,7 @@ export function StationsAdmin() {
         station={editing?.kind === 'edit-station' ? editing.station : undefined}
         initialLineId={editing?.kind === 'new-station' ? editing.lineId : undefined}
         lines={lines.data ?? []}
+        partTypes={partTypes.data ?? []}
         busy={createStation.isPending || updateStation.isPending}
         error={createStation.error ?? updateStation.error}
         onSave={saveStation}

@@ -1,4 +1,4 @@
-// The demo plant, Fernwick Parts Works: part types, two lines with four calibrated stations,
+// The demo plant, Fernwick Parts Works: part types, two lines with four calibrated stations (each inspecting one part type),
 // reference sets of generated photos, rules tried on them and released by a second person, and
 // weeks of inspection history made by running the released rules on generated photos. Every step
 // goes through the same services as the app, and skips what already exists (idempotent).
@@ -116,14 +116,14 @@ export async function seedDemoPlant(services: Services, options: DemoPlantOption
   for (const family of FAMILY_NAMES) await ds.getRepository(PartTypeEntity).upsert({ code: partTypeCode(family), name: PART_TYPE_NAMES[family], family }, ['code']);
   await ds.getRepository(DefectKindEntity).upsert(DEFECT_KINDS, ['code']);
 
-  // Lines and stations, calibrated from a 20 mm gauge block photographed at each station.
+  // Lines and stations, each inspecting its family's part type, calibrated from a 20 mm gauge block photographed at each station.
   const stations: { id: string; family: FamilyName; drifts: boolean; name: string }[] = [];
   for (const line of LINES) {
     const lineId = (await ds.getRepository(LineEntity).findOneBy({ name: line.name }))?.id ?? (await services.stations.createLine(supervisor, { name: line.name })).id;
     for (const s of line.stations) {
       let station = await ds.getRepository(StationEntity).findOneBy({ lineId, name: s.name });
       if (!station) {
-        const created = await services.stations.createStation(supervisor, { lineId, name: s.name, cameraNote: s.cameraNote });
+        const created = await services.stations.createStation(supervisor, { lineId, name: s.name, cameraNote: s.cameraNote, partTypes: [partTypeCode(s.family)] });
         await services.stations.calibrate(supervisor, created.id, { referenceLengthMm: 20, distancePx: 20 / demoScale(s.family) });
         station = await ds.getRepository(StationEntity).findOneByOrFail({ id: created.id });
       }

@@ -2,13 +2,19 @@
 // Integer samples (8- and 16-bit photos) use a running histogram per row, with the median tracked
 // as the window slides (T. S. Huang, G. J. Yang, G. Y. Tang, "A fast two-dimensional median
 // filtering algorithm", IEEE Trans. ASSP 27(1), 1979); other values use selection per window.
+// The SIMD engine takes 3×3 and 5×5 through selection networks (wasm/assembly/median.ts), which give
+// the same bits unless the image holds NaN or −0; then, and for larger windows, this code runs.
 import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { padImage } from './convolve';
+import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
 
 const HISTOGRAM_LEVELS = 65536;
 
 export function medianFilter(src: Image, size: number, border: BorderMode, out?: Image): Image {
+  const simd = size === 3 || size === 5 ? simdKernels() : null;
+  const selected = simd?.median(src, size as 3 | 5, border, out);
+  if (selected) return selected;
   const dst = imageLike(src, out);
   if (size === 1) {
     dst.data.set(src.data);

@@ -1,6 +1,7 @@
 // Smoothing filters: Gaussian (separable) and box (sliding-window sums, constant time per pixel).
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { correlateSeparable } from './convolve';
+import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
 import { gaussianWeights } from './kernels';
 
@@ -13,9 +14,12 @@ export function gaussianBlur(src: Image, sigma: number, border: BorderMode, out?
 /**
  * Mean of the size × size neighbourhood (divisor always size², border pixels included).
  * Running column sums move down one row at a time; running row sums move across, two of them
- * (even and odd columns) so that each addition waits only on the one two pixels back.
+ * (even and odd columns) so that each addition waits only on the one two pixels back. The SIMD
+ * engine (wasm/assembly/box.ts) does the same double-precision operations in the same order.
  */
 export function boxFilter(src: Image, size: number, border: BorderMode, out?: Image): Image {
+  const simd = simdKernels();
+  if (simd) return simd.box(src, size, border, out);
   return boxPass(src, size, border, imageLike(src, out), null);
 }
 
@@ -30,6 +34,8 @@ export interface MeanComparison {
  * sums: the mean (rounded to float32, as the box filter stores it) never goes through memory.
  */
 export function boxMeanThreshold(src: Image, size: number, border: BorderMode, comparison: MeanComparison, out?: Image): Image {
+  const simd = simdKernels();
+  if (simd) return simd.box(src, size, border, out, comparison);
   return boxPass(src, size, border, imageLike(src, out === src ? undefined : out), comparison);
 }
 

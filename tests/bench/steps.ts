@@ -54,6 +54,7 @@ function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
     box: () => boxFilter(input, 5, 'reflect', a),
     adaptive: () => thresholdAdaptiveMean(input, 15, 5, 'replicate', false, a),
     median: () => medianFilter(input, 5, 'reflect', a),
+    median3: () => medianFilter(input, 3, 'reflect', a),
     laplacian: () => laplacian(input, 4, 'reflect', a),
     log: () => laplacianOfGaussian(input, 1.4, 'reflect', a),
     k5: () => correlateDirect(input, k5, 'reflect', a),

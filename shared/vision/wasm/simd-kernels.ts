@@ -4,6 +4,7 @@
 import type { MorphologyOp } from '../../rules/schema';
 import type { PackedMask } from '../binary-morphology';
 import type { BorderMode } from '../border';
+import type { MeanComparison } from '../smoothing';
 import { imageLike, type Image, type ValueRange } from '../image';
 import type { Kernel } from '../kernels';
 import { WasmHeap } from './heap';
@@ -36,6 +37,10 @@ export interface EngineExports {
   qualitySums(src: number, w: number, h: number, top: number, out: number): void;
   countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
   lumaRgb8(src: number, channels: number, n: number, dst: number, wr: number, wg: number, wb: number): void;
+  box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
+  boxScratchBytes(w: number, size: number): number;
+  median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
+  medianScratchBytes(w: number, size: number): number;
 }
 
 const BORDER_CODES: Record<BorderMode, number> = { reflect: 0, replicate: 1, constant: 2 };
@@ -125,6 +130,34 @@ export class SimdKernels {
         range.max = output === 'magnitude' ? found[1] : NaN;
       }
     });
+  }
+
+  /**
+   * Mean of the size × size neighbourhood, or with `comparison` the adaptive-mean mask
+   * flip ^ (in > mean − c): the plain engine's double-precision sums in its order, so the same bits.
+   */
+  box(src: Image, size: number, border: BorderMode, out?: Image, comparison?: MeanComparison): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      const scratch = scope.alloc(this.wasm.boxScratchBytes(src.width, size));
+      this.wasm.box(s, d, src.width, src.height, size, BORDER_CODES[border], comparison ? 1 : 0, comparison?.c ?? 0, comparison?.flip ?? 0, scratch);
+    });
+  }
+
+  /** Median of the 3×3 or 5×5 neighbourhood, or null (nothing written) when the image holds NaN or −0, whose order the plain engine decides. */
+  median(src: Image, size: 3 | 5, border: BorderMode, out?: Image): Image | null {
+    const dst = imageLike(src, out === src ? undefined : out);
+    const scope = new CallScope(this.heap);
+    try {
+      const s = this.addressOf(src, scope);
+      const resident = this.owns(dst);
+      const d = resident ? dst.address : scope.alloc(4 * dst.data.length);
+      const scratch = scope.alloc(this.wasm.medianScratchBytes(src.width, size));
+      if (this.wasm.median(s, d, src.width, src.height, size, BORDER_CODES[border], scratch) === 0) return null;
+      if (!resident) dst.data.set(this.heap.f32(d, dst.data.length));
+      return dst;
+    } finally {
+      scope.end();
+    }
   }
 
   /** True when every value is a whole number in 0 … 255. */

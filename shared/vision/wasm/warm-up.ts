@@ -29,6 +29,10 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.thresholdAt(b, (range.min + range.max) / 2, false, c, { width: SIDE, height: SIDE, wordsPerRow: SIDE / 32, words: new Int32Array((SIDE / 32) * SIDE) }, false);
   kernels.thresholdAt(b, (range.min + range.max) / 2, false, c);
   kernels.binaryMorphology(c, 'open', 1, 'reflect', b);
+  kernels.box(a, 5, 'reflect', b);
+  kernels.box(a, 15, 'replicate', c, { c: 5, flip: 0 });
+  kernels.median(a, 3, 'reflect', b);
+  kernels.median(a, 5, 'reflect', b);
   kernels.extreme(a, 1, 'reflect', false, b);
   kernels.extreme(a, 2, 'reflect', true, b);
   kernels.nonZeroWords(c);

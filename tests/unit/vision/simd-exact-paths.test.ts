@@ -1,7 +1,9 @@
 // The WebAssembly SIMD kernels against the plain TypeScript path (the reference) where the result is
-// a decision or a selection, not a sum: fixed and Otsu thresholds, morphology on any values and on
-// masks, the blob labelling with its pre-pass, and a rule run that stays on those paths. These must
-// agree bit for bit, NaN, −0 and ties included, on random images of odd and degenerate sizes.
+// a decision or a selection: fixed, Otsu and adaptive-mean thresholds, the median, morphology on any
+// values and on masks, the blob labelling with its pre-pass, and a rule run that stays on those
+// paths; and the box mean, whose double-precision sums the SIMD kernel computes with the plain
+// engine's operations in its order. These must agree bit for bit, NaN, −0 and ties included, on
+// random images of odd and degenerate sizes.
 import fc from 'fast-check';
 import type { MorphologyOp } from '../../../shared/rules/schema';
 import { createPackedMask } from '../../../shared/vision/binary-morphology';
@@ -12,13 +14,24 @@ import { channelImage, type RawPhoto } from '../../../shared/vision/image';
 import { inputChannel } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { runRule } from '../../../shared/vision/pipeline';
-import { thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
+import { medianFilter } from '../../../shared/vision/median';
+import { boxFilter } from '../../../shared/vision/smoothing';
+import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
+import type { Image } from '../../../shared/vision/image';
 import { bitsOf, borderMode, imageSize, onBoth, onEngine, sampleImage, seed, type SampleKind } from './engines';
 import { seededRandom } from './images';
 
 const RUNS = { numRuns: 150 };
 const anyKind = fc.constantFrom<SampleKind>('8-bit', '16-bit', 'signed float', 'mask', 'awkward');
 const morphologyOp = fc.constantFrom<MorphologyOp>('erode', 'dilate', 'open', 'close');
+/** Box and adaptive-mean window sides: the small ones, and some wider than the images (the border reflected again and again). */
+const windowSide = fc.oneof(fc.constantFrom(1, 3, 5, 7), fc.integer({ min: 0, max: 127 }).map((r) => 2 * r + 1));
+
+/** bitsOf with every NaN as one pattern: which NaN an arithmetic operation returns is left open by IEEE 754 (§6.2, from memory). */
+function bitsOrNaN(image: Image): number[] {
+  const bits = bitsOf(image);
+  return Array.from(image.data, (v, i) => (Number.isNaN(v) ? NaN : bits[i]));
+}
 
 test('luma of 8-bit RGB and RGBA photos (BT.601 in double precision, rounded once): the same bits from the SIMD kernel', () => {
   fc.assert(
@@ -41,6 +54,68 @@ test('fixed threshold: the same mask bits, the threshold a sample value, between
       const sample = image.data[pick % image.data.length];
       const value = how === 'sample' ? sample : how === 'between' ? sample + 1e-9 : Number(how);
       const { plain, simd } = onBoth(() => thresholdFixed(image, value, invert));
+      expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
+
+/**
+ * Samples from 2⁻⁴⁰ to 2⁴⁰ in size, of both signs: their double-precision sums round (float32 samples
+ * of similar size sum exactly in double precision), so that only the same operations in the same
+ * order give the same bits.
+ */
+function wideRangeImage(w: number, h: number, s: number): Image {
+  const rand = seededRandom(s);
+  const image = sampleImage(w, h, 'mask', s);
+  for (let p = 0; p < image.data.length; p++) image.data[p] = (rand() < 0.5 ? -1 : 1) * (1 + rand()) * 2 ** Math.floor(rand() * 81 - 40);
+  return image;
+}
+
+const boxKind = fc.constantFrom<SampleKind | 'wide range'>('8-bit', '16-bit', 'signed float', 'awkward', 'wide range');
+
+test('box mean: the same bits on 8-bit, 16-bit, float, wide-range and awkward images, every border, odd and wide windows', () => {
+  fc.assert(
+    fc.property(imageSize, boxKind, seed, windowSide, borderMode, ([w, h], kind, s, side, border) => {
+      const image = kind === 'wide range' ? wideRangeImage(w, h, s) : sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => boxFilter(image, side, border));
+      expect(bitsOrNaN(simd)).toEqual(bitsOrNaN(plain));
+    }),
+    RUNS,
+  );
+});
+
+test('adaptive mean: the same mask bits for any c (the local mean rounded to float32 as the plain engine rounds it), inverted or not', () => {
+  const c = fc.oneof(fc.integer({ min: -20, max: 20 }), fc.double({ min: -300, max: 300, noNaN: true }));
+  fc.assert(
+    fc.property(imageSize, boxKind, seed, windowSide, borderMode, c, fc.boolean(), ([w, h], kind, s, side, border, offset, invert) => {
+      const image = kind === 'wide range' ? wideRangeImage(w, h, s) : sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => thresholdAdaptiveMean(image, side, offset, border, invert));
+      expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
+
+test('median 3×3 and 5×5: the same bits on 8-bit, 16-bit, float and 0/1 images, every border; with NaN or −0 the plain code decides', () => {
+  fc.assert(
+    fc.property(imageSize, anyKind, seed, fc.constantFrom(3, 5), borderMode, ([w, h], kind, s, size, border) => {
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => medianFilter(image, size, border));
+      expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
+
+test('median of windows with many equal values and of the largest and smallest float32: the same bits', () => {
+  const levels = fc.constantFrom([0, 1, 2], [-3.5, 7, 1e30, -1e30], [3.4028234663852886e38, -3.4028234663852886e38, Infinity, -Infinity, 0]);
+  fc.assert(
+    fc.property(imageSize, seed, fc.constantFrom(3, 5), borderMode, levels, ([w, h], s, size, border, values) => {
+      const rand = seededRandom(s);
+      const image = sampleImage(w, h, 'mask', s);
+      for (let p = 0; p < image.data.length; p++) image.data[p] = values[Math.floor(rand() * values.length)];
+      const { plain, simd } = onBoth(() => medianFilter(image, size, border));
       expect(bitsOf(simd)).toEqual(bitsOf(plain));
     }),
     RUNS,

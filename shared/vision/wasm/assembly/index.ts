@@ -9,6 +9,8 @@ export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, pack
 export { packNonZero } from './blobs';
 export { qualitySums, countNonZero } from './statistics';
 export { lumaRgb8 } from './channels';
+export { box, boxScratchBytes } from './box';
+export { median, medianScratchBytes } from './median';
 
 /** First address the JavaScript side may use: static data ends below it. */
 export function heapBase(): usize {

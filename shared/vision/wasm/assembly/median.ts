@@ -1,0 +1,230 @@
+// Median of 3×3 and 5×5 windows by selection networks of minima and maxima, four pixels per v128.
+// Each output row first sorts the columns of its window rows (shared by the `size` windows that
+// contain a column); a window's median then comes from a few order statistics of those sorted
+// columns. A network of minima and maxima gives the exact k-th value of its inputs, so its output is
+// the plain engine's median bit for bit whenever the order of the values is unambiguous: the image
+// holds no NaN (unordered) and no −0 (equal to +0 but with other bits); otherwise it refuses.
+import { align16, at, fillLineBorder, rowAddress } from './border';
+
+const NEGATIVE_ZERO_BITS: i32 = 0x80000000;
+
+/** Scratch bytes `median` needs for a w-wide image. */
+export function medianScratchBytes(w: i32, size: i32): i32 {
+  return 4 * size + 4 * (w + 4) + size * (4 * (w + size + 8) + 16) + 128;
+}
+
+/**
+ * dst = median of the size × size neighbourhood (size 3 or 5, border by `mode`); returns 1, or 0
+ * without writing anything when src holds a NaN or a −0.
+ */
+export function median(src: usize, dst: usize, w: i32, h: i32, size: i32, mode: i32, scratch: usize): i32 {
+  if (hasUnorderedValues(src, w * h)) return 0;
+  const r = size >> 1;
+  const rows = align16(scratch);
+  const zeros = align16(at(rows, size));
+  memory.fill(zeros, 0, 4 * (w + 4));
+  // Sorted column j of the window rows at lines + j·stride, padded by r on each side (+ room for a last partial vector).
+  const stride = (<usize>(4 * (w + size + 8)) + 15) & ~(<usize>15);
+  const lines = align16(at(zeros, w + 4));
+  for (let y = 0; y < h; y++) {
+    for (let j = 0; j < size; j++) store<usize>(at(rows, j), rowAddress(src, y + j - r, h, w, mode, zeros));
+    if (size == 3) sortColumns3(rows, lines + (<usize>r << 2), stride, w);
+    else sortColumns5(rows, lines + (<usize>r << 2), stride, w);
+    for (let j = 0; j < size; j++) fillLineBorder(lines + <usize>j * stride, w, r, mode);
+    const out = at(dst, y * w);
+    if (size == 3) select3(lines, stride, w, out);
+    else select5(lines, stride, w, out);
+  }
+  return 1;
+}
+
+function hasUnorderedValues(src: usize, n: i32): bool {
+  const negativeZero = i32x4.splat(NEGATIVE_ZERO_BITS);
+  let found = i32x4.splat(0);
+  let p = 0;
+  for (; p + 4 <= n; p += 4) {
+    const v = v128.load(at(src, p));
+    found = v128.or(found, v128.or(f32x4.ne(v, v), i32x4.eq(v, negativeZero)));
+  }
+  if (v128.any_true(found)) return true;
+  for (; p < n; p++) {
+    const v = load<f32>(at(src, p));
+    if (v != v || load<i32>(at(src, p)) == NEGATIVE_ZERO_BITS) return true;
+  }
+  return false;
+}
+
+/** pmin(a, b) is b < a ? b : a: the smaller of two ordered values. */
+@inline
+function lo(a: v128, b: v128): v128 {
+  return f32x4.pmin(a, b);
+}
+
+@inline
+function hi(a: v128, b: v128): v128 {
+  return f32x4.pmax(a, b);
+}
+
+/** Stores the lanes of v that fall inside the row (w − x of them when fewer than four). */
+@inline
+function storePixels(out: usize, x: i32, w: i32, v: v128): void {
+  const p = at(out, x);
+  if (x + 4 <= w) {
+    v128.store(p, v);
+    return;
+  }
+  store<f32>(p, f32x4.extract_lane(v, 0));
+  if (x + 1 < w) store<f32>(p, f32x4.extract_lane(v, 1), 4);
+  if (x + 2 < w) store<f32>(p, f32x4.extract_lane(v, 2), 8);
+}
+
+/**
+ * The three window rows' samples of each column, sorted: line 0 the smallest. The last vector may
+ * read past the row (into the next row, the heap's spare bytes or the zeros row's spare samples) and
+ * write into the right padding, which the border fill then overwrites.
+ */
+function sortColumns3(rows: usize, line: usize, stride: usize, w: i32): void {
+  const r0 = load<usize>(rows), r1 = load<usize>(at(rows, 1)), r2 = load<usize>(at(rows, 2));
+  for (let x = 0; x < w; x += 4) {
+    const o = <usize>x << 2;
+    let a = v128.load(r0 + o), b = v128.load(r1 + o), c = v128.load(r2 + o);
+    let t = lo(a, b); b = hi(a, b); a = t;
+    t = lo(b, c); c = hi(b, c); b = t;
+    t = lo(a, b); b = hi(a, b); a = t;
+    v128.store(line + o, a);
+    v128.store(line + stride + o, b);
+    v128.store(line + 2 * stride + o, c);
+  }
+}
+
+/** The same for five rows, with the nine-comparator network for five values. */
+function sortColumns5(rows: usize, line: usize, stride: usize, w: i32): void {
+  const r0 = load<usize>(rows), r1 = load<usize>(at(rows, 1)), r2 = load<usize>(at(rows, 2));
+  const r3 = load<usize>(at(rows, 3)), r4 = load<usize>(at(rows, 4));
+  for (let x = 0; x < w; x += 4) {
+    const o = <usize>x << 2;
+    let a = v128.load(r0 + o), b = v128.load(r1 + o), c = v128.load(r2 + o), d = v128.load(r3 + o), e = v128.load(r4 + o);
+    // Comparators (0,1) (3,4) (2,4) (2,3) (0,3) (0,2) (1,4) (1,3) (1,2).
+    let t = lo(a, b); b = hi(a, b); a = t;
+    t = lo(d, e); e = hi(d, e); d = t;
+    t = lo(c, e); e = hi(c, e); c = t;
+    t = lo(c, d); d = hi(c, d); c = t;
+    t = lo(a, d); d = hi(a, d); a = t;
+    t = lo(a, c); c = hi(a, c); a = t;
+    t = lo(b, e); e = hi(b, e); b = t;
+    t = lo(b, d); d = hi(b, d); b = t;
+    t = lo(b, c); c = hi(b, c); b = t;
+    v128.store(line + o, a);
+    v128.store(line + stride + o, b);
+    v128.store(line + 2 * stride + o, c);
+    v128.store(line + 3 * stride + o, d);
+    v128.store(line + 4 * stride + o, e);
+  }
+}
+
+/** Median of three: max(min(a, b), min(max(a, b), c)). */
+@inline
+function median3(a: v128, b: v128, c: v128): v128 {
+  return hi(lo(a, b), lo(hi(a, b), c));
+}
+
+/**
+ * 3×3: with the columns sorted, the median is the median of the largest of the three minima, the
+ * median of the three middles and the smallest of the three maxima (common practice).
+ */
+function select3(lines: usize, stride: usize, w: i32, out: usize): void {
+  const low = lines, middle = lines + stride, high = lines + 2 * stride;
+  for (let x = 0; x < w; x += 4) {
+    const o = <usize>x << 2;
+    const lows = hi(hi(v128.load(low + o), v128.load(low + o, 4)), v128.load(low + o, 8));
+    const middles = median3(v128.load(middle + o), v128.load(middle + o, 4), v128.load(middle + o, 8));
+    const highs = lo(lo(v128.load(high + o), v128.load(high + o, 4)), v128.load(high + o, 8));
+    storePixels(out, x, w, median3(lows, middles, highs));
+  }
+}
+
+/**
+ * 5×5: row i of the window (the i-th smallest of each of its five sorted columns), if sorted as well,
+ * would give a matrix with sorted rows and columns, in which the element at (i, j) has at least
+ * (i+1)(j+1) − 1 values below it and (5−i)(5−j) − 1 above. Six places are therefore below the median
+ * and six above it; the other thirteen — the two largest of row 0, the three largest of row 1, the
+ * middle three of row 2, the three smallest of row 3, the two smallest of row 4 — hold it as their
+ * own median, found by forgetful selection: of eight values the smallest and the largest cannot be
+ * the median, so they go and the next values join. Minima and maxima only, so the 0-1 principle
+ * applies: right on every 0/1 window means right on every window (D. E. Knuth, The Art of Computer
+ * Programming, vol. 3, §5.3.4, from memory).
+ */
+function select5(lines: usize, stride: usize, w: i32, out: usize): void {
+  for (let x = 0; x < w; x += 4) {
+    const o = <usize>x << 2;
+    // Row 0: its two largest.
+    let p = lines + o;
+    let l1 = lo(v128.load(p), v128.load(p, 4)), h1 = hi(v128.load(p), v128.load(p, 4));
+    let l2 = lo(v128.load(p, 8), v128.load(p, 12)), h2 = hi(v128.load(p, 8), v128.load(p, 12));
+    let e = v128.load(p, 16);
+    let m1 = hi(h1, h2);
+    let m2 = hi(lo(h1, h2), hi(l1, l2));
+    const c0 = hi(m1, e), c1 = hi(lo(m1, e), m2);
+    // Row 1: its three largest.
+    p += stride;
+    l1 = lo(v128.load(p), v128.load(p, 4)); h1 = hi(v128.load(p), v128.load(p, 4));
+    l2 = lo(v128.load(p, 8), v128.load(p, 12)); h2 = hi(v128.load(p, 8), v128.load(p, 12));
+    e = hi(lo(l1, l2), v128.load(p, 16));
+    m1 = hi(l1, l2);
+    m2 = lo(h1, h2);
+    const c2 = hi(m1, m2), c3 = hi(lo(m1, m2), e), c4 = hi(h1, h2);
+    // Row 2: all but its smallest and largest.
+    p += stride;
+    l1 = lo(v128.load(p), v128.load(p, 4)); h1 = hi(v128.load(p), v128.load(p, 4));
+    l2 = lo(v128.load(p, 8), v128.load(p, 12)); h2 = hi(v128.load(p, 8), v128.load(p, 12));
+    e = hi(lo(l1, l2), v128.load(p, 16));
+    const c5 = hi(l1, l2), c6 = lo(h1, h2), c7 = lo(e, hi(h1, h2));
+    // Row 3: its three smallest.
+    p += stride;
+    l1 = lo(v128.load(p), v128.load(p, 4)); h1 = hi(v128.load(p), v128.load(p, 4));
+    l2 = lo(v128.load(p, 8), v128.load(p, 12)); h2 = hi(v128.load(p, 8), v128.load(p, 12));
+    e = lo(hi(h1, h2), v128.load(p, 16));
+    m1 = hi(l1, l2);
+    m2 = lo(h1, h2);
+    const c8 = lo(m1, m2), c9 = lo(hi(m1, m2), e), c10 = lo(l1, l2);
+    // Row 4: its two smallest.
+    p += stride;
+    l1 = lo(v128.load(p), v128.load(p, 4)); h1 = hi(v128.load(p), v128.load(p, 4));
+    l2 = lo(v128.load(p, 8), v128.load(p, 12)); h2 = hi(v128.load(p, 8), v128.load(p, 12));
+    e = v128.load(p, 16);
+    m1 = lo(l1, l2);
+    m2 = lo(hi(l1, l2), lo(h1, h2));
+    const c11 = lo(m1, e), c12 = lo(hi(m1, e), m2);
+    // Forgetful selection over the thirteen: three rounds of eight values in, all but the smallest
+    // and the largest out, two more joining; then seven, of which five stay; then their median.
+    let a = c0, b = c1, c = c2, d = c3, f = c4, g = c5, k = c6, n = c7;
+    for (let round = 0; round < 3; round++) {
+      const ab0 = lo(a, b), ab1 = hi(a, b), cd0 = lo(c, d), cd1 = hi(c, d);
+      const fg0 = lo(f, g), fg1 = hi(f, g), kn0 = lo(k, n), kn1 = hi(k, n);
+      a = hi(ab0, cd0);
+      b = hi(fg0, kn0);
+      c = hi(lo(ab0, cd0), lo(fg0, kn0));
+      d = lo(ab1, cd1);
+      f = lo(fg1, kn1);
+      g = lo(hi(ab1, cd1), hi(fg1, kn1));
+      k = round == 0 ? c8 : c10;
+      n = round == 0 ? c9 : c11;
+    }
+    // Seven values: sort the triple (a, b, c12) so that its middle stays; the smallest of the other
+    // lows and the largest of the other highs go.
+    const t0 = lo(a, b), t1 = hi(a, b);
+    const s0 = lo(t0, c12), s1 = hi(t0, c12);
+    const middle = lo(s1, t1), top = hi(s1, t1);
+    const u0 = lo(c, d), u1 = hi(c, d);
+    const v0 = lo(f, g), v1 = hi(f, g);
+    const lowKeep = hi(lo(s0, u0), v0), lowNext = hi(s0, u0);
+    const highKeep = lo(hi(top, u1), v1), highNext = lo(top, u1);
+    storePixels(out, x, w, median5(middle, lowNext, lowKeep, highNext, highKeep));
+  }
+}
+
+/** Median of five: drop the smallest and the largest of the first four, then the median of three. */
+@inline
+function median5(a: v128, b: v128, c: v128, d: v128, e: v128): v128 {
+  return median3(hi(lo(a, b), lo(c, d)), lo(hi(a, b), hi(c, d)), e);
+}

@@ -31,10 +31,10 @@ export function RolePicker({ value, onChange, error }: RolePickerProps) {
           return (
             <Pressable
               key={role}
-              accessibilityRole="checkbox"
-              accessibilityLabel={ROLE_LABELS[role]}
+              role="checkbox"
+              aria-label={ROLE_LABELS[role]}
+              aria-checked={checked}
               accessibilityHint={ROLE_DUTIES[role]}
-              accessibilityState={{ checked }}
               onPress={() => toggle(role)}
               style={({ pressed }) => [styles.option, pressed && styles.optionPressed]}
             >

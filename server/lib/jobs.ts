@@ -6,6 +6,8 @@ import pg from 'pg';
  * deadlock, so creation is serialised across processes by this session-level advisory lock.
  */
 const CREATE_QUEUE_LOCK = "select pg_advisory_lock(hashtext('kernwright.pgboss.create_queue'))";
+/** pg-boss's default archiveCompletedAfterSeconds. */
+const PG_BOSS_ARCHIVE_SECONDS = 12 * 60 * 60;
 const CREATE_QUEUE_UNLOCK = "select pg_advisory_unlock(hashtext('kernwright.pgboss.create_queue'))";
 
 export type JobHandler<T> = (data: T) => Promise<void>;
@@ -77,7 +79,10 @@ export class JobQueue {
    */
   async repeat(queue: string, minutes: number): Promise<void> {
     const seconds = minutes * 60;
-    const sendOne = () => this.send(queue, {}, { singletonKey: queue, singletonSeconds: seconds, retryLimit: 2 });
+    // pg-boss refuses a singleton period longer than the time it keeps finished jobs (12 h by
+    // default); longer periods run at most twice as often across processes, so their work must be idempotent.
+    const singletonSeconds = Math.min(seconds, PG_BOSS_ARCHIVE_SECONDS);
+    const sendOne = () => this.send(queue, {}, { singletonKey: queue, singletonSeconds, retryLimit: 2 });
     await sendOne();
     const timer = setInterval(() => {
       sendOne().catch((err: Error) => process.stderr.write(`job queue: could not send ${queue}: ${err.message}\n`));

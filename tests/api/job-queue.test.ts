@@ -41,3 +41,10 @@ test('a job sent by one process is worked by another once its queue exists', asy
   while (seen.length === 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
   expect(seen).toEqual(['part-17']);
 });
+
+test('work repeated once a day is accepted (pg-boss keeps finished jobs only 12 hours)', async () => {
+  const [q] = queues;
+  await q.repeat('race-daily', 24 * 60);
+  const [{ count }] = await db.dataSource.query(`select count(*)::int as count from pgboss.job where name = 'race-daily'`);
+  expect(count).toBe(1);
+});

@@ -25,12 +25,13 @@ export async function startWorkers(jobs: JobQueue, services: Services): Promise<
   });
   await jobs.repeat(TRIAL_RESUME_QUEUE, 1);
   await services.trials.resumeAbandoned();
-  // Inspections' monthly partitions, made ahead (this month and the next two): checked at start and once a
-  // day. A busy table may make the check give way (lock timeout); the daily job then tries again.
+  // Inspections' monthly partitions, made ahead (this month and the next two): checked at start and every
+  // 12 hours (the longest period the queue keeps a job for). A busy table may make the check give way
+  // (lock timeout); the next run tries again.
   await jobs.work(PARTITION_QUEUE, async () => {
     await ensureInspectionPartitions(services.dataSource);
   });
-  await jobs.repeat(PARTITION_QUEUE, 24 * 60);
+  await jobs.repeat(PARTITION_QUEUE, 12 * 60);
   await ensureInspectionPartitions(services.dataSource).catch((err: Error) => process.stderr.write(`inspection partitions: ${err.message}\n`));
   // Mail left from before a restart.
   await services.mail.kick();

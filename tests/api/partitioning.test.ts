@@ -156,6 +156,17 @@ test('the database refuses a measurement or a dispute of an inspection that does
   await expect(q(`insert into disputes (inspection_id, raised_by, note) values ($1, $2, 'x')`, [missing, operatorId])).rejects.toThrow(/does not exist/);
 });
 
+test('a writer that names only the inspection’s id gets its time filled in, even in the statement that stores the inspection', async () => {
+  const [row] = await q(
+    `with i as (insert into inspections (idempotency_key, rule_version_id, rule_id, station_id, line_id, part_type, operator_id, image_hash, verdict, quality, duration_ms, created_at)
+                select 'same-statement', v.id, v.rule_id, s.id, s.line_id, 'plate', $2, repeat('b', 64), 'FAIL', '{}', 12, '2031-03-15T09:30:00.123456Z'
+                from rule_versions v, stations s where v.id = $1 and s.id = $3 returning id)
+     insert into disputes (inspection_id, raised_by, note) select id, $2, 'Burr is on the fixture' from i returning inspection_created_at = '2031-03-15T09:30:00.123456Z' as same`,
+    [versionId, operatorId, stationId],
+  );
+  expect(row.same).toBe(true);
+});
+
 test('an idempotency key is unique across months', async () => {
   await inspection('2031-03-14T10:00:00Z', { key: 'station-7-part-42' });
   const refused = inspection('2031-04-14T10:00:00Z', { key: 'station-7-part-42' });

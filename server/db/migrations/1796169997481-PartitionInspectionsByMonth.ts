@@ -96,10 +96,12 @@ export class PartitionInspectionsByMonth1796169997481 implements MigrationInterf
     for (const { table, after } of REFERENCES)
       await q(`ALTER TABLE "${table}" ADD CONSTRAINT "${after}" FOREIGN KEY ("inspection_id", "inspection_created_at") REFERENCES "inspections"("id","created_at") ON DELETE RESTRICT ON UPDATE NO ACTION`);
     // A writer that knows only the inspection's id (hand-written SQL, an older client) still stores a valid row.
+    // It reads inspections itself, not inspection_keys: an inspection stored earlier in the same statement
+    // (a WITH ... INSERT) is seen there, while its key only arrives with the root's statement trigger.
     await q(`CREATE FUNCTION kw_fill_inspection_created_at() RETURNS trigger LANGUAGE plpgsql AS $$
         BEGIN
           IF NEW.inspection_created_at IS NULL THEN
-            SELECT inspection_created_at INTO NEW.inspection_created_at FROM inspection_keys WHERE inspection_id = NEW.inspection_id;
+            SELECT created_at INTO NEW.inspection_created_at FROM inspections WHERE id = NEW.inspection_id;
             IF NOT FOUND THEN
               RAISE EXCEPTION 'insert on table % violates foreign key: inspection % does not exist', TG_TABLE_NAME, NEW.inspection_id
                 USING ERRCODE = 'foreign_key_violation';

@@ -1,5 +1,5 @@
 // The evidence image kept with a failed inspection: the photo in grey with the failing gauges'
-// regions outlined in red and their blobs in amber. Drawn where the run's images are (the pool's
+// regions outlined in red, and in amber their blobs or a ring around the pixel of a failing min or max. Drawn where the run's images are (the pool's
 // worker thread), at a size a screen shows, so that a FAIL costs no copy of full-size images.
 import { labelBlobs, type RowSpans } from '../../shared/vision/blobs';
 import { regionSpans } from '../../shared/vision/gauges';
@@ -54,9 +54,47 @@ export function evidenceRaster(run: RuleRun, maxSide: number = EVIDENCE_MAX_SIDE
     if (measured && (gauge.measure === 'blob-count' || gauge.measure === 'largest-blob-area' || gauge.measure === 'largest-blob-length')) {
       outlineBlobs(measured, spans, gauge.measure !== 'blob-count', paint(BLOB_COLOUR));
     }
+    if (measured && (gauge.measure === 'max' || gauge.measure === 'min')) {
+      const p = extremeAt(measured, spans, gauge.measure);
+      if (p >= 0) ringAround(((p % w) + 0.5) / factor, (Math.floor(p / w) + 0.5) / factor, sw, sh, rgb);
+    }
     if (gauge.region) outlineSpans(spans, w, paint(REGION_COLOUR));
   });
   return { width: sw, height: sh, factor, rgb };
+}
+
+/** The first pixel in the region holding its largest (or smallest) value; -1 for an empty region. */
+function extremeAt(image: Image, spans: RowSpans, which: 'max' | 'min'): number {
+  const { width: w, data } = image;
+  const sign = which === 'max' ? 1 : -1;
+  let best = -Infinity;
+  let at = -1;
+  for (let y = 0; y < spans.start.length; y++) {
+    for (let x = spans.start[y]; x < spans.end[y]; x++) {
+      const v = sign * data[y * w + x];
+      if (v > best) {
+        best = v;
+        at = y * w + x;
+      }
+    }
+  }
+  return at;
+}
+
+/** A two-pixel ring in the blob colour around (cx, cy), big enough to find on a phone's screen. */
+function ringAround(cx: number, cy: number, width: number, height: number, rgb: Uint8Array): void {
+  const radius = Math.max(6, Math.round(Math.min(width, height) / 30));
+  const reach = radius + 2;
+  for (let y = Math.max(0, Math.floor(cy - reach)); y <= Math.min(height - 1, Math.ceil(cy + reach)); y++) {
+    for (let x = Math.max(0, Math.floor(cx - reach)); x <= Math.min(width - 1, Math.ceil(cx + reach)); x++) {
+      const d = Math.hypot(x + 0.5 - cx, y + 0.5 - cy);
+      if (d < radius || d >= radius + 2) continue;
+      const q = 3 * (y * width + x);
+      rgb[q] = BLOB_COLOUR[0];
+      rgb[q + 1] = BLOB_COLOUR[1];
+      rgb[q + 2] = BLOB_COLOUR[2];
+    }
+  }
 }
 
 /** Each output pixel the mean of a factor × factor block (blocks at the right and bottom edges may be smaller). */

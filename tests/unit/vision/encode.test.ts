@@ -77,3 +77,27 @@ test("a large photo's evidence is shrunk by a whole factor, each pixel the block
   expect(at(5, 5)).toEqual([255, 170, 0]); // the blob's outline (11, 11)
   expect(at(8, 1)).toEqual([30, 30, 30]);
 });
+
+test('a failing max gauge rings the pixel where the maximum is, not a blob', () => {
+  const w = 60;
+  const h = 60;
+  const samples = new Uint8Array(w * h).fill(50);
+  samples[40 * w + 20] = 250; // the one bright pixel: the maximum
+  const run = runRule(
+    {
+      format: 'kernwright-rule/1',
+      name: 'evidence of a maximum',
+      steps: [],
+      gauges: [{ name: 'brightest', measure: 'max', limits: { max: 200 } }],
+    },
+    { width: w, height: h, channels: 1, bitDepth: 8, samples },
+  );
+  expect(run.verdict).toBe('FAIL');
+  const { rgb } = evidenceRaster(run);
+  const at = (x: number, y: number) => Array.from(rgb.subarray(3 * (y * w + x), 3 * (y * w + x) + 3));
+  // The ring's radius is 6 px here (at least 6, or a thirtieth of the shorter side), centred on (20.5, 40.5).
+  expect(at(20 + 6, 40)).toEqual([255, 170, 0]);
+  expect(at(20, 40 - 7)).toEqual([255, 170, 0]);
+  expect(at(20, 40)).toEqual([250, 250, 250]); // the pixel itself stays visible
+  expect(at(5, 5)).toEqual([50, 50, 50]);
+});

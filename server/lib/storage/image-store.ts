@@ -4,6 +4,12 @@ export interface ImageStore {
   put(bytes: Buffer): Promise<string>;
   get(hash: string): Promise<Buffer>;
   has(hash: string): Promise<boolean>;
+  /**
+   * The hash of every stored image, each once, in no promised order, read page by page (never the
+   * whole listing at once). A name in the storage that is not an image's (a half-written file, an
+   * object another program put there) is passed to `skipped` instead.
+   */
+  list(skipped?: (name: string) => void): AsyncIterable<string>;
 }
 
 export class ImageNotFoundError extends Error {

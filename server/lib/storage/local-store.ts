@@ -1,4 +1,5 @@
 import crypto from 'node:crypto';
+import type { Dir } from 'node:fs';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 import { HASH_PATTERN, ImageNotFoundError, type ImageStore } from './image-store';
@@ -66,5 +67,29 @@ export class LocalImageStore implements ImageStore {
     } catch {
       return false;
     }
+  }
+
+  async *list(skipped: (name: string) => void = () => undefined): AsyncIterable<string> {
+    for await (const relative of entriesUnder(this.root, '')) {
+      const name = path.basename(relative);
+      if (HASH_PATTERN.test(name) && relative === path.join(name.slice(0, 2), name.slice(2, 4), name)) yield name;
+      else skipped(relative);
+    }
+  }
+}
+
+/** Paths (relative to root) of everything under root that is not a folder, read folder by folder; nothing when root is absent. */
+async function* entriesUnder(root: string, relative: string): AsyncGenerator<string> {
+  let folder: Dir;
+  try {
+    folder = await fs.opendir(path.join(root, relative));
+  } catch (err) {
+    if (relative === '' && (err as NodeJS.ErrnoException).code === 'ENOENT') return;
+    throw err;
+  }
+  for await (const entry of folder) {
+    const child = path.join(relative, entry.name);
+    if (entry.isDirectory()) yield* entriesUnder(root, child);
+    else yield child;
   }
 }

@@ -36,6 +36,7 @@ export function openImageStore(config: Config): ImageStore {
   if (s3.endpoint !== null) return new S3ImageStore(s3ClientFor(s3), { bucket: s3.bucket });
   return new S3ImageStore(s3ClientFor(s3, FAKE_S3_CREDENTIALS), {
     bucket: s3.bucket,
+    markerListing: true,
     beforeFirstUse: async () => {
       await ensureFakeS3({ port: s3.standInPort, dir: standInDir(config), bucket: s3.bucket });
     },

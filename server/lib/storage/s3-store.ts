@@ -1,11 +1,19 @@
 import crypto from 'node:crypto';
-import { GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
+import { GetObjectCommand, HeadObjectCommand, ListObjectsCommand, ListObjectsV2Command, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
 import { HASH_PATTERN, ImageNotFoundError, type ImageStore } from './image-store';
 
 export interface S3StoreOptions {
   bucket: string;
   /** Runs once before the first request (e.g. starting the stand-in server on loopback). */
   beforeFirstUse?: () => Promise<void>;
+  /** Keys asked for per listing page; absent: the server's default (1,000 on S3). */
+  listPageSize?: number;
+  /**
+   * List with ListObjects version 1, each page starting after the last key of the one before,
+   * instead of ListObjectsV2's continuation tokens: for the stand-in, whose tokens need DES, a cipher
+   * that OpenSSL 3 (Node 17 and later) leaves out, so every truncated version 2 page fails there.
+   */
+  markerListing?: boolean;
 }
 
 /** A stored object whose bytes no longer hash to its name. */
@@ -95,4 +103,43 @@ export class S3ImageStore implements ImageStore {
       throw err;
     }
   }
+
+  async *list(skipped: (name: string) => void = () => undefined): AsyncIterable<string> {
+    for await (const keys of this.options.markerListing ? this.pagesByMarker() : this.pagesByToken()) {
+      for (const key of keys) {
+        if (HASH_PATTERN.test(key)) yield key;
+        else skipped(key);
+      }
+    }
+  }
+
+  private async *pagesByToken(): AsyncGenerator<string[]> {
+    let continuationToken: string | undefined;
+    do {
+      const page = await this.send(() =>
+        this.client.send(new ListObjectsV2Command({ Bucket: this.options.bucket, ContinuationToken: continuationToken, MaxKeys: this.options.listPageSize })),
+      );
+      yield keysOf(page.Contents);
+      // A truncated page without a token would end the listing early and silently: a backup must not.
+      if (page.IsTruncated && !page.NextContinuationToken) throw new Error(`The listing of bucket ${this.options.bucket} was cut short without a continuation token`);
+      continuationToken = page.IsTruncated ? page.NextContinuationToken : undefined;
+    } while (continuationToken);
+  }
+
+  private async *pagesByMarker(): AsyncGenerator<string[]> {
+    let marker: string | undefined;
+    let truncated: boolean | undefined;
+    do {
+      const page = await this.send(() => this.client.send(new ListObjectsCommand({ Bucket: this.options.bucket, Marker: marker, MaxKeys: this.options.listPageSize })));
+      const keys = keysOf(page.Contents);
+      yield keys;
+      truncated = page.IsTruncated;
+      if (truncated && keys.length === 0) throw new Error(`The listing of bucket ${this.options.bucket} was cut short: a truncated page named no key`);
+      marker = keys[keys.length - 1];
+    } while (truncated);
+  }
+}
+
+function keysOf(contents: { Key?: string }[] | undefined): string[] {
+  return (contents ?? []).flatMap((object) => (object.Key === undefined ? [] : [object.Key]));
 }

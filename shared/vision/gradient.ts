@@ -15,6 +15,12 @@ const SMOOTHING: Record<GradientOperator, readonly number[]> = {
 
 const DEGREES_PER_RADIAN = 180 / Math.PI;
 
+/** The operator's smoothing weights [a, b] of [a b a]. */
+export function gradientWeights(operator: GradientOperator): readonly [number, number] {
+  const [a, b] = SMOOTHING[operator];
+  return [a, b];
+}
+
 /**
  * magnitude = sqrt(gx² + gy²); direction = atan2(gy, gx) in degrees, (−180, 180].
  * With `range`, the magnitude's minimum and maximum (as stored, float32) are written to it on the

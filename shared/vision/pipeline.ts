@@ -5,6 +5,7 @@ import { validateRuleDocument, type Gauge, type GaugeMeasure, type GaugeUnit, ty
 import { createPackedMask, MAX_PACKED_RADIUS, type PackedMask } from './binary-morphology';
 import type { BorderMode } from './border';
 import { correlate, type LargeKernelCorrelator } from './convolve';
+import { activeEngine } from './engine';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
 import type { BitDepth, Image, RawPhoto, ValueRange } from './image';
@@ -12,6 +13,7 @@ import { kernelFromMatrix, type Kernel, type KernelDefinition } from './kernels'
 import { laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
 import { morphology } from './morphology';
+import { gaussianGradient } from './smoothed-gradient';
 import { inputChannel } from './photo-channel';
 import { judgeQuality, qualityFigures, type QualityJudgement } from './quality';
 import { boxFilter, gaussianBlur } from './smoothing';
@@ -48,6 +50,7 @@ export interface StepRun {
   readonly kind: OutputKind;
   /** null when not retained. */
   readonly output: Image | null;
+  /** 0 for a Gaussian run inside the gradient after it (see smoothed-gradient.ts): the gradient's time includes it. */
   readonly ms: number;
 }
 
@@ -119,13 +122,36 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, packedReady: false };
   let current = input;
   let currentKind: OutputKind = 'intensity';
-  rule.steps.forEach((step, i) => {
+  for (let i = 0; i < rule.steps.length; i++) {
+    const step = rule.steps[i];
     const t0 = now();
     const out = take();
+    const next = rule.steps[i + 1];
+    const keptOutput = retainAll || needed.has(i + 1);
+    if (step.op === 'gaussian' && next?.op === 'gradient' && next.output !== 'direction' && !keptOutput && activeEngine() === 'simd') {
+      // Nobody reads the smoothed image: smooth and differentiate in one sweep (smoothed-gradient.ts).
+      handover.range.min = handover.range.max = NaN;
+      handover.packedReady = false;
+      const result = gaussianGradient(current, step.sigma, next.operator, next.output, rule.border, out, handover.range);
+      const ms = now() - t0;
+      if (!retainAll && i > 0 && !needed.has(i)) {
+        spare.push(current);
+        outputs[i] = null;
+      }
+      outputs[i + 1] = null;
+      outputs[i + 2] = result;
+      // The pair's time goes to the gradient; the Gaussian, run inside it, shows 0.
+      steps.push({ index: i + 1, op: step.op, kind: outputKind(step, null, currentKind), output: null, ms: 0 });
+      const kind = outputKind(next, null, 'intensity');
+      steps.push({ index: i + 2, op: next.op, kind, output: result, ms });
+      current = result;
+      currentKind = kind;
+      i++;
+      continue;
+    }
     // A mask (0/1 from a threshold) is opened or closed in packed bits, which need no scratch image.
     const packedPath = currentKind === 'mask' && 'radius' in step && step.radius <= MAX_PACKED_RADIUS;
     const scratch = (step.op === 'open' || step.op === 'close') && !packedPath ? take() : undefined;
-    const next = rule.steps[i + 1];
     const packNext = next !== undefined && (next.op === 'erode' || next.op === 'dilate' || next.op === 'open' || next.op === 'close');
     // A mask that only the next step reads, and only in packed bits, need not be written as float32.
     const onlyPacked = packNext && 'radius' in next && next.radius <= MAX_PACKED_RADIUS && !retainAll && !needed.has(i + 1);
@@ -142,7 +168,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
     steps.push({ index, op: step.op, kind, output: result, ms });
     current = result;
     currentKind = kind;
-  });
+  }
 
   const measurements = rule.gauges.map((g) => measure(g, outputs, rule.steps.length, options.mmPerPx));
   const verdict: Verdict = !quality.pass ? 'RETAKE' : measurements.every((m) => m.pass) ? 'PASS' : 'FAIL';

@@ -30,6 +30,7 @@ import { morphology } from '../../shared/vision/morphology';
 import { inputChannel } from '../../shared/vision/photo-channel';
 import { releaseRun, runValidatedRule } from '../../shared/vision/pipeline';
 import { qualityFigures } from '../../shared/vision/quality';
+import { gaussianGradient } from '../../shared/vision/smoothed-gradient';
 import { boxFilter, gaussianBlur } from '../../shared/vision/smoothing';
 import { thresholdAdaptiveMean, thresholdOtsu } from '../../shared/vision/threshold';
 import { ImageWorkspace } from '../../shared/vision/workspace';
@@ -222,7 +223,8 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
   const cvKernel31 = cv.matFromArray(31, 31, cv.CV_32F, k31.flat());
 
   const rows: Row[] = [];
-  // As the rule runner does it when the intermediate outputs are not kept: the magnitude's range
+  // As the rule runner does it when the intermediate outputs are not kept: the Gaussian and the
+  // gradient in one sweep on the SIMD engine (in turn on the plain one), the magnitude's range
   // measured on the way and handed to Otsu, Otsu's mask handed to the opening in packed bits only.
   const packed = createPackedMask(width, height);
   const openCvPipeline = () => {
@@ -240,8 +242,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
   const pipeline = inTurn(2 * runs, {
     ...onEngines(buffers, ({ input, a, b, c }) => {
       const range = { min: NaN, max: NaN };
-      gaussianBlur(input, 1, 'reflect', a);
-      gradient(a, 'sobel', 'magnitude', 'reflect', b, range);
+      gaussianGradient(input, 1, 'sobel', 'magnitude', 'reflect', b, range, a);
       // Only the opening reads Otsu's mask, in packed bits: the rule runner then writes no float32 mask.
       thresholdOtsu(b, false, a, range, packed, false);
       morphology(a, 'open', 1, 'reflect', b, c, packed);
@@ -318,6 +319,20 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
       sharp: await timeAsync(runs, sharpRun((s) => s.convolve({ width: 3, height: 3, kernel: [-1, 0, 1, -2, 0, 2, -1, 0, 1] }))),
     },
     note: 'sharp: x only, clamped to 8 bits',
+  });
+  rows.push({
+    step: 'gaussian sigma 1 → sobel magnitude',
+    passes: 4,
+    times: inTurn(runs, {
+      ...onEngines(buffers, ({ input, a, b }) => gaussianGradient(input, 1, 'sobel', 'magnitude', 'reflect', b, undefined, a)),
+      opencv: () => {
+        cv.GaussianBlur(f32, m1, new cv.Size(7, 7), 1, 1, REFLECT);
+        cv.Sobel(m1, m2, cv.CV_32F, 1, 0, 3, 1, 0, REFLECT);
+        cv.Sobel(m1, m3, cv.CV_32F, 0, 1, 3, 1, 0, REFLECT);
+        cv.magnitude(m2, m3, m1);
+      },
+    }),
+    note: 'simd: one sweep (smoothed-gradient.ts); plain: in turn',
   });
   rows.push({
     step: 'sobel x',

@@ -14,6 +14,7 @@ import { laplacian, laplacianOfGaussian } from '../../shared/vision/laplacian';
 import { medianFilter } from '../../shared/vision/median';
 import { morphology } from '../../shared/vision/morphology';
 import { boxFilter, gaussianBlur } from '../../shared/vision/smoothing';
+import { gaussianGradient } from '../../shared/vision/smoothed-gradient';
 import { thresholdAdaptiveMean, thresholdOtsu } from '../../shared/vision/threshold';
 import { ImageWorkspace } from '../../shared/vision/workspace';
 import { washerPhoto } from './photos';
@@ -39,12 +40,12 @@ function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
     // As the rule runner runs it when the intermediate outputs are not kept (see engine.ts).
     pipeline: () => {
       const range = { min: NaN, max: NaN };
-      gaussianBlur(input, 1, 'reflect', a);
-      gradient(a, 'sobel', 'magnitude', 'reflect', b, range);
+      gaussianGradient(input, 1, 'sobel', 'magnitude', 'reflect', b, range, a);
       thresholdOtsu(b, false, a, range, packed, false);
       morphology(a, 'open', 1, 'reflect', b, c, packed);
     },
     gaussian: () => gaussianBlur(input, 1, 'reflect', a),
+    gaussianSobel: () => gaussianGradient(input, 1, 'sobel', 'magnitude', 'reflect', b, undefined, a),
     gaussian3: () => gaussianBlur(input, 3, 'reflect', a),
     sobel: () => gradient(input, 'sobel', 'magnitude', 'reflect', a),
     sobelx: () => gradient(input, 'sobel', 'x', 'reflect', a),

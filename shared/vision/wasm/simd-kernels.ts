@@ -22,6 +22,8 @@ export interface EngineExports {
   directScratchBytes(w: number, rows: number, cols: number): number;
   gradient(src: number, dst: number, w: number, h: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
   gradientScratchBytes(w: number): number;
+  smoothedGradient(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
+  smoothedGradientScratchBytes(w: number, colLen: number, rowLen: number): number;
   eightBitLevels(src: number, n: number): number;
   valueRange(src: number, n: number, out: number): void;
   histogram(src: number, n: number, origin: number, scale: number, partial: number): void;
@@ -158,6 +160,25 @@ export class SimdKernels {
     } finally {
       scope.end();
     }
+  }
+
+  /**
+   * `gradient` of the separable correlation column ⊗ row of src, in one sweep: the smoothed rows live
+   * in a ring of four rows, never in a whole image. The same samples as `separable` then `gradient`.
+   */
+  smoothedGradient(src: Image, column: ArrayLike<number>, row: ArrayLike<number>, a: number, b: number, output: 'x' | 'y' | 'magnitude', border: BorderMode, out?: Image, range?: ValueRange): Image {
+    return this.mapImage(src, out, (s, d, scope) => {
+      const col = scope.f32(column);
+      const rw = scope.f32(row);
+      const rangeAddress = range ? scope.alloc(8) : 0;
+      const scratch = scope.alloc(this.wasm.smoothedGradientScratchBytes(src.width, column.length, row.length));
+      this.wasm.smoothedGradient(s, d, src.width, src.height, col, column.length, rw, row.length, a, b, GRADIENT_CODES[output], BORDER_CODES[border], rangeAddress, scratch);
+      if (range) {
+        const found = this.heap.f32(rangeAddress, 2);
+        range.min = output === 'magnitude' ? found[0] : NaN;
+        range.max = output === 'magnitude' ? found[1] : NaN;
+      }
+    });
   }
 
   /** True when every value is a whole number in 0 … 255. */

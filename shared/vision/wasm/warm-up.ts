@@ -22,6 +22,7 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.gradient(a, 1, 2, 'x', 'reflect', b);
   kernels.gradient(a, 1, 2, 'y', 'reflect', b);
   kernels.gradient(a, 1, 2, 'magnitude', 'reflect', b, range);
+  kernels.smoothedGradient(a, gaussianWeights(1), gaussianWeights(1), 1, 2, 'magnitude', 'reflect', b, range);
   kernels.eightBitLevels(a);
   kernels.valueRange(b);
   kernels.histogram(b, range.min, 256 / (range.max - range.min));

@@ -2,14 +2,20 @@
 // separable and direct correlation, Gaussian, gradients, Laplacian and LoG, on random images of odd
 // and degenerate sizes, every border mode, 8-bit, 16-bit and signed samples. The two agree within
 // float32 rounding: the bound of float32Tolerance (engines.ts) for the operation's length and scale.
+// A Gaussian and a gradient swept together (smoothed-gradient.ts) must give the same bits as the two
+// SIMD steps in turn, alone and inside a rule run.
 import fc from 'fast-check';
 import { correlate, correlateSeparable } from '../../../shared/vision/convolve';
 import { gradient } from '../../../shared/vision/gradient';
+import type { RawPhoto } from '../../../shared/vision/image';
+import { runRule } from '../../../shared/vision/pipeline';
+import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix, SCHARR_SMOOTHING, SOBEL_SMOOTHING, PREWITT_SMOOTHING } from '../../../shared/vision/kernels';
 import { laplacian, laplacianOfGaussian } from '../../../shared/vision/laplacian';
 import { qualityFigures } from '../../../shared/vision/quality';
 import { gaussianBlur } from '../../../shared/vision/smoothing';
-import { borderMode, float32Tolerance, imageSize, l1, largestDifference, largestMagnitude, onBoth, sampleImage, sampleKind, seed } from './engines';
+import { bitsOf, borderMode, float32Tolerance, imageSize, l1, largestDifference, largestMagnitude, onBoth, onEngine, sampleImage, sampleKind, seed, type SampleKind } from './engines';
+import { seededRandom } from './images';
 
 const RUNS = { numRuns: 150 };
 const weight = fc.integer({ min: -40, max: 40 }).map((v) => v / 8);
@@ -103,6 +109,65 @@ test('Sobel, Scharr and Prewitt x, y and magnitude: SIMD within float32 rounding
       },
     ),
     RUNS,
+  );
+});
+
+test('Gaussian and gradient in one sweep: the same bits and magnitude range as the two SIMD steps in turn (radius 1 to 12, every border)', () => {
+  fc.assert(
+    fc.property(
+      imageSize,
+      fc.constantFrom<SampleKind>('8-bit', '16-bit', 'signed float', 'awkward'),
+      seed,
+      borderMode,
+      fc.oneof(fc.constantFrom(0.3, 0.5, 1), fc.double({ min: 0.3, max: 4, noNaN: true })),
+      fc.constantFrom('sobel', 'scharr', 'prewitt' as const),
+      fc.constantFrom('x', 'y', 'magnitude' as const),
+      ([w, h], kind, s, border, sigma, operator, output) => {
+        const image = sampleImage(w, h, kind, s);
+        const stepRange = { min: NaN, max: NaN };
+        const sweptRange = { min: NaN, max: NaN };
+        const { steps, swept } = onEngine('simd', () => ({
+          steps: gradient(gaussianBlur(image, sigma, border), operator, output, border, undefined, stepRange),
+          swept: gaussianGradient(image, sigma, operator, output, border, undefined, sweptRange),
+        }));
+        expect(bitsOf(swept)).toEqual(bitsOf(steps));
+        expect(sweptRange).toEqual(stepRange);
+      },
+    ),
+    RUNS,
+  );
+});
+
+test('a rule run that keeps no intermediate image sweeps Gaussian and gradient together: the same outputs, measurements and verdict as one that keeps them all', () => {
+  const rule = {
+    format: 'kernwright-rule/1',
+    name: 'Edges',
+    border: 'replicate',
+    steps: [
+      { op: 'gaussian', sigma: 1.2 },
+      { op: 'gradient', operator: 'sobel', output: 'magnitude' },
+      { op: 'threshold', method: 'otsu' },
+      { op: 'open', radius: 1 },
+      { op: 'gaussian', sigma: 0.7 },
+      { op: 'gradient', operator: 'scharr', output: 'x' },
+    ],
+    gauges: [
+      { name: 'share', measure: 'edge-fraction', step: 4, limits: { max: 0.5 } },
+      { name: 'mean', measure: 'mean', limits: { min: -1, max: 1 } },
+    ],
+  };
+  fc.assert(
+    fc.property(imageSize, seed, ([w, h], s) => {
+      const rand = seededRandom(s);
+      const photo: RawPhoto = { width: w, height: h, channels: 1, bitDepth: 8, samples: Uint8Array.from({ length: w * h }, () => Math.floor(rand() * 256)) };
+      const { kept, swept } = onEngine('simd', () => ({ kept: runRule(rule, photo, { retain: 'all' }), swept: runRule(rule, photo, { retain: 'gauged' }) }));
+      expect(swept.verdict).toBe(kept.verdict);
+      expect(swept.measurements).toEqual(kept.measurements);
+      for (const index of [4, 6]) expect(bitsOf(swept.steps[index - 1].output!)).toEqual(bitsOf(kept.steps[index - 1].output!));
+      // The Gaussians ran inside the gradients: no image of theirs, and their time in the gradient's.
+      for (const index of [1, 5]) expect({ output: swept.steps[index - 1].output, ms: swept.steps[index - 1].ms }).toEqual({ output: null, ms: 0 });
+    }),
+    { numRuns: 60 },
   );
 });
 

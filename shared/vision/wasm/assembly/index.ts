@@ -4,6 +4,7 @@
 export { separable, laplacianOfGaussian, separableScratchBytes } from './separable';
 export { correlate2d, directScratchBytes } from './direct';
 export { gradient, gradientScratchBytes } from './gradient';
+export { smoothedGradient, smoothedGradientScratchBytes } from './smoothed-gradient';
 export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked } from './threshold';
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero } from './blobs';

@@ -18,40 +18,49 @@ function isSymmetric(k: usize, n: i32): bool {
  * (odd lengths), src and dst w×h float32, mode a border mode of border.ts.
  */
 export function separable(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize): void {
+  prepareSeparableScratch(scratch, w, colLen);
+  for (let y = 0; y < h; ) y += separableRows(src, w, h, y, colK, colLen, rowK, rowLen, mode, offset, scratch, at(dst, y * w), at(dst, (y + 1) * w));
+}
+
+/** Readies the scratch of `separableRows` (its row of zeros) for a w-wide image. */
+export function prepareSeparableScratch(scratch: usize, w: i32, colLen: i32): void {
+  memory.fill(align16(at(align16(scratch), colLen)), 0, 4 * w);
+}
+
+/**
+ * Output row y of the separable correlation into out and, when the column is symmetric of radius
+ * 1–3 and row y + 1 exists, row y + 1 into next from the 2r+2 source rows they share (each sample
+ * loaded once for both); returns the number of rows written. Every row comes out the same either way.
+ */
+export function separableRows(src: usize, w: i32, h: i32, y: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize, out: usize, next: usize): i32 {
   const ry = colLen >> 1;
   const rx = rowLen >> 1;
   const rows = align16(scratch);
   const zeros = align16(at(rows, colLen));
-  memory.fill(zeros, 0, 4 * w);
   const line = align16(at(zeros, w));
-  const next = align16(at(line, w + rowLen + 4));
-  const colSymmetric = isSymmetric(colK, colLen);
+  const nextLine = align16(at(line, w + rowLen + 4));
   const rowSymmetric = isSymmetric(rowK, rowLen);
-  for (let y = 0; y < h; y++) {
-    if (colSymmetric && ry >= 1 && ry <= 3 && y + 1 < h) {
-      // Two output rows from the 2r+2 source rows they share: each sample is loaded once for both.
-      for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
-      verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(next, rx));
-      fillLineBorder(line, w, rx, mode);
-      fillLineBorder(next, w, rx, mode);
-      if (rowSymmetric) {
-        horizontalSymmetric(line, rowK, rx, w, at(dst, y * w), offset);
-        horizontalSymmetric(next, rowK, rx, w, at(dst, (y + 1) * w), offset);
-      } else {
-        horizontalGeneral(line, rowK, rowLen, w, at(dst, y * w), offset);
-        horizontalGeneral(next, rowK, rowLen, w, at(dst, (y + 1) * w), offset);
-      }
-      y++;
-      continue;
-    }
-    for (let j = 0; j < colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
-    if (colSymmetric) verticalSymmetric(rows, colK, ry, w, at(line, rx));
-    else verticalGeneral(rows, colK, colLen, w, at(line, rx));
+  if (isSymmetric(colK, colLen) && ry >= 1 && ry <= 3 && y + 1 < h) {
+    for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+    verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(nextLine, rx));
     fillLineBorder(line, w, rx, mode);
-    const out = at(dst, y * w);
-    if (rowSymmetric) horizontalSymmetric(line, rowK, rx, w, out, offset);
-    else horizontalGeneral(line, rowK, rowLen, w, out, offset);
+    fillLineBorder(nextLine, w, rx, mode);
+    if (rowSymmetric) {
+      horizontalSymmetric(line, rowK, rx, w, out, offset);
+      horizontalSymmetric(nextLine, rowK, rx, w, next, offset);
+    } else {
+      horizontalGeneral(line, rowK, rowLen, w, out, offset);
+      horizontalGeneral(nextLine, rowK, rowLen, w, next, offset);
+    }
+    return 2;
   }
+  for (let j = 0; j < colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+  if (isSymmetric(colK, colLen)) verticalSymmetric(rows, colK, ry, w, at(line, rx));
+  else verticalGeneral(rows, colK, colLen, w, at(line, rx));
+  fillLineBorder(line, w, rx, mode);
+  if (rowSymmetric) horizontalSymmetric(line, rowK, rx, w, out, offset);
+  else horizontalGeneral(line, rowK, rowLen, w, out, offset);
+  return 1;
 }
 
 /**

@@ -155,7 +155,6 @@ export function packMask(src: usize, w: i32, h: i32, words: usize): i32 {
 export function unpackMask(words: usize, dst: usize, w: i32, h: i32): void {
   const wordsPerRow = (w + 31) >>> 5;
   const one = i32x4.splat(ONE_BITS);
-  const zero = i32x4.splat(0);
   const firstBits = i32x4(1, 2, 4, 8);
   for (let y = 0; y < h; y++) {
     const row = y * w;
@@ -167,7 +166,8 @@ export function unpackMask(words: usize, dst: usize, w: i32, h: i32): void {
         const all = i32x4.splat(word);
         let bits = firstBits;
         for (let g = 0; g < 8; g++) {
-          const set = i32x4.ne(v128.and(all, bits), zero);
+          // A lane is all ones where its bit is set: (word & bit) == bit.
+          const set = i32x4.eq(v128.and(all, bits), bits);
           v128.store(at(dst, x0 + (g << 2)), v128.and(set, one));
           bits = i32x4.shl(bits, 4);
         }

@@ -73,10 +73,14 @@ export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: 
   const top = i32x4.splat(PARTIAL_STRIDE - 1);
   // Table t starts PARTIAL_STRIDE·t int32 after the first; 1028 bytes apart.
   const stride = (<usize>PARTIAL_STRIDE) << 2;
+  // From origin 0 (a gradient magnitude's usual minimum) v − 0 is v for every float32, so the
+  // subtraction goes (about 5 % of the pass).
+  const fromZero = origin == 0;
   let p = 0;
   for (; p + 8 <= n; p += 8) {
-    const a = binsOf(v128.load(at(src, p)), vo, vs, top);
-    const b = binsOf(v128.load(at(src, p + 4)), vo, vs, top);
+    const va = v128.load(at(src, p)), vb = v128.load(at(src, p + 4));
+    const a = fromZero ? binsFromZero(va, vs, top) : binsOf(va, vo, vs, top);
+    const b = fromZero ? binsFromZero(vb, vs, top) : binsOf(vb, vo, vs, top);
     count(partial, i32x4.extract_lane(a, 0));
     count(partial + stride, i32x4.extract_lane(a, 1));
     count(partial + 2 * stride, i32x4.extract_lane(a, 2));
@@ -90,6 +94,14 @@ export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: 
     const scaled = f64x2.splat((<f64>load<f32>(at(src, p)) - origin) * scale);
     count(partial, i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0));
   }
+}
+
+/** binsOf with origin 0. */
+@inline
+function binsFromZero(v: v128, scale: v128, top: v128): v128 {
+  const low = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.promote_low_f32x4(v), scale));
+  const high = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 0, 1)), scale));
+  return i32x4.min_u(v128.shuffle<i32>(low, high, 0, 1, 4, 5), top);
 }
 
 /** The four values' bins; above 256 cannot occur for values up to the maximum, the clamp keeps memory safe. */

@@ -115,19 +115,24 @@ interface PlanNode {
   Plans?: PlanNode[];
 }
 
-/** How a plan reads the inspections table's monthly partitions: the index (or a whole-partition scan) and how many rows it visits. */
+/**
+ * How a plan reads the inspections table's monthly partitions: each way of reading (index, its name
+ * without the partition's prefix, or a whole-partition scan), in how many partitions, and the rows visited.
+ */
 function inspectionsAccess(plan: PlanNode): string {
-  const found: string[] = [];
+  const ways = new Map<string, { partitions: number; visited: number }>();
   const visit = (node: PlanNode) => {
     if (/^inspections(_y\d{4}m\d{2}|_default)?$/.test(node['Relation Name'] ?? '')) {
       const visited = ((node['Actual Rows'] ?? 0) + (node['Rows Removed by Filter'] ?? 0)) * (node['Actual Loops'] ?? 1);
-      const how = node['Node Type'] === 'Seq Scan' ? 'SEQ SCAN' : `${node['Index Name'] ?? node['Node Type']}${node['Scan Direction'] === 'Backward' ? ' (backward)' : ''}`;
-      found.push(`${how}, ${visited.toLocaleString('en')} rows visited`);
+      const index = node['Index Name']?.replace(/^inspections(_y\d{4}m\d{2}|_default)_/, '');
+      const how = node['Node Type'] === 'Seq Scan' ? 'SEQ SCAN' : `${index ?? node['Node Type']}${node['Scan Direction'] === 'Backward' ? ' (backward)' : ''}`;
+      const way = ways.get(how) ?? { partitions: 0, visited: 0 };
+      ways.set(how, { partitions: way.partitions + 1, visited: way.visited + visited });
     }
     node.Plans?.forEach(visit);
   };
   visit(plan);
-  return found.join('; ');
+  return [...ways].map(([how, { partitions, visited }]) => `${how} in ${partitions} partition${partitions === 1 ? '' : 's'}, ${visited.toLocaleString('en')} rows visited`).join('; ');
 }
 
 interface PageCase {

@@ -3,7 +3,8 @@
 // as the window slides (T. S. Huang, G. J. Yang, G. Y. Tang, "A fast two-dimensional median
 // filtering algorithm", IEEE Trans. ASSP 27(1), 1979); other values use selection per window.
 // The SIMD engine takes 3×3 and 5×5 through selection networks (wasm/assembly/median.ts), which give
-// the same bits unless the image holds NaN or −0; then, and for larger windows, this code runs.
+// the same bits unless the image holds NaN or −0, and wider windows of whole numbers through this
+// running histogram (wasm/assembly/median-histogram.ts); this code runs the rest.
 import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { padImage } from './convolve';
 import { simdKernels } from './engine';
@@ -12,8 +13,8 @@ import { imageLike, type Image } from './image';
 const HISTOGRAM_LEVELS = 65536;
 
 export function medianFilter(src: Image, size: number, border: BorderMode, out?: Image): Image {
-  const simd = size === 3 || size === 5 ? simdKernels() : null;
-  const selected = simd?.median(src, size as 3 | 5, border, out);
+  const simd = size >= 3 ? simdKernels() : null;
+  const selected = simd?.median(src, size, border, out);
   if (selected) return selected;
   const dst = imageLike(src, out);
   if (size === 1) {

@@ -305,6 +305,11 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
     note: 'OpenCV and sharp: 8-bit',
   });
   rows.push({
+    step: 'median 7',
+    times: inTurn(Math.max(1, runs - 2), { ...onEngines(buffers, ({ input, a }) => medianFilter(input, 7, 'reflect', a)), opencv: () => cv.medianBlur(u8, m4, 7) }),
+    note: 'OpenCV: 8-bit (its only depth from 7x7)',
+  });
+  rows.push({
     step: 'sobel magnitude',
     passes: 2,
     times: {

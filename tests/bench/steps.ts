@@ -56,6 +56,7 @@ function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
     adaptive: () => thresholdAdaptiveMean(input, 15, 5, 'replicate', false, a),
     median: () => medianFilter(input, 5, 'reflect', a),
     median3: () => medianFilter(input, 3, 'reflect', a),
+    median7: () => medianFilter(input, 7, 'reflect', a),
     laplacian: () => laplacian(input, 4, 'reflect', a),
     log: () => laplacianOfGaussian(input, 1.4, 'reflect', a),
     k5: () => correlateDirect(input, k5, 'reflect', a),

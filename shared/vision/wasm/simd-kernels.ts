@@ -43,6 +43,8 @@ export interface EngineExports {
   boxScratchBytes(w: number, size: number): number;
   median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
   medianScratchBytes(w: number, size: number): number;
+  medianHistogram(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
+  medianHistogramScratchBytes(w: number, size: number): number;
 }
 
 const BORDER_CODES: Record<BorderMode, number> = { reflect: 0, replicate: 1, constant: 2 };
@@ -145,16 +147,23 @@ export class SimdKernels {
     });
   }
 
-  /** Median of the 3×3 or 5×5 neighbourhood, or null (nothing written) when the image holds NaN or −0, whose order the plain engine decides. */
-  median(src: Image, size: 3 | 5, border: BorderMode, out?: Image): Image | null {
+  /**
+   * Median of the size × size neighbourhood (odd size ≥ 3), or null (nothing written) where the
+   * plain engine's own code must decide: 3×3 and 5×5 of an image holding NaN or −0 (selection
+   * networks elsewhere), wider windows of an image that is not all whole numbers in 0 … 65535
+   * (running histogram elsewhere).
+   */
+  median(src: Image, size: number, border: BorderMode, out?: Image): Image | null {
     const dst = imageLike(src, out === src ? undefined : out);
     const scope = new CallScope(this.heap);
     try {
       const s = this.addressOf(src, scope);
       const resident = this.owns(dst);
       const d = resident ? dst.address : scope.alloc(4 * dst.data.length);
-      const scratch = scope.alloc(this.wasm.medianScratchBytes(src.width, size));
-      if (this.wasm.median(s, d, src.width, src.height, size, BORDER_CODES[border], scratch) === 0) return null;
+      const network = size <= 5;
+      const scratch = scope.alloc(network ? this.wasm.medianScratchBytes(src.width, size) : this.wasm.medianHistogramScratchBytes(src.width, size));
+      const run = network ? this.wasm.median : this.wasm.medianHistogram;
+      if (run(s, d, src.width, src.height, size, BORDER_CODES[border], scratch) === 0) return null;
       if (!resident) dst.data.set(this.heap.f32(d, dst.data.length));
       return dst;
     } finally {

@@ -34,6 +34,7 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.box(a, 15, 'replicate', c, { c: 5, flip: 0 });
   kernels.median(a, 3, 'reflect', b);
   kernels.median(a, 5, 'reflect', b);
+  kernels.median(a, 7, 'reflect', b);
   kernels.extreme(a, 1, 'reflect', false, b);
   kernels.extreme(a, 2, 'reflect', true, b);
   kernels.nonZeroWords(c);

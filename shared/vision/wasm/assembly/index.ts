@@ -12,6 +12,7 @@ export { qualitySums, countNonZero } from './statistics';
 export { lumaRgb8 } from './channels';
 export { box, boxScratchBytes } from './box';
 export { median, medianScratchBytes } from './median';
+export { medianHistogram, medianHistogramScratchBytes } from './median-histogram';
 
 /** First address the JavaScript side may use: static data ends below it. */
 export function heapBase(): usize {

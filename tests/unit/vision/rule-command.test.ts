@@ -105,7 +105,7 @@ test('a file that is not an image exits 3 with a clear message', () => {
   const ruleFile = writeRule('ok', baseRule);
   const result = rule('run', '--rule', ruleFile, '--image', ruleFile, '--out', path.join(dir, 'notimage'), '--station-scale', '0.1');
   expect(result.status).toBe(3);
-  expect(result.stderr).toMatch(/not an image/);
+  expect(result.stderr).toMatch(/not a readable image/);
 });
 
 test('validate prints every problem with its path and exits 3; a valid rule exits 0', () => {

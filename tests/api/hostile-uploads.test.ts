@@ -75,9 +75,9 @@ const HOSTILE: Hostile[] = [
     message: /damaged or truncated/,
   },
   { name: 'a PNG that declares 50 000 × 50 000 pixels', file: 'huge.png', type: 'image/png', bytes: async () => pngDeclaring(50_000, 50_000), status: 413, message: /50000x50000.*pixels/ },
-  { name: 'a text file named .png', file: 'part.png', type: 'image/png', bytes: async () => Buffer.from('these are not the pixels you are looking for\n'.repeat(20)), status: 415, message: /not an image/ },
+  { name: 'a text file named .png', file: 'part.png', type: 'image/png', bytes: async () => Buffer.from('these are not the pixels you are looking for\n'.repeat(20)), status: 415, message: /not a readable image/ },
   { name: 'an SVG image', file: 'part.svg', type: 'image/svg+xml', bytes: async () => Buffer.from('<svg xmlns="http://www.w3.org/2000/svg" width="64" height="48"><rect width="64" height="48"/></svg>'), status: 415, message: /svg images are not accepted/ },
-  { name: 'an HTML page', file: 'part.html', type: 'text/html', bytes: async () => Buffer.from('<!doctype html><script>alert(1)</script>'), status: 415, message: /not an image/ },
+  { name: 'an HTML page', file: 'part.html', type: 'text/html', bytes: async () => Buffer.from('<!doctype html><script>alert(1)</script>'), status: 415, message: /not a readable image/ },
 ];
 
 const inspect = (bytes: Buffer, file: string, type: string) =>

@@ -223,13 +223,17 @@ describe.each([
       await operator.evaluate(`localStorage.setItem('kernwright.inspect.choice', ${JSON.stringify(JSON.stringify({ stationId: station.id, ruleId: gasketRuleId }))})`);
       await operator.goto(`${product.url}/inspect`);
       await operator.getByRole('alert').getByText('⚠ The rule this device remembered is no longer released').waitFor();
-      const rules = operator.getByRole('radiogroup', { name: 'Released rules' });
-      await rules.getByRole('radio', { name: `${washer} · v2` }).waitFor();
+      // The station inspects gasket rings: it offers the gasket rules still released (the demo's), not the withdrawn one.
+      const rules = operator.getByRole('radiogroup', { name: /^Released rules for / });
+      await rules.getByRole('radio', { name: 'Gasket ring defects · v1' }).waitFor();
       expect(await rules.getByRole('radio', { name: new RegExp(`^${gasket.replace(/[()]/g, '\\$&')}`) }).count()).toBe(0);
       // The station is still remembered; no rule is ticked, so nothing can start with the withdrawn one.
       expect(await operator.getByRole('radio', { name: STATION_OF.gasket }).textContent()).toBe(`✓ ${STATION_OF.gasket}`);
       expect(await operator.getByRole('button', { name: 'Use this station and rule' }).isDisabled()).toBe(true);
       await screenshot(operator, `review-operator-choice-${widthName}`);
+      // The washer's station offers the washer rule's newly released version.
+      await operator.getByRole('radio', { name: STATION_OF.washer }).click();
+      await operator.getByRole('radiogroup', { name: /^Released rules for / }).getByRole('radio', { name: `${washer} · v2` }).waitFor();
       expect(operatorErrors).toEqual([]);
     } finally {
       await operatorBrowser.close();

@@ -65,7 +65,8 @@ describe.each([
     const plot = page.getByRole('img', { name: /^p-chart of \d+ subgroups/ });
     await plot.waitFor();
     expect(await plot.getAttribute('aria-label')).toContain(`p-chart of ${chart.points.length} subgroups, ${chart.points.filter((p) => p.signal).length} marked`);
-    // The limits are the two dashed step lines.
+    // The limits are the two dashed step lines (drawn after the plot's frame: wait for them, then count).
+    await plot.locator('path[stroke-dasharray]').nth(1).waitFor({ state: 'attached' });
     expect(await plot.locator('path[stroke-dasharray]').count()).toBe(2);
     await page.getByText('control limits (UCL, LCL)').waitFor();
     const count = chart.signals.length;

@@ -1,7 +1,5 @@
-import { Pressable, StyleSheet, View } from 'react-native';
 import { ROLE_LABELS, ROLES, type Role } from '../shared/roles';
-import { colors, minTouchTarget, radius, space } from '../lib/theme';
-import { AppText } from './AppText';
+import { CheckList } from './CheckList';
 
 // What each role does, from the product's description of the people who use it.
 const ROLE_DUTIES: Record<Role, string> = {
@@ -12,6 +10,8 @@ const ROLE_DUTIES: Record<Role, string> = {
   admin: 'Manages users and roles',
 };
 
+const ROLE_ITEMS = ROLES.map((role) => ({ value: role, label: ROLE_LABELS[role], detail: ROLE_DUTIES[role], accessibilityHint: ROLE_DUTIES[role] }));
+
 interface RolePickerProps {
   value: readonly Role[];
   onChange: (roles: Role[]) => void;
@@ -20,74 +20,5 @@ interface RolePickerProps {
 
 /** Tick any number of roles; a person may hold several. */
 export function RolePicker({ value, onChange, error }: RolePickerProps) {
-  const toggle = (role: Role) =>
-    onChange(value.includes(role) ? value.filter((held) => held !== role) : ROLES.filter((r) => r === role || value.includes(r)));
-  return (
-    <View style={styles.group}>
-      <AppText variant="label">Roles</AppText>
-      <View role="group" aria-label="Roles" style={styles.list}>
-        {ROLES.map((role) => {
-          const checked = value.includes(role);
-          return (
-            <Pressable
-              key={role}
-              role="checkbox"
-              aria-label={ROLE_LABELS[role]}
-              aria-checked={checked}
-              accessibilityHint={ROLE_DUTIES[role]}
-              onPress={() => toggle(role)}
-              style={({ pressed }) => [styles.option, pressed && styles.optionPressed]}
-            >
-              <View style={[styles.box, checked && styles.boxChecked]}>
-                {checked ? (
-                  <AppText variant="label" tone="onSteel" style={styles.tick}>
-                    ✓
-                  </AppText>
-                ) : null}
-              </View>
-              <View style={styles.optionText}>
-                <AppText variant="bodyStrong">{ROLE_LABELS[role]}</AppText>
-                <AppText variant="caption" tone="muted">
-                  {ROLE_DUTIES[role]}
-                </AppText>
-              </View>
-            </Pressable>
-          );
-        })}
-      </View>
-      {error ? (
-        <AppText variant="caption" tone="danger" accessibilityRole="alert">
-          {`⚠ ${error}`}
-        </AppText>
-      ) : null}
-    </View>
-  );
+  return <CheckList label="Roles" items={ROLE_ITEMS} value={value} onChange={onChange} error={error} />;
 }
-
-const styles = StyleSheet.create({
-  group: { gap: space.xs },
-  list: { gap: space.xxs },
-  option: {
-    minHeight: minTouchTarget,
-    flexDirection: 'row',
-    alignItems: 'center',
-    gap: space.md,
-    paddingVertical: space.xs,
-    paddingHorizontal: space.sm,
-    borderRadius: radius.md,
-  },
-  optionPressed: { backgroundColor: colors.steelTint },
-  box: {
-    width: 24,
-    height: 24,
-    borderRadius: radius.sm,
-    borderWidth: 2,
-    borderColor: colors.control,
-    alignItems: 'center',
-    justifyContent: 'center',
-    backgroundColor: colors.surface,
-  },
-  boxChecked: { backgroundColor: colors.steel, borderColor: colors.steel },
-  tick: { lineHeight: 18 },
-  optionText: { flexShrink: 1 },
-});

@@ -1,7 +1,5 @@
-import { Pressable, StyleSheet, View } from 'react-native';
-import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import type { PartType } from '../../shared/api/catalogue';
-import { AppText } from '../AppText';
+import { CheckList } from '../CheckList';
 
 interface PartTypeChecklistProps {
   partTypes: readonly PartType[];
@@ -14,74 +12,15 @@ interface PartTypeChecklistProps {
 /** Tick the part types a station inspects; its operators are offered only their released rules. */
 export function PartTypeChecklist({ partTypes, value, onChange, error }: PartTypeChecklistProps) {
   // Kept in catalogue order, so the list sent matches what the person sees.
-  const toggle = (code: string) =>
-    onChange(value.includes(code) ? value.filter((held) => held !== code) : partTypes.map((p) => p.code).filter((c) => c === code || value.includes(c)));
+  const items = partTypes.map((p) => ({ value: p.code, label: p.name, detail: `${p.code} · ${p.family}`, accessibilityLabel: `${p.name}, ${p.code}` }));
   return (
-    <View style={styles.group}>
-      <AppText variant="label">Part types inspected here</AppText>
-      <AppText variant="caption" tone="muted">
-        Operators at this station are offered only the released rules for these part types. With none ticked, every released rule is offered.
-      </AppText>
-      <View role="group" aria-label="Part types inspected here" style={styles.list}>
-        {partTypes.map((partType) => {
-          const checked = value.includes(partType.code);
-          return (
-            <Pressable
-              key={partType.code}
-              role="checkbox"
-              aria-label={`${partType.name}, ${partType.code}`}
-              aria-checked={checked}
-              onPress={() => toggle(partType.code)}
-              style={({ pressed }) => [styles.option, pressed && styles.optionPressed]}
-            >
-              <View style={[styles.box, checked && styles.boxChecked]}>
-                {checked ? (
-                  <AppText variant="label" tone="onSteel" style={styles.tick}>
-                    ✓
-                  </AppText>
-                ) : null}
-              </View>
-              <View style={styles.optionText}>
-                <AppText variant="bodyStrong">{partType.name}</AppText>
-                <AppText variant="caption" tone="muted">{`${partType.code} · ${partType.family}`}</AppText>
-              </View>
-            </Pressable>
-          );
-        })}
-      </View>
-      {error ? (
-        <AppText variant="caption" tone="danger" accessibilityRole="alert">
-          {`⚠ ${error}`}
-        </AppText>
-      ) : null}
-    </View>
+    <CheckList
+      label="Part types inspected here"
+      description="Operators at this station are offered only the released rules for these part types. With none ticked, every released rule is offered."
+      items={items}
+      value={value}
+      onChange={onChange}
+      error={error}
+    />
   );
 }
-
-const styles = StyleSheet.create({
-  group: { gap: space.xs },
-  list: { gap: space.xxs },
-  option: {
-    minHeight: minTouchTarget,
-    flexDirection: 'row',
-    alignItems: 'center',
-    gap: space.md,
-    paddingVertical: space.xs,
-    paddingHorizontal: space.sm,
-    borderRadius: radius.md,
-  },
-  optionPressed: { backgroundColor: colors.steelTint },
-  box: {
-    width: 24,
-    height: 24,
-    borderRadius: radius.sm,
-    borderWidth: 2,
-    borderColor: colors.control,
-    alignItems: 'center',
-    justifyContent: 'center',
-    backgroundColor: colors.surface,
-  },
-  boxChecked: { backgroundColor: colors.steel, borderColor: colors.steel },
-  tick: { lineHeight: 18 },
-  optionText: { flexShrink: 1 },
-});

@@ -7,7 +7,7 @@ import path from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
 import { generateDataset } from '../../server/demo';
 import { DEMO_FRAME } from '../../server/seed/demo-plant';
-import { seedPlantIntoProduct } from '../support/browser';
+import { seedPlantIntoProduct, signInAs } from '../support/browser';
 import { DEMO_PASSWORD } from '../../server/seed/demo-users';
 import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
 
@@ -32,13 +32,7 @@ afterAll(async () => {
   if (photoDir) fs.rmSync(photoDir, { recursive: true, force: true });
 });
 
-async function signIn(page: Page, username: string): Promise<void> {
-  await page.goto(`${product.url}/sign-in`);
-  await page.getByLabel('User name').fill(username);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
+const signIn = (page: Page, username: string) => signInAs(page, product.url, username);
 
 async function inspectionCount(): Promise<number> {
   const [row] = await product.db.dataSource.query(`select count(*)::int as n from inspections where created_at > now() - interval '1 hour'`);

@@ -10,7 +10,7 @@ import { partTypeCode } from '../../server/seed/demo-plant';
 import { DEMO_PASSWORD } from '../../server/seed/demo-users';
 import { DEMO_RULES } from '../../server/seed/rules';
 import type { RuleDocument } from '../../shared/rules/schema';
-import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 /** The open dialog's panel (react-native-web's Modal wraps it in a second, unnamed dialog element). */
 function openDialog(page: Page) {
@@ -67,13 +67,7 @@ async function versionState(versionId: string): Promise<{ state: string; review_
   return row;
 }
 
-async function signIn(page: Page, username: string, password = DEMO_PASSWORD): Promise<void> {
-  await page.goto(`${product.url}/sign-in`);
-  await page.getByLabel('User name').fill(username);
-  await page.getByLabel('Password').fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
+const signIn = (page: Page, username: string, password = DEMO_PASSWORD) => signInAs(page, product.url, username, password);
 
 describe.each([
   ['phone', PHONE],

@@ -5,8 +5,7 @@
 // supervisor assigns part types in the station editor at phone and wide widths.
 import type { BrowserContext, Page } from 'playwright-core';
 import { UserEntity } from '../../server/components/auth/entities';
-import { DEMO_PASSWORD } from '../../server/seed/demo-users';
-import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 jest.setTimeout(600_000);
 
@@ -33,13 +32,7 @@ beforeAll(async () => {
 });
 afterAll(() => product?.close());
 
-async function signIn(page: Page, username: string): Promise<void> {
-  await page.goto(`${product.url}/sign-in`);
-  await page.getByLabel('User name').fill(username);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
+const signIn = (page: Page, username: string) => signInAs(page, product.url, username);
 
 /** The names of the rules offered, in the order shown. */
 async function offeredRules(page: Page): Promise<string[]> {

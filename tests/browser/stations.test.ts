@@ -6,8 +6,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
 import sharp from 'sharp';
-import { DEMO_PASSWORD } from '../../server/seed/demo-users';
-import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 /** The open dialog's panel (react-native-web's Modal wraps it in a second, unnamed dialog element). */
 function openDialog(page: Page) {
@@ -46,13 +45,7 @@ afterAll(async () => {
   if (photoFile) fs.rmSync(path.dirname(photoFile), { recursive: true, force: true });
 });
 
-async function signIn(page: Page): Promise<void> {
-  await page.goto(`${product.url}/sign-in`);
-  await page.getByLabel('User name').fill('supervisor');
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
+const signIn = (page: Page) => signInAs(page, product.url, 'supervisor');
 
 /** Taps the photo where a photo pixel is shown, a few pixels off the edge as a finger would be. */
 async function tapPhotoAt(page: Page, x: number, y: number): Promise<void> {

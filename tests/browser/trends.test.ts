@@ -4,9 +4,8 @@
 // with a note.
 import type { BrowserContext, Page } from 'playwright-core';
 import { UserEntity } from '../../server/components/auth/entities';
-import { DEMO_PASSWORD } from '../../server/seed/demo-users';
 import type { PChart, Pareto } from '../../shared/api/trends';
-import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 jest.setTimeout(600_000);
 
@@ -36,13 +35,7 @@ beforeAll(async () => {
 });
 afterAll(() => product?.close());
 
-async function signIn(page: Page): Promise<void> {
-  await page.goto(`${product.url}/sign-in`);
-  await page.getByLabel('User name').fill('supervisor');
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
+const signIn = (page: Page) => signInAs(page, product.url, 'supervisor');
 
 describe.each([
   ['phone', PHONE],

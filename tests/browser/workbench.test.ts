@@ -2,8 +2,7 @@
 // see the live preview's verdict on a reference photo (and the server agreeing), run a trial, read
 // its figures and submit the draft for review at wide width; the rules list and a rule page on a phone.
 import type { BrowserContext, Page } from 'playwright-core';
-import { DEMO_PASSWORD } from '../../server/seed/demo-users';
-import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 jest.setTimeout(600_000);
 
@@ -16,13 +15,7 @@ beforeAll(async () => {
 });
 afterAll(() => product?.close());
 
-async function signIn(page: Page, username: string): Promise<void> {
-  await page.goto(`${product.url}/sign-in`);
-  await page.getByLabel('User name').fill(username);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
+const signIn = (page: Page, username: string) => signInAs(page, product.url, username);
 
 describe('at wide width', () => {
   let browser: BrowserContext;

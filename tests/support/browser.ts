@@ -3,7 +3,7 @@ import type { Server } from 'node:http';
 import os from 'node:os';
 import path from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { seedDemoUsers } from '../../server/seed/demo-users';
+import { DEMO_PASSWORD, seedDemoUsers } from '../../server/seed/demo-users';
 import { createTestApp } from './app';
 import type { TestDatabase } from './db';
 import type { Services } from '../../server/services';
@@ -49,6 +49,15 @@ export async function startProduct(): Promise<RunningProduct> {
 }
 
 /** Debian's Chromium, headless, with a throw-away profile (STACK.md, "Playwright launch that worked"). */
+/** Signs in through the sign-in screen and waits for the app's main navigation. */
+export async function signInAs(page: Page, url: string, username: string, password: string = DEMO_PASSWORD): Promise<void> {
+  await page.goto(`${url}/sign-in`);
+  await page.getByLabel('User name').fill(username);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+}
+
 export async function launchBrowser(viewport: { width: number; height: number }): Promise<BrowserContext> {
   return chromium.launchPersistentContext(fs.mkdtempSync(path.join(os.tmpdir(), 'kw-chromium-')), {
     executablePath: process.env.KW_CHROMIUM ?? '/usr/bin/chromium',

@@ -53,6 +53,7 @@ const styles = StyleSheet.create({
     minHeight: minTouchTarget,
     justifyContent: 'center',
     paddingHorizontal: space.md,
+    paddingVertical: space.xs,
     borderRadius: radius.pill,
     borderWidth: 1,
     borderColor: colors.control,

@@ -40,9 +40,10 @@ export function separableRows(src: usize, w: i32, h: i32, y: i32, colK: usize, c
   const line = align16(at(zeros, w));
   const nextLine = align16(at(line, w + rowLen + 4));
   const rowSymmetric = isSymmetric(rowK, rowLen);
-  if (isSymmetric(colK, colLen) && ry >= 1 && ry <= 3 && y + 1 < h) {
+  if (isSymmetric(colK, colLen) && ry >= 1 && y + 1 < h) {
     for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
-    verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(nextLine, rx));
+    if (ry <= 3) verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(nextLine, rx));
+    else verticalSymmetricPairSweeps(rows, colK, ry, w, at(line, rx), at(nextLine, rx));
     fillLineBorder(line, w, rx, mode);
     fillLineBorder(nextLine, w, rx, mode);
     if (rowSymmetric) {
@@ -138,15 +139,13 @@ function verticalSymmetric(rows: usize, k: usize, r: i32, w: i32, line: usize): 
       );
     }
   } else {
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      let acc = f32x4.mul(vc, v128.load(c + o));
-      for (let i = 1; i <= r; i++) {
-        const pair = f32x4.add(v128.load(load<usize>(at(rows, r - i)) + o), v128.load(load<usize>(at(rows, r + i)) + o));
-        acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(k, r + i))), pair));
-      }
-      v128.store(line + o, acc);
+    const per = pairsPerSweep(r, SWEEP_PAIRS);
+    if (r == 0) pairSweep(line, c, kc, rows, 0, k, r, 1, 0, 0, 1, w);
+    for (let i = 1; i <= r; i += per) {
+      const pairs = min(per, r - i + 1);
+      pairSweep(line, i == 1 ? c : 0, kc, rows, 0, k, r, i, pairs, 0, i + pairs > r ? 1 : 0, w);
     }
+    x = w & ~3;
     for (; x < w; x++) {
       const o = (<usize>x) << 2;
       let acc = kc * load<f32>(c + o);
@@ -200,6 +199,157 @@ function verticalSymmetricPair(rows: usize, k: usize, r: i32, w: i32, line: usiz
       for (let i = 1; i <= r; i++) acc += load<f32>(at(k, r + i)) * (load<f32>(load<usize>(at(rows, r + q - i)) + o) + load<f32>(load<usize>(at(rows, r + q + i)) + o));
       store<f32>((q == 0 ? line : next) + o, acc);
     }
+  }
+}
+
+/** Pairs of taps per sweep when r pairs are taken in sweeps of at most `most`, all about as long (radius 9 in 5: 5 + 4). */
+@inline
+function pairsPerSweep(r: i32, most: i32): i32 {
+  const sweeps = max(1, (r + most - 1) / most);
+  return (r + sweeps - 1) / sweeps;
+}
+
+/** Most pairs of taps one sweep of `pairSweep` takes (its weights and addresses stay in registers). */
+const SWEEP_PAIRS: i32 = 5;
+
+/**
+ * For the whole vectors of a row: dst[x] = (centre ≠ 0 ? kc·centre[x] : dst[x]) + Σ k[r+j]·(a_j[x] + b_j[x])
+ * over j = i … i + pairs − 1 (pairs ≤ SWEEP_PAIRS), in that order, plus offset when last is 1. The
+ * pairs are source rows r − j and r + j of `rows`, or, when line ≠ 0, the samples j to either side
+ * in a padded line (line at the centre). Sweeping a long kernel a few pairs at a time keeps each
+ * sweep's weights and addresses in registers, and adds in the order of one sum: the same result.
+ */
+function pairSweep(dst: usize, centre: usize, kc: f32, rows: usize, line: usize, k: usize, r: i32, i: i32, pairs: i32, offset: f32, last: i32, w: i32): void {
+  const a1 = below(rows, line, r, i, 1, pairs), b1 = above(rows, line, r, i, 1, pairs);
+  const a2 = below(rows, line, r, i, 2, pairs), b2 = above(rows, line, r, i, 2, pairs);
+  const a3 = below(rows, line, r, i, 3, pairs), b3 = above(rows, line, r, i, 3, pairs);
+  const a4 = below(rows, line, r, i, 4, pairs), b4 = above(rows, line, r, i, 4, pairs);
+  const a5 = below(rows, line, r, i, 5, pairs), b5 = above(rows, line, r, i, 5, pairs);
+  // Pairs 0 (radius 0): centre only.
+  const k1 = weight(k, r, i, 1, pairs), k2 = weight(k, r, i, 2, pairs), k3 = weight(k, r, i, 3, pairs);
+  const k4 = weight(k, r, i, 4, pairs), k5 = weight(k, r, i, 5, pairs);
+  // The first sweep starts from kc·centre, the others from dst·1 (exact); only the last adds the offset.
+  const start = centre ? centre : dst;
+  const vs = f32x4.splat(centre ? kc : 1);
+  const vo = f32x4.splat(offset);
+  if (pairs == 0) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 0, 1, vo, w);
+  else if (last) {
+    if (pairs == 5) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 5, 1, vo, w);
+    else if (pairs == 4) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 4, 1, vo, w);
+    else if (pairs == 3) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 3, 1, vo, w);
+    else if (pairs == 2) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 2, 1, vo, w);
+    else sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 1, 1, vo, w);
+  } else if (pairs == 5) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 5, 0, vo, w);
+  else if (pairs == 4) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 4, 0, vo, w);
+  else if (pairs == 3) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 3, 0, vo, w);
+  else if (pairs == 2) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 2, 0, vo, w);
+  else sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 1, 0, vo, w);
+}
+
+/** Address of the lower sample of pair i + n − 1 (row r − j, or j to the left of the line's centre); 0 past the sweep. */
+@inline
+function below(rows: usize, line: usize, r: i32, i: i32, n: i32, pairs: i32): usize {
+  const j = i + n - 1;
+  return n > pairs ? 0 : line ? line - ((<usize>j) << 2) : load<usize>(at(rows, r - j));
+}
+
+/** Address of the upper sample of pair i + n − 1 (row r + j, or j to the right of the line's centre); 0 past the sweep. */
+@inline
+function above(rows: usize, line: usize, r: i32, i: i32, n: i32, pairs: i32): usize {
+  const j = i + n - 1;
+  return n > pairs ? 0 : line ? line + ((<usize>j) << 2) : load<usize>(at(rows, r + j));
+}
+
+@inline
+function weight(k: usize, r: i32, i: i32, n: i32, pairs: i32): v128 {
+  return f32x4.splat(n > pairs ? 0 : load<f32>(at(k, r + i + n - 1)));
+}
+
+/** pairSweep's loop, inlined with pairs and last constant so that each copy has no branch inside. */
+@inline
+function sweepPairs(
+  dst: usize, start: usize, vs: v128,
+  a1: usize, b1: usize, k1: v128, a2: usize, b2: usize, k2: v128, a3: usize, b3: usize, k3: v128,
+  a4: usize, b4: usize, k4: v128, a5: usize, b5: usize, k5: v128,
+  pairs: i32, last: i32, vo: v128, w: i32,
+): void {
+  for (let x = 0; x + 4 <= w; x += 4) {
+    const o = (<usize>x) << 2;
+    let acc = f32x4.mul(vs, v128.load(start + o));
+    if (pairs >= 1) acc = f32x4.add(acc, f32x4.mul(k1, f32x4.add(v128.load(a1 + o), v128.load(b1 + o))));
+    if (pairs >= 2) acc = f32x4.add(acc, f32x4.mul(k2, f32x4.add(v128.load(a2 + o), v128.load(b2 + o))));
+    if (pairs >= 3) acc = f32x4.add(acc, f32x4.mul(k3, f32x4.add(v128.load(a3 + o), v128.load(b3 + o))));
+    if (pairs >= 4) acc = f32x4.add(acc, f32x4.mul(k4, f32x4.add(v128.load(a4 + o), v128.load(b4 + o))));
+    if (pairs >= 5) acc = f32x4.add(acc, f32x4.mul(k5, f32x4.add(v128.load(a5 + o), v128.load(b5 + o))));
+    v128.store(dst + o, last ? f32x4.add(acc, vo) : acc);
+  }
+}
+
+/** Most pairs of taps one sweep of `verticalSymmetricPairSweeps` takes. */
+const PAIR_SWEEP_PAIRS: i32 = 3;
+
+/**
+ * Output rows y (into line) and y+1 (into next) of a symmetric column of radius r > 3, rows[0 … 2r+1]
+ * source rows y−r … y+1+r, in sweeps of a few pairs of taps: one sweep loads each source row it
+ * touches once for both outputs (2q + 2 loads for 2q pairs), so a long column reads its rows from the
+ * cache half as often. Each output adds in the order of verticalSymmetric: the same result.
+ */
+function verticalSymmetricPairSweeps(rows: usize, k: usize, r: i32, w: i32, line: usize, next: usize): void {
+  const per = pairsPerSweep(r, PAIR_SWEEP_PAIRS);
+  for (let i = 1; i <= r; i += per) {
+    const pairs = min(per, r - i + 1);
+    const first = i == 1;
+    if (pairs == 3) pairRowsSweep(rows, k, r, i, 3, first, w, line, next);
+    else if (pairs == 2) pairRowsSweep(rows, k, r, i, 2, first, w, line, next);
+    else pairRowsSweep(rows, k, r, i, 1, first, w, line, next);
+  }
+  // The last columns one row at a time, each from its own 2r+1 rows.
+  for (let x = w & ~3; x < w; x++) {
+    const o = (<usize>x) << 2;
+    for (let q = 0; q < 2; q++) {
+      let acc = load<f32>(at(k, r)) * load<f32>(load<usize>(at(rows, r + q)) + o);
+      for (let i = 1; i <= r; i++) acc += load<f32>(at(k, r + i)) * (load<f32>(load<usize>(at(rows, r + q - i)) + o) + load<f32>(load<usize>(at(rows, r + q + i)) + o));
+      store<f32>((q == 0 ? line : next) + o, acc);
+    }
+  }
+}
+
+/**
+ * Pairs i … i+pairs−1 of both rows: line += Σ k[r+j]·(R[r−j] + R[r+j]) and next += Σ k[r+j]·(R[r+1−j] + R[r+1+j]),
+ * starting from kc·R[r] and kc·R[r+1] when first. Rows R[r−i−pairs+1 … r−i+1] and R[r+i … r+i+pairs] serve both.
+ */
+@inline
+function pairRowsSweep(rows: usize, k: usize, r: i32, i: i32, pairs: i32, first: bool, w: i32, line: usize, next: usize): void {
+  // lo_n = R[r − i − n + 1] (n = 0 … pairs), hi_n = R[r + i + n] (n = 0 … pairs).
+  const lo0 = load<usize>(at(rows, r - i + 1)), hi0 = load<usize>(at(rows, r + i));
+  const lo1 = load<usize>(at(rows, r - i)), hi1 = load<usize>(at(rows, r + i + 1));
+  const lo2 = pairs >= 2 ? load<usize>(at(rows, r - i - 1)) : 0, hi2 = pairs >= 2 ? load<usize>(at(rows, r + i + 2)) : 0;
+  const lo3 = pairs >= 3 ? load<usize>(at(rows, r - i - 2)) : 0, hi3 = pairs >= 3 ? load<usize>(at(rows, r + i + 3)) : 0;
+  const k1 = f32x4.splat(load<f32>(at(k, r + i)));
+  const k2 = f32x4.splat(pairs >= 2 ? load<f32>(at(k, r + i + 1)) : 0);
+  const k3 = f32x4.splat(pairs >= 3 ? load<f32>(at(k, r + i + 2)) : 0);
+  const kc = f32x4.splat(load<f32>(at(k, r)));
+  const c0 = load<usize>(at(rows, r)), c1 = load<usize>(at(rows, r + 1));
+  for (let x = 0; x + 4 <= w; x += 4) {
+    const o = (<usize>x) << 2;
+    // Pair i of line is lo1 + hi0, of next lo0 + hi1; and so on outwards.
+    let a = first ? f32x4.mul(kc, v128.load(c0 + o)) : v128.load(line + o);
+    let b = first ? f32x4.mul(kc, v128.load(c1 + o)) : v128.load(next + o);
+    const l0 = v128.load(lo0 + o), l1 = v128.load(lo1 + o), h0 = v128.load(hi0 + o), h1 = v128.load(hi1 + o);
+    a = f32x4.add(a, f32x4.mul(k1, f32x4.add(l1, h0)));
+    b = f32x4.add(b, f32x4.mul(k1, f32x4.add(l0, h1)));
+    if (pairs >= 2) {
+      const l2 = v128.load(lo2 + o), h2 = v128.load(hi2 + o);
+      a = f32x4.add(a, f32x4.mul(k2, f32x4.add(l2, h1)));
+      b = f32x4.add(b, f32x4.mul(k2, f32x4.add(l1, h2)));
+      if (pairs >= 3) {
+        const l3 = v128.load(lo3 + o), h3 = v128.load(hi3 + o);
+        a = f32x4.add(a, f32x4.mul(k3, f32x4.add(l3, h2)));
+        b = f32x4.add(b, f32x4.mul(k3, f32x4.add(l2, h3)));
+      }
+    }
+    v128.store(line + o, a);
+    v128.store(next + o, b);
   }
 }
 
@@ -274,15 +424,12 @@ function horizontalSymmetric(line: usize, k: usize, r: i32, w: i32, out: usize, 
       );
     }
   } else {
-    for (; x + 4 <= w; x += 4) {
-      const p = at(line, x + r);
-      let acc = f32x4.mul(vc, v128.load(p));
-      for (let i = 1; i <= r; i++) {
-        const d = (<usize>i) << 2;
-        acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(k, r + i))), f32x4.add(v128.load(p - d), v128.load(p + d))));
-      }
-      v128.store(at(out, x), f32x4.add(acc, vo));
+    const per = pairsPerSweep(r, SWEEP_PAIRS);
+    for (let i = 1; i <= r; i += per) {
+      const pairs = min(per, r - i + 1);
+      pairSweep(out, i == 1 ? at(line, r) : 0, kc, 0, at(line, r), k, r, i, pairs, offset, i + pairs > r ? 1 : 0, w);
     }
+    x = w & ~3;
     for (; x < w; x++) {
       const p = at(line, x + r);
       let acc = kc * load<f32>(p);

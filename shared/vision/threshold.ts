@@ -200,36 +200,27 @@ export function thresholdOtsu(
   // bin(v) > k  ⇔  (v − origin)·binsPerUnit ≥ k + 1  (the top bin only collects values at max).
   const cut = hist.origin + (k + 1) / hist.binsPerUnit;
   const threshold = hist.integerLevels ? k : cut;
-  if (simd) {
-    // bin(v) never falls as v grows, so "bin above k" is "v at least the first float32 whose bin is above k".
-    const edge = k + 1;
-    const first = firstFloat32Where(hist.min, hist.max, (v) => (((v - hist.origin) * hist.binsPerUnit) | 0) >= edge);
-    return { mask: simd.thresholdAt(src, first, invert, out, bits ?? undefined, maskToo), bin: k, threshold };
-  }
+  // bin(v) never falls as v grows, so "bin above k" is "v at least the first float32 whose bin is above k";
+  // both engines compare each sample with that float32 (a NaN is below every cut, as its bin 0 is).
+  const edge = k + 1;
+  const first = firstFloat32Where(hist.min, hist.max, (v) => (((v - hist.origin) * hist.binsPerUnit) | 0) >= edge);
+  if (simd) return { mask: simd.thresholdAt(src, first, invert, out, bits ?? undefined, maskToo), bin: k, threshold };
   const dst = imageLike(src, out);
-  if (bits) writeAboveBinPacked(src.data, hist.origin, hist.binsPerUnit, k, invert, maskToo ? dst.data : null, bits);
-  else writeAboveBin(src.data, hist.origin, hist.binsPerUnit, k, invert, dst.data);
+  if (bits) writeAtLeastPacked(src.data, first, invert, maskToo ? dst.data : null, bits);
+  else writeAtLeast(src.data, first, invert, dst.data);
   return { mask: dst, bin: k, threshold };
 }
 
-/**
- * o = 1 where floor((v − origin)·scale) > k, else 0 (swapped with invert), without branches:
- * noisy data near the threshold would mispredict them. For z ≥ 0, floor(z) = z | 0, and
- * ((z | 0) − (k + 1)) >>> 31 is 1 exactly when the bin is at most k. k ≤ 254, so the clamp to bin 255 cannot matter.
- */
-function writeAboveBin(s: Float32Array, origin: number, scale: number, k: number, invert: boolean, o: Float32Array): void {
-  const edge = k + 1;
-  const flip = invert ? 0 : 1;
-  for (let p = 0; p < s.length; p++) {
-    o[p] = flip ^ (((((s[p] - origin) * scale) | 0) - edge) >>> 31);
-  }
+/** o = 1 where v ≥ cut, else 0 (swapped with invert; NaN is below every cut), without branches: noisy data near the cut would mispredict them. */
+function writeAtLeast(s: Float32Array, cut: number, invert: boolean, o: Float32Array): void {
+  const flip = invert ? 1 : 0;
+  for (let p = 0; p < s.length; p++) o[p] = flip ^ +(s[p] >= cut);
 }
 
-/** writeAboveBin (when o is given), setting bit i of each word for the pixel's 1 (bits past the last column stay 0). */
-function writeAboveBinPacked(s: Float32Array, origin: number, scale: number, k: number, invert: boolean, o: Float32Array | null, packed: PackedMask): void {
+/** writeAtLeast (when o is given), setting bit i of each word for the pixel's 1 (bits past the last column stay 0). */
+function writeAtLeastPacked(s: Float32Array, cut: number, invert: boolean, o: Float32Array | null, packed: PackedMask): void {
   const { width: w, height: h, wordsPerRow, words } = packed;
-  const edge = k + 1;
-  const flip = invert ? 0 : 1;
+  const flip = invert ? 1 : 0;
   for (let y = 0; y < h; y++) {
     const row = y * w;
     for (let word = 0; word < wordsPerRow; word++) {
@@ -238,12 +229,12 @@ function writeAboveBinPacked(s: Float32Array, origin: number, scale: number, k: 
       let acc = 0;
       if (o) {
         for (let i = 0; i < n; i++) {
-          const bit = flip ^ (((((s[x0 + i] - origin) * scale) | 0) - edge) >>> 31);
+          const bit = flip ^ +(s[x0 + i] >= cut);
           o[x0 + i] = bit;
           acc |= bit << i;
         }
       } else {
-        for (let i = 0; i < n; i++) acc |= (flip ^ (((((s[x0 + i] - origin) * scale) | 0) - edge) >>> 31)) << i;
+        for (let i = 0; i < n; i++) acc |= (flip ^ +(s[x0 + i] >= cut)) << i;
       }
       words[y * wordsPerRow + word] = acc;
     }

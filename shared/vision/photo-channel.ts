@@ -9,5 +9,5 @@ export function inputChannel(photo: RawPhoto, channel: InputChannel, out?: Image
   const { channels, bitDepth, samples } = photo;
   const colour8 = channel === 'luma' && bitDepth === 8 && (channels === 3 || channels === 4) && samples instanceof Uint8Array;
   if (!simd || !colour8 || samples.length !== photo.width * photo.height * channels) return channelImage(photo, channel, out);
-  return simd.lumaRgb8(samples, channels, BT601_WEIGHTS, imageLike(photo, out));
+  return simd.lumaRgb8(samples, channels, BT601_WEIGHTS, imageLike(photo, out)) ?? channelImage(photo, channel, out);
 }

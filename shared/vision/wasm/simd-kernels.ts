@@ -38,7 +38,7 @@ export interface EngineExports {
   packNonZero(src: number, w: number, h: number, words: number): void;
   qualitySums(src: number, w: number, h: number, top: number, out: number): void;
   countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
-  lumaRgb8(src: number, channels: number, n: number, dst: number, wr: number, wg: number, wb: number): void;
+  lumaRgb8(src: number, channels: number, n: number, dst: number, kr: number, kg: number, kb: number): void;
   box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
   boxScratchBytes(w: number, size: number): number;
   median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
@@ -312,8 +312,14 @@ export class SimdKernels {
     });
   }
 
-  /** wr·R + wg·G + wb·B of interleaved 8-bit RGB or RGBA samples into `out`, in double precision rounded once (the plain engine's bits). */
-  lumaRgb8(samples: Uint8Array, channels: 3 | 4, weights: { red: number; green: number; blue: number }, out: Image): Image {
+  /**
+   * wr·R + wg·G + wb·B of interleaved 8-bit RGB or RGBA samples into `out`, with the bits of the plain
+   * engine's double-precision sum rounded once (see assembly/channels.ts); null when a weight is not
+   * a whole number of thousandths from 0 to 1 (BT.601's are), which the kernel needs for that.
+   */
+  lumaRgb8(samples: Uint8Array, channels: 3 | 4, weights: { red: number; green: number; blue: number }, out: Image): Image | null {
+    const thousandths = [weights.red, weights.green, weights.blue].map((w) => Math.round(w * 1000));
+    if (thousandths.some((k, i) => k < 0 || k > 1000 || k / 1000 !== [weights.red, weights.green, weights.blue][i])) return null;
     const pixels = out.data.length;
     const scope = new CallScope(this.heap);
     try {
@@ -321,7 +327,7 @@ export class SimdKernels {
       new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
       const resident = this.owns(out);
       const dst = resident ? out.address : scope.alloc(4 * pixels);
-      this.wasm.lumaRgb8(src, channels, pixels, dst, weights.red, weights.green, weights.blue);
+      this.wasm.lumaRgb8(src, channels, pixels, dst, thousandths[0], thousandths[1], thousandths[2]);
       if (!resident) out.data.set(this.heap.f32(dst, pixels));
     } finally {
       scope.end();

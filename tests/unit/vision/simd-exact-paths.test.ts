@@ -47,6 +47,26 @@ test('luma of 8-bit RGB and RGBA photos (BT.601 in double precision, rounded onc
   );
 });
 
+test('luma of every one of the 2²⁴ 8-bit colours: the SIMD kernel\'s whole-number sum over 1000 has the bits of the plain engine\'s double-precision sum', () => {
+  // The exhaustive check behind the kernel's argument (shared/vision/wasm/assembly/channels.ts):
+  // 256 photos of 256×256 pixels, photo r holding every (r, g, b).
+  const side = 256;
+  const samples = new Uint8Array(side * side * 3);
+  for (let red = 0; red < 256; red++) {
+    for (let p = 0; p < side * side; p++) {
+      samples[3 * p] = red;
+      samples[3 * p + 1] = p >> 8;
+      samples[3 * p + 2] = p & 255;
+    }
+    const photo: RawPhoto = { width: side, height: side, channels: 3, bitDepth: 8, samples };
+    const plain = onEngine('plain', () => channelImage(photo, 'luma'));
+    const simd = onEngine('simd', () => inputChannel(photo, 'luma'));
+    const same = simd.data.every((v, i) => Object.is(v, plain.data[i]));
+    if (!same) expect({ red, simd: Array.from(simd.data.slice(0, 8)) }).toEqual({ red, simd: Array.from(plain.data.slice(0, 8)) });
+    expect(same).toBe(true);
+  }
+});
+
 test('fixed threshold: the same mask bits, the threshold a sample value, between two, NaN or infinite', () => {
   fc.assert(
     fc.property(imageSize, anyKind, seed, fc.boolean(), fc.nat(), fc.constantFrom('sample', 'between', 'NaN', 'Infinity', '-Infinity'), ([w, h], kind, s, invert, pick, how) => {

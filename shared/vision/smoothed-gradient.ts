@@ -2,16 +2,18 @@
 // no intermediate output): the SIMD engine sweeps down the image once, smoothing rows into a ring
 // of four rows that the gradient reads while they are in the cache; the smoothed image is never
 // written out and read back (two whole-image passes of memory traffic fewer). Same bits as the two
-// steps in turn on that engine. The plain engine runs the two steps in turn.
+// steps in turn on that engine. The plain engine sweeps the same way with its own row functions
+// (`SeparableSweep`, `GradientRows`), so its output and range are those of its two steps in turn.
 import type { GradientOperator, GradientOutput } from '../rules/schema';
-import type { BorderMode } from './border';
+import { borderTable, OUTSIDE, type BorderMode } from './border';
+import { SeparableSweep } from './convolve';
 import { simdKernels } from './engine';
-import { gradient, gradientWeights } from './gradient';
-import type { Image, ValueRange } from './image';
+import { gradient, GradientRows, gradientWeights } from './gradient';
+import { imageLike, type Image, type ValueRange } from './image';
 import { gaussianWeights } from './kernels';
 import { gaussianBlur } from './smoothing';
 
-/** gradient(gaussianBlur(src, sigma, border), operator, output, border, out, range); `scratch` holds the smoothed image where it is computed whole (plain engine, direction). */
+/** gradient(gaussianBlur(src, sigma, border), operator, output, border, out, range); `scratch` holds the smoothed image where it is computed whole (the direction on the SIMD engine). */
 export function gaussianGradient(
   src: Image,
   sigma: number,
@@ -28,5 +30,34 @@ export function gaussianGradient(
     const [a, b] = gradientWeights(operator);
     return simd.smoothedGradient(src, g, g, a, b, output, border, out, range);
   }
-  return gradient(gaussianBlur(src, sigma, border, scratch), operator, output, border, out, range);
+  if (simd) return gradient(gaussianBlur(src, sigma, border, scratch), operator, output, border, out, range);
+  return sweepPlain(src, sigma, operator, output, border, out, range);
+}
+
+/** Smoothed rows go into a ring of eight (rows y−1 … y+4 are alive: the sweep makes up to four at a time). */
+const RING = 8;
+
+function sweepPlain(src: Image, sigma: number, operator: GradientOperator, output: GradientOutput, border: BorderMode, out?: Image, range?: ValueRange): Image {
+  const { width: w, height: h } = src;
+  const dst = imageLike(src, out === src ? undefined : out);
+  const o = dst.data;
+  const g = gaussianWeights(sigma);
+  const [a, b] = gradientWeights(operator);
+  const smoothing = new SeparableSweep(src, g, g, border);
+  const rows = new GradientRows(w, a, b, output, border);
+  // The ring's last row stays zero: the rows outside the image under the constant border.
+  const ring = new Float32Array((RING + 1) * w);
+  const zeros = RING * w;
+  const at = (y: number) => (y % RING) * w;
+  const rowTable = borderTable(h, 1, 1, border);
+  let made = 0;
+  for (let y = 0; y < h; y++) {
+    // Rows y−1 … y+1 (as far as they exist) are made before row y's gradient reads them.
+    while (made < Math.min(h, y + 2)) made += smoothing.next(ring, at);
+    const up = rowTable[y];
+    const down = rowTable[y + 2];
+    rows.write(ring, up === OUTSIDE ? zeros : at(up), at(y), down === OUTSIDE ? zeros : at(down), o, y * w);
+  }
+  rows.report(range);
+  return dst;
 }

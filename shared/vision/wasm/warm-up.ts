@@ -18,6 +18,8 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.separable(a, [1, 2, 1], [-1, 0, 1], 'replicate', b);
   kernels.correlate2d(a, kernelFromMatrix([[0, 1, 0], [1, -4, 1], [0, 1, 0]]), 'reflect', b);
   kernels.correlate2d(a, kernelFromMatrix([[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]]), 'reflect', b);
+  // 11×11 (non-separable) is where the FFT in tiles takes over.
+  kernels.correlate2d(a, kernelFromMatrix(Array.from({ length: 11 }, (_, j) => Array.from({ length: 11 }, (_, i) => ((i * 7 + j * 3) % 5) - 2))), 'reflect', b);
   kernels.laplacianOfGaussian(a, gaussianWeights(1.4), gaussianWeights(1.4), 'reflect', b);
   kernels.gradient(a, 1, 2, 'x', 'reflect', b);
   kernels.gradient(a, 1, 2, 'y', 'reflect', b);

@@ -34,6 +34,9 @@ describe.each(ENGINES)('on the %s engine', (engine) => {
       [3, 11],
       [15, 15],
       [5, 17],
+      // From 11×11 the SIMD engine correlates through the FFT in 128×128 tiles.
+      [11, 11],
+      [31, 31],
     ])('a %ix%i kernel matches OpenCV filter2D', (rows, cols) => {
       const image = partImage(41, 29, 65535, rows * 31 + cols);
       const matrix = kernelMatrix(rows, cols);
@@ -47,6 +50,25 @@ describe.each(ENGINES)('on the %s engine', (engine) => {
       [src, dst, k].forEach((m) => m.delete());
       const scale = expected.reduce((m, v) => Math.max(m, Math.abs(v)), 1);
       // Float32 results: agreement to a few float32 ulps of the largest value (OpenCV sums in float32).
+      expect(maxAbsDiff(ours.data, expected)).toBeLessThanOrEqual(2e-6 * scale * 8);
+    });
+  });
+
+  describe.each(BORDERS)('with the %s border, on an image of several FFT tiles', (border) => {
+    test.each([
+      [11, 13],
+      [31, 31],
+    ])('a %ix%i kernel matches OpenCV filter2D across tile edges', (rows, cols) => {
+      const image = partImage(301, 257, 255, rows + cols);
+      const matrix = kernelMatrix(rows, cols);
+      const ours = correlateDirect(image, kernelFromMatrix(matrix, 7, -2), border);
+      const src = toMat32(cv, image);
+      const dst = new cv.Mat();
+      const k = cv.matFromArray(rows, cols, cv.CV_32F, matrix.flat().map((v) => v / 7));
+      cv.filter2D(src, dst, cv.CV_32F, k, new cv.Point(-1, -1), -2, CV_BORDER[border]);
+      const expected = matToFloat(cv, dst);
+      [src, dst, k].forEach((m) => m.delete());
+      const scale = expected.reduce((m, v) => Math.max(m, Math.abs(v)), 1);
       expect(maxAbsDiff(ours.data, expected)).toBeLessThanOrEqual(2e-6 * scale * 8);
     });
   });

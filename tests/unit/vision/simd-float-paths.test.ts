@@ -47,6 +47,45 @@ test('symmetric separable kernels (the unrolled radii 1–3 and the general loop
   );
 });
 
+test('non-separable kernels from 11×11 go through the FFT in 128×128 tiles: SIMD within the float32 FFT bound of plain', () => {
+  // Higham, Accuracy and Stability of Numerical Algorithms (2nd ed.), §24.1: a radix-2 FFT of m points
+  // computed in floating point has a 2-norm relative error of at most log₂(m)·η/(1 − log₂(m)·η),
+  // η = μ + γ₄(√2 + μ), μ the twiddles' error (here one rounding). Forward, product and inverse give
+  // |error of one output| ≤ ‖error‖₂ ≤ (3·log₂(m)·η + u)·‖k‖₁·‖tile‖₂, and a tile (two image tiles as
+  // real and imaginary parts) has ‖tile‖₂ ≤ √2·128·max|x|. Structural mistakes (alignment, border,
+  // flip, a tile's edge) give errors of the outputs' own size, far above this bound.
+  const u = 2 ** -24;
+  const eta = u + (4 * u) / (1 - 4 * u) * (Math.SQRT2 + u);
+  const logM = Math.log2(128 * 128);
+  const fftFactor = 3 * logM * eta / (1 - logM * eta) + u;
+  const kernel = fc
+    .constantFrom([11, 11], [13, 11], [9, 15], [15, 15], [31, 31])
+    .chain(([rows, cols]) => fc.tuple(fc.constant(rows), fc.constant(cols), weights(rows * cols), fc.constantFrom(1, 16), weight));
+  fc.assert(
+    fc.property(fc.tuple(fc.integer({ min: 1, max: 300 }), fc.integer({ min: 1, max: 160 })), sampleKind, seed, borderMode, kernel, ([w, h], kind, s, border, [rows, cols, flat, divisor, offset]) => {
+      const matrix = Array.from({ length: rows }, (_, j) => flat.slice(j * cols, (j + 1) * cols));
+      matrix[0][0] += 0.375;
+      const image = sampleImage(w, h, kind, s);
+      const k = kernelFromMatrix(matrix, divisor, offset);
+      const { plain, simd } = onBoth(() => correlate(image, k, border));
+      const bound = fftFactor * (l1(matrix.flat()) / divisor) * Math.SQRT2 * 128 * largestMagnitude(image.data);
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(bound + float32Tolerance(2, largestMagnitude(plain.data) + Math.abs(offset)));
+    }),
+    { numRuns: 40 },
+  );
+});
+
+test('a NaN or an infinity keeps a large kernel on the direct path: it reaches only the outputs whose window holds it', () => {
+  const image = sampleImage(60, 50, '8-bit', 7);
+  image.data[25 * 60 + 30] = NaN;
+  // No zero weight: 0·NaN is NaN, and the engines differ in whether they multiply by a zero weight at all.
+  const matrix = Array.from({ length: 11 }, (_, j) => Array.from({ length: 11 }, (_, i) => ((i * 7 + j * 3) % 5) - 2.25 + (i === j ? 1 : 0)));
+  const { plain, simd } = onBoth(() => correlate(image, kernelFromMatrix(matrix), 'reflect'));
+  expect(Number.isNaN(simd.data[0])).toBe(false);
+  expect(Number.isNaN(simd.data[25 * 60 + 30])).toBe(true);
+  expect(simd.data.map((v) => +Number.isNaN(v))).toEqual(plain.data.map((v) => +Number.isNaN(v)));
+});
+
 test('Gaussian blur: SIMD within float32 rounding of plain for sigma 0.3 to 4', () => {
   fc.assert(
     fc.property(imageSize, sampleKind, seed, borderMode, fc.double({ min: 0.3, max: 4, noNaN: true }), ([w, h], kind, s, border, sigma) => {

@@ -3,6 +3,7 @@
 // memory, which shared/vision/wasm/heap.ts manages from the JavaScript side.
 export { separable, laplacianOfGaussian, separableScratchBytes } from './separable';
 export { correlate2d, directScratchBytes } from './direct';
+export { correlateFft, fftScratchBytes, allFinite } from './fft';
 export { gradient, gradientScratchBytes } from './gradient';
 export { smoothedGradient, smoothedGradientScratchBytes } from './smoothed-gradient';
 export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked } from './threshold';

@@ -1,7 +1,6 @@
 // The plain engine's separable correlation against the definition it implements, written out here
-// term by term: out(x, y) = Σⱼ Σᵢ col[j]·row[i]·in(x+i−rx, y+j−ry) + offset with OpenCV's
-// BORDER_REFLECT_101 (gfedcb|abcdefgh|gfedcba), BORDER_REPLICATE and BORDER_CONSTANT (value 0)
-// positions (OpenCV imgproc documentation, "Image Filtering", border types; from memory).
+// term by term: out(x, y) = Σⱼ Σᵢ col[j]·row[i]·in(x+i−rx, y+j−ry) + offset, with the border
+// positions of plain-reference.ts (OpenCV's border types).
 // Symmetric kernels of radius 0 to 12 cover the unrolled passes (radius ≤ 3), the folded ones
 // (wider: rows at equal distance added first, four pairs per pass) and their remainders.
 // The engine sums in double precision in its own order and rounds once to float32, so it may differ
@@ -12,16 +11,7 @@ import type { BorderMode } from '../../../shared/rules/schema';
 import { correlateSeparable } from '../../../shared/vision/convolve';
 import type { Image } from '../../../shared/vision/image';
 import { borderMode, onEngine, sampleImage, sampleKind, seed } from './engines';
-
-/** Source position for p on a line of n samples, or −1 for the constant border's zero (written out from the border definitions above). */
-function sourcePosition(p: number, n: number, border: BorderMode): number {
-  if (p >= 0 && p < n) return p;
-  if (border === 'constant') return -1;
-  if (border === 'replicate' || n === 1) return p < 0 ? 0 : n - 1;
-  let q = p;
-  while (q < 0 || q >= n) q = q < 0 ? -q : 2 * (n - 1) - q;
-  return q;
-}
+import { sourcePosition } from './plain-reference';
 
 /** The exact double-precision sum for one output pixel, and Σ|wᵢ·xᵢ| for the error bound. */
 function definition(image: Image, column: number[], row: number[], border: BorderMode, offset: number, x: number, y: number): [number, number] {

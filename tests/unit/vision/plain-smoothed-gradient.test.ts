@@ -5,16 +5,10 @@
 // NaN compares equal to NaN: IEEE 754 leaves the payload of an operation's NaN result open.
 import fc from 'fast-check';
 import { gradient } from '../../../shared/vision/gradient';
-import type { Image } from '../../../shared/vision/image';
 import { gaussianBlur } from '../../../shared/vision/smoothing';
 import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
-
-/** The float32 bit patterns, every NaN as one value. */
-function canonicalBits(image: Image): number[] {
-  const bits = new Uint32Array(image.data.slice().buffer);
-  return Array.from(bits, (b, i) => (Number.isNaN(image.data[i]) ? -1 : b));
-}
+import { canonicalBits } from './plain-reference';
 
 const tallOrWide = fc.oneof(imageSize, fc.constantFrom([3, 70], [70, 3], [9, 41], [1, 30]));
 

@@ -1,0 +1,53 @@
+// The plain engine's 3×3 median against its definition: the 5th smallest of the nine values of the
+// neighbourhood (border positions as plain-reference.ts), bit for bit. Images without NaN or −0 take
+// the sorted-columns path (integer keys, branch-free minima and maxima), including negative values,
+// 8- and 16-bit samples and the constant border's zeros; awkward images (NaN, −0) keep the selection path.
+import fc from 'fast-check';
+import { medianFilter } from '../../../shared/vision/median';
+import { imageFromSamples } from '../../../shared/vision/image';
+import { borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
+import { canonicalBits, neighbourhood } from './plain-reference';
+
+test('plain 3×3 median is the 5th smallest of each neighbourhood, bit for bit, on images without NaN or −0', () => {
+  fc.assert(
+    fc.property(
+      imageSize,
+      fc.constantFrom<SampleKind>('8-bit', '16-bit', 'signed float', 'mask'),
+      seed,
+      borderMode,
+      ([w, h], kind, s, border) => {
+        const image = sampleImage(w, h, kind, s);
+        const out = onEngine('plain', () => medianFilter(image, 3, border));
+        const expected = new Float32Array(w * h);
+        for (let y = 0; y < h; y++) {
+          for (let x = 0; x < w; x++) expected[y * w + x] = neighbourhood(image, x, y, 3, border).sort((a, b) => a - b)[4];
+        }
+        expect(canonicalBits(out)).toEqual(canonicalBits({ width: w, height: h, data: expected }));
+      },
+    ),
+    { numRuns: 300 },
+  );
+});
+
+test('plain 3×3 median orders negative values, infinities and ties as numbers', () => {
+  // Hand-checked: every window of this 3×3 image under `replicate` holds the listed values.
+  const image = imageFromSamples(3, 3, [-5, Infinity, -Infinity, 2.5, -0.25, 7, 1e-30, -1e30, 3]);
+  const out = onEngine('plain', () => medianFilter(image, 3, 'replicate'));
+  const expected = Array.from({ length: 9 }, (_, p) => neighbourhood(image, p % 3, Math.floor(p / 3), 3, 'replicate').sort((a, b) => a - b)[4]);
+  expect(Array.from(out.data)).toEqual(expected.map((v) => Math.fround(v)));
+  // The centre window holds all nine values: sorted −∞, −1e30, −5, −0.25, 1e−30, 2.5, 3, 7, ∞.
+  expect(out.data[4]).toBe(Math.fround(1e-30));
+});
+
+test('plain 3×3 median of an image holding NaN or −0 keeps the selection path (no key comparison)', () => {
+  const image = sampleImage(17, 9, 'awkward', 5);
+  const out = onEngine('plain', () => medianFilter(image, 3, 'reflect'));
+  // Windows without NaN have a well-defined median value (±0 compare equal).
+  for (let y = 0; y < 9; y++) {
+    for (let x = 0; x < 17; x++) {
+      const values = neighbourhood(image, x, y, 3, 'reflect');
+      if (values.some(Number.isNaN)) continue;
+      expect(out.data[y * 17 + x] === Math.fround(values.sort((a, b) => a - b)[4])).toBe(true);
+    }
+  }
+});

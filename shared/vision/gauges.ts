@@ -69,7 +69,7 @@ function nonZeroShare(image: Image, spans: RowSpans): number {
 
 /** The measure in pixel units (px, px²) or unitless; NaN for statistics of an empty region. */
 export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpans): number {
-  const { width: w, data } = image;
+  const w = image.width;
   const height = spans.start.length;
   switch (measure) {
     case 'blob-count':
@@ -88,6 +88,8 @@ export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpa
     default:
       break;
   }
+  // Read only here: the blob and edge measures above may count a mask from its packed bits.
+  const data = image.data;
   let n = 0;
   let sum = 0;
   let min = Infinity;

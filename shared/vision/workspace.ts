@@ -18,7 +18,8 @@ export class ImageWorkspace {
   take(width: number, height: number): Image {
     const simd = simdKernels();
     const pixels = width * height;
-    const index = this.spare.findIndex((b) => (simd ? simd.owns(b) : !isResident(b)) && b.data.length === pixels);
+    // width × height, not data.length: reading a deferred mask's data would write its samples.
+    const index = this.spare.findIndex((b) => (simd ? simd.owns(b) : !isResident(b)) && b.width * b.height === pixels);
     if (index >= 0) {
       const [image] = this.spare.splice(index, 1);
       return image.width === width && image.height === height ? image : reshape(image, width, height);
@@ -28,10 +29,11 @@ export class ImageWorkspace {
 
   /** Hands a buffer back; the caller must not use the image afterwards. Detached buffers are ignored. */
   give(image: Image): void {
+    if (isResident(image)) image.discard();
     if (this.spare.some((b) => sameBuffer(b, image))) return;
     if (!isResident(image) && image.data.length === 0) return;
     // Keep the buffers of the latest size only: a station does not change its camera between photos.
-    if (this.spare.length > 0 && this.spare[0].data.length !== image.data.length) this.dispose();
+    if (this.spare.length > 0 && this.spare[0].width * this.spare[0].height !== image.width * image.height) this.dispose();
     if (this.spare.length < this.spareLimit) this.spare.push(image);
     else free(image);
   }
@@ -64,7 +66,9 @@ function sameBuffer(a: Image, b: Image): boolean {
 }
 
 function free(image: Image): void {
-  if (isResident(image) && image.heap.inUse(image.address)) image.heap.release(image.address);
+  if (!isResident(image)) return;
+  image.discard();
+  if (image.heap.inUse(image.address)) image.heap.release(image.address);
 }
 
 /** The same buffer seen with another width and height of the same pixel count. */

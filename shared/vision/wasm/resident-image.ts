@@ -1,11 +1,23 @@
 // An image whose samples live in the engine's WebAssembly memory, so that the SIMD kernels read and
 // write it in place. `data` is a view of that memory, renewed when the memory has grown (growing
 // replaces the memory's buffer and empties older views).
+// A mask written by the packed-bit morphology may keep its samples in packed bits (one bit per
+// pixel) until something reads them: the edge fraction and the blobs read the bits themselves, so
+// a rule run whose last step is such a mask never writes its float32 samples (20 MB at 5 MP).
 import type { Image } from '../image';
 import type { WasmHeap } from './heap';
 
+/** Samples not written yet, held as packed bits (32 pixels per int32, row by row) in a heap block. */
+export interface DeferredMask {
+  readonly words: number;
+  readonly wordsPerRow: number;
+  /** Writes the samples from the bits. */
+  unpack(): void;
+}
+
 export class ResidentImage implements Image {
   private view: Float32Array;
+  private deferred: DeferredMask | null = null;
 
   constructor(
     readonly heap: WasmHeap,
@@ -17,8 +29,37 @@ export class ResidentImage implements Image {
   }
 
   get data(): Float32Array {
+    this.settle();
     if (this.view.buffer !== this.heap.memory.buffer) this.view = this.heap.f32(this.address, this.width * this.height);
     return this.view;
+  }
+
+  /** The packed bits standing for the samples, while they are not written. */
+  get packedMask(): DeferredMask | null {
+    return this.deferred;
+  }
+
+  /** The samples will come from these bits when first read; the image owns the bits' block from now on. */
+  defer(mask: DeferredMask): void {
+    this.discard();
+    this.deferred = mask;
+  }
+
+  /** Writes deferred samples now (before a kernel reads the image's memory). */
+  settle(): void {
+    const mask = this.deferred;
+    if (!mask) return;
+    this.deferred = null;
+    mask.unpack();
+    this.heap.release(mask.words);
+  }
+
+  /** Drops deferred samples unwritten (before the image is overwritten or given up). */
+  discard(): void {
+    const mask = this.deferred;
+    if (!mask) return;
+    this.deferred = null;
+    this.heap.release(mask.words);
   }
 }
 

@@ -41,6 +41,7 @@ export interface EngineExports {
   packNonZero(src: number, w: number, h: number, words: number): void;
   qualitySums(src: number, w: number, h: number, top: number, out: number): void;
   countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
+  countSetBits(words: number, wordsPerRow: number, w: number, h: number, starts: number, ends: number): number;
   lumaRgb8(src: number, channels: number, n: number, dst: number, kr: number, kg: number, kb: number): void;
   box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
   boxScratchBytes(w: number, size: number): number;
@@ -175,7 +176,7 @@ export class SimdKernels {
     try {
       const s = this.addressOf(src, scope);
       const resident = this.owns(dst);
-      const d = resident ? dst.address : scope.alloc(4 * dst.data.length);
+      const d = resident ? this.outputAddress(dst) : scope.alloc(4 * dst.data.length);
       const network = size <= 5;
       const scratch = scope.alloc(network ? this.wasm.medianScratchBytes(src.width, size) : this.wasm.medianHistogramScratchBytes(src.width, size));
       const run = network ? this.wasm.median : this.wasm.medianHistogram;
@@ -265,11 +266,14 @@ export class SimdKernels {
    */
   binaryMorphology(src: Image, op: MorphologyOp, radius: number, border: BorderMode, out?: Image, packed?: PackedMask): Image | null {
     const { width: w, height: h } = src;
-    const count = ((w + 31) >>> 5) * h;
+    const wordsPerRow = (w + 31) >>> 5;
+    const count = wordsPerRow * h;
     const scope = new CallScope(this.heap);
     try {
       const first = scope.alloc(4 * count);
+      const bits = this.owns(src) ? src.packedMask : null;
       if (packed) this.heap.i32(first, count).set(packed.words);
+      else if (bits) this.heap.i32(first, count).set(this.heap.i32(bits.words, count));
       else if (this.wasm.packMask(this.addressOf(src, scope), w, h, first) === 0) return null;
       const second = scope.alloc(4 * count);
       const scratch = scope.alloc(this.wasm.packedScratchBytes(w));
@@ -285,8 +289,13 @@ export class SimdKernels {
         result = first;
       }
       const dst = imageLike(src, out === src ? undefined : out);
-      if (this.owns(dst)) this.wasm.unpackMask(result, dst.address, w, h);
-      else {
+      if (this.owns(dst)) {
+        // The samples stay in packed bits until something reads them (resident-image.ts).
+        const words = this.heap.alloc(4 * count);
+        this.heap.i32(words, count).set(this.heap.i32(result, count));
+        const target = this.outputAddress(dst);
+        dst.defer({ words, wordsPerRow, unpack: () => this.wasm.unpackMask(words, target, w, h) });
+      } else {
         const temp = scope.alloc(4 * w * h);
         this.wasm.unpackMask(result, temp, w, h);
         dst.data.set(this.heap.f32(temp, w * h));
@@ -299,6 +308,8 @@ export class SimdKernels {
 
   /** Bit i of word k of row y set where pixel (32k + i, y) is not 0 (NaN counts, −0 does not); a copy in ordinary memory. */
   nonZeroWords(image: Image): Int32Array {
+    const bits = this.owns(image) ? image.packedMask : null;
+    if (bits) return withoutTailBits(this.heap.i32(bits.words, bits.wordsPerRow * image.height).slice(), image.width, bits.wordsPerRow);
     return this.read(image, (s, scope) => {
       const count = ((image.width + 31) >>> 5) * image.height;
       const words = scope.alloc(4 * count);
@@ -319,6 +330,19 @@ export class SimdKernels {
 
   /** Pixels that are not 0 (NaN counts, −0 does not) in columns start[y] … end[y]−1 of each row y. */
   countNonZero(image: Image, start: Int32Array, end: Int32Array): number {
+    const bits = this.owns(image) ? image.packedMask : null;
+    if (bits) {
+      const scope = new CallScope(this.heap);
+      try {
+        const starts = scope.alloc(4 * image.height);
+        const ends = scope.alloc(4 * image.height);
+        this.heap.i32(starts, image.height).set(start);
+        this.heap.i32(ends, image.height).set(end);
+        return this.wasm.countSetBits(bits.words, bits.wordsPerRow, image.width, image.height, starts, ends);
+      } finally {
+        scope.end();
+      }
+    }
     return this.read(image, (s, scope) => {
       const starts = scope.alloc(4 * image.height);
       const ends = scope.alloc(4 * image.height);
@@ -342,7 +366,7 @@ export class SimdKernels {
       const src = scope.alloc(samples.length);
       new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
       const resident = this.owns(out);
-      const dst = resident ? out.address : scope.alloc(4 * pixels);
+      const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
       this.wasm.lumaRgb8(src, channels, pixels, dst, thousandths[0], thousandths[1], thousandths[2]);
       if (!resident) out.data.set(this.heap.f32(dst, pixels));
     } finally {
@@ -353,8 +377,17 @@ export class SimdKernels {
 
   /** Address of the image's samples in the module's memory: its own, or a copy for the call. */
   private addressOf(image: Image, scope: CallScope): number {
-    if (this.owns(image)) return image.address;
+    if (this.owns(image)) {
+      image.settle();
+      return image.address;
+    }
     return scope.f32(image.data);
+  }
+
+  /** Address of a resident image about to be overwritten (deferred samples it held are dropped). */
+  private outputAddress(image: ResidentImage): number {
+    image.discard();
+    return image.address;
   }
 
   private read<T>(image: Image, fn: (address: number, scope: CallScope) => T): T {
@@ -376,7 +409,7 @@ export class SimdKernels {
     try {
       const s = this.addressOf(src, scope);
       const resident = this.owns(dst);
-      const d = resident ? dst.address : scope.alloc(4 * dst.data.length);
+      const d = resident ? this.outputAddress(dst) : scope.alloc(4 * dst.data.length);
       kernel(s, d, scope);
       if (!resident && writesOutput) dst.data.set(this.heap.f32(d, dst.data.length));
     } finally {
@@ -384,4 +417,13 @@ export class SimdKernels {
     }
     return dst;
   }
+}
+
+/** Packed rows with the bits past the last column cleared (the morphology leaves them undefined). */
+function withoutTailBits(words: Int32Array, width: number, wordsPerRow: number): Int32Array {
+  const lastBits = width - ((wordsPerRow - 1) << 5);
+  if (lastBits === 32) return words;
+  const keep = (1 << lastBits) - 1;
+  for (let last = wordsPerRow - 1; last < words.length; last += wordsPerRow) words[last] &= keep;
+  return words;
 }

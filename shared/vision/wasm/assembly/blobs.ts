@@ -24,3 +24,29 @@ export function packNonZero(src: usize, w: i32, h: i32, words: usize): void {
     }
   }
 }
+
+/**
+ * Number of set bits of packed rows (as packNonZero writes them; bits past the last column ignored)
+ * in row y's columns start[y] … end[y]−1, summed over the rows: a mask's edge fraction from its bits.
+ */
+export function countSetBits(words: usize, wordsPerRow: i32, w: i32, h: i32, starts: usize, ends: usize): i32 {
+  let count = 0;
+  for (let y = 0; y < h; y++) {
+    const x0 = max(0, load<i32>(at(starts, y)));
+    const x1 = min(w, load<i32>(at(ends, y)));
+    if (x1 <= x0) continue;
+    const row = at(words, y * wordsPerRow);
+    const first = x0 >>> 5, last = (x1 - 1) >>> 5;
+    // Bits from x0 in the first word, up to x1 − 1 in the last.
+    const head = -1 << (x0 & 31);
+    const tail = <i32>(<u32>-1 >>> (31 - ((x1 - 1) & 31)));
+    if (first == last) {
+      count += popcnt(load<i32>(at(row, first)) & head & tail);
+      continue;
+    }
+    count += popcnt(load<i32>(at(row, first)) & head);
+    for (let k = first + 1; k < last; k++) count += popcnt(load<i32>(at(row, k)));
+    count += popcnt(load<i32>(at(row, last)) & tail);
+  }
+  return count;
+}

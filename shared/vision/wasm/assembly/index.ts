@@ -8,7 +8,7 @@ export { gradient, gradientScratchBytes } from './gradient';
 export { smoothedGradient, smoothedGradientScratchBytes } from './smoothed-gradient';
 export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked } from './threshold';
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
-export { packNonZero } from './blobs';
+export { packNonZero, countSetBits } from './blobs';
 export { qualitySums, countNonZero } from './statistics';
 export { lumaRgb8 } from './channels';
 export { box, boxScratchBytes } from './box';

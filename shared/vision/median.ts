@@ -9,6 +9,7 @@ import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border'
 import { padImage } from './convolve';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
+import { allOrdered, floatFromKey, keyOfFloatBits, maxKey, minKey } from './ordered-keys';
 
 const HISTOGRAM_LEVELS = 65536;
 
@@ -82,26 +83,12 @@ function medianByHistogram(src: Image, size: number, border: BorderMode, o: Floa
 }
 
 /**
- * True when no sample is NaN or −0. Then every value compares with every other one and equal values
- * have equal bits, so any exact selection of the k-th smallest gives the bits selectRank gives.
- */
-function allOrdered(data: Float32Array): boolean {
-  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
-  for (let p = 0; p < bits.length; p++) {
-    // NaN: exponent all ones and a non-zero fraction; −0: the sign bit alone.
-    const b = bits[p];
-    if ((b & 0x7fffffff) > 0x7f800000 || b === -0x80000000) return false;
-  }
-  return true;
-}
-
-/**
  * 3×3 median with each column of three sorted once per row (it serves three windows): the window's
  * median is the median of the largest of the three lows, the middle of the three middles and the
  * smallest of the three highs (the 3×3 sorting network: columns, rows, then the anti-diagonal;
  * common practice, from memory). Samples hold no NaN or −0 (see allOrdered), so they are compared
- * as integer keys that sort as the values do, with minima and maxima that need no branch (a
- * branch per comparison mispredicts on noisy pixels: four times slower, measured).
+ * as integer keys that sort as the values do (ordered-keys.ts), with minima and maxima that need no
+ * branch (a branch per comparison mispredicts on noisy pixels: four times slower, measured).
  */
 function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array): void {
   const { width: w, height: h, data } = src;
@@ -142,12 +129,12 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array)
       const minHigh0 = minKey(highs[x], highPair);
       const middle0 = maxKey(lowMiddle, minKey(highMiddle, middles[x]));
       const median0 = maxKey(minKey(maxLow0, middle0), minKey(maxKey(maxLow0, middle0), minHigh0));
-      out[base + x] = median0 ^ ((median0 >> 31) & 0x7fffffff);
+      out[base + x] = floatFromKey(median0);
       const maxLow1 = maxKey(lowPair, lows[x + 3]);
       const minHigh1 = minKey(highPair, highs[x + 3]);
       const middle1 = maxKey(lowMiddle, minKey(highMiddle, middles[x + 3]));
       const median1 = maxKey(minKey(maxLow1, middle1), minKey(maxKey(maxLow1, middle1), minHigh1));
-      out[base + x + 1] = median1 ^ ((median1 >> 31) & 0x7fffffff);
+      out[base + x + 1] = floatFromKey(median1);
     }
     for (; x < w; x++) {
       const maxLow = maxKey(maxKey(lows[x], lows[x + 1]), lows[x + 2]);
@@ -155,14 +142,13 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array)
       const m0 = middles[x], m1 = middles[x + 1], m2 = middles[x + 2];
       const middle = maxKey(minKey(m0, m1), minKey(maxKey(m0, m1), m2));
       const median = maxKey(minKey(maxLow, middle), minKey(maxKey(maxLow, middle), minHigh));
-      out[base + x] = median ^ ((median >> 31) & 0x7fffffff);
+      out[base + x] = floatFromKey(median);
     }
   }
 }
 
 /**
- * Sorts the columns x = from … to−1 of three rows of float32 bit patterns into keys at x + shift:
- * key = bits with the magnitude bits flipped for negative values, so that keys compare as the values.
+ * Sorts the columns x = from … to−1 of three rows of float32 bit patterns into keys (ordered-keys.ts) at x + shift.
  */
 function sortColumnKeys(
   a: Int32Array,
@@ -177,24 +163,15 @@ function sortColumnKeys(
 ): void {
   for (let x = from; x < to; x++) {
     const ba = a[x], bb = b[x], bc = c[x];
-    const u = ba ^ ((ba >> 31) & 0x7fffffff);
-    const v = bb ^ ((bb >> 31) & 0x7fffffff);
-    const t = bc ^ ((bc >> 31) & 0x7fffffff);
+    const u = keyOfFloatBits(ba);
+    const v = keyOfFloatBits(bb);
+    const t = keyOfFloatBits(bc);
     const lo = minKey(u, v);
     const hi = maxKey(u, v);
     lows[x + shift] = minKey(lo, t);
     highs[x + shift] = maxKey(hi, t);
     middles[x + shift] = maxKey(lo, minKey(hi, t));
   }
-}
-
-/** The smaller of two integers without a branch: −(q < p) is all ones exactly when q is smaller. */
-function minKey(p: number, q: number): number {
-  return p ^ ((p ^ q) & -(q < p));
-}
-
-function maxKey(p: number, q: number): number {
-  return p ^ ((p ^ q) & -(q > p));
 }
 
 function medianBySelection(src: Image, size: number, border: BorderMode, o: Float32Array): void {

@@ -9,6 +9,7 @@ import { binaryMorphology, type PackedMask } from './binary-morphology';
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { simdKernels } from './engine';
 import { createImage, imageLike, type Image } from './image';
+import { allOrdered, floatFromKey, keyOfFloatBits, minKey } from './ordered-keys';
 
 export function erode(src: Image, radius: number, border: BorderMode, out?: Image): Image {
   return binaryMorphology(src, 'erode', radius, border, out) ?? extremeFilter(src, radius, border, false, out);
@@ -46,6 +47,7 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
 function extremeFilter(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
   const simd = simdKernels();
   if (simd) return simd.extreme(src, r, border, takeMax, out);
+  if (allOrdered(src.data)) return extremeFilterByKeys(src, r, border, takeMax, imageLike(src, out === src ? undefined : out));
   const { width: w, height: h, data } = src;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
@@ -134,4 +136,86 @@ function horizontalMax(line: Float32Array, size: number, w: number, o: Float32Ar
     for (let i = 1; i < size; i++) if (line[x + i] > m) m = line[x + i];
     o[base + x] = m;
   }
+}
+
+/**
+ * extremeFilter for an image without NaN or −0: the samples as integer keys that sort as the values
+ * (ordered-keys.ts), so every minimum and maximum is exact and needs no branch (a branch per
+ * comparison mispredicts on noisy pixels). A maximum is the minimum of the keys' complements (~k
+ * reverses the order), so one minimum path serves both. Rows come in pairs: the 2r rows both windows
+ * share are folded once. Along the row, minima over runs of 1, 2, 4 … L keys (L the largest power of
+ * two within the window) are built in place, and each window is the minimum of two runs of L that
+ * cover it (the doubling of a sparse table: log₂L + 1 operations per pixel).
+ */
+function extremeFilterByKeys(src: Image, r: number, border: BorderMode, takeMax: boolean, dst: Image): Image {
+  const { width: w, height: h, data } = src;
+  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
+  const out = new Int32Array(dst.data.buffer, dst.data.byteOffset, dst.data.length);
+  const size = 2 * r + 1;
+  const n = w + 2 * r;
+  const flip = takeMax ? -1 : 0;
+  const rowOffsets = rowOffsetTable(h, w, r, r, border);
+  const colTable = borderTable(w, r, r, border);
+  const shared = new Int32Array(w);
+  const lineA = new Int32Array(n);
+  const lineB = new Int32Array(n);
+  let run = 1;
+  while (run * 2 <= size) run *= 2;
+  for (let y = 0; y < h; y += 2) {
+    const pair = y + 1 < h;
+    // Table entry t is image row t − r: window y spans entries y … y+2r, window y+1 entries y+1 … y+2r+1.
+    if (pair) {
+      foldRows(bits, rowOffsets, y + 1, y + size, w, flip, shared);
+      minWithRow(shared, bits, rowOffsets[y], w, flip, lineA, r);
+      minWithRow(shared, bits, rowOffsets[y + size], w, flip, lineB, r);
+    } else {
+      foldRows(bits, rowOffsets, y, y + size, w, flip, shared);
+      lineA.set(shared, r);
+    }
+    windowMinima(lineA, w, r, run, colTable, flip, out, y * w);
+    if (pair) windowMinima(lineB, w, r, run, colTable, flip, out, (y + 1) * w);
+  }
+  return dst;
+}
+
+/** acc[x] = the minimum key of table rows from … to−1 at column x (an outside row holds the value 0). */
+function foldRows(bits: Int32Array, rowOffsets: Int32Array, from: number, to: number, w: number, flip: number, acc: Int32Array): void {
+  const zero = flip;
+  for (let t = from; t < to; t++) {
+    const off = rowOffsets[t];
+    if (t === from) {
+      if (off === OUTSIDE) acc.fill(zero);
+      else for (let x = 0; x < w; x++) acc[x] = keyOfFloatBits(bits[off + x]) ^ flip;
+    } else if (off === OUTSIDE) {
+      for (let x = 0; x < w; x++) acc[x] = minKey(acc[x], zero);
+    } else {
+      for (let x = 0; x < w; x++) acc[x] = minKey(acc[x], keyOfFloatBits(bits[off + x]) ^ flip);
+    }
+  }
+}
+
+/** line[pad + x] = min(acc[x], key of the row at `off`). */
+function minWithRow(acc: Int32Array, bits: Int32Array, off: number, w: number, flip: number, line: Int32Array, pad: number): void {
+  if (off === OUTSIDE) {
+    for (let x = 0; x < w; x++) line[pad + x] = minKey(acc[x], flip);
+  } else {
+    for (let x = 0; x < w; x++) line[pad + x] = minKey(acc[x], keyOfFloatBits(bits[off + x]) ^ flip);
+  }
+}
+
+/** Fills the line's border, then out[base + x] = the minimum of line[x … x+2r], written back as float32 bits. */
+function windowMinima(line: Int32Array, w: number, r: number, run: number, colTable: Int32Array, flip: number, out: Int32Array, base: number): void {
+  const n = w + 2 * r;
+  for (let t = 0; t < r; t++) {
+    const left = colTable[t];
+    line[t] = left === OUTSIDE ? flip : line[r + left];
+    const right = colTable[r + w + t];
+    line[r + w + t] = right === OUTSIDE ? flip : line[r + right];
+  }
+  // In place, ascending: line[x + step] is still the shorter run when line[x] reads it.
+  for (let step = 1; step < run; step *= 2) {
+    for (let x = 0; x + step < n; x++) line[x] = minKey(line[x], line[x + step]);
+  }
+  const second = 2 * r + 1 - run;
+  for (let x = 0; x < w; x++) out[base + x] = floatFromKey(minKey(line[x], line[x + second]) ^ flip);
 }

@@ -1,0 +1,37 @@
+// float32 samples compared as 32-bit integers: with the magnitude bits flipped for negative values,
+// the bit patterns sort as the numbers do (−Infinity lowest, +Infinity highest), so minima and maxima
+// of keys are those of the values, computed without branches. Valid for images with no NaN (which no
+// order places) and no −0 (whose key would sort below +0's, while the values compare equal).
+
+/**
+ * True when no sample is NaN or −0. Then every value compares with every other one and equal values
+ * have equal bits, so any exact selection (minimum, maximum, median) gives the same bits.
+ */
+export function allOrdered(data: Float32Array): boolean {
+  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
+  for (let p = 0; p < bits.length; p++) {
+    // NaN: exponent all ones and a non-zero fraction; −0: the sign bit alone.
+    const b = bits[p];
+    if ((b & 0x7fffffff) > 0x7f800000 || b === -0x80000000) return false;
+  }
+  return true;
+}
+
+/** The key of a float32 bit pattern (its own inverse: floatFromKey). */
+export function keyOfFloatBits(bits: number): number {
+  return bits ^ ((bits >> 31) & 0x7fffffff);
+}
+
+/** The float32 bit pattern of a key. */
+export function floatFromKey(key: number): number {
+  return key ^ ((key >> 31) & 0x7fffffff);
+}
+
+/** The smaller of two integers without a branch: −(q < p) is all ones exactly when q is smaller. */
+export function minKey(p: number, q: number): number {
+  return p ^ ((p ^ q) & -(q < p));
+}
+
+export function maxKey(p: number, q: number): number {
+  return p ^ ((p ^ q) & -(q > p));
+}

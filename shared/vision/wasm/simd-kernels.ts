@@ -40,6 +40,7 @@ export interface EngineExports {
   packedScratchBytes(w: number): number;
   packNonZero(src: number, w: number, h: number, words: number): void;
   qualitySums(src: number, w: number, h: number, top: number, out: number): void;
+  qualitySumsWhole8(src: number, w: number, h: number, out: number): void;
   countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
   countSetBits(words: number, wordsPerRow: number, w: number, h: number, starts: number, ends: number): number;
   lumaRgb8(src: number, channels: number, n: number, dst: number, kr: number, kg: number, kb: number): void;
@@ -318,11 +319,16 @@ export class SimdKernels {
     });
   }
 
-  /** The quality gate's sums in double precision: Σv, the number of v ≥ top, Σlap and Σlap² (4-neighbour Laplacian, reflect border). */
+  /**
+   * The quality gate's sums in double precision: Σv, the number of v ≥ top, Σlap and Σlap²
+   * (4-neighbour Laplacian, reflect border). For 8-bit samples (whole numbers 0 … 255) they are
+   * whole numbers, computed exactly, as cheaper integer and float32 arithmetic allows.
+   */
   qualitySums(image: Image, top: number): { sum: number; clipped: number; lapSum: number; lapSquares: number } {
     return this.read(image, (s, scope) => {
       const out = scope.alloc(32);
-      this.wasm.qualitySums(s, image.width, image.height, top, out);
+      if (top === 255 && this.wasm.eightBitLevels(s, image.data.length) === 1) this.wasm.qualitySumsWhole8(s, image.width, image.height, out);
+      else this.wasm.qualitySums(s, image.width, image.height, top, out);
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, out, 4);
       return { sum, clipped, lapSum, lapSquares };
     });

@@ -10,9 +10,10 @@ import { createPackedMask } from '../../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../../shared/vision/blobs';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { gradient } from '../../../shared/vision/gradient';
-import { channelImage, type RawPhoto } from '../../../shared/vision/image';
+import { channelImage, createImage, type RawPhoto } from '../../../shared/vision/image';
 import { inputChannel } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
+import { qualityFigures } from '../../../shared/vision/quality';
 import { runRule } from '../../../shared/vision/pipeline';
 import { medianFilter } from '../../../shared/vision/median';
 import { boxFilter } from '../../../shared/vision/smoothing';
@@ -65,6 +66,20 @@ test('luma of every one of the 2²⁴ 8-bit colours: the SIMD kernel\'s whole-nu
     if (!same) expect({ red, simd: Array.from(simd.data.slice(0, 8)) }).toEqual({ red, simd: Array.from(plain.data.slice(0, 8)) });
     expect(same).toBe(true);
   }
+});
+
+test('quality gate of 8-bit images: whole-number sums, so the same focus, clipped share and mean as the plain engine, exactly', () => {
+  // Wide rows (over 8·64 inner columns) pass through the kernel's int32-to-int64 flush.
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 513, max: 900 }), fc.integer({ min: 1, max: 4 })));
+  fc.assert(
+    fc.property(size, seed, fc.boolean(), ([w, h], s, clip) => {
+      const rand = seededRandom(s);
+      const image = createImage(w, h, Float32Array.from({ length: w * h }, () => (clip && rand() < 0.2 ? 255 : Math.floor(rand() * 256))));
+      const { plain, simd } = onBoth(() => qualityFigures(image, 8));
+      expect(simd).toEqual(plain);
+    }),
+    RUNS,
+  );
 });
 
 test('fixed threshold: the same mask bits, the threshold a sample value, between two, NaN or infinite', () => {

@@ -71,6 +71,84 @@ export function qualitySums(src: usize, w: i32, h: i32, top: f32, out: usize): v
   store<f64>(out, lapSquaresScalar + f64x2.extract_lane(lapSquares, 0) + f64x2.extract_lane(lapSquares, 1), 24);
 }
 
+/** 1.5·2²³: adding it to a whole number n with |n| < 2²² leaves 0x4b400000 + n in the float32's bits. */
+const WHOLE_MAGIC: f32 = 12582912.0;
+const WHOLE_MAGIC_BITS: i32 = 0x4b400000;
+
+/**
+ * qualitySums for an image whose every value is a whole number in 0 … 255 (top 255), exactly: the
+ * Laplacian is a whole number (|lap| ≤ 2040) and so is every sum (Σlap² ≤ 2040²·n stays below 2⁵³
+ * for any photo the server takes), so they equal the plain engine's double-precision sums in any
+ * order. Per row, Σv and Σlap add up in float32 lanes (whole numbers below 2²⁴); lap² in int32 lanes, then int64.
+ */
+export function qualitySumsWhole8(src: usize, w: i32, h: i32, out: usize): void {
+  let total: f64 = 0, lapTotal: f64 = 0;
+  let squares = i64x2.splat(0);
+  let squaresScalar: i64 = 0;
+  let clippedLanes = i32x4.splat(0);
+  let clipped: i32 = 0;
+  const top = f32x4.splat(255), four = f32x4.splat(4), magic = f32x4.splat(WHOLE_MAGIC), magicBits = i32x4.splat(WHOLE_MAGIC_BITS);
+  for (let y = 0; y < h; y++) {
+    const c = at(src, y * w);
+    const up = at(src, borderIndex(y - 1, h, REFLECT) * w);
+    const down = at(src, borderIndex(y + 1, h, REFLECT) * w);
+    let rowSum = f32x4.splat(0), rowLap = f32x4.splat(0);
+    let sumScalar: f32 = 0, lapScalar: f32 = 0;
+    if (w == 1) {
+      const v = load<f32>(c);
+      const lap = load<f32>(up) + load<f32>(down) - 2 * v;
+      total += <f64>v;
+      lapTotal += <f64>lap;
+      squaresScalar += <i64>(lap * lap);
+      clipped += v >= 255 ? 1 : 0;
+      continue;
+    }
+    const v0 = load<f32>(c), vLast = load<f32>(at(c, w - 1));
+    const first = load<f32>(up) + load<f32>(down) + 2 * load<f32>(at(c, 1)) - 4 * v0;
+    const last = load<f32>(at(up, w - 1)) + load<f32>(at(down, w - 1)) + 2 * load<f32>(at(c, w - 2)) - 4 * vLast;
+    sumScalar += v0 + vLast;
+    lapScalar += first + last;
+    squaresScalar += <i64>(first * first) + <i64>(last * last);
+    clipped += (v0 >= 255 ? 1 : 0) + (vLast >= 255 ? 1 : 0);
+    // Eight pixels a step: the two Laplacians as int16 (|lap| ≤ 2040), squared and added in pairs by one
+    // dot product into int32 lanes, which take at most 2·2040² per step: flushed to int64 every 64 steps.
+    let x = 1;
+    let block = i32x4.splat(0);
+    let steps = 0;
+    for (; x + 8 <= w - 1; x += 8) {
+      const o = (<usize>x) << 2;
+      const m = v128.load(c + o), n = v128.load(c + o, 16);
+      const lapA = f32x4.sub(f32x4.add(f32x4.add(f32x4.add(v128.load(up + o), v128.load(down + o)), v128.load(c + o - 4)), v128.load(c + o + 4)), f32x4.mul(four, m));
+      const lapB = f32x4.sub(f32x4.add(f32x4.add(f32x4.add(v128.load(up + o, 16), v128.load(down + o, 16)), v128.load(c + o + 12)), v128.load(c + o + 20)), f32x4.mul(four, n));
+      rowSum = f32x4.add(rowSum, f32x4.add(m, n));
+      rowLap = f32x4.add(rowLap, f32x4.add(lapA, lapB));
+      clippedLanes = i32x4.sub(i32x4.sub(clippedLanes, f32x4.ge(m, top)), f32x4.ge(n, top));
+      const laps = i16x8.narrow_i32x4_s(i32x4.sub(f32x4.add(lapA, magic), magicBits), i32x4.sub(f32x4.add(lapB, magic), magicBits));
+      block = i32x4.add(block, i32x4.dot_i16x8_s(laps, laps));
+      if (++steps == 64) {
+        squares = i64x2.add(squares, i64x2.add(i64x2.extend_low_i32x4_s(block), i64x2.extend_high_i32x4_s(block)));
+        block = i32x4.splat(0);
+        steps = 0;
+      }
+    }
+    squares = i64x2.add(squares, i64x2.add(i64x2.extend_low_i32x4_s(block), i64x2.extend_high_i32x4_s(block)));
+    for (; x < w - 1; x++) {
+      const m = load<f32>(at(c, x));
+      const lap = load<f32>(at(up, x)) + load<f32>(at(down, x)) + load<f32>(at(c, x - 1)) + load<f32>(at(c, x + 1)) - 4 * m;
+      sumScalar += m;
+      lapScalar += lap;
+      squaresScalar += <i64>(lap * lap);
+      clipped += m >= 255 ? 1 : 0;
+    }
+    total += <f64>sumScalar + <f64>f32x4.extract_lane(rowSum, 0) + <f64>f32x4.extract_lane(rowSum, 1) + <f64>f32x4.extract_lane(rowSum, 2) + <f64>f32x4.extract_lane(rowSum, 3);
+    lapTotal += <f64>lapScalar + <f64>f32x4.extract_lane(rowLap, 0) + <f64>f32x4.extract_lane(rowLap, 1) + <f64>f32x4.extract_lane(rowLap, 2) + <f64>f32x4.extract_lane(rowLap, 3);
+  }
+  store<f64>(out, total);
+  store<f64>(out, <f64>(clipped + i32x4.extract_lane(clippedLanes, 0) + i32x4.extract_lane(clippedLanes, 1) + i32x4.extract_lane(clippedLanes, 2) + i32x4.extract_lane(clippedLanes, 3)), 8);
+  store<f64>(out, lapTotal, 16);
+  store<f64>(out, <f64>(squaresScalar + i64x2.extract_lane(squares, 0) + i64x2.extract_lane(squares, 1)), 24);
+}
+
 /** up + down + left + right − 4·centre, in this order. */
 @inline
 function laplacianPair(up: v128, down: v128, left: v128, right: v128, centre: v128, four: v128): v128 {

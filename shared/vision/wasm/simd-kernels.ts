@@ -29,7 +29,8 @@ export interface EngineExports {
   smoothedGradientScratchBytes(w: number, colLen: number, rowLen: number): number;
   eightBitLevels(src: number, n: number): number;
   valueRange(src: number, n: number, out: number): void;
-  histogram(src: number, n: number, origin: number, scale: number, partial: number): void;
+  histogram(src: number, n: number, origin: number, scale: number, partial: number, bins: number): void;
+  thresholdBinsPacked(bins: number, w: number, h: number, k: number, invert: number, words: number): void;
   thresholdAt(src: number, dst: number, n: number, cut: number, invert: number): void;
   thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number, writeMask: number): void;
   extreme(src: number, dst: number, w: number, h: number, r: number, mode: number, takeMax: number, scratch: number): void;
@@ -223,18 +224,45 @@ export class SimdKernels {
     });
   }
 
-  /** counts[min(255, trunc((v − origin)·scale))]++ for every v (computed in double precision; NaN counts in bin 0). */
-  histogram(image: Image, origin: number, scale: number): Float64Array {
+  /**
+   * counts[min(255, trunc((v − origin)·scale))]++ for every v (computed in double precision; NaN
+   * counts in bin 0). With keepBins, every pixel's bin also goes as a byte into a block of the
+   * module's memory (`bins`, for thresholdBins; the caller frees it with releaseBlock).
+   */
+  histogram(image: Image, origin: number, scale: number, keepBins = false): { counts: Float64Array; bins?: number } {
     return this.read(image, (s, scope) => {
       const partial = scope.alloc(4 * HISTOGRAM_TABLES * PARTIAL_STRIDE);
-      this.wasm.histogram(s, image.data.length, origin, scale, partial);
+      const n = image.width * image.height;
+      // 32 spare bytes: thresholdBinsPacked reads two vectors from the last word's start.
+      const bins = keepBins ? this.heap.alloc(n + 32) : 0;
+      this.wasm.histogram(s, n, origin, scale, partial, bins);
       const sums = this.heap.i32(partial, HISTOGRAM_TABLES * PARTIAL_STRIDE);
       const counts = new Float64Array(HISTOGRAM_BINS);
       for (let table = 0; table < HISTOGRAM_TABLES; table++) {
         for (let bin = 0; bin < PARTIAL_STRIDE; bin++) counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += sums[table * PARTIAL_STRIDE + bin];
       }
-      return counts;
+      return keepBins ? { counts, bins } : { counts };
     });
+  }
+
+  /**
+   * The packed mask of "bin above k" (swapped with invert) from the bins `histogram` kept; `out`
+   * is the mask image, whose samples are left as they were (undefined: only the bits are wanted).
+   */
+  thresholdBins(bins: number, width: number, height: number, k: number, invert: boolean, packed: PackedMask, out: Image): void {
+    if (this.owns(out)) out.discard();
+    const scope = new CallScope(this.heap);
+    try {
+      const words = scope.alloc(4 * packed.words.length);
+      this.wasm.thresholdBinsPacked(bins, width, height, k, invert ? 1 : 0, words);
+      packed.words.set(this.heap.i32(words, packed.words.length));
+    } finally {
+      scope.end();
+    }
+  }
+
+  releaseBlock(address: number): void {
+    this.heap.release(address);
   }
 
   /**

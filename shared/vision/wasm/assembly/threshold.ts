@@ -65,9 +65,10 @@ export const HISTOGRAM_TABLES: i32 = 8;
  * Counts bin(v) = trunc((v − origin)·scale), computed in double precision as the plain engine does
  * (so both put every value in the same bin; NaN goes to bin 0), into eight partial histograms of
  * 257 int32 at partial (zeroed here): pixel p goes to table p mod 8, so that equal neighbours do not
- * wait on one counter.
+ * wait on one counter. When bins ≠ 0 each pixel's bin also goes there as a byte (256, a value at the
+ * maximum, as 255: Otsu's chosen bin is at most 254, so the mask is the same), for `thresholdBinsPacked`.
  */
-export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: usize): void {
+export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: usize, bins: usize): void {
   memory.fill(partial, 0, 4 * HISTOGRAM_TABLES * PARTIAL_STRIDE);
   const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
   const top = i32x4.splat(PARTIAL_STRIDE - 1);
@@ -76,11 +77,16 @@ export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: 
   // From origin 0 (a gradient magnitude's usual minimum) v − 0 is v for every float32, so the
   // subtraction goes (about 5 % of the pass).
   const fromZero = origin == 0;
+  const zero16 = i16x8.splat(0);
   let p = 0;
   for (; p + 8 <= n; p += 8) {
     const va = v128.load(at(src, p)), vb = v128.load(at(src, p + 4));
     const a = fromZero ? binsFromZero(va, vs, top) : binsOf(va, vo, vs, top);
     const b = fromZero ? binsFromZero(vb, vs, top) : binsOf(vb, vo, vs, top);
+    if (bins != 0) {
+      const bytes = i8x16.narrow_i16x8_u(i16x8.narrow_i32x4_u(a, b), zero16);
+      store<i64>(bins + <usize>p, i64x2.extract_lane(bytes, 0));
+    }
     count(partial, i32x4.extract_lane(a, 0));
     count(partial + stride, i32x4.extract_lane(a, 1));
     count(partial + 2 * stride, i32x4.extract_lane(a, 2));
@@ -92,7 +98,32 @@ export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: 
   }
   for (; p < n; p++) {
     const scaled = f64x2.splat((<f64>load<f32>(at(src, p)) - origin) * scale);
-    count(partial, i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0));
+    const bin = i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0);
+    count(partial, bin);
+    if (bins != 0) store<u8>(bins + <usize>p, <u8>min(bin, 255));
+  }
+}
+
+/**
+ * The packed mask of "bin above k" from the bytes `histogram` wrote for a w×h image (swapped with
+ * invert): 32 pixels from two 16-byte compares. Bit i of word j of row y is pixel (32j + i, y); bits
+ * past the last column are 0. The bytes need 32 spare bytes after the last.
+ */
+export function thresholdBinsPacked(bins: usize, w: i32, h: i32, k: i32, invert: i32, words: usize): void {
+  const vk = i8x16.splat(<i8>k);
+  const wordsPerRow = (w + 31) >>> 5;
+  const whole = invert ? -1 : 0;
+  for (let y = 0; y < h; y++) {
+    const row = bins + <usize>(y * w);
+    for (let j = 0; j < wordsPerRow; j++) {
+      const x0 = j << 5;
+      const count = min(32, w - x0);
+      const low = i8x16.bitmask(i8x16.gt_u(v128.load(row + <usize>x0), vk));
+      const high = i8x16.bitmask(i8x16.gt_u(v128.load(row + <usize>x0, 16), vk));
+      // Bits past the row's end read the next row's bytes: cleared.
+      const valid = count == 32 ? -1 : (1 << count) - 1;
+      store<i32>(at(words, y * wordsPerRow + j), ((low | (high << 16)) ^ whole) & valid);
+    }
   }
 }
 

@@ -35,7 +35,17 @@ export function laplacian(src: Image, neighbours: 4 | 8, border: BorderMode, out
       const cRight = rightColumn === OUTSIDE ? 0 : centre[rightColumn];
       let cPrev = leftColumn === OUTSIDE ? 0 : centre[leftColumn];
       let cCur = centre[0];
-      for (let x = 0; x < last; x++) {
+      // Two pixels per iteration (measured faster than one), then the rest.
+      let x = 0;
+      for (; x + 1 < last; x += 2) {
+        const c1 = centre[x + 1];
+        const c2 = centre[x + 2];
+        o[base + x] = up[x] + down[x] + cPrev + c1 - 4 * cCur;
+        o[base + x + 1] = up[x + 1] + down[x + 1] + cCur + c2 - 4 * c1;
+        cPrev = c1;
+        cCur = c2;
+      }
+      for (; x < last; x++) {
         const cNext = centre[x + 1];
         o[base + x] = up[x] + down[x] + cPrev + cNext - 4 * cCur;
         cPrev = cCur;
@@ -47,7 +57,16 @@ export function laplacian(src: Image, neighbours: 4 | 8, border: BorderMode, out
       const vRight = rightColumn === OUTSIDE ? 0 : up[rightColumn] + centre[rightColumn] + down[rightColumn];
       let vPrev = leftColumn === OUTSIDE ? 0 : up[leftColumn] + centre[leftColumn] + down[leftColumn];
       let vCur = up[0] + centre[0] + down[0];
-      for (let x = 0; x < last; x++) {
+      let x = 0;
+      for (; x + 1 < last; x += 2) {
+        const v1 = up[x + 1] + centre[x + 1] + down[x + 1];
+        const v2 = up[x + 2] + centre[x + 2] + down[x + 2];
+        o[base + x] = vPrev + vCur + v1 - 9 * centre[x];
+        o[base + x + 1] = vCur + v1 + v2 - 9 * centre[x + 1];
+        vPrev = v1;
+        vCur = v2;
+      }
+      for (; x < last; x++) {
         const vNext = up[x + 1] + centre[x + 1] + down[x + 1];
         o[base + x] = vPrev + vCur + vNext - 9 * centre[x];
         vPrev = vCur;

@@ -145,7 +145,8 @@ function horizontalMax(line: Float32Array, size: number, w: number, o: Float32Ar
  * reverses the order), so one minimum path serves both. Rows come in pairs: the 2r rows both windows
  * share are folded once. Along the row, minima over runs of 1, 2, 4 … L keys (L the largest power of
  * two within the window) are built in place, and each window is the minimum of two runs of L that
- * cover it (the doubling of a sparse table: log₂L + 1 operations per pixel).
+ * cover it (log₂L + 1 operations per pixel: the sparse table of range-minimum queries, M. A. Bender
+ * and M. Farach-Colton, "The LCA Problem Revisited", LATIN 2000).
  */
 function extremeFilterByKeys(src: Image, r: number, border: BorderMode, takeMax: boolean, dst: Image): Image {
   const { width: w, height: h, data } = src;

@@ -45,8 +45,8 @@ function boxPass(src: Image, size: number, border: BorderMode, dst: Image, compa
   const o = dst.data;
   const rowOffsets = rowOffsetTable(h, w, r, r + 1, border);
   const colTable = borderTable(w, r, r, border);
-  // Two spare zeros at the end: the odd running sum reads up to two entries past the last window.
-  const sums = new Float64Array(w + 2 * r + 2);
+  // Three spare zeros at the end: the running sums read up to three entries past the last window.
+  const sums = new Float64Array(w + 2 * r + 3);
   const scale = 1 / (size * size);
   // Column sums for output row 0: rows −r … r.
   for (let t = 0; t < size; t++) {
@@ -63,7 +63,12 @@ function boxPass(src: Image, size: number, border: BorderMode, dst: Image, compa
     const add = rowOffsets[y + size];
     const drop = rowOffsets[y];
     if (add !== OUTSIDE && drop !== OUTSIDE) {
-      for (let x = 0; x < w; x++) sums[r + x] += data[add + x] - data[drop + x];
+      let x = 0;
+      for (; x + 1 < w; x += 2) {
+        sums[r + x] += data[add + x] - data[drop + x];
+        sums[r + x + 1] += data[add + x + 1] - data[drop + x + 1];
+      }
+      if (x < w) sums[r + x] += data[add + x] - data[drop + x];
     } else if (add !== OUTSIDE) {
       for (let x = 0; x < w; x++) sums[r + x] += data[add + x];
     } else if (drop !== OUTSIDE) {
@@ -78,12 +83,20 @@ function windowMeans(sums: Float64Array, size: number, w: number, scale: number,
   let even = 0;
   for (let i = 0; i < size; i++) even += sums[i];
   let odd = even + sums[size] - sums[0];
+  // The four sums entering and leaving each pair of windows rotate through locals: each entry is read twice, not four times.
+  let a0 = sums[0], a1 = sums[1], b0 = sums[size], b1 = sums[size + 1];
   let x = 0;
   for (; x + 1 < w; x += 2) {
     o[base + x] = even * scale;
     o[base + x + 1] = odd * scale;
-    even += sums[x + size] + sums[x + size + 1] - (sums[x] + sums[x + 1]);
-    odd += sums[x + size + 1] + sums[x + size + 2] - (sums[x + 1] + sums[x + 2]);
+    const a2 = sums[x + 2];
+    const b2 = sums[x + size + 2];
+    even += b0 + b1 - (a0 + a1);
+    odd += b1 + b2 - (a1 + a2);
+    a0 = a2;
+    a1 = sums[x + 3];
+    b0 = b2;
+    b1 = sums[x + size + 3];
   }
   if (x < w) o[base + x] = even * scale;
 }
@@ -93,12 +106,19 @@ function windowMask(sums: Float64Array, size: number, w: number, scale: number, 
   let even = 0;
   for (let i = 0; i < size; i++) even += sums[i];
   let odd = even + sums[size] - sums[0];
+  let a0 = sums[0], a1 = sums[1], b0 = sums[size], b1 = sums[size + 1];
   let x = 0;
   for (; x + 1 < w; x += 2) {
     o[base + x] = flip ^ +(s[base + x] > Math.fround(even * scale) - c);
     o[base + x + 1] = flip ^ +(s[base + x + 1] > Math.fround(odd * scale) - c);
-    even += sums[x + size] + sums[x + size + 1] - (sums[x] + sums[x + 1]);
-    odd += sums[x + size + 1] + sums[x + size + 2] - (sums[x + 1] + sums[x + 2]);
+    const a2 = sums[x + 2];
+    const b2 = sums[x + size + 2];
+    even += b0 + b1 - (a0 + a1);
+    odd += b1 + b2 - (a1 + a2);
+    a0 = a2;
+    a1 = sums[x + 3];
+    b0 = b2;
+    b1 = sums[x + size + 3];
   }
   if (x < w) o[base + x] = flip ^ +(s[base + x] > Math.fround(even * scale) - c);
 }

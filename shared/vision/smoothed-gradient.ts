@@ -34,7 +34,7 @@ export function gaussianGradient(
   return sweepPlain(src, sigma, operator, output, border, out, range);
 }
 
-/** Smoothed rows go into a ring of eight (rows y−1 … y+4 are alive: the sweep makes up to four at a time). */
+/** Smoothed rows go into a ring of eight (rows y−1 … y+5 are alive: the gradient takes two rows, the sweep makes up to four at a time). */
 const RING = 8;
 
 function sweepPlain(src: Image, sigma: number, operator: GradientOperator, output: GradientOutput, border: BorderMode, out?: Image, range?: ValueRange): Image {
@@ -52,9 +52,16 @@ function sweepPlain(src: Image, sigma: number, operator: GradientOperator, outpu
   const rowTable = borderTable(h, 1, 1, border);
   let made = 0;
   for (let y = 0; y < h; y++) {
-    // Rows y−1 … y+1 (as far as they exist) are made before row y's gradient reads them.
-    while (made < Math.min(h, y + 2)) made += smoothing.next(ring, at);
     const up = rowTable[y];
+    if (y + 1 < h) {
+      // Rows y−1 … y+2 (as far as they exist) are made before the gradient of rows y and y+1 reads them.
+      while (made < Math.min(h, y + 3)) made += smoothing.next(ring, at);
+      const below = rowTable[y + 3];
+      rows.writePair(ring, up === OUTSIDE ? zeros : at(up), at(y), at(y + 1), below === OUTSIDE ? zeros : at(below), o, y * w);
+      y++;
+      continue;
+    }
+    while (made < Math.min(h, y + 2)) made += smoothing.next(ring, at);
     const down = rowTable[y + 2];
     rows.write(ring, up === OUTSIDE ? zeros : at(up), at(y), down === OUTSIDE ? zeros : at(down), o, y * w);
   }

@@ -314,10 +314,18 @@ function verticalFolded(rows: Float32Array[], k: Float64Array, r: number, w: num
       line[pad + x] += ka * (ua[x] + va[x]) + kb * (ub[x] + vb[x]) + kc * (uc[x] + vc[x]) + kd * (ud[x] + vd[x]);
     }
   }
-  for (; j <= r; j++) {
-    const kj = k[r + j];
-    const u = rows[r - j], v = rows[r + j];
-    for (let x = 0; x < w; x++) line[pad + x] += kj * (u[x] + v[x]);
+  // The last one to three pairs in one pass.
+  if (j > r) return;
+  const ka = k[r + j], ua = rows[r - j], va = rows[r + j];
+  if (j + 2 === r) {
+    const kb = k[r + j + 1], kc = k[r + j + 2];
+    const ub = rows[r - j - 1], vb = rows[r + j + 1], uc = rows[r - j - 2], vc = rows[r + j + 2];
+    for (let x = 0; x < w; x++) line[pad + x] += ka * (ua[x] + va[x]) + kb * (ub[x] + vb[x]) + kc * (uc[x] + vc[x]);
+  } else if (j + 1 === r) {
+    const kb = k[r + j + 1], ub = rows[r - j - 1], vb = rows[r + j + 1];
+    for (let x = 0; x < w; x++) line[pad + x] += ka * (ua[x] + va[x]) + kb * (ub[x] + vb[x]);
+  } else {
+    for (let x = 0; x < w; x++) line[pad + x] += ka * (ua[x] + va[x]);
   }
 }
 
@@ -336,10 +344,17 @@ function verticalFoldedStrided(d: Float32Array, centre: number, w: number, k: Fl
       line[pad + x] += ka * (d[p - da] + d[p + da]) + kb * (d[p - db] + d[p + db]) + kc * (d[p - dc] + d[p + dc]) + kd * (d[p - dd] + d[p + dd]);
     }
   }
-  for (; j <= r; j++) {
-    const kj = k[r + j];
-    const dj = j * w;
-    for (let x = 0, p = centre; x < w; x++, p++) line[pad + x] += kj * (d[p - dj] + d[p + dj]);
+  // The last one to three pairs in one pass.
+  if (j > r) return;
+  const ka = k[r + j], da = j * w;
+  if (j + 2 === r) {
+    const kb = k[r + j + 1], kc = k[r + j + 2], db = da + w, dc = db + w;
+    for (let x = 0, p = centre; x < w; x++, p++) line[pad + x] += ka * (d[p - da] + d[p + da]) + kb * (d[p - db] + d[p + db]) + kc * (d[p - dc] + d[p + dc]);
+  } else if (j + 1 === r) {
+    const kb = k[r + j + 1], db = da + w;
+    for (let x = 0, p = centre; x < w; x++, p++) line[pad + x] += ka * (d[p - da] + d[p + da]) + kb * (d[p - db] + d[p + db]);
+  } else {
+    for (let x = 0, p = centre; x < w; x++, p++) line[pad + x] += ka * (d[p - da] + d[p + da]);
   }
 }
 
@@ -405,12 +420,27 @@ function horizontalFolded(line: Float64Array, k: Float64Array, r: number, w: num
       sums[x] += ka * (line[left] + line[right]) + kb * (line[left - 1] + line[right + 1]) + kc * (line[left - 2] + line[right + 2]) + kd * (line[left - 3] + line[right + 3]);
     }
   }
-  for (; j <= r; j++) {
-    const kj = k[r + j];
-    const lo = r - j, hi = r + j;
-    for (let x = 0; x < w; x++) sums[x] += kj * (line[x + lo] + line[x + hi]);
+  // The last one to three pairs in the pass that writes the output (no pairs left: a pass of its own).
+  if (j > r) {
+    for (let x = 0; x < w; x++) o[base + x] = sums[x] + offset;
+    return;
   }
-  for (let x = 0; x < w; x++) o[base + x] = sums[x] + offset;
+  const ka = k[r + j], lo = r - j, hi = r + j;
+  if (j + 2 === r) {
+    const kb = k[r + j + 1], kc = k[r + j + 2];
+    for (let x = 0; x < w; x++) {
+      const left = x + lo, right = x + hi;
+      o[base + x] = sums[x] + (ka * (line[left] + line[right]) + kb * (line[left - 1] + line[right + 1]) + kc * (line[left - 2] + line[right + 2])) + offset;
+    }
+  } else if (j + 1 === r) {
+    const kb = k[r + j + 1];
+    for (let x = 0; x < w; x++) {
+      const left = x + lo, right = x + hi;
+      o[base + x] = sums[x] + (ka * (line[left] + line[right]) + kb * (line[left - 1] + line[right + 1])) + offset;
+    }
+  } else {
+    for (let x = 0; x < w; x++) o[base + x] = sums[x] + ka * (line[x + lo] + line[x + hi]) + offset;
+  }
 }
 
 function horizontalGeneral(line: Float64Array, k: Float64Array, w: number, o: Float32Array, base: number, offset: number): void {

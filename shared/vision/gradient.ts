@@ -298,8 +298,9 @@ function magnitudeRow(s: Float32Array, du: number, c: number, dd: number, w: num
   const gy = a * (tPrev + ends[3]) + b * tCur;
   const m = Math.sqrt(gx * gx + gy * gy);
   o[base + last] = m;
-  extremes[0] = m < lo ? m : lo;
-  extremes[1] = m > hi ? m : hi;
+  extremes[0] = lo;
+  extremes[1] = hi;
+  widenRange(extremes, m);
 }
 
 function sobelMagnitudeRow(s: Float32Array, du: number, c: number, dd: number, w: number, ends: Float64Array, o: Float32Array, base: number, extremes: Float64Array): void {
@@ -362,8 +363,9 @@ function sobelMagnitudeRow(s: Float32Array, du: number, c: number, dd: number, w
   const gy = tPrev + ends[3] + (tCur + tCur);
   const m = Math.sqrt(gx * gx + gy * gy);
   o[base + last] = m;
-  extremes[0] = m < lo ? m : lo;
-  extremes[1] = m > hi ? m : hi;
+  extremes[0] = lo;
+  extremes[1] = hi;
+  widenRange(extremes, m);
 }
 
 /**
@@ -421,10 +423,22 @@ function sobelMagnitudeRowPair(s: Float32Array, du: number, c: number, dd: numbe
   const m1 = Math.sqrt(gx1 * gx1 + gy1 * gy1);
   o[base + last] = m0;
   o[base + w + last] = m1;
-  lo = m0 < lo ? m0 : lo;
-  hi = m0 > hi ? m0 : hi;
-  extremes[0] = m1 < lo ? m1 : lo;
-  extremes[1] = m1 > hi ? m1 : hi;
+  extremes[0] = lo;
+  extremes[1] = hi;
+  widenRange(extremes, m0);
+  widenRange(extremes, m1);
+}
+
+/**
+ * The last column's magnitude into the range, NaN skipped as in the loops. Through Number.isNaN and
+ * Math.min/max, not comparisons: a comparison here, reached once per row, may have seen only small
+ * whole numbers (the first rows' edges are often 0) and been compiled for them, and the row function
+ * was then seen leaving its compiled code at every row, taking twice the time.
+ */
+function widenRange(extremes: Float64Array, m: number): void {
+  if (Number.isNaN(m)) return;
+  extremes[0] = Math.min(extremes[0], m);
+  extremes[1] = Math.max(extremes[1], m);
 }
 
 function directionRow(s: Float32Array, du: number, c: number, dd: number, w: number, a: number, b: number, ends: Float64Array, o: Float32Array, base: number): void {

@@ -88,6 +88,16 @@ export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpa
     default:
       break;
   }
+  const simd = simdKernels();
+  if (simd) {
+    const n = spanPixelCount(spans);
+    if (n === 0) return NaN;
+    const stats = simd.regionStats(image, spans.start, spans.end, measure === 'stddev', n);
+    if (measure === 'mean') return stats.sum / n;
+    if (measure === 'min') return stats.min;
+    if (measure === 'max') return stats.max;
+    return Math.sqrt(stats.squares / n);
+  }
   // Read only here: the blob and edge measures above may count a mask from its packed bits.
   const data = image.data;
   let n = 0;

@@ -44,6 +44,8 @@ export interface EngineExports {
   qualitySumsWhole8(src: number, w: number, h: number, out: number): void;
   countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
   countSetBits(words: number, wordsPerRow: number, w: number, h: number, starts: number, ends: number): number;
+  regionSums(src: number, w: number, h: number, starts: number, ends: number, out: number): void;
+  regionSquares(src: number, w: number, h: number, starts: number, ends: number, mean: number): number;
   lumaRgb8(src: number, channels: number, n: number, dst: number, kr: number, kg: number, kb: number): void;
   box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
   boxScratchBytes(w: number, size: number): number;
@@ -359,6 +361,26 @@ export class SimdKernels {
       else this.wasm.qualitySums(s, image.width, image.height, top, out);
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, out, 4);
       return { sum, clipped, lapSum, lapSquares };
+    });
+  }
+
+  /**
+   * Over columns start[y] … end[y]−1 of each row y: Σv and Σ(v − mean)² (when `squares`) in double
+   * precision, summed in another order than the plain engine's (last digits), and the smallest and
+   * largest value with NaN left out, exactly (a minimum of ±0 may come out with the other sign).
+   */
+  regionStats(image: Image, start: Int32Array, end: Int32Array, squares: boolean, count: number): { sum: number; min: number; max: number; squares: number } {
+    return this.read(image, (s, scope) => {
+      const starts = scope.alloc(4 * image.height);
+      const ends = scope.alloc(4 * image.height);
+      const out = scope.alloc(16);
+      this.heap.i32(starts, image.height).set(start);
+      this.heap.i32(ends, image.height).set(end);
+      this.wasm.regionSums(s, image.width, image.height, starts, ends, out);
+      const sum = new Float64Array(this.heap.memory.buffer, out, 1)[0];
+      const [min, max] = this.heap.f32(out + 8, 2);
+      const sq = squares ? this.wasm.regionSquares(s, image.width, image.height, starts, ends, sum / count) : NaN;
+      return { sum, min, max, squares: sq };
     });
   }
 

@@ -8,6 +8,7 @@ import fc from 'fast-check';
 import { correlate, correlateSeparable } from '../../../shared/vision/convolve';
 import { gradient } from '../../../shared/vision/gradient';
 import type { RawPhoto } from '../../../shared/vision/image';
+import { measurePixels, regionSpans, spanPixelCount } from '../../../shared/vision/gauges';
 import { runRule } from '../../../shared/vision/pipeline';
 import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix, SCHARR_SMOOTHING, SOBEL_SMOOTHING, PREWITT_SMOOTHING } from '../../../shared/vision/kernels';
@@ -263,4 +264,43 @@ test('quality gate: clipped share exact; mean and focus the same per-pixel terms
     }),
     RUNS,
   );
+});
+
+test('mean, standard deviation, minimum and maximum gauges: extremes exact, sums in another order within double rounding', () => {
+  const region = fc.oneof(
+    fc.constant(undefined),
+    fc.record({ shape: fc.constant('rect' as const), x: fc.double({ min: 0, max: 0.5, noNaN: true }), y: fc.double({ min: 0, max: 0.5, noNaN: true }), w: fc.double({ min: 0.05, max: 0.5, noNaN: true }), h: fc.double({ min: 0.05, max: 0.5, noNaN: true }) }),
+    fc.record({ shape: fc.constant('circle' as const), cx: fc.double({ min: 0.2, max: 0.8, noNaN: true }), cy: fc.double({ min: 0.2, max: 0.8, noNaN: true }), r: fc.double({ min: 0.05, max: 0.5, noNaN: true }) }),
+  );
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<SampleKind>('8-bit', '16-bit', 'signed float'), seed, region, ([w, h], kind, s, shape) => {
+      const image = sampleImage(w, h, kind, s);
+      const spans = regionSpans(w, h, shape);
+      const n = spanPixelCount(spans);
+      const { plain, simd } = onBoth(() => Object.fromEntries((['mean', 'stddev', 'min', 'max'] as const).map((m) => [m, measurePixels(image, m, spans)])));
+      if (n === 0) {
+        for (const m of ['mean', 'stddev', 'min', 'max']) expect(Number.isNaN(simd[m])).toBe(true);
+        return;
+      }
+      // The extremes are selected, not computed (±0 compare equal).
+      expect(simd.min === plain.min).toBe(true);
+      expect(simd.max === plain.max).toBe(true);
+      // A sum of n doubles in any order: within 2·n·2⁻⁵³·Σ|v| (Higham §4.2), per pixel for the mean.
+      const largest = largestMagnitude(image.data);
+      expect(Math.abs(simd.mean - plain.mean)).toBeLessThanOrEqual(2 * n * 2 ** -53 * largest);
+      expect(Math.abs(simd.stddev - plain.stddev)).toBeLessThanOrEqual(1e-9 * (largest + 1));
+    }),
+    RUNS,
+  );
+});
+
+test('gauges over a region holding NaN: the mean is NaN on both engines and the extremes leave NaN out', () => {
+  const image = sampleImage(40, 30, 'signed float', 3);
+  image.data[15 * 40 + 7] = NaN;
+  const spans = regionSpans(40, 30, undefined);
+  const { plain, simd } = onBoth(() => ({ mean: measurePixels(image, 'mean', spans), min: measurePixels(image, 'min', spans), max: measurePixels(image, 'max', spans) }));
+  expect(Number.isNaN(simd.mean) && Number.isNaN(plain.mean)).toBe(true);
+  expect(simd.min).toBe(plain.min);
+  expect(simd.max).toBe(plain.max);
+  expect(Number.isNaN(simd.max)).toBe(false);
 });

@@ -9,7 +9,7 @@ export { smoothedGradient, smoothedGradientScratchBytes } from './smoothed-gradi
 export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked, thresholdBinsPacked } from './threshold';
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero, countSetBits } from './blobs';
-export { qualitySums, qualitySumsWhole8, countNonZero } from './statistics';
+export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares } from './statistics';
 export { lumaRgb8 } from './channels';
 export { box, boxScratchBytes } from './box';
 export { median, medianScratchBytes } from './median';

@@ -169,3 +169,67 @@ export function countNonZero(src: usize, w: i32, h: i32, starts: usize, ends: us
   }
   return count + i32x4.extract_lane(lanes, 0) + i32x4.extract_lane(lanes, 1) + i32x4.extract_lane(lanes, 2) + i32x4.extract_lane(lanes, 3);
 }
+
+/**
+ * Over row y's columns start[y] … end[y]−1 of every row: Σv in double precision (to out, float64),
+ * the smallest and the largest value with NaN left out (Infinity and −Infinity when there is none;
+ * float32 at out + 8 and out + 12). The gauges' mean, minimum and maximum.
+ */
+export function regionSums(src: usize, w: i32, h: i32, starts: usize, ends: usize, out: usize): void {
+  let lo = f32x4.splat(Infinity), hi = f32x4.splat(-Infinity);
+  let low = f64x2.splat(0), high = f64x2.splat(0);
+  let l: f32 = Infinity, g: f32 = -Infinity;
+  let sum: f64 = 0;
+  for (let y = 0; y < h; y++) {
+    const row = at(src, y * w);
+    const end = min(w, load<i32>(at(ends, y)));
+    let x = max(0, load<i32>(at(starts, y)));
+    for (; x + 4 <= end; x += 4) {
+      const v = v128.load(at(row, x));
+      // pmin(lo, v) is v < lo ? v : lo: a NaN never replaces the extreme found so far.
+      lo = f32x4.pmin(lo, v);
+      hi = f32x4.pmax(hi, v);
+      low = f64x2.add(low, f64x2.promote_low_f32x4(v));
+      high = f64x2.add(high, f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 0, 1)));
+    }
+    for (; x < end; x++) {
+      const v = load<f32>(at(row, x));
+      if (v < l) l = v;
+      if (v > g) g = v;
+      sum += <f64>v;
+    }
+  }
+  for (let lane = 0; lane < 4; lane++) {
+    const a = f32x4.extract_lane(lo, 0), b = f32x4.extract_lane(hi, 0);
+    if (a < l) l = a;
+    if (b > g) g = b;
+    lo = v128.shuffle<f32>(lo, lo, 1, 2, 3, 0);
+    hi = v128.shuffle<f32>(hi, hi, 1, 2, 3, 0);
+  }
+  store<f64>(out, sum + f64x2.extract_lane(low, 0) + f64x2.extract_lane(low, 1) + f64x2.extract_lane(high, 0) + f64x2.extract_lane(high, 1));
+  store<f32>(out, l, 8);
+  store<f32>(out, g, 12);
+}
+
+/** Σ(v − mean)² in double precision over the same spans as regionSums (the population variance's second pass). */
+export function regionSquares(src: usize, w: i32, h: i32, starts: usize, ends: usize, mean: f64): f64 {
+  const m = f64x2.splat(mean);
+  let low = f64x2.splat(0), high = f64x2.splat(0);
+  let sum: f64 = 0;
+  for (let y = 0; y < h; y++) {
+    const row = at(src, y * w);
+    const end = min(w, load<i32>(at(ends, y)));
+    let x = max(0, load<i32>(at(starts, y)));
+    for (; x + 4 <= end; x += 4) {
+      const v = v128.load(at(row, x));
+      const a = f64x2.sub(f64x2.promote_low_f32x4(v), m), b = f64x2.sub(f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 0, 1)), m);
+      low = f64x2.add(low, f64x2.mul(a, a));
+      high = f64x2.add(high, f64x2.mul(b, b));
+    }
+    for (; x < end; x++) {
+      const d = <f64>load<f32>(at(row, x)) - mean;
+      sum += d * d;
+    }
+  }
+  return sum + f64x2.extract_lane(low, 0) + f64x2.extract_lane(low, 1) + f64x2.extract_lane(high, 0) + f64x2.extract_lane(high, 1);
+}

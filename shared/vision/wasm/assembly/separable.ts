@@ -464,20 +464,22 @@ function horizontalGeneral(line: usize, k: usize, n: i32, w: i32, out: usize, of
 function verticalPair(rows: usize, g: usize, g2: usize, r: i32, w: i32, smooth: usize, curve: usize): void {
   const c = load<usize>(at(rows, r));
   const gc = load<f32>(at(g, r)), g2c = load<f32>(at(g2, r));
-  let x = 0;
-  for (; x + 4 <= w; x += 4) {
-    const o = (<usize>x) << 2;
-    const v = v128.load(c + o);
-    let s = f32x4.mul(f32x4.splat(gc), v);
-    let t = f32x4.mul(f32x4.splat(g2c), v);
-    for (let i = 1; i <= r; i++) {
-      const pair = f32x4.add(v128.load(load<usize>(at(rows, r - i)) + o), v128.load(load<usize>(at(rows, r + i)) + o));
-      s = f32x4.add(s, f32x4.mul(f32x4.splat(load<f32>(at(g, r + i))), pair));
-      t = f32x4.add(t, f32x4.mul(f32x4.splat(load<f32>(at(g2, r + i))), pair));
-    }
-    v128.store(smooth + o, s);
-    v128.store(curve + o, t);
+  // Sweeps of up to three pairs of rows, each sweep's weights and rows in registers (as pairSweep).
+  const per = pairsPerSweep(r, 3);
+  if (r == 0) logVerticalSweep(rows, g, g2, r, 1, 0, true, w, smooth, curve, c, gc, g2c);
+  for (let i = 1; i <= r; i += per) {
+    const pairs = min(per, r - i + 1);
+    const first = i == 1;
+    // Literal pairs and first, so that each inlined copy's loop has no branch inside.
+    if (first) {
+      if (pairs == 3) logVerticalSweep(rows, g, g2, r, i, 3, true, w, smooth, curve, c, gc, g2c);
+      else if (pairs == 2) logVerticalSweep(rows, g, g2, r, i, 2, true, w, smooth, curve, c, gc, g2c);
+      else logVerticalSweep(rows, g, g2, r, i, 1, true, w, smooth, curve, c, gc, g2c);
+    } else if (pairs == 3) logVerticalSweep(rows, g, g2, r, i, 3, false, w, smooth, curve, c, gc, g2c);
+    else if (pairs == 2) logVerticalSweep(rows, g, g2, r, i, 2, false, w, smooth, curve, c, gc, g2c);
+    else logVerticalSweep(rows, g, g2, r, i, 1, false, w, smooth, curve, c, gc, g2c);
   }
+  let x = w & ~3;
   for (; x < w; x++) {
     const o = (<usize>x) << 2;
     const v = load<f32>(c + o);
@@ -496,18 +498,20 @@ function verticalPair(rows: usize, g: usize, g2: usize, r: i32, w: i32, smooth: 
 /** out[x] = Σᵢ ka[i]·a[x+i] + kb[i]·b[x+i] for symmetric ka, kb of radius r (lines padded by r). */
 function horizontalPairSum(a: usize, b: usize, ka: usize, kb: usize, r: i32, w: i32, out: usize): void {
   const kac = load<f32>(at(ka, r)), kbc = load<f32>(at(kb, r));
-  let x = 0;
-  for (; x + 4 <= w; x += 4) {
-    const pa = at(a, x + r);
-    const pb = at(b, x + r);
-    let acc = f32x4.add(f32x4.mul(f32x4.splat(kac), v128.load(pa)), f32x4.mul(f32x4.splat(kbc), v128.load(pb)));
-    for (let i = 1; i <= r; i++) {
-      const d = (<usize>i) << 2;
-      acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(ka, r + i))), f32x4.add(v128.load(pa - d), v128.load(pa + d))));
-      acc = f32x4.add(acc, f32x4.mul(f32x4.splat(load<f32>(at(kb, r + i))), f32x4.add(v128.load(pb - d), v128.load(pb + d))));
-    }
-    v128.store(at(out, x), acc);
+  const per = pairsPerSweep(r, 3);
+  if (r == 0) logHorizontalSweep(a, b, ka, kb, r, 1, 0, true, w, out, kac, kbc);
+  for (let i = 1; i <= r; i += per) {
+    const pairs = min(per, r - i + 1);
+    const first = i == 1;
+    if (first) {
+      if (pairs == 3) logHorizontalSweep(a, b, ka, kb, r, i, 3, true, w, out, kac, kbc);
+      else if (pairs == 2) logHorizontalSweep(a, b, ka, kb, r, i, 2, true, w, out, kac, kbc);
+      else logHorizontalSweep(a, b, ka, kb, r, i, 1, true, w, out, kac, kbc);
+    } else if (pairs == 3) logHorizontalSweep(a, b, ka, kb, r, i, 3, false, w, out, kac, kbc);
+    else if (pairs == 2) logHorizontalSweep(a, b, ka, kb, r, i, 2, false, w, out, kac, kbc);
+    else logHorizontalSweep(a, b, ka, kb, r, i, 1, false, w, out, kac, kbc);
   }
+  let x = w & ~3;
   for (; x < w; x++) {
     const pa = at(a, x + r);
     const pb = at(b, x + r);
@@ -517,5 +521,80 @@ function horizontalPairSum(a: usize, b: usize, ka: usize, kb: usize, r: i32, w: 
       acc += load<f32>(at(ka, r + i)) * (load<f32>(pa - d) + load<f32>(pa + d)) + load<f32>(at(kb, r + i)) * (load<f32>(pb - d) + load<f32>(pb + d));
     }
     store<f32>(at(out, x), acc);
+  }
+}
+
+/**
+ * verticalPair's pairs i … i+pairs−1 for the whole vectors of a row: smooth += Σ g·(a + b) and
+ * curve += Σ g2·(a + b) over the pairs (starting from gc·centre and g2c·centre when first), in the
+ * order of one loop over all pairs.
+ */
+@inline
+function logVerticalSweep(rows: usize, g: usize, g2: usize, r: i32, i: i32, pairs: i32, first: bool, w: i32, smooth: usize, curve: usize, c: usize, gc: f32, g2c: f32): void {
+  const a1 = pairs >= 1 ? load<usize>(at(rows, r - i)) : 0, b1 = pairs >= 1 ? load<usize>(at(rows, r + i)) : 0;
+  const a2 = pairs >= 2 ? load<usize>(at(rows, r - i - 1)) : 0, b2 = pairs >= 2 ? load<usize>(at(rows, r + i + 1)) : 0;
+  const a3 = pairs >= 3 ? load<usize>(at(rows, r - i - 2)) : 0, b3 = pairs >= 3 ? load<usize>(at(rows, r + i + 2)) : 0;
+  const s1 = f32x4.splat(pairs >= 1 ? load<f32>(at(g, r + i)) : 0), t1 = f32x4.splat(pairs >= 1 ? load<f32>(at(g2, r + i)) : 0);
+  const s2 = f32x4.splat(pairs >= 2 ? load<f32>(at(g, r + i + 1)) : 0), t2 = f32x4.splat(pairs >= 2 ? load<f32>(at(g2, r + i + 1)) : 0);
+  const s3 = f32x4.splat(pairs >= 3 ? load<f32>(at(g, r + i + 2)) : 0), t3 = f32x4.splat(pairs >= 3 ? load<f32>(at(g2, r + i + 2)) : 0);
+  const vgc = f32x4.splat(gc), vg2c = f32x4.splat(g2c);
+  for (let x = 0; x + 4 <= w; x += 4) {
+    const o = (<usize>x) << 2;
+    let sm: v128, cu: v128;
+    if (first) {
+      const v = v128.load(c + o);
+      sm = f32x4.mul(vgc, v);
+      cu = f32x4.mul(vg2c, v);
+    } else {
+      sm = v128.load(smooth + o);
+      cu = v128.load(curve + o);
+    }
+    if (pairs >= 1) {
+      const pair = f32x4.add(v128.load(a1 + o), v128.load(b1 + o));
+      sm = f32x4.add(sm, f32x4.mul(s1, pair));
+      cu = f32x4.add(cu, f32x4.mul(t1, pair));
+    }
+    if (pairs >= 2) {
+      const pair = f32x4.add(v128.load(a2 + o), v128.load(b2 + o));
+      sm = f32x4.add(sm, f32x4.mul(s2, pair));
+      cu = f32x4.add(cu, f32x4.mul(t2, pair));
+    }
+    if (pairs >= 3) {
+      const pair = f32x4.add(v128.load(a3 + o), v128.load(b3 + o));
+      sm = f32x4.add(sm, f32x4.mul(s3, pair));
+      cu = f32x4.add(cu, f32x4.mul(t3, pair));
+    }
+    v128.store(smooth + o, sm);
+    v128.store(curve + o, cu);
+  }
+}
+
+/**
+ * horizontalPairSum's taps i … i+pairs−1 on both lines for the whole vectors: out += Σ ka·(a₋ + a₊) + kb·(b₋ + b₊),
+ * starting from kac·a + kbc·b when first, in the order of one loop over all taps.
+ */
+@inline
+function logHorizontalSweep(a: usize, b: usize, ka: usize, kb: usize, r: i32, i: i32, pairs: i32, first: bool, w: i32, out: usize, kac: f32, kbc: f32): void {
+  const ka1 = f32x4.splat(pairs >= 1 ? load<f32>(at(ka, r + i)) : 0), kb1 = f32x4.splat(pairs >= 1 ? load<f32>(at(kb, r + i)) : 0);
+  const ka2 = f32x4.splat(pairs >= 2 ? load<f32>(at(ka, r + i + 1)) : 0), kb2 = f32x4.splat(pairs >= 2 ? load<f32>(at(kb, r + i + 1)) : 0);
+  const ka3 = f32x4.splat(pairs >= 3 ? load<f32>(at(ka, r + i + 2)) : 0), kb3 = f32x4.splat(pairs >= 3 ? load<f32>(at(kb, r + i + 2)) : 0);
+  const d1 = (<usize>i) << 2, d2 = (<usize>(i + 1)) << 2, d3 = (<usize>(i + 2)) << 2;
+  const vkac = f32x4.splat(kac), vkbc = f32x4.splat(kbc);
+  for (let x = 0; x + 4 <= w; x += 4) {
+    const pa = at(a, x + r), pb = at(b, x + r);
+    let acc = first ? f32x4.add(f32x4.mul(vkac, v128.load(pa)), f32x4.mul(vkbc, v128.load(pb))) : v128.load(at(out, x));
+    if (pairs >= 1) {
+      acc = f32x4.add(acc, f32x4.mul(ka1, f32x4.add(v128.load(pa - d1), v128.load(pa + d1))));
+      acc = f32x4.add(acc, f32x4.mul(kb1, f32x4.add(v128.load(pb - d1), v128.load(pb + d1))));
+    }
+    if (pairs >= 2) {
+      acc = f32x4.add(acc, f32x4.mul(ka2, f32x4.add(v128.load(pa - d2), v128.load(pa + d2))));
+      acc = f32x4.add(acc, f32x4.mul(kb2, f32x4.add(v128.load(pb - d2), v128.load(pb + d2))));
+    }
+    if (pairs >= 3) {
+      acc = f32x4.add(acc, f32x4.mul(ka3, f32x4.add(v128.load(pa - d3), v128.load(pa + d3))));
+      acc = f32x4.add(acc, f32x4.mul(kb3, f32x4.add(v128.load(pb - d3), v128.load(pb + d3))));
+    }
+    v128.store(at(out, x), acc);
   }
 }

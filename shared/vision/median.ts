@@ -47,7 +47,7 @@ function medianByHistogram(src: Image, size: number, border: BorderMode, o: Floa
   const { width: w, height: h } = src;
   const r = (size - 1) >> 1;
   // Integer indices: a float-valued key would make every histogram access a slow generic lookup.
-  const padded = Int32Array.from(padImage(src, r, r, border));
+  const padded = padImage(src, r, r, border, 'int32');
   const pw = w + 2 * r;
   const hist = new Int32Array(levels);
   const rank = (size * size - 1) >> 1; // 0-based rank of the median among size² values

@@ -142,10 +142,11 @@ function horizontalMax(line: Float32Array, size: number, w: number, o: Float32Ar
  * extremeFilter for an image without NaN or −0: the samples as integer keys that sort as the values
  * (ordered-keys.ts), so every minimum and maximum is exact and needs no branch (a branch per
  * comparison mispredicts on noisy pixels). A maximum is the minimum of the keys' complements (~k
- * reverses the order), so one minimum path serves both. Rows come in pairs: the 2r rows both windows
- * share are folded once. Along the row, minima over runs of 1, 2, 4 … L keys (L the largest power of
- * two within the window) are built in place, and each window is the minimum of two runs of L that
- * cover it (log₂L + 1 operations per pixel: the sparse table of range-minimum queries, M. A. Bender
+ * reverses the order), so one minimum path serves both. Down the image and along the row alike,
+ * minima over runs of 1, 2, 4 … L (L the largest power of two within the window) are built from the
+ * runs half as long, and each window is the minimum of two runs of L that cover it (down the image
+ * each row converted to keys once, the runs kept in rings of the rows still needed; along the row in
+ * place) (log₂L + 1 operations per pixel: the sparse table of range-minimum queries, M. A. Bender
  * and M. Farach-Colton, "The LCA Problem Revisited", LATIN 2000).
  */
 function extremeFilterByKeys(src: Image, r: number, border: BorderMode, takeMax: boolean, dst: Image): Image {
@@ -157,51 +158,41 @@ function extremeFilterByKeys(src: Image, r: number, border: BorderMode, takeMax:
   const flip = takeMax ? -1 : 0;
   const rowOffsets = rowOffsetTable(h, w, r, r, border);
   const colTable = borderTable(w, r, r, border);
-  const shared = new Int32Array(w);
-  const lineA = new Int32Array(n);
-  const lineB = new Int32Array(n);
   let run = 1;
-  while (run * 2 <= size) run *= 2;
-  for (let y = 0; y < h; y += 2) {
-    const pair = y + 1 < h;
-    // Table entry t is image row t − r: window y spans entries y … y+2r, window y+1 entries y+1 … y+2r+1.
-    if (pair) {
-      foldRows(bits, rowOffsets, y + 1, y + size, w, flip, shared);
-      minWithRow(shared, bits, rowOffsets[y], w, flip, lineA, r);
-      minWithRow(shared, bits, rowOffsets[y + size], w, flip, lineB, r);
-    } else {
-      foldRows(bits, rowOffsets, y, y + size, w, flip, shared);
-      lineA.set(shared, r);
+  let levels = 0;
+  while (run * 2 <= size) {
+    run *= 2;
+    levels++;
+  }
+  // levels[l] holds the minima of runs of 2^l table rows starting at t, in a ring of the rows still
+  // needed: a run of 2^(l+1) reads the runs at t and t + 2^l; the output reads the top runs at y and y + size − run.
+  const ringSize = (l: number) => (l < levels ? (1 << l) + 1 : size - run + 1);
+  const rings = Array.from({ length: levels + 1 }, (_, l) => Array.from({ length: ringSize(l) }, () => new Int32Array(w)));
+  const line = new Int32Array(n);
+  for (let t = 0; t < h + 2 * r; t++) {
+    // Table entry t is image row t − r (an outside row holds the value 0).
+    const keys = rings[0][t % rings[0].length];
+    const off = rowOffsets[t];
+    if (off === OUTSIDE) keys.fill(flip);
+    else for (let x = 0; x < w; x++) keys[x] = keyOfFloatBits(bits[off + x]) ^ flip;
+    for (let l = 1; l <= levels; l++) {
+      const start = t - (1 << l) + 1;
+      if (start < 0) break;
+      const below = rings[l - 1];
+      minOfRows(below[start % below.length], below[(start + (1 << (l - 1))) % below.length], rings[l][start % rings[l].length], w, 0);
     }
-    windowMinima(lineA, w, r, run, colTable, flip, out, y * w);
-    if (pair) windowMinima(lineB, w, r, run, colTable, flip, out, (y + 1) * w);
+    const y = t - 2 * r;
+    if (y < 0) continue;
+    const top = rings[levels];
+    minOfRows(top[y % top.length], top[(y + size - run) % top.length], line, w, r);
+    windowMinima(line, w, r, run, colTable, flip, out, y * w);
   }
   return dst;
 }
 
-/** acc[x] = the minimum key of table rows from … to−1 at column x (an outside row holds the value 0). */
-function foldRows(bits: Int32Array, rowOffsets: Int32Array, from: number, to: number, w: number, flip: number, acc: Int32Array): void {
-  const zero = flip;
-  for (let t = from; t < to; t++) {
-    const off = rowOffsets[t];
-    if (t === from) {
-      if (off === OUTSIDE) acc.fill(zero);
-      else for (let x = 0; x < w; x++) acc[x] = keyOfFloatBits(bits[off + x]) ^ flip;
-    } else if (off === OUTSIDE) {
-      for (let x = 0; x < w; x++) acc[x] = minKey(acc[x], zero);
-    } else {
-      for (let x = 0; x < w; x++) acc[x] = minKey(acc[x], keyOfFloatBits(bits[off + x]) ^ flip);
-    }
-  }
-}
-
-/** line[pad + x] = min(acc[x], key of the row at `off`). */
-function minWithRow(acc: Int32Array, bits: Int32Array, off: number, w: number, flip: number, line: Int32Array, pad: number): void {
-  if (off === OUTSIDE) {
-    for (let x = 0; x < w; x++) line[pad + x] = minKey(acc[x], flip);
-  } else {
-    for (let x = 0; x < w; x++) line[pad + x] = minKey(acc[x], keyOfFloatBits(bits[off + x]) ^ flip);
-  }
+/** into[pad + x] = the smaller key of a[x] and b[x]. */
+function minOfRows(a: Int32Array, b: Int32Array, into: Int32Array, w: number, pad: number): void {
+  for (let x = 0; x < w; x++) into[pad + x] = minKey(a[x], b[x]);
 }
 
 /** Fills the line's border, then out[base + x] = the minimum of line[x … x+2r], written back as float32 bits. */

@@ -123,6 +123,9 @@ export class SeparableSweep {
     if (this.verticalUnrolled && ry === 3 && y + 3 < h && isStrided(rowOffsets, y, 10, w)) {
       verticalRadius3QuadStrided(data, rowOffsets[y], w, col, lines, rx);
       count = 4;
+    } else if (this.verticalFolded && y + 1 < h && isStrided(rowOffsets, y, 2 * ry + 2, w)) {
+      verticalFoldedStridedPair(data, rowOffsets[y + ry], w, col, ry, lines[0], lines[1], rx);
+      count = 2;
     } else if (this.verticalFolded && isStrided(rowOffsets, y, 2 * ry + 1, w)) {
       verticalFoldedStrided(data, rowOffsets[y + ry], w, col, ry, lines[0], rx);
       count = 1;
@@ -355,6 +358,57 @@ function verticalFoldedStrided(d: Float32Array, centre: number, w: number, k: Fl
     for (let x = 0, p = centre; x < w; x++, p++) line[pad + x] += ka * (d[p - da] + d[p + da]) + kb * (d[p - db] + d[p + db]);
   } else {
     for (let x = 0, p = centre; x < w; x++, p++) line[pad + x] += ka * (d[p - da] + d[p + da]);
+  }
+}
+
+/**
+ * verticalFoldedStrided for two output rows, centred on `centre` and the row below: the same sums for
+ * each, with the source rows both need loaded once (ten loads per column for four pairs of each).
+ */
+function verticalFoldedStridedPair(d: Float32Array, centre: number, w: number, k: Float64Array, r: number, line: Float64Array, next: Float64Array, pad: number): void {
+  const k0 = k[r], k1 = k[r + 1], k2 = k[r + 2], k3 = k[r + 3];
+  const w2 = 2 * w, w3 = 3 * w, w4 = 4 * w;
+  for (let x = 0, p = centre; x < w; x++, p++) {
+    const m3 = d[p - w3], m2 = d[p - w2], m1 = d[p - w], c = d[p], p1 = d[p + w], p2 = d[p + w2], p3 = d[p + w3], p4 = d[p + w4];
+    line[pad + x] = k0 * c + k1 * (m1 + p1) + k2 * (m2 + p2) + k3 * (m3 + p3);
+    next[pad + x] = k0 * p1 + k1 * (c + p2) + k2 * (m1 + p3) + k3 * (m2 + p4);
+  }
+  let j = 4;
+  for (; j + 3 <= r; j += 4) {
+    const ka = k[r + j], kb = k[r + j + 1], kc = k[r + j + 2], kd = k[r + j + 3];
+    // Rows centre − (j−1 … j+3) and centre + (j … j+4).
+    const da = j * w, db = da + w, dc = db + w, dd = dc + w, de = dd + w, dz = da - w;
+    for (let x = 0, p = centre; x < w; x++, p++) {
+      const ua = d[p - da], ub = d[p - db], uc = d[p - dc], ud = d[p - dd], uz = d[p - dz];
+      const va = d[p + da], vb = d[p + db], vc = d[p + dc], vd = d[p + dd], ve = d[p + de];
+      line[pad + x] += ka * (ua + va) + kb * (ub + vb) + kc * (uc + vc) + kd * (ud + vd);
+      next[pad + x] += ka * (uz + vb) + kb * (ua + vc) + kc * (ub + vd) + kd * (uc + ve);
+    }
+  }
+  if (j > r) return;
+  // The last one to three pairs in one pass.
+  const ka = k[r + j], da = j * w, dz = da - w, db = da + w;
+  if (j + 2 === r) {
+    const kb = k[r + j + 1], kc = k[r + j + 2], dc = db + w, dd = dc + w;
+    for (let x = 0, p = centre; x < w; x++, p++) {
+      const uz = d[p - dz], ua = d[p - da], ub = d[p - db], uc = d[p - dc];
+      const va = d[p + da], vb = d[p + db], vc = d[p + dc], vd = d[p + dd];
+      line[pad + x] += ka * (ua + va) + kb * (ub + vb) + kc * (uc + vc);
+      next[pad + x] += ka * (uz + vb) + kb * (ua + vc) + kc * (ub + vd);
+    }
+  } else if (j + 1 === r) {
+    const kb = k[r + j + 1], dc = db + w;
+    for (let x = 0, p = centre; x < w; x++, p++) {
+      const uz = d[p - dz], ua = d[p - da], ub = d[p - db];
+      const va = d[p + da], vb = d[p + db], vc = d[p + dc];
+      line[pad + x] += ka * (ua + va) + kb * (ub + vb);
+      next[pad + x] += ka * (uz + vb) + kb * (ua + vc);
+    }
+  } else {
+    for (let x = 0, p = centre; x < w; x++, p++) {
+      line[pad + x] += ka * (d[p - da] + d[p + da]);
+      next[pad + x] += ka * (d[p - dz] + d[p + db]);
+    }
   }
 }
 

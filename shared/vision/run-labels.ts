@@ -1,7 +1,8 @@
-// Blob labelling over runs of set bits instead of pixels (the path the SIMD engine takes: its
-// pre-pass packs the non-zero pixels 32 to a word). Two scans with union-find over runs
-// (L. He, Y. Chao, K. Suzuki, "A run-based two-scan labeling algorithm", IEEE Trans. Image
-// Processing 17(5), 2008): the same blobs, numbered the same way, as blobs.ts's pixel scan.
+// Blob labelling over runs of set bits instead of pixels, on both engines (each packs the non-zero
+// pixels 32 to a word first: blobs.ts in TypeScript, the SIMD module's pre-pass, or a mask's own
+// packed bits). Two scans with union-find over runs (L. He, Y. Chao, K. Suzuki, "A run-based two-scan
+// labeling algorithm", IEEE Trans. Image Processing 17(5), 2008): blobs numbered in raster order of
+// their first pixel, as the rule format states.
 import type { Blob, BlobLabels, RowSpans } from './blobs';
 
 /** Runs found so far: start (inclusive), end (exclusive), row, provisional label. */

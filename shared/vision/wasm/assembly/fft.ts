@@ -203,10 +203,15 @@ function transpose(plane: usize): void {
   }
 }
 
-/** The 4×4 block at p transposed in place (q == p). */
+/** The 4×4 block at p, transposed, into the block at q (q may be p). */
 @inline
 function transposeBlock(p: usize, q: usize): void {
-  const r0 = v128.load(p), r1 = v128.load(p + ROW_BYTES), r2 = v128.load(p + 2 * ROW_BYTES), r3 = v128.load(p + 3 * ROW_BYTES);
+  storeTransposed(q, v128.load(p), v128.load(p + ROW_BYTES), v128.load(p + 2 * ROW_BYTES), v128.load(p + 3 * ROW_BYTES));
+}
+
+/** Rows r0 … r3 of a 4×4 block stored at q as its columns. */
+@inline
+function storeTransposed(q: usize, r0: v128, r1: v128, r2: v128, r3: v128): void {
   const t0 = v128.shuffle<f32>(r0, r1, 0, 4, 1, 5), t1 = v128.shuffle<f32>(r0, r1, 2, 6, 3, 7);
   const t2 = v128.shuffle<f32>(r2, r3, 0, 4, 1, 5), t3 = v128.shuffle<f32>(r2, r3, 2, 6, 3, 7);
   v128.store(q, v128.shuffle<f32>(t0, t2, 0, 1, 4, 5));
@@ -219,12 +224,7 @@ function transposeBlock(p: usize, q: usize): void {
 function swapTransposedBlocks(p: usize, q: usize): void {
   const p0 = v128.load(p), p1 = v128.load(p + ROW_BYTES), p2 = v128.load(p + 2 * ROW_BYTES), p3 = v128.load(p + 3 * ROW_BYTES);
   transposeBlock(q, p);
-  const t0 = v128.shuffle<f32>(p0, p1, 0, 4, 1, 5), t1 = v128.shuffle<f32>(p0, p1, 2, 6, 3, 7);
-  const t2 = v128.shuffle<f32>(p2, p3, 0, 4, 1, 5), t3 = v128.shuffle<f32>(p2, p3, 2, 6, 3, 7);
-  v128.store(q, v128.shuffle<f32>(t0, t2, 0, 1, 4, 5));
-  v128.store(q + ROW_BYTES, v128.shuffle<f32>(t0, t2, 2, 3, 6, 7));
-  v128.store(q + 2 * ROW_BYTES, v128.shuffle<f32>(t1, t3, 0, 1, 4, 5));
-  v128.store(q + 3 * ROW_BYTES, v128.shuffle<f32>(t1, t3, 2, 3, 6, 7));
+  storeTransposed(q, p0, p1, p2, p3);
 }
 
 /**

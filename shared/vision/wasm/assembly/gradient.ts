@@ -3,6 +3,7 @@
 // difference t = down − up into two padded lines; then gx = s(x+1) − s(x−1) and
 // gy = a·(t(x−1) + t(x+1)) + b·t(x), four pixels per v128.
 import { align16, at, fillLineBorder, rowAddress } from './border';
+import { storeExtremes } from './extremes';
 
 export const GRADIENT_X: i32 = 0;
 export const GRADIENT_Y: i32 = 1;
@@ -48,19 +49,7 @@ function extremesAt(zeros: usize, w: i32): usize {
 /** The magnitude's range over every row so far (NaN left out), as two float32 at range. */
 export function storeRange(scratch: usize, w: i32, range: usize): void {
   const extremes = extremesAt(align16(scratch), w);
-  let lo = v128.load(extremes);
-  let hi = v128.load(extremes, 16);
-  let loScalar = load<f32>(extremes, 32);
-  let hiScalar = load<f32>(extremes, 36);
-  for (let lane = 0; lane < 4; lane++) {
-    const l = f32x4.extract_lane(lo, 0), g = f32x4.extract_lane(hi, 0);
-    if (l < loScalar) loScalar = l;
-    if (g > hiScalar) hiScalar = g;
-    lo = v128.shuffle<f32>(lo, lo, 1, 2, 3, 0);
-    hi = v128.shuffle<f32>(hi, hi, 1, 2, 3, 0);
-  }
-  store<f32>(range, loScalar);
-  store<f32>(range, hiScalar, 4);
+  storeExtremes(range, v128.load(extremes), v128.load(extremes, 16), load<f32>(extremes, 32), load<f32>(extremes, 36));
 }
 
 /**

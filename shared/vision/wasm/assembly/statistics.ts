@@ -1,6 +1,7 @@
 // Sums over an image for the quality gate and the gauges, in double precision where the plain engine
 // sums in double precision (each pixel's terms in the same order; the sums themselves in other order).
 import { at, borderIndex, REFLECT } from './border';
+import { storeExtremes } from './extremes';
 
 /**
  * out[0] = Σ v, out[1] = number of v ≥ top, out[2] = Σ lap, out[3] = Σ lap² as four float64, where lap
@@ -199,16 +200,8 @@ export function regionSums(src: usize, w: i32, h: i32, starts: usize, ends: usiz
       sum += <f64>v;
     }
   }
-  for (let lane = 0; lane < 4; lane++) {
-    const a = f32x4.extract_lane(lo, 0), b = f32x4.extract_lane(hi, 0);
-    if (a < l) l = a;
-    if (b > g) g = b;
-    lo = v128.shuffle<f32>(lo, lo, 1, 2, 3, 0);
-    hi = v128.shuffle<f32>(hi, hi, 1, 2, 3, 0);
-  }
   store<f64>(out, sum + f64x2.extract_lane(low, 0) + f64x2.extract_lane(low, 1) + f64x2.extract_lane(high, 0) + f64x2.extract_lane(high, 1));
-  store<f32>(out, l, 8);
-  store<f32>(out, g, 12);
+  storeExtremes(out + 8, lo, hi, l, g);
 }
 
 /** Σ(v − mean)² in double precision over the same spans as regionSums (the population variance's second pass). */

@@ -1,6 +1,7 @@
 // Thresholds and Otsu's histogram. Masks are float32 0 and 1, written without branches:
 // a compare gives all-ones lanes, ANDed with the bit pattern of 1.0.
 import { at } from './border';
+import { storeExtremes } from './extremes';
 
 const ONE_BITS: i32 = 0x3f800000;
 /** Pixels checked between early exits of the 8-bit test. */
@@ -47,15 +48,7 @@ export function valueRange(src: usize, n: i32, out: usize): void {
     if (v < l) l = v;
     if (v > g) g = v;
   }
-  for (let lane = 0; lane < 4; lane++) {
-    const a = f32x4.extract_lane(lo, 0), b = f32x4.extract_lane(hi, 0);
-    if (a < l) l = a;
-    if (b > g) g = b;
-    lo = v128.shuffle<f32>(lo, lo, 1, 2, 3, 0);
-    hi = v128.shuffle<f32>(hi, hi, 1, 2, 3, 0);
-  }
-  store<f32>(out, l);
-  store<f32>(out, g, 4);
+  storeExtremes(out, lo, hi, l, g);
 }
 
 /** Partial histograms the counting fills in turn. */

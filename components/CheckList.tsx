@@ -1,6 +1,7 @@
 import { Pressable, StyleSheet, View } from 'react-native';
 import { colors, minTouchTarget, radius, space } from '../lib/theme';
 import { AppText } from './AppText';
+import { FieldError } from './FieldError';
 
 export interface CheckListItem<T extends string> {
   value: T;
@@ -65,11 +66,7 @@ export function CheckList<T extends string>({ label, description, items, value, 
           );
         })}
       </View>
-      {error ? (
-        <AppText variant="caption" tone="danger" accessibilityRole="alert">
-          {`⚠ ${error}`}
-        </AppText>
-      ) : null}
+      <FieldError error={error} />
     </View>
   );
 }

@@ -2,6 +2,7 @@ import { forwardRef, useState } from 'react';
 import { StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
 import { colors, minTouchTarget, radius, space, type as typeScale } from '../lib/theme';
 import { AppText } from './AppText';
+import { FieldError } from './FieldError';
 
 interface TextFieldProps extends Omit<TextInputProps, 'style'> {
   label: string;
@@ -41,11 +42,7 @@ export const TextField = forwardRef<TextInput, TextFieldProps>(function TextFiel
         style={[styles.input, focused && styles.inputFocused, error ? styles.inputInvalid : null]}
         {...inputProps}
       />
-      {error ? (
-        <AppText variant="caption" tone="danger" accessibilityRole="alert">
-          {`⚠ ${error}`}
-        </AppText>
-      ) : null}
+      <FieldError error={error} />
     </View>
   );
 });

@@ -2,6 +2,7 @@ import { StyleSheet, View } from 'react-native';
 import { space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { ChoiceChips } from '../ChoiceChips';
+import { FieldError } from '../FieldError';
 
 interface StationChoiceProps {
   lines: readonly { id: string; name: string; stations: readonly { id: string; name: string }[] }[];
@@ -22,11 +23,7 @@ export function StationChoice({ lines, value, onChange, anyLabel, error }: Stati
         .map((line) => (
           <ChoiceChips<string | null> key={line.id} label={line.name} value={value} onChange={onChange} choices={line.stations.map((s) => ({ value: s.id, label: s.name }))} />
         ))}
-      {error ? (
-        <AppText variant="caption" tone="danger" accessibilityRole="alert">
-          {`⚠ ${error}`}
-        </AppText>
-      ) : null}
+      <FieldError error={error} />
     </View>
   );
 }

@@ -1,8 +1,10 @@
 // The rule's input channel of a photo, as the rule runner takes it: 8-bit colour to luma through the
 // SIMD kernels when they run (the same bits as channelImage), anything else through channelImage.
+// With the quality gate's figures, an 8-bit grey or colour photo takes one pass over its rows.
 import type { InputChannel } from '../rules/schema';
 import { simdKernels } from './engine';
 import { BT601_WEIGHTS, channelImage, imageLike, type Image, type RawPhoto } from './image';
+import { qualityFigures, qualityFromSums, type QualityFigures } from './quality';
 
 export function inputChannel(photo: RawPhoto, channel: InputChannel, out?: Image): Image {
   const simd = simdKernels();
@@ -10,4 +12,19 @@ export function inputChannel(photo: RawPhoto, channel: InputChannel, out?: Image
   const colour8 = channel === 'luma' && bitDepth === 8 && (channels === 3 || channels === 4) && samples instanceof Uint8Array;
   if (!simd || !colour8 || samples.length !== photo.width * photo.height * channels) return channelImage(photo, channel, out);
   return simd.lumaRgb8(samples, channels, BT601_WEIGHTS, imageLike(photo, out)) ?? channelImage(photo, channel, out);
+}
+
+/** The input channel and its quality figures (qualityFigures of inputChannel's image, the same values). */
+export function inputWithQuality(photo: RawPhoto, channel: InputChannel, out?: Image): { input: Image; quality: QualityFigures } {
+  const simd = simdKernels();
+  const { width, height, channels, bitDepth, samples } = photo;
+  const whole = bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height * channels;
+  const oneChannel = channels === 1 || (channel === 'luma' && (channels === 3 || channels === 4));
+  if (simd && whole && oneChannel) {
+    const input = imageLike(photo, out);
+    const sums = simd.photoWithQualitySums(samples, channels as 1 | 3 | 4, BT601_WEIGHTS, input);
+    if (sums) return { input, quality: qualityFromSums(sums, width * height) };
+  }
+  const input = inputChannel(photo, channel, out);
+  return { input, quality: qualityFigures(input, bitDepth) };
 }

@@ -14,8 +14,8 @@ import { laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
 import { morphology } from './morphology';
 import { gaussianGradient } from './smoothed-gradient';
-import { inputChannel } from './photo-channel';
-import { judgeQuality, qualityFigures, type QualityJudgement } from './quality';
+import { inputWithQuality } from './photo-channel';
+import { judgeQuality, type QualityJudgement } from './quality';
 import { boxFilter, gaussianBlur } from './smoothing';
 import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from './threshold';
 import { ImageWorkspace } from './workspace';
@@ -108,8 +108,8 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   // Without a workspace from the caller, the run's images end in ordinary memory (detached below).
   const ownWorkspace = !options.workspace;
   const workspace = options.workspace ?? new ImageWorkspace();
-  const input = inputChannel(photo, rule.input.channel, workspace.take(photo.width, photo.height));
-  const quality = judgeQuality(qualityFigures(input, photo.bitDepth), rule.quality);
+  const { input, quality: figures } = inputWithQuality(photo, rule.input.channel, workspace.take(photo.width, photo.height));
+  const quality = judgeQuality(figures, rule.quality);
 
   const retainAll = (options.retain ?? 'all') === 'all';
   const needed = new Set<number>(rule.gauges.map((g) => g.step ?? rule.steps.length));

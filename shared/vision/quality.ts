@@ -12,6 +12,14 @@ export interface QualityFigures {
   readonly mean: number;
 }
 
+/** The sums the figures come from: Σv, the number of v at the bit depth's maximum, Σlap and Σlap². */
+export interface QualitySums {
+  readonly sum: number;
+  readonly clipped: number;
+  readonly lapSum: number;
+  readonly lapSquares: number;
+}
+
 export interface QualityJudgement extends QualityFigures {
   readonly pass: boolean;
   /** One sentence per failed check, in the engineer's words. */
@@ -32,7 +40,7 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
   if (simd) {
     // The same per-pixel terms in double precision, summed in another order (last-digit differences only).
     const sums = simd.qualitySums(input, top);
-    return figuresOf(sums.sum, sums.clipped, sums.lapSum, sums.lapSquares, n);
+    return qualityFromSums(sums, n);
   }
   let sum = 0;
   let clipped = 0;
@@ -74,10 +82,11 @@ export function qualityFigures(input: Image, bitDepth: BitDepth): QualityFigures
       centre = right;
     }
   }
-  return figuresOf(sum, clipped, lapSum, lapSquares, n);
+  return qualityFromSums({ sum, clipped, lapSum, lapSquares }, n);
 }
 
-function figuresOf(sum: number, clipped: number, lapSum: number, lapSquares: number, n: number): QualityFigures {
+/** The figures from the sums over n pixels. */
+export function qualityFromSums({ sum, clipped, lapSum, lapSquares }: QualitySums, n: number): QualityFigures {
   const lapMean = lapSum / n;
   return { focus: Math.max(0, lapSquares / n - lapMean * lapMean), clipped: clipped / n, mean: sum / n };
 }

@@ -7,6 +7,7 @@ import type { BorderMode } from '../border';
 import type { MeanComparison } from '../smoothing';
 import { imageLike, type Image, type ValueRange } from '../image';
 import type { Kernel } from '../kernels';
+import type { QualitySums } from '../quality';
 import { WasmHeap } from './heap';
 import { ResidentImage } from './resident-image';
 import type { WasmMemory } from './webassembly';
@@ -47,12 +48,24 @@ export interface EngineExports {
   regionSums(src: number, w: number, h: number, starts: number, ends: number, out: number): void;
   regionSquares(src: number, w: number, h: number, starts: number, ends: number, mean: number): number;
   lumaRgb8(src: number, channels: number, n: number, dst: number, kr: number, kg: number, kb: number): void;
+  lumaRgb8Quality(src: number, channels: number, w: number, h: number, dst: number, kr: number, kg: number, kb: number, top: number, out: number): void;
+  grey8Quality(src: number, w: number, h: number, dst: number, out: number): void;
   box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
   boxScratchBytes(w: number, size: number): number;
   median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
   medianScratchBytes(w: number, size: number): number;
   medianHistogram(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
   medianHistogramScratchBytes(w: number, size: number): number;
+}
+
+type LumaWeights = { red: number; green: number; blue: number };
+
+/** The weights in whole thousandths (BT.601's are), which the exact luma kernels need; null otherwise. */
+function wholeThousandths(weights: LumaWeights): [number, number, number] | null {
+  const given = [weights.red, weights.green, weights.blue];
+  const thousandths = given.map((w) => Math.round(w * 1000));
+  if (thousandths.some((k, i) => k < 0 || k > 1000 || k / 1000 !== given[i])) return null;
+  return [thousandths[0], thousandths[1], thousandths[2]];
 }
 
 const BORDER_CODES: Record<BorderMode, number> = { reflect: 0, replicate: 1, constant: 2 };
@@ -354,7 +367,7 @@ export class SimdKernels {
    * (4-neighbour Laplacian, reflect border). For 8-bit samples (whole numbers 0 … 255) they are
    * whole numbers, computed exactly, as cheaper integer and float32 arithmetic allows.
    */
-  qualitySums(image: Image, top: number): { sum: number; clipped: number; lapSum: number; lapSquares: number } {
+  qualitySums(image: Image, top: number): QualitySums {
     return this.read(image, (s, scope) => {
       const out = scope.alloc(32);
       if (top === 255 && this.wasm.eightBitLevels(s, image.data.length) === 1) this.wasm.qualitySumsWhole8(s, image.width, image.height, out);
@@ -413,9 +426,9 @@ export class SimdKernels {
    * engine's double-precision sum rounded once (see assembly/channels.ts); null when a weight is not
    * a whole number of thousandths from 0 to 1 (BT.601's are), which the kernel needs for that.
    */
-  lumaRgb8(samples: Uint8Array, channels: 3 | 4, weights: { red: number; green: number; blue: number }, out: Image): Image | null {
-    const thousandths = [weights.red, weights.green, weights.blue].map((w) => Math.round(w * 1000));
-    if (thousandths.some((k, i) => k < 0 || k > 1000 || k / 1000 !== [weights.red, weights.green, weights.blue][i])) return null;
+  lumaRgb8(samples: Uint8Array, channels: 3 | 4, weights: LumaWeights, out: Image): Image | null {
+    const thousandths = wholeThousandths(weights);
+    if (!thousandths) return null;
     const pixels = out.data.length;
     const scope = new CallScope(this.heap);
     try {
@@ -429,6 +442,32 @@ export class SimdKernels {
       scope.end();
     }
     return out;
+  }
+
+  /**
+   * An 8-bit photo's input image and its quality sums (top 255) in one pass over the rows: grey samples
+   * as float32, their sums exact in whole numbers; colour to luma as lumaRgb8, the sums as qualitySums
+   * gives them for that image, to the bit. null when the weights are not whole thousandths.
+   */
+  photoWithQualitySums(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, out: Image): QualitySums | null {
+    const thousandths = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
+    if (!thousandths) return null;
+    const pixels = out.data.length;
+    const scope = new CallScope(this.heap);
+    try {
+      const src = scope.alloc(samples.length);
+      new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
+      const resident = this.owns(out);
+      const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
+      const sums = scope.alloc(32);
+      if (channels === 1) this.wasm.grey8Quality(src, out.width, out.height, dst, sums);
+      else this.wasm.lumaRgb8Quality(src, channels, out.width, out.height, dst, thousandths[0], thousandths[1], thousandths[2], 255, sums);
+      if (!resident) out.data.set(this.heap.f32(dst, pixels));
+      const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
+      return { sum, clipped, lapSum, lapSquares };
+    } finally {
+      scope.end();
+    }
   }
 
   /** Address of the image's samples in the module's memory: its own, or a copy for the call. */

@@ -11,7 +11,7 @@ import { labelBlobs } from '../../../shared/vision/blobs';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { gradient } from '../../../shared/vision/gradient';
 import { channelImage, createImage, type RawPhoto } from '../../../shared/vision/image';
-import { inputChannel } from '../../../shared/vision/photo-channel';
+import { inputChannel, inputWithQuality } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { qualityFigures } from '../../../shared/vision/quality';
 import { runRule } from '../../../shared/vision/pipeline';
@@ -77,6 +77,37 @@ test('quality gate of 8-bit images: whole-number sums, so the same focus, clippe
       const image = createImage(w, h, Float32Array.from({ length: w * h }, () => (clip && rand() < 0.2 ? 255 : Math.floor(rand() * 256))));
       const { plain, simd } = onBoth(() => qualityFigures(image, 8));
       expect(simd).toEqual(plain);
+    }),
+    RUNS,
+  );
+});
+
+test('input and quality gate of 8-bit grey photos in one pass: the plain engine\'s float32 samples and its focus, clipped share and mean, exactly', () => {
+  // Rows of over 16·256 inner columns pass through the kernel's int32-to-int64 flush.
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 4100, max: 4400 }), fc.integer({ min: 1, max: 3 })));
+  fc.assert(
+    fc.property(size, seed, fc.boolean(), ([w, h], s, clip) => {
+      const rand = seededRandom(s);
+      const samples = Uint8Array.from({ length: w * h }, () => (clip && rand() < 0.3 ? 255 : Math.floor(rand() * 256)));
+      const photo: RawPhoto = { width: w, height: h, channels: 1, bitDepth: 8, samples };
+      const { plain, simd } = onBoth(() => inputWithQuality(photo, 'luma'));
+      expect(bitsOf(simd.input)).toEqual(bitsOf(plain.input));
+      expect(simd.quality).toEqual(plain.quality);
+    }),
+    RUNS,
+  );
+});
+
+test('input and quality gate of 8-bit colour photos in one pass: the same luma bits, and the same figures as the SIMD quality gate run after the conversion', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<3 | 4>(3, 4), seed, ([w, h], channels, s) => {
+      const rand = seededRandom(s);
+      const samples = Uint8Array.from({ length: w * h * channels }, () => (rand() < 0.1 ? 255 : Math.floor(rand() * 256)));
+      const photo: RawPhoto = { width: w, height: h, channels, bitDepth: 8, samples };
+      const fused = onEngine('simd', () => inputWithQuality(photo, 'luma'));
+      const separate = onEngine('simd', () => qualityFigures(inputChannel(photo, 'luma'), 8));
+      expect(bitsOf(fused.input)).toEqual(bitsOf(onEngine('plain', () => channelImage(photo, 'luma'))));
+      expect(fused.quality).toEqual(separate);
     }),
     RUNS,
   );

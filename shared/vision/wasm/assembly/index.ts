@@ -11,6 +11,7 @@ export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, pack
 export { packNonZero, countSetBits } from './blobs';
 export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares } from './statistics';
 export { lumaRgb8 } from './channels';
+export { lumaRgb8Quality, grey8Quality } from './input-quality';
 export { box, boxScratchBytes } from './box';
 export { median, medianScratchBytes } from './median';
 export { medianHistogram, medianHistogramScratchBytes } from './median-histogram';

@@ -4,22 +4,40 @@ import { at, borderIndex, REFLECT } from './border';
 import { storeExtremes } from './extremes';
 
 /**
+ * The quality gate's running sums: Σv and Σlap and Σlap² as float64 pairs, the clipped count as int32
+ * lanes, then the scalar columns' Σv, Σlap, Σlap² (float64) and count (int32). Static: the module runs
+ * one call at a time.
+ */
+const QUALITY_SUMS: usize = memory.data(96, 16);
+
+/**
  * out[0] = Σ v, out[1] = number of v ≥ top, out[2] = Σ lap, out[3] = Σ lap² as four float64, where lap
  * is the 4-neighbour Laplacian with the reflect border, computed per pixel as the plain engine does:
  * up + down + left + right − 4·centre in double precision (first and last columns: up + down + 2·inner − 4·centre).
  */
 export function qualitySums(src: usize, w: i32, h: i32, top: f32, out: usize): void {
-  let sum = f64x2.splat(0);
-  let lapSum = f64x2.splat(0);
-  let lapSquares = f64x2.splat(0);
-  let clippedLanes = i32x4.splat(0);
-  let sumScalar: f64 = 0;
-  let lapSumScalar: f64 = 0;
-  let lapSquaresScalar: f64 = 0;
-  let clipped: i32 = 0;
+  startQualitySums();
+  qualityRows(src, w, h, 0, h, top);
+  finishQualitySums(out);
+}
+
+export function startQualitySums(): void {
+  memory.fill(QUALITY_SUMS, 0, 96);
+}
+
+/** Adds rows y0 … y1−1 of the image to the quality gate's running sums (see qualitySums). */
+export function qualityRows(src: usize, w: i32, h: i32, y0: i32, y1: i32, top: f32): void {
+  let sum = v128.load(QUALITY_SUMS);
+  let lapSum = v128.load(QUALITY_SUMS, 16);
+  let lapSquares = v128.load(QUALITY_SUMS, 32);
+  let clippedLanes = v128.load(QUALITY_SUMS, 48);
+  let sumScalar = load<f64>(QUALITY_SUMS, 64);
+  let lapSumScalar = load<f64>(QUALITY_SUMS, 72);
+  let lapSquaresScalar = load<f64>(QUALITY_SUMS, 80);
+  let clipped = load<i32>(QUALITY_SUMS, 88);
   const vtop = f32x4.splat(top);
   const four = f64x2.splat(4);
-  for (let y = 0; y < h; y++) {
+  for (let y = y0; y < y1; y++) {
     const c = at(src, y * w);
     const up = at(src, borderIndex(y - 1, h, REFLECT) * w);
     const down = at(src, borderIndex(y + 1, h, REFLECT) * w);
@@ -66,10 +84,24 @@ export function qualitySums(src: usize, w: i32, h: i32, top: f32, out: usize): v
       lapSquaresScalar += lap * lap;
     }
   }
-  store<f64>(out, sumScalar + f64x2.extract_lane(sum, 0) + f64x2.extract_lane(sum, 1));
+  v128.store(QUALITY_SUMS, sum);
+  v128.store(QUALITY_SUMS, lapSum, 16);
+  v128.store(QUALITY_SUMS, lapSquares, 32);
+  v128.store(QUALITY_SUMS, clippedLanes, 48);
+  store<f64>(QUALITY_SUMS, sumScalar, 64);
+  store<f64>(QUALITY_SUMS, lapSumScalar, 72);
+  store<f64>(QUALITY_SUMS, lapSquaresScalar, 80);
+  store<i32>(QUALITY_SUMS, clipped, 88);
+}
+
+/** The running sums' totals, as qualitySums stores them at out. */
+export function finishQualitySums(out: usize): void {
+  const sum = v128.load(QUALITY_SUMS), lapSum = v128.load(QUALITY_SUMS, 16), lapSquares = v128.load(QUALITY_SUMS, 32), clippedLanes = v128.load(QUALITY_SUMS, 48);
+  const clipped = load<i32>(QUALITY_SUMS, 88);
+  store<f64>(out, load<f64>(QUALITY_SUMS, 64) + f64x2.extract_lane(sum, 0) + f64x2.extract_lane(sum, 1));
   store<f64>(out, <f64>(clipped + i32x4.extract_lane(clippedLanes, 0) + i32x4.extract_lane(clippedLanes, 1) + i32x4.extract_lane(clippedLanes, 2) + i32x4.extract_lane(clippedLanes, 3)), 8);
-  store<f64>(out, lapSumScalar + f64x2.extract_lane(lapSum, 0) + f64x2.extract_lane(lapSum, 1), 16);
-  store<f64>(out, lapSquaresScalar + f64x2.extract_lane(lapSquares, 0) + f64x2.extract_lane(lapSquares, 1), 24);
+  store<f64>(out, load<f64>(QUALITY_SUMS, 72) + f64x2.extract_lane(lapSum, 0) + f64x2.extract_lane(lapSum, 1), 16);
+  store<f64>(out, load<f64>(QUALITY_SUMS, 80) + f64x2.extract_lane(lapSquares, 0) + f64x2.extract_lane(lapSquares, 1), 24);
 }
 
 /** 1.5·2²³: adding it to a whole number n with |n| < 2²² leaves 0x4b400000 + n in the float32's bits. */

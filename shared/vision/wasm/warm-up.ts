@@ -44,5 +44,8 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.qualitySums(a, 255);
   kernels.lumaRgb8(new Uint8Array(3 * SIDE * SIDE).fill(99), 3, { red: 0.299, green: 0.587, blue: 0.114 }, b);
   kernels.lumaRgb8(new Uint8Array(4 * SIDE * SIDE).fill(99), 4, { red: 0.299, green: 0.587, blue: 0.114 }, b);
+  const bytes = Uint8Array.from({ length: 3 * SIDE * SIDE }, (_, p) => (p * 7919) % 251);
+  kernels.photoWithQualitySums(bytes.subarray(0, SIDE * SIDE), 1, { red: 0.299, green: 0.587, blue: 0.114 }, b);
+  kernels.photoWithQualitySums(bytes, 3, { red: 0.299, green: 0.587, blue: 0.114 }, b);
   for (const image of [a, b, c]) kernels.heap.release(image.address);
 }

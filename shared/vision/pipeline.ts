@@ -2,10 +2,9 @@
 // float32 out), gauges, verdict. Pure computation: kernels of the library come from the caller.
 import type { FieldIssue } from '../api/errors';
 import { validateRuleDocument, type Gauge, type GaugeMeasure, type GaugeUnit, type Limits, type RuleDocument, type Step } from '../rules/schema';
-import { createPackedMask, MAX_PACKED_RADIUS, type PackedMask } from './binary-morphology';
+import { MAX_PACKED_RADIUS, type PackedMask } from './binary-morphology';
 import type { BorderMode } from './border';
 import { correlate, type LargeKernelCorrelator } from './convolve';
-import { activeEngine } from './engine';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
 import type { BitDepth, Image, RawPhoto, ValueRange } from './image';
@@ -119,7 +118,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
 
   const steps: StepRun[] = [];
   const outputs: (Image | null)[] = [input];
-  const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, packedReady: false };
+  const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, workspace, packedReady: false };
   let current = input;
   let currentKind: OutputKind = 'intensity';
   for (let i = 0; i < rule.steps.length; i++) {
@@ -128,7 +127,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
     const out = take();
     const next = rule.steps[i + 1];
     const keptOutput = retainAll || needed.has(i + 1);
-    if (step.op === 'gaussian' && next?.op === 'gradient' && next.output !== 'direction' && !keptOutput && activeEngine() === 'simd') {
+    if (step.op === 'gaussian' && next?.op === 'gradient' && next.output !== 'direction' && !keptOutput) {
       // Nobody reads the smoothed image: smooth and differentiate in one sweep (smoothed-gradient.ts).
       handover.range.min = handover.range.max = NaN;
       handover.packedReady = false;
@@ -221,7 +220,9 @@ function checkCalibration(rule: RuleDocument, mmPerPx?: number): void {
  */
 interface Handover {
   range: ValueRange;
+  /** The workspace's packed mask, once a step has asked for it. */
   packed: PackedMask | null;
+  workspace: ImageWorkspace;
   /** True when `packed` holds the current image. */
   packedReady: boolean;
 }
@@ -262,7 +263,7 @@ function applyStep(
       if (step.method === 'fixed') return thresholdFixed(src, step.value, step.invert, out);
       if (step.method === 'otsu') {
         if (!packNext) return thresholdOtsu(src, step.invert, out, known).mask;
-        handover.packed ??= createPackedMask(src.width, src.height);
+        handover.packed ??= handover.workspace.packedMask(src.width, src.height);
         handover.packedReady = true;
         return thresholdOtsu(src, step.invert, out, known, handover.packed, !onlyPacked).mask;
       }

@@ -2,6 +2,7 @@
 // costs page faults and garbage-collection pressure that can exceed the filtering itself, so a
 // batch (a trial, a worker thread, the preview) keeps a few spare buffers of the last image size.
 // With the SIMD engine the buffers live in its WebAssembly memory, where the kernels work in place.
+import { createPackedMask, type PackedMask } from './binary-morphology';
 import { simdKernels } from './engine';
 import { createImage, type Image } from './image';
 import { isResident, ResidentImage } from './wasm/resident-image';
@@ -11,6 +12,7 @@ const DEFAULT_SPARE_LIMIT = 4;
 
 export class ImageWorkspace {
   private spare: Image[] = [];
+  private packed: PackedMask | null = null;
 
   constructor(private readonly spareLimit = DEFAULT_SPARE_LIMIT) {}
 
@@ -25,6 +27,16 @@ export class ImageWorkspace {
       return image.width === width && image.height === height ? image : reshape(image, width, height);
     }
     return simd ? simd.takeImage(width, height) : createImage(width, height);
+  }
+
+  /**
+   * A packed mask of this size for the steps that hand a mask over in packed bits, the same one run
+   * after run: its words are undefined (every writer sets all of them). A fresh one per run costs
+   * more than the step that fills it (0.6 MB at 5 MP: new pages, then garbage).
+   */
+  packedMask(width: number, height: number): PackedMask {
+    if (this.packed?.width !== width || this.packed.height !== height) this.packed = createPackedMask(width, height);
+    return this.packed;
   }
 
   /** Hands a buffer back; the caller must not use the image afterwards. Detached buffers are ignored. */

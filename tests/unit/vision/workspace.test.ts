@@ -2,6 +2,7 @@
 import type { RawPhoto } from '../../../shared/vision/image';
 import { releaseRun, runRule } from '../../../shared/vision/pipeline';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
+import { onEngine } from './engines';
 
 const photo: RawPhoto = (() => {
   const w = 45;
@@ -58,4 +59,30 @@ test('the standard pipeline (threshold then opening) runs in three image buffers
   expect(workspace.spareCount).toBe(3);
   releaseRun(runRule(standard, photo, { retain: 'gauged', workspace }), workspace);
   expect(workspace.spareCount).toBe(3);
+});
+
+test('runs of different photos on one workspace (its packed mask reused) give the results of fresh runs, on both engines', () => {
+  const other: RawPhoto = { ...photo, samples: photo.samples.map((v, p) => ((p % photo.width) < 15 ? 220 : v)) };
+  const standard = { ...rule, gauges: [{ name: 'edges', measure: 'edge-fraction', limits: { max: 0.5 } }] };
+  for (const engine of ['plain', 'simd'] as const) {
+    onEngine(engine, () => {
+      const workspace = new ImageWorkspace();
+      for (const p of [photo, other, photo, other]) {
+        const fresh = runRule(standard, p, { retain: 'all' });
+        const reused = runRule(standard, p, { retain: 'gauged', workspace });
+        expect(reused.measurements).toEqual(fresh.measurements);
+        expect(Array.from(reused.steps[3].output!.data)).toEqual(Array.from(fresh.steps[3].output!.data));
+        releaseRun(reused, workspace);
+      }
+    });
+  }
+});
+
+test('the packed mask a workspace hands out is the same one for the same size, a new one for another', () => {
+  const workspace = new ImageWorkspace();
+  const a = workspace.packedMask(45, 31);
+  expect(workspace.packedMask(45, 31)).toBe(a);
+  const b = workspace.packedMask(31, 45);
+  expect(b).not.toBe(a);
+  expect([b.width, b.height, b.wordsPerRow, b.words.length]).toEqual([31, 45, 1, 45]);
 });

@@ -1,9 +1,12 @@
 // The rule's input channel of a photo, as the rule runner takes it: 8-bit colour to luma through the
 // SIMD kernels when they run (the same bits as channelImage), anything else through channelImage.
 // With the quality gate's figures, an 8-bit grey or colour photo takes one pass over its rows.
-import type { InputChannel } from '../rules/schema';
+import type { GradientOperator, InputChannel } from '../rules/schema';
+import type { BorderMode } from './border';
 import { simdKernels } from './engine';
-import { BT601_WEIGHTS, channelImage, imageLike, type Image, type RawPhoto } from './image';
+import { gradientWeights } from './gradient';
+import { BT601_WEIGHTS, channelImage, imageLike, type Image, type RawPhoto, type ValueRange } from './image';
+import { gaussianWeights } from './kernels';
 import { qualityFigures, qualityFromSums, type QualityFigures } from './quality';
 
 export function inputChannel(photo: RawPhoto, channel: InputChannel, out?: Image): Image {
@@ -27,4 +30,32 @@ export function inputWithQuality(photo: RawPhoto, channel: InputChannel, out?: I
   }
   const input = inputChannel(photo, channel, out);
   return { input, quality: qualityFigures(input, bitDepth) };
+}
+
+/**
+ * A rule's first two steps, a Gaussian and a gradient whose smoothed image nobody reads, straight from
+ * an 8-bit grey photo on the SIMD engine: the quality figures, and the gradient into `out` (as
+ * gaussianGradient of the input, to the bit), from the photo's bytes; `input` gets its samples
+ * (channelImage's) only when something reads them. null where this does not apply: the caller then
+ * converts the input (inputWithQuality).
+ */
+export function sweepFromPhoto(
+  photo: RawPhoto,
+  sigma: number,
+  operator: GradientOperator,
+  output: 'x' | 'y' | 'magnitude',
+  border: BorderMode,
+  input: Image,
+  out: Image,
+  range?: ValueRange,
+): QualityFigures | null {
+  const simd = simdKernels();
+  const { width, height, channels, bitDepth, samples } = photo;
+  const grey8 = channels === 1 && bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height;
+  if (!simd || !grey8 || !simd.owns(input) || input.width !== width || input.height !== height) return null;
+  const g = gaussianWeights(sigma);
+  const [a, b] = gradientWeights(operator);
+  const sums = simd.grey8QualityAndSmoothedGradient(samples, width, height, g, g, a, b, output, border, out, range);
+  input.fillLater((data) => data.set(samples));
+  return qualityFromSums(sums, width * height);
 }

@@ -13,8 +13,8 @@ import { laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
 import { morphology } from './morphology';
 import { gaussianGradient } from './smoothed-gradient';
-import { inputWithQuality } from './photo-channel';
-import { judgeQuality, type QualityJudgement } from './quality';
+import { inputWithQuality, sweepFromPhoto } from './photo-channel';
+import { judgeQuality, type QualityFigures, type QualityJudgement } from './quality';
 import { boxFilter, gaussianBlur } from './smoothing';
 import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from './threshold';
 import { ImageWorkspace } from './workspace';
@@ -107,32 +107,46 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   // Without a workspace from the caller, the run's images end in ordinary memory (detached below).
   const ownWorkspace = !options.workspace;
   const workspace = options.workspace ?? new ImageWorkspace();
-  const { input, quality: figures } = inputWithQuality(photo, rule.input.channel, workspace.take(photo.width, photo.height));
-  const quality = judgeQuality(figures, rule.quality);
-
   const retainAll = (options.retain ?? 'all') === 'all';
   const needed = new Set<number>(rule.gauges.map((g) => g.step ?? rule.steps.length));
   needed.add(rule.steps.length);
   const spare: Image[] = [];
-  const take = () => spare.pop() ?? workspace.take(input.width, input.height);
+  const take = () => spare.pop() ?? workspace.take(photo.width, photo.height);
+  const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, workspace, packedReady: false };
+
+  // A rule opening with a Gaussian and a gradient that nobody else reads takes an 8-bit grey photo
+  // straight into their sweep (photo-channel.ts); the input image is then filled only if read.
+  let input = workspace.take(photo.width, photo.height);
+  const [first, second] = rule.steps;
+  let opening: { output: Image; ms: number } | null = null;
+  let figures: QualityFigures | null = null;
+  if (first?.op === 'gaussian' && second?.op === 'gradient' && second.output !== 'direction' && !retainAll && !needed.has(1)) {
+    const out = take();
+    const t0 = now();
+    figures = sweepFromPhoto(photo, first.sigma, second.operator, second.output, rule.border, input, out, handover.range);
+    if (figures) opening = { output: out, ms: now() - t0 };
+    else spare.push(out);
+  }
+  if (!figures) ({ input, quality: figures } = inputWithQuality(photo, rule.input.channel, input));
+  const quality = judgeQuality(figures, rule.quality);
 
   const steps: StepRun[] = [];
   const outputs: (Image | null)[] = [input];
-  const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, workspace, packedReady: false };
   let current = input;
   let currentKind: OutputKind = 'intensity';
   for (let i = 0; i < rule.steps.length; i++) {
     const step = rule.steps[i];
     const t0 = now();
-    const out = take();
+    const swept = i === 0 ? opening : null;
+    const out = swept ? swept.output : take();
     const next = rule.steps[i + 1];
     const keptOutput = retainAll || needed.has(i + 1);
     if (step.op === 'gaussian' && next?.op === 'gradient' && next.output !== 'direction' && !keptOutput) {
       // Nobody reads the smoothed image: smooth and differentiate in one sweep (smoothed-gradient.ts).
-      handover.range.min = handover.range.max = NaN;
       handover.packedReady = false;
-      const result = gaussianGradient(current, step.sigma, next.operator, next.output, rule.border, out, handover.range);
-      const ms = now() - t0;
+      if (!swept) handover.range.min = handover.range.max = NaN;
+      const result = swept ? out : gaussianGradient(current, step.sigma, next.operator, next.output, rule.border, out, handover.range);
+      const ms = swept ? swept.ms : now() - t0;
       if (!retainAll && i > 0 && !needed.has(i)) {
         spare.push(current);
         outputs[i] = null;

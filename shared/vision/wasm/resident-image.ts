@@ -4,6 +4,7 @@
 // A mask written by the packed-bit morphology may keep its samples in packed bits (one bit per
 // pixel) until something reads them: the edge fraction and the blobs read the bits themselves, so
 // a rule run whose last step is such a mask never writes its float32 samples (20 MB at 5 MP).
+// A photo's input image may likewise wait for its samples when the first step reads the photo itself.
 import type { Image } from '../image';
 import type { WasmHeap } from './heap';
 
@@ -18,6 +19,7 @@ export interface DeferredMask {
 export class ResidentImage implements Image {
   private view: Float32Array;
   private deferred: DeferredMask | null = null;
+  private pendingFill: ((data: Float32Array) => void) | null = null;
 
   constructor(
     readonly heap: WasmHeap,
@@ -45,8 +47,20 @@ export class ResidentImage implements Image {
     this.deferred = mask;
   }
 
+  /** The samples will be written by `fill` when first read. */
+  fillLater(fill: (data: Float32Array) => void): void {
+    this.discard();
+    this.pendingFill = fill;
+  }
+
   /** Writes deferred samples now (before a kernel reads the image's memory). */
   settle(): void {
+    const fill = this.pendingFill;
+    if (fill) {
+      this.pendingFill = null;
+      fill(this.data);
+      return;
+    }
     const mask = this.deferred;
     if (!mask) return;
     this.deferred = null;
@@ -56,6 +70,7 @@ export class ResidentImage implements Image {
 
   /** Drops deferred samples unwritten (before the image is overwritten or given up). */
   discard(): void {
+    this.pendingFill = null;
     const mask = this.deferred;
     if (!mask) return;
     this.deferred = null;

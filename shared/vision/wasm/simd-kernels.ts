@@ -28,6 +28,8 @@ export interface EngineExports {
   gradientScratchBytes(w: number): number;
   smoothedGradient(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
   smoothedGradientScratchBytes(w: number, colLen: number, rowLen: number): number;
+  smoothedGradientBytes(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
+  smoothedGradientBytesScratchBytes(w: number, colLen: number, rowLen: number): number;
   eightBitLevels(src: number, n: number): number;
   valueRange(src: number, n: number, out: number): void;
   histogram(src: number, n: number, origin: number, scale: number, partial: number, bins: number): void;
@@ -162,11 +164,7 @@ export class SimdKernels {
       const rangeAddress = range ? scope.alloc(8) : 0;
       const scratch = scope.alloc(this.wasm.gradientScratchBytes(src.width));
       this.wasm.gradient(s, d, src.width, src.height, a, b, GRADIENT_CODES[output], BORDER_CODES[border], rangeAddress, scratch);
-      if (range) {
-        const found = this.heap.f32(rangeAddress, 2);
-        range.min = output === 'magnitude' ? found[0] : NaN;
-        range.max = output === 'magnitude' ? found[1] : NaN;
-      }
+      if (range) this.readRange(rangeAddress, output, range);
     });
   }
 
@@ -216,13 +214,45 @@ export class SimdKernels {
       const rangeAddress = range ? scope.alloc(8) : 0;
       const scratch = scope.alloc(this.wasm.smoothedGradientScratchBytes(src.width, column.length, row.length));
       this.wasm.smoothedGradient(s, d, src.width, src.height, col, column.length, rw, row.length, a, b, GRADIENT_CODES[output], BORDER_CODES[border], rangeAddress, scratch);
-      if (range) {
-        const found = this.heap.f32(rangeAddress, 2);
-        range.min = output === 'magnitude' ? found[0] : NaN;
-        range.max = output === 'magnitude' ? found[1] : NaN;
-      }
+      if (range) this.readRange(rangeAddress, output, range);
     });
   }
+
+  /**
+   * An 8-bit grey photo's quality sums (as photoWithQualitySums) and smoothedGradient of its samples
+   * into `out`, both from the photo's bytes: no float32 image of the photo is written.
+   */
+  grey8QualityAndSmoothedGradient(samples: Uint8Array, width: number, height: number, column: ArrayLike<number>, row: ArrayLike<number>, a: number, b: number, output: 'x' | 'y' | 'magnitude', border: BorderMode, out: Image, range?: ValueRange): QualitySums {
+    const pixels = width * height;
+    const scope = new CallScope(this.heap);
+    try {
+      const src = scope.alloc(pixels);
+      new Uint8Array(this.heap.memory.buffer, src, pixels).set(samples);
+      const sums = scope.alloc(32);
+      this.wasm.grey8Quality(src, width, height, 0, sums);
+      const resident = this.owns(out);
+      const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
+      const col = scope.f32(column);
+      const rw = scope.f32(row);
+      const rangeAddress = range ? scope.alloc(8) : 0;
+      const scratch = scope.alloc(this.wasm.smoothedGradientBytesScratchBytes(width, column.length, row.length));
+      this.wasm.smoothedGradientBytes(src, dst, width, height, col, column.length, rw, row.length, a, b, GRADIENT_CODES[output], BORDER_CODES[border], rangeAddress, scratch);
+      if (range) this.readRange(rangeAddress, output, range);
+      if (!resident) out.data.set(this.heap.f32(dst, pixels));
+      const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
+      return { sum, clipped, lapSum, lapSquares };
+    } finally {
+      scope.end();
+    }
+  }
+
+  /** The magnitude's range a gradient kernel stored at `address` (NaN for the other outputs). */
+  private readRange(address: number, output: 'x' | 'y' | 'magnitude', range: ValueRange): void {
+    const found = this.heap.f32(address, 2);
+    range.min = output === 'magnitude' ? found[0] : NaN;
+    range.max = output === 'magnitude' ? found[1] : NaN;
+  }
+
 
   /** True when every value is a whole number in 0 … 255. */
   eightBitLevels(image: Image): boolean {

@@ -14,7 +14,8 @@ import { channelImage, createImage, type RawPhoto } from '../../../shared/vision
 import { inputChannel, inputWithQuality } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { qualityFigures } from '../../../shared/vision/quality';
-import { runRule } from '../../../shared/vision/pipeline';
+import { releaseRun, runRule } from '../../../shared/vision/pipeline';
+import { ImageWorkspace } from '../../../shared/vision/workspace';
 import { medianFilter } from '../../../shared/vision/median';
 import { boxFilter } from '../../../shared/vision/smoothing';
 import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
@@ -355,5 +356,42 @@ test('a rule run on a decision path (threshold, opening, closing, blob gauges) g
       simd.steps.forEach((step, i) => expect(bitsOf(step.output!)).toEqual(bitsOf(plain.steps[i].output!)));
     }),
     { numRuns: 60 },
+  );
+});
+
+test('a rule opening with a Gaussian and a gradient, run straight from an 8-bit grey photo: the same gradient, quality, measurements and verdict as the run through the float32 input, and the input filled when read', () => {
+  const operator = fc.constantFrom('sobel', 'scharr', 'prewitt');
+  const output = fc.constantFrom('x', 'y', 'magnitude');
+  const sigma = fc.constantFrom(0.5, 1, 1.4, 2.5);
+  const border = fc.constantFrom('reflect', 'replicate', 'constant');
+  // Tall images pass the sweep's ring of source rows many times over.
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 40 }), fc.integer({ min: 41, max: 90 })));
+  fc.assert(
+    fc.property(size, seed, operator, output, sigma, border, ([w, h], s, op, out, sg, b) => {
+      const rule = {
+        format: 'kernwright-rule/1',
+        name: 'Gradient first',
+        border: b,
+        steps: [{ op: 'gaussian', sigma: sg }, { op: 'gradient', operator: op, output: out }, { op: 'threshold', method: 'otsu' }, { op: 'open', radius: 1 }],
+        gauges: [
+          { name: 'mean gradient', measure: 'mean', step: 2, limits: { max: 1e6 } },
+          { name: 'edges', measure: 'edge-fraction', limits: { max: 0.5 } },
+        ],
+      };
+      const p = photo(w, h, s);
+      onEngine('simd', () => {
+        const workspace = new ImageWorkspace();
+        const through = runRule(rule, p, { retain: 'all' });
+        const direct = runRule(rule, p, { retain: 'gauged', workspace });
+        expect(bitsOf(direct.steps[1].output!)).toEqual(bitsOf(through.steps[1].output!));
+        expect(bitsOf(direct.steps[3].output!)).toEqual(bitsOf(through.steps[3].output!));
+        expect(direct.quality).toEqual(through.quality);
+        expect(direct.measurements).toEqual(through.measurements);
+        expect(direct.verdict).toBe(through.verdict);
+        expect(bitsOf(direct.input)).toEqual(bitsOf(channelImage(p, 'luma')));
+        releaseRun(direct, workspace);
+      });
+    }),
+    { numRuns: 80 },
   );
 });

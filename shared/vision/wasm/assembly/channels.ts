@@ -43,3 +43,18 @@ export function lumaRgb8(src: usize, channels: i32, n: i32, dst: usize, kr: i32,
     store<f32>(at(dst, p), <f32>(kr * <i32>load<u8>(s) + kg * <i32>load<u8>(s, 1) + kb * <i32>load<u8>(s, 2)) / <f32>1000);
   }
 }
+
+/** dst[x] = src[x] as float32 for x < n (bytes at src). */
+export function bytesToFloats(src: usize, n: i32, dst: usize): void {
+  let x = 0;
+  for (; x + 16 <= n; x += 16) {
+    const v = v128.load(src + <usize>x);
+    const low = i16x8.extend_low_i8x16_u(v), high = i16x8.extend_high_i8x16_u(v);
+    const o = dst + ((<usize>x) << 2);
+    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_low_i16x8_u(low)));
+    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_high_i16x8_u(low)), 16);
+    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_low_i16x8_u(high)), 32);
+    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_high_i16x8_u(high)), 48);
+  }
+  for (; x < n; x++) store<f32>(at(dst, x), <f32>load<u8>(src + <usize>x));
+}

@@ -5,7 +5,7 @@ export { separable, laplacianOfGaussian, separableScratchBytes } from './separab
 export { correlate2d, directScratchBytes } from './direct';
 export { correlateFft, fftScratchBytes, allFinite } from './fft';
 export { gradient, gradientScratchBytes } from './gradient';
-export { smoothedGradient, smoothedGradientScratchBytes } from './smoothed-gradient';
+export { smoothedGradient, smoothedGradientScratchBytes, smoothedGradientBytes, smoothedGradientBytesScratchBytes } from './smoothed-gradient';
 export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked, thresholdBinsPacked } from './threshold';
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero, countSetBits } from './blobs';

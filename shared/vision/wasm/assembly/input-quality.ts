@@ -2,7 +2,7 @@
 // and then summed while it is still in the cache, instead of a second pass over the whole float32
 // image (20 MB at 5 MP).
 import { at, borderIndex, REFLECT } from './border';
-import { lumaRgb8 } from './channels';
+import { bytesToFloats, lumaRgb8 } from './channels';
 import { finishQualitySums, qualityRows, startQualitySums } from './statistics';
 
 /**
@@ -21,7 +21,7 @@ export function lumaRgb8Quality(src: usize, channels: i32, w: i32, h: i32, dst: 
 }
 
 /**
- * 8-bit grey, n = w·h bytes at src: dst = the samples as float32, out = Σv, the number of v = 255, Σlap
+ * 8-bit grey, n = w·h bytes at src: dst = the samples as float32 (none when dst is 0), out = Σv, the number of v = 255, Σlap
  * and Σlap² (4-neighbour Laplacian, reflect border) as four float64, computed exactly from the bytes
  * in whole numbers (|lap| ≤ 1020): the plain engine's double-precision sums of the same whole numbers,
  * exact below 2⁵³, in any order.
@@ -35,7 +35,7 @@ export function grey8Quality(src: usize, w: i32, h: i32, dst: usize, out: usize)
     const c = src + <usize>(y * w);
     const up = src + <usize>(borderIndex(y - 1, h, REFLECT) * w);
     const down = src + <usize>(borderIndex(y + 1, h, REFLECT) * w);
-    bytesToFloats(c, w, at(dst, y * w));
+    if (dst != 0) bytesToFloats(c, w, at(dst, y * w));
     if (w == 1) {
       const v = <i32>load<u8>(c);
       const lap = <i32>load<u8>(up) + <i32>load<u8>(down) - 2 * v;
@@ -97,19 +97,4 @@ export function grey8Quality(src: usize, w: i32, h: i32, dst: usize, out: usize)
   store<f64>(out, <f64>clipped, 8);
   store<f64>(out, <f64>lapTotal, 16);
   store<f64>(out, <f64>(squaresScalar + i64x2.extract_lane(squares, 0) + i64x2.extract_lane(squares, 1)), 24);
-}
-
-/** dst[x] = src[x] as float32 for x < n (bytes at src). */
-function bytesToFloats(src: usize, n: i32, dst: usize): void {
-  let x = 0;
-  for (; x + 16 <= n; x += 16) {
-    const v = v128.load(src + <usize>x);
-    const low = i16x8.extend_low_i8x16_u(v), high = i16x8.extend_high_i8x16_u(v);
-    const o = dst + ((<usize>x) << 2);
-    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_low_i16x8_u(low)));
-    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_high_i16x8_u(low)), 16);
-    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_low_i16x8_u(high)), 32);
-    v128.store(o, f32x4.convert_i32x4_u(i32x4.extend_high_i16x8_u(high)), 48);
-  }
-  for (; x < n; x++) store<f32>(at(dst, x), <f32>load<u8>(src + <usize>x));
 }

@@ -1,7 +1,7 @@
 // Separable correlation, column ⊗ row, in two 1-D passes per output row: the vertical pass writes one
 // padded line (border filled by the policy), the horizontal pass reads it. Four pixels per v128,
 // float32 arithmetic; symmetric kernels add the mirrored samples first (one multiply per pair).
-import { align16, at, fillLineBorder, rowAddress } from './border';
+import { align16, at, borderIndex, fillLineBorder, OUTSIDE, rowAddress } from './border';
 
 /** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */
 export function separableScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
@@ -19,7 +19,7 @@ function isSymmetric(k: usize, n: i32): bool {
  */
 export function separable(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize): void {
   prepareSeparableScratch(scratch, w, colLen);
-  for (let y = 0; y < h; ) y += separableRows(src, w, h, y, colK, colLen, rowK, rowLen, mode, offset, scratch, at(dst, y * w), at(dst, (y + 1) * w));
+  for (let y = 0; y < h; ) y += separableRows(src, 0, w, h, y, colK, colLen, rowK, rowLen, mode, offset, scratch, at(dst, y * w), at(dst, (y + 1) * w));
 }
 
 /** Readies the scratch of `separableRows` (its row of zeros) for a w-wide image. */
@@ -31,8 +31,10 @@ export function prepareSeparableScratch(scratch: usize, w: i32, colLen: i32): vo
  * Output row y of the separable correlation into out and, when the column is symmetric of radius
  * 1–3 and row y + 1 exists, row y + 1 into next from the 2r+2 source rows they share (each sample
  * loaded once for both); returns the number of rows written. Every row comes out the same either way.
+ * With `ring` > 0, src holds only some of the rows, source row k in slot k mod ring (rows y − r … y + 1 + r
+ * must be there).
  */
-export function separableRows(src: usize, w: i32, h: i32, y: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize, out: usize, next: usize): i32 {
+export function separableRows(src: usize, ring: i32, w: i32, h: i32, y: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize, out: usize, next: usize): i32 {
   const ry = colLen >> 1;
   const rx = rowLen >> 1;
   const rows = align16(scratch);
@@ -41,7 +43,7 @@ export function separableRows(src: usize, w: i32, h: i32, y: i32, colK: usize, c
   const nextLine = align16(at(line, w + rowLen + 4));
   const rowSymmetric = isSymmetric(rowK, rowLen);
   if (isSymmetric(colK, colLen) && ry >= 1 && y + 1 < h) {
-    for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+    for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), sourceRow(src, ring, y + j - ry, h, w, mode, zeros));
     if (ry <= 3) verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(nextLine, rx));
     else verticalSymmetricPairSweeps(rows, colK, ry, w, at(line, rx), at(nextLine, rx));
     fillLineBorder(line, w, rx, mode);
@@ -55,13 +57,21 @@ export function separableRows(src: usize, w: i32, h: i32, y: i32, colK: usize, c
     }
     return 2;
   }
-  for (let j = 0; j < colLen; j++) store<usize>(at(rows, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+  for (let j = 0; j < colLen; j++) store<usize>(at(rows, j), sourceRow(src, ring, y + j - ry, h, w, mode, zeros));
   if (isSymmetric(colK, colLen)) verticalSymmetric(rows, colK, ry, w, at(line, rx));
   else verticalGeneral(rows, colK, colLen, w, at(line, rx));
   fillLineBorder(line, w, rx, mode);
   if (rowSymmetric) horizontalSymmetric(line, rowK, rx, w, out, offset);
   else horizontalGeneral(line, rowK, rowLen, w, out, offset);
   return 1;
+}
+
+/** Address of source row y (border applied) of a whole image, or of a ring of `ring` rows; `zeros` for an outside row. */
+@inline
+function sourceRow(src: usize, ring: i32, y: i32, h: i32, w: i32, mode: i32, zeros: usize): usize {
+  const sy = borderIndex(y, h, mode);
+  if (sy == OUTSIDE) return zeros;
+  return at(src, (ring > 0 ? sy % ring : sy) * w);
 }
 
 /**

@@ -3,6 +3,7 @@
 // cache, instead of a whole smoothed image written out and read back. Both parts run the row
 // functions of the two steps' own kernels, so every sample comes out as from the two steps in turn.
 import { align16, at, borderIndex, OUTSIDE } from './border';
+import { bytesToFloats } from './channels';
 import { gradientRow, gradientScratchBytes, prepareGradientScratch, storeRange } from './gradient';
 import { prepareSeparableScratch, separableRows, separableScratchBytes } from './separable';
 
@@ -14,11 +15,34 @@ export function smoothedGradientScratchBytes(w: i32, colLen: i32, rowLen: i32): 
   return separableScratchBytes(w, colLen, rowLen) + gradientScratchBytes(w) + RING * (4 * w + 32) + 64;
 }
 
+/** Scratch bytes `smoothedGradientBytes` needs: those of smoothedGradient and its ring of source rows. */
+export function smoothedGradientBytesScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
+  return smoothedGradientScratchBytes(w, colLen, rowLen) + 16 + sourceRingRows(colLen) * 4 * w;
+}
+
+/** Source rows kept as float32 by `smoothedGradientBytes`: the 2r + 2 rows a pair of smoothed rows reads. */
+function sourceRingRows(colLen: i32): i32 {
+  return colLen + 1;
+}
+
 /**
  * dst = the gradient (output and weights a, b as `gradient`) of the separable correlation
  * column ⊗ row of src (offset 0), both with the border `mode`; the magnitude's range to `range` as `gradient` does.
  */
 export function smoothedGradient(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
+  sweep(src, 0, dst, w, h, colK, colLen, rowK, rowLen, a, b, output, mode, range, scratch);
+}
+
+/**
+ * smoothedGradient of an 8-bit image (w·h bytes at src), with the same bits as smoothedGradient of
+ * its samples as float32: each source row is converted when the sweep first needs it, into a ring of
+ * sourceRingRows(colLen) rows after the scratch, instead of a whole float32 image written and read back.
+ */
+export function smoothedGradientBytes(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
+  sweep(0, src, dst, w, h, colK, colLen, rowK, rowLen, a, b, output, mode, range, scratch);
+}
+
+function sweep(src: usize, bytes: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
   const smoothing = align16(scratch);
   const gradients = align16(smoothing + <usize>separableScratchBytes(w, colLen, rowLen));
   const ring = align16(gradients + <usize>gradientScratchBytes(w));
@@ -26,13 +50,23 @@ export function smoothedGradient(src: usize, dst: usize, w: i32, h: i32, colK: u
   prepareSeparableScratch(smoothing, w, colLen);
   prepareGradientScratch(gradients, w);
   const zeros = align16(gradients);
+  // From bytes: source row k in slot k mod sourceRing of the rows after the smoothed ring.
+  const sourceRing = bytes != 0 ? sourceRingRows(colLen) : 0;
+  const source = bytes != 0 ? align16(scratch + <usize>smoothedGradientScratchBytes(w, colLen, rowLen)) : src;
+  const reach = colLen >> 1;
+  let converted = 0;
   // Smoothed rows 0 … ready−1 exist; row k sits in slot k mod RING.
   let ready = 0;
   for (let y = 0; y < h; y++) {
     const last = min(y + 1, h - 1);
     while (ready <= last) {
       const next = (ready + 1) % RING;
-      ready += separableRows(src, w, h, ready, colK, colLen, rowK, rowLen, mode, 0, smoothing, ring + <usize>(ready % RING) * slot, ring + <usize>next * slot);
+      if (bytes != 0) {
+        // The rows a pair starting at `ready` reads, up to row ready + 1 + r.
+        const needed = min(h, ready + 2 + reach);
+        for (; converted < needed; converted++) bytesToFloats(bytes + <usize>(converted * w), w, at(source, (converted % sourceRing) * w));
+      }
+      ready += separableRows(source, sourceRing, w, h, ready, colK, colLen, rowK, rowLen, mode, 0, smoothing, ring + <usize>(ready % RING) * slot, ring + <usize>next * slot);
     }
     const up = smoothedRow(ring, slot, y - 1, h, mode, zeros);
     const down = smoothedRow(ring, slot, y + 1, h, mode, zeros);

@@ -34,13 +34,14 @@ export function inputWithQuality(photo: RawPhoto, channel: InputChannel, out?: I
 
 /**
  * A rule's first two steps, a Gaussian and a gradient whose smoothed image nobody reads, straight from
- * an 8-bit grey photo on the SIMD engine: the quality figures, and the gradient into `out` (as
- * gaussianGradient of the input, to the bit), from the photo's bytes; `input` gets its samples
- * (channelImage's) only when something reads them. null where this does not apply: the caller then
- * converts the input (inputWithQuality).
+ * an 8-bit grey or colour photo (luma) on the SIMD engine: the quality figures, and the gradient into
+ * `out` (as gaussianGradient of the input, to the bit), from the photo's bytes; `input` gets its
+ * samples (channelImage's) only when something reads them. null where this does not apply: the
+ * caller then converts the input (inputWithQuality).
  */
 export function sweepFromPhoto(
   photo: RawPhoto,
+  channel: InputChannel,
   sigma: number,
   operator: GradientOperator,
   output: 'x' | 'y' | 'magnitude',
@@ -51,11 +52,13 @@ export function sweepFromPhoto(
 ): QualityFigures | null {
   const simd = simdKernels();
   const { width, height, channels, bitDepth, samples } = photo;
-  const grey8 = channels === 1 && bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height;
-  if (!simd || !grey8 || !simd.owns(input) || input.width !== width || input.height !== height) return null;
+  const oneChannel = channels === 1 || (channel === 'luma' && (channels === 3 || channels === 4));
+  const whole = bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height * channels;
+  if (!simd || !oneChannel || !whole || !simd.owns(input) || input.width !== width || input.height !== height) return null;
   const g = gaussianWeights(sigma);
   const [a, b] = gradientWeights(operator);
-  const sums = simd.grey8QualityAndSmoothedGradient(samples, width, height, g, g, a, b, output, border, out, range);
-  input.fillLater((data) => data.set(samples));
+  const sums = simd.photoQualityAndSmoothedGradient(samples, channels as 1 | 3 | 4, BT601_WEIGHTS, width, height, g, g, a, b, output, border, out, range);
+  if (!sums) return null;
+  input.fillLater(() => inputChannel(photo, channel, input));
   return qualityFromSums(sums, width * height);
 }

@@ -114,7 +114,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const take = () => spare.pop() ?? workspace.take(photo.width, photo.height);
   const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, workspace, packedReady: false };
 
-  // A rule opening with a Gaussian and a gradient that nobody else reads takes an 8-bit grey photo
+  // A rule opening with a Gaussian and a gradient that nobody else reads takes an 8-bit photo
   // straight into their sweep (photo-channel.ts); the input image is then filled only if read.
   let input = workspace.take(photo.width, photo.height);
   const [first, second] = rule.steps;
@@ -123,7 +123,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   if (first?.op === 'gaussian' && second?.op === 'gradient' && second.output !== 'direction' && !retainAll && !needed.has(1)) {
     const out = take();
     const t0 = now();
-    figures = sweepFromPhoto(photo, first.sigma, second.operator, second.output, rule.border, input, out, handover.range);
+    figures = sweepFromPhoto(photo, rule.input.channel, first.sigma, second.operator, second.output, rule.border, input, out, handover.range);
     if (figures) opening = { output: out, ms: now() - t0 };
     else spare.push(out);
   }

@@ -28,7 +28,7 @@ export interface EngineExports {
   gradientScratchBytes(w: number): number;
   smoothedGradient(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
   smoothedGradientScratchBytes(w: number, colLen: number, rowLen: number): number;
-  smoothedGradientBytes(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
+  smoothedGradientBytes(src: number, channels: number, kr: number, kg: number, kb: number, quality: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
   smoothedGradientBytesScratchBytes(w: number, colLen: number, rowLen: number): number;
   eightBitLevels(src: number, n: number): number;
   valueRange(src: number, n: number, out: number): void;
@@ -219,24 +219,43 @@ export class SimdKernels {
   }
 
   /**
-   * An 8-bit grey photo's quality sums (as photoWithQualitySums) and smoothedGradient of its samples
-   * into `out`, both from the photo's bytes: no float32 image of the photo is written.
+   * An 8-bit photo's quality sums (as photoWithQualitySums: grey exact from the bytes, colour as
+   * qualitySums of its luma) and smoothedGradient of its input image (grey samples, or luma as
+   * lumaRgb8) into `out`, straight from the photo's bytes: no float32 image of the photo is written.
+   * null when the weights are not whole thousandths.
    */
-  grey8QualityAndSmoothedGradient(samples: Uint8Array, width: number, height: number, column: ArrayLike<number>, row: ArrayLike<number>, a: number, b: number, output: 'x' | 'y' | 'magnitude', border: BorderMode, out: Image, range?: ValueRange): QualitySums {
+  photoQualityAndSmoothedGradient(
+    samples: Uint8Array,
+    channels: 1 | 3 | 4,
+    weights: LumaWeights,
+    width: number,
+    height: number,
+    column: ArrayLike<number>,
+    row: ArrayLike<number>,
+    a: number,
+    b: number,
+    output: 'x' | 'y' | 'magnitude',
+    border: BorderMode,
+    out: Image,
+    range?: ValueRange,
+  ): QualitySums | null {
+    const k = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
+    if (!k) return null;
     const pixels = width * height;
     const scope = new CallScope(this.heap);
     try {
-      const src = scope.alloc(pixels);
-      new Uint8Array(this.heap.memory.buffer, src, pixels).set(samples);
+      const src = scope.alloc(samples.length);
+      new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
       const sums = scope.alloc(32);
-      this.wasm.grey8Quality(src, width, height, 0, sums);
+      if (channels === 1) this.wasm.grey8Quality(src, width, height, 0, sums);
       const resident = this.owns(out);
       const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
       const col = scope.f32(column);
       const rw = scope.f32(row);
       const rangeAddress = range ? scope.alloc(8) : 0;
       const scratch = scope.alloc(this.wasm.smoothedGradientBytesScratchBytes(width, column.length, row.length));
-      this.wasm.smoothedGradientBytes(src, dst, width, height, col, column.length, rw, row.length, a, b, GRADIENT_CODES[output], BORDER_CODES[border], rangeAddress, scratch);
+      const codes = [GRADIENT_CODES[output], BORDER_CODES[border]];
+      this.wasm.smoothedGradientBytes(src, channels, k[0], k[1], k[2], channels === 1 ? 0 : sums, dst, width, height, col, column.length, rw, row.length, a, b, codes[0], codes[1], rangeAddress, scratch);
       if (range) this.readRange(rangeAddress, output, range);
       if (!resident) out.data.set(this.heap.f32(dst, pixels));
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);

@@ -47,6 +47,9 @@ export function warmUp(kernels: SimdKernels): void {
   const bytes = Uint8Array.from({ length: 3 * SIDE * SIDE }, (_, p) => (p * 7919) % 251);
   kernels.photoWithQualitySums(bytes.subarray(0, SIDE * SIDE), 1, { red: 0.299, green: 0.587, blue: 0.114 }, b);
   kernels.photoWithQualitySums(bytes, 3, { red: 0.299, green: 0.587, blue: 0.114 }, b);
-  kernels.grey8QualityAndSmoothedGradient(bytes.subarray(0, SIDE * SIDE), SIDE, SIDE, gaussianWeights(1), gaussianWeights(1), 1, 2, 'magnitude', 'reflect', b, range);
+  for (const channels of [1, 3] as const) {
+    const samples = bytes.subarray(0, channels * SIDE * SIDE);
+    kernels.photoQualityAndSmoothedGradient(samples, channels, { red: 0.299, green: 0.587, blue: 0.114 }, SIDE, SIDE, gaussianWeights(1), gaussianWeights(1), 1, 2, 'magnitude', 'reflect', b, range);
+  }
   for (const image of [a, b, c]) kernels.heap.release(image.address);
 }

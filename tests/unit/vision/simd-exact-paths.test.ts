@@ -359,7 +359,7 @@ test('a rule run on a decision path (threshold, opening, closing, blob gauges) g
   );
 });
 
-test('a rule opening with a Gaussian and a gradient, run straight from an 8-bit grey photo: the same gradient, quality, measurements and verdict as the run through the float32 input, and the input filled when read', () => {
+test('a rule opening with a Gaussian and a gradient, run straight from an 8-bit grey or colour photo: the same gradient, quality, measurements and verdict as the run through the float32 input, and the input filled when read', () => {
   const operator = fc.constantFrom('sobel', 'scharr', 'prewitt');
   const output = fc.constantFrom('x', 'y', 'magnitude');
   const sigma = fc.constantFrom(0.5, 1, 1.4, 2.5);
@@ -367,7 +367,7 @@ test('a rule opening with a Gaussian and a gradient, run straight from an 8-bit 
   // Tall images pass the sweep's ring of source rows many times over.
   const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 40 }), fc.integer({ min: 41, max: 90 })));
   fc.assert(
-    fc.property(size, seed, operator, output, sigma, border, ([w, h], s, op, out, sg, b) => {
+    fc.property(size, seed, operator, output, sigma, border, fc.constantFrom<1 | 3 | 4>(1, 3, 4), ([w, h], s, op, out, sg, b, channels) => {
       const rule = {
         format: 'kernwright-rule/1',
         name: 'Gradient first',
@@ -378,7 +378,9 @@ test('a rule opening with a Gaussian and a gradient, run straight from an 8-bit 
           { name: 'edges', measure: 'edge-fraction', limits: { max: 0.5 } },
         ],
       };
-      const p = photo(w, h, s);
+      const grey = photo(w, h, s);
+      // Colour: the grey samples in one channel, shifted copies in the others.
+      const p: RawPhoto = channels === 1 ? grey : { ...grey, channels, samples: Uint8Array.from({ length: w * h * channels }, (_, i) => (grey.samples[Math.floor(i / channels)] + 37 * (i % channels)) & 255) };
       onEngine('simd', () => {
         const workspace = new ImageWorkspace();
         const through = runRule(rule, p, { retain: 'all' });
@@ -388,7 +390,7 @@ test('a rule opening with a Gaussian and a gradient, run straight from an 8-bit 
         expect(direct.quality).toEqual(through.quality);
         expect(direct.measurements).toEqual(through.measurements);
         expect(direct.verdict).toBe(through.verdict);
-        expect(bitsOf(direct.input)).toEqual(bitsOf(channelImage(p, 'luma')));
+        expect(bitsOf(direct.input)).toEqual(bitsOf(onEngine('plain', () => channelImage(p, 'luma'))));
         releaseRun(direct, workspace);
       });
     }),

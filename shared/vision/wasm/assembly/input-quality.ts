@@ -14,9 +14,9 @@ export function lumaRgb8Quality(src: usize, channels: i32, w: i32, h: i32, dst: 
   const rowBytes = <usize>(w * channels);
   for (let y = 0; y < h; y++) {
     lumaRgb8(src + <usize>y * rowBytes, channels, w, at(dst, y * w), kr, kg, kb);
-    if (y > 0) qualityRows(dst, w, h, y - 1, y, top);
+    if (y > 0) qualityRows(dst, 0, w, h, y - 1, y, top);
   }
-  if (h > 0) qualityRows(dst, w, h, h - 1, h, top);
+  if (h > 0) qualityRows(dst, 0, w, h, h - 1, h, top);
   finishQualitySums(out);
 }
 

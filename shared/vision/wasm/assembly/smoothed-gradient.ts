@@ -3,7 +3,8 @@
 // cache, instead of a whole smoothed image written out and read back. Both parts run the row
 // functions of the two steps' own kernels, so every sample comes out as from the two steps in turn.
 import { align16, at, borderIndex, OUTSIDE } from './border';
-import { bytesToFloats } from './channels';
+import { bytesToFloats, lumaRgb8 } from './channels';
+import { finishQualitySums, qualityRows, startQualitySums } from './statistics';
 import { gradientRow, gradientScratchBytes, prepareGradientScratch, storeRange } from './gradient';
 import { prepareSeparableScratch, separableRows, separableScratchBytes } from './separable';
 
@@ -20,9 +21,9 @@ export function smoothedGradientBytesScratchBytes(w: i32, colLen: i32, rowLen: i
   return smoothedGradientScratchBytes(w, colLen, rowLen) + 16 + sourceRingRows(colLen) * 4 * w;
 }
 
-/** Source rows kept as float32 by `smoothedGradientBytes`: the 2r + 2 rows a pair of smoothed rows reads. */
+/** Source rows kept as float32 by `smoothedGradientBytes`: the 2r + 2 rows a pair of smoothed rows reads (and at least the quality gate's three and one). */
 function sourceRingRows(colLen: i32): i32 {
-  return colLen + 1;
+  return max(colLen + 1, 4);
 }
 
 /**
@@ -30,19 +31,22 @@ function sourceRingRows(colLen: i32): i32 {
  * column ⊗ row of src (offset 0), both with the border `mode`; the magnitude's range to `range` as `gradient` does.
  */
 export function smoothedGradient(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
-  sweep(src, 0, dst, w, h, colK, colLen, rowK, rowLen, a, b, output, mode, range, scratch);
+  sweep(src, 0, 1, 0, 0, 0, 0, dst, w, h, colK, colLen, rowK, rowLen, a, b, output, mode, range, scratch);
 }
 
 /**
- * smoothedGradient of an 8-bit image (w·h bytes at src), with the same bits as smoothedGradient of
- * its samples as float32: each source row is converted when the sweep first needs it, into a ring of
- * sourceRingRows(colLen) rows after the scratch, instead of a whole float32 image written and read back.
+ * smoothedGradient of an 8-bit photo's samples as float32 (w·h·channels bytes at src): grey (channels
+ * 1), or colour (3 or 4, interleaved) to luma as lumaRgb8 with weights kr, kg, kb in thousandths. Each
+ * source row is converted when the sweep first needs it, into a ring of rows after the scratch, instead
+ * of a whole float32 image written and read back; the same bits as smoothedGradient of the converted
+ * image. With `quality` ≠ 0 (colour), the quality gate's sums of the converted rows go there as
+ * qualitySums(…, 255) gives them, rows summed in the same order.
  */
-export function smoothedGradientBytes(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
-  sweep(0, src, dst, w, h, colK, colLen, rowK, rowLen, a, b, output, mode, range, scratch);
+export function smoothedGradientBytes(src: usize, channels: i32, kr: i32, kg: i32, kb: i32, quality: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
+  sweep(0, src, channels, kr, kg, kb, quality, dst, w, h, colK, colLen, rowK, rowLen, a, b, output, mode, range, scratch);
 }
 
-function sweep(src: usize, bytes: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
+function sweep(src: usize, bytes: usize, channels: i32, kr: i32, kg: i32, kb: i32, quality: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
   const smoothing = align16(scratch);
   const gradients = align16(smoothing + <usize>separableScratchBytes(w, colLen, rowLen));
   const ring = align16(gradients + <usize>gradientScratchBytes(w));
@@ -54,7 +58,9 @@ function sweep(src: usize, bytes: usize, dst: usize, w: i32, h: i32, colK: usize
   const sourceRing = bytes != 0 ? sourceRingRows(colLen) : 0;
   const source = bytes != 0 ? align16(scratch + <usize>smoothedGradientScratchBytes(w, colLen, rowLen)) : src;
   const reach = colLen >> 1;
+  const rowBytes = <usize>(w * channels);
   let converted = 0;
+  if (quality != 0) startQualitySums();
   // Smoothed rows 0 … ready−1 exist; row k sits in slot k mod RING.
   let ready = 0;
   for (let y = 0; y < h; y++) {
@@ -64,7 +70,13 @@ function sweep(src: usize, bytes: usize, dst: usize, w: i32, h: i32, colK: usize
       if (bytes != 0) {
         // The rows a pair starting at `ready` reads, up to row ready + 1 + r.
         const needed = min(h, ready + 2 + reach);
-        for (; converted < needed; converted++) bytesToFloats(bytes + <usize>(converted * w), w, at(source, (converted % sourceRing) * w));
+        for (; converted < needed; converted++) {
+          const row = at(source, (converted % sourceRing) * w);
+          if (channels == 1) bytesToFloats(bytes + <usize>converted * rowBytes, w, row);
+          else lumaRgb8(bytes + <usize>converted * rowBytes, channels, w, row, kr, kg, kb);
+          // A row's quality sums need the row below it.
+          if (quality != 0 && converted > 0) qualityRows(source, sourceRing, w, h, converted - 1, converted, 255);
+        }
       }
       ready += separableRows(source, sourceRing, w, h, ready, colK, colLen, rowK, rowLen, mode, 0, smoothing, ring + <usize>(ready % RING) * slot, ring + <usize>next * slot);
     }
@@ -73,6 +85,10 @@ function sweep(src: usize, bytes: usize, dst: usize, w: i32, h: i32, colK: usize
     gradientRow(up, ring + <usize>(y % RING) * slot, down, at(dst, y * w), w, a, b, output, mode, gradients);
   }
   if (range != 0) storeRange(gradients, w, range);
+  if (quality != 0) {
+    if (h > 0) qualityRows(source, sourceRing, w, h, h - 1, h, 255);
+    finishQualitySums(quality);
+  }
 }
 
 /** The ring slot of smoothed row y (border applied: rows −1 and h map to rows 0, 1, h−2 or h−1), or the zeros row. */

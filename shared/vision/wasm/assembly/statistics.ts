@@ -17,7 +17,7 @@ const QUALITY_SUMS: usize = memory.data(96, 16);
  */
 export function qualitySums(src: usize, w: i32, h: i32, top: f32, out: usize): void {
   startQualitySums();
-  qualityRows(src, w, h, 0, h, top);
+  qualityRows(src, 0, w, h, 0, h, top);
   finishQualitySums(out);
 }
 
@@ -25,8 +25,11 @@ export function startQualitySums(): void {
   memory.fill(QUALITY_SUMS, 0, 96);
 }
 
-/** Adds rows y0 … y1−1 of the image to the quality gate's running sums (see qualitySums). */
-export function qualityRows(src: usize, w: i32, h: i32, y0: i32, y1: i32, top: f32): void {
+/**
+ * Adds rows y0 … y1−1 of the image to the quality gate's running sums (see qualitySums). With `ring`
+ * > 0, src holds only some rows, row k in slot k mod ring (rows y0 − 1 … y1 must be there).
+ */
+export function qualityRows(src: usize, ring: i32, w: i32, h: i32, y0: i32, y1: i32, top: f32): void {
   let sum = v128.load(QUALITY_SUMS);
   let lapSum = v128.load(QUALITY_SUMS, 16);
   let lapSquares = v128.load(QUALITY_SUMS, 32);
@@ -38,9 +41,9 @@ export function qualityRows(src: usize, w: i32, h: i32, y0: i32, y1: i32, top: f
   const vtop = f32x4.splat(top);
   const four = f64x2.splat(4);
   for (let y = y0; y < y1; y++) {
-    const c = at(src, y * w);
-    const up = at(src, borderIndex(y - 1, h, REFLECT) * w);
-    const down = at(src, borderIndex(y + 1, h, REFLECT) * w);
+    const c = ringRow(src, ring, y, w);
+    const up = ringRow(src, ring, borderIndex(y - 1, h, REFLECT), w);
+    const down = ringRow(src, ring, borderIndex(y + 1, h, REFLECT), w);
     if (w == 1) {
       const v = <f64>load<f32>(c);
       const lap = <f64>load<f32>(up) + <f64>load<f32>(down) - 2 * v;
@@ -92,6 +95,11 @@ export function qualityRows(src: usize, w: i32, h: i32, y0: i32, y1: i32, top: f
   store<f64>(QUALITY_SUMS, lapSumScalar, 72);
   store<f64>(QUALITY_SUMS, lapSquaresScalar, 80);
   store<i32>(QUALITY_SUMS, clipped, 88);
+}
+
+@inline
+function ringRow(src: usize, ring: i32, y: i32, w: i32): usize {
+  return at(src, (ring > 0 ? y % ring : y) * w);
 }
 
 /** The running sums' totals, as qualitySums stores them at out. */

@@ -7,7 +7,8 @@ import { simdKernels } from './engine';
 import { gradientWeights } from './gradient';
 import { BT601_WEIGHTS, channelImage, imageLike, type Image, type RawPhoto, type ValueRange } from './image';
 import { gaussianWeights } from './kernels';
-import { qualityFigures, qualityFromSums, type QualityFigures } from './quality';
+import { qualityFigures, qualityFromSums, type QualityFigures, type QualitySums } from './quality';
+import type { ResidentImage } from './wasm/resident-image';
 
 export function inputChannel(photo: RawPhoto, channel: InputChannel, out?: Image): Image {
   const simd = simdKernels();
@@ -36,7 +37,7 @@ export function inputWithQuality(photo: RawPhoto, channel: InputChannel, out?: I
  * A rule's first two steps, a Gaussian and a gradient whose smoothed image nobody reads, straight from
  * an 8-bit grey or colour photo (luma) on the SIMD engine: the quality figures, and the gradient into
  * `out` (as gaussianGradient of the input, to the bit), from the photo's bytes; `input` gets its
- * samples (channelImage's) only when something reads them. null where this does not apply: the
+ * samples (inputChannel's) only when something reads them. null where this does not apply: the
  * caller then converts the input (inputWithQuality).
  */
 export function sweepFromPhoto(
@@ -50,15 +51,43 @@ export function sweepFromPhoto(
   out: Image,
   range?: ValueRange,
 ): QualityFigures | null {
+  const direct = directPhoto(photo, channel, input);
+  if (!direct) return null;
+  const g = gaussianWeights(sigma);
+  const [a, b] = gradientWeights(operator);
+  const sums = direct.simd.photoQualityAndSmoothedGradient(direct.samples, direct.channels, BT601_WEIGHTS, g, g, a, b, output, border, out, range);
+  return opened(sums, photo, channel, direct.input);
+}
+
+/** As sweepFromPhoto, for a rule opening with a separable step (column ⊗ row + offset: correlateSeparable of the input, to the bit). */
+export function separableFromPhoto(
+  photo: RawPhoto,
+  channel: InputChannel,
+  column: ArrayLike<number>,
+  row: ArrayLike<number>,
+  offset: number,
+  border: BorderMode,
+  input: Image,
+  out: Image,
+): QualityFigures | null {
+  const direct = directPhoto(photo, channel, input);
+  if (!direct) return null;
+  const sums = direct.simd.photoQualityAndSeparable(direct.samples, direct.channels, BT601_WEIGHTS, column, row, border, offset, out);
+  return opened(sums, photo, channel, direct.input);
+}
+
+/** The SIMD kernels, and the photo's bytes as one channel or colour for luma, when a step can read them directly. */
+function directPhoto(photo: RawPhoto, channel: InputChannel, input: Image) {
   const simd = simdKernels();
   const { width, height, channels, bitDepth, samples } = photo;
   const oneChannel = channels === 1 || (channel === 'luma' && (channels === 3 || channels === 4));
   const whole = bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height * channels;
   if (!simd || !oneChannel || !whole || !simd.owns(input) || input.width !== width || input.height !== height) return null;
-  const g = gaussianWeights(sigma);
-  const [a, b] = gradientWeights(operator);
-  const sums = simd.photoQualityAndSmoothedGradient(samples, channels as 1 | 3 | 4, BT601_WEIGHTS, width, height, g, g, a, b, output, border, out, range);
+  return { simd, samples, channels: channels as 1 | 3 | 4, input };
+}
+
+function opened(sums: QualitySums | null, photo: RawPhoto, channel: InputChannel, input: ResidentImage): QualityFigures | null {
   if (!sums) return null;
   input.fillLater(() => inputChannel(photo, channel, input));
-  return qualityFromSums(sums, width * height);
+  return qualityFromSums(sums, photo.width * photo.height);
 }

@@ -8,12 +8,12 @@ import { correlate, type LargeKernelCorrelator } from './convolve';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
 import type { BitDepth, Image, RawPhoto, ValueRange } from './image';
-import { kernelFromMatrix, type Kernel, type KernelDefinition } from './kernels';
+import { gaussianWeights, kernelFromMatrix, separate, type Kernel, type KernelDefinition } from './kernels';
 import { laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
 import { morphology } from './morphology';
 import { gaussianGradient } from './smoothed-gradient';
-import { inputWithQuality, sweepFromPhoto } from './photo-channel';
+import { inputWithQuality, separableFromPhoto, sweepFromPhoto } from './photo-channel';
 import { judgeQuality, type QualityFigures, type QualityJudgement } from './quality';
 import { boxFilter, gaussianBlur } from './smoothing';
 import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from './threshold';
@@ -114,18 +114,20 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const take = () => spare.pop() ?? workspace.take(photo.width, photo.height);
   const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, workspace, packedReady: false };
 
-  // A rule opening with a Gaussian and a gradient that nobody else reads takes an 8-bit photo
-  // straight into their sweep (photo-channel.ts); the input image is then filled only if read.
+  // A rule whose first step is separable (a Gaussian and a gradient after it that nobody else reads
+  // are one sweep) takes an 8-bit photo straight into that step (photo-channel.ts), unless every
+  // image is kept: the input image is then filled only if something reads it.
   let input = workspace.take(photo.width, photo.height);
-  const [first, second] = rule.steps;
-  let opening: { output: Image; ms: number } | null = null;
+  let opening: Opening | null = null;
   let figures: QualityFigures | null = null;
-  if (first?.op === 'gaussian' && second?.op === 'gradient' && second.output !== 'direction' && !retainAll && !needed.has(1)) {
+  if (!retainAll) {
     const out = take();
     const t0 = now();
-    figures = sweepFromPhoto(photo, rule.input.channel, first.sigma, second.operator, second.output, rule.border, input, out, handover.range);
-    if (figures) opening = { output: out, ms: now() - t0 };
-    else spare.push(out);
+    const opened = openFromPhoto(rule, photo, kernels[0], needed, input, out, handover.range);
+    if (opened) {
+      figures = opened.figures;
+      opening = { output: out, ms: now() - t0, steps: opened.steps };
+    } else spare.push(out);
   }
   if (!figures) ({ input, quality: figures } = inputWithQuality(photo, rule.input.channel, input));
   const quality = judgeQuality(figures, rule.quality);
@@ -137,8 +139,9 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   for (let i = 0; i < rule.steps.length; i++) {
     const step = rule.steps[i];
     const t0 = now();
-    const swept = i === 0 ? opening : null;
-    const out = swept ? swept.output : take();
+    const opened = i === 0 ? opening : null;
+    const swept = opened?.steps === 2 ? opened : null;
+    const out = opened ? opened.output : take();
     const next = rule.steps[i + 1];
     const keptOutput = retainAll || needed.has(i + 1);
     if (step.op === 'gaussian' && next?.op === 'gradient' && next.output !== 'direction' && !keptOutput) {
@@ -168,9 +171,9 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
     const packNext = next !== undefined && (next.op === 'erode' || next.op === 'dilate' || next.op === 'open' || next.op === 'close');
     // A mask that only the next step reads, and only in packed bits, need not be written as float32.
     const onlyPacked = packNext && 'radius' in next && next.radius <= MAX_PACKED_RADIUS && !retainAll && !needed.has(i + 1);
-    const result = applyStep(step, current, rule.border, out, scratch, kernels[i], options, handover, packNext, onlyPacked);
+    const result = opened ? out : applyStep(step, current, rule.border, out, scratch, kernels[i], options, handover, packNext, onlyPacked);
     if (scratch) spare.push(scratch);
-    const ms = now() - t0;
+    const ms = opened ? opened.ms : now() - t0;
     const kind = outputKind(step, kernels[i], currentKind);
     const index = i + 1;
     if (!retainAll && i > 0 && !needed.has(i)) {
@@ -232,6 +235,35 @@ function checkCalibration(rule: RuleDocument, mmPerPx?: number): void {
  * What a step measured or wrote on the way that the next step would otherwise compute again:
  * the range of a gradient magnitude (for Otsu), a threshold's mask in packed bits (for morphology).
  */
+/** The first step (or the Gaussian-and-gradient pair) already computed from the photo's bytes. */
+interface Opening {
+  output: Image;
+  ms: number;
+  steps: 1 | 2;
+}
+
+/**
+ * The rule's opening step run straight from the photo (see runValidatedRule): the quality figures and
+ * how many steps `out` holds, or null when the photo or the step does not allow it.
+ */
+function openFromPhoto(rule: RuleDocument, photo: RawPhoto, kernel: Kernel | null, needed: Set<number>, input: Image, out: Image, range: ValueRange): { figures: QualityFigures; steps: 1 | 2 } | null {
+  const [first, second] = rule.steps;
+  const channel = rule.input.channel;
+  if (first?.op === 'gaussian' && second?.op === 'gradient' && second.output !== 'direction' && !needed.has(1)) {
+    const figures = sweepFromPhoto(photo, channel, first.sigma, second.operator, second.output, rule.border, input, out, range);
+    return figures ? { figures, steps: 2 } : null;
+  }
+  let figures: QualityFigures | null = null;
+  if (first?.op === 'gaussian') {
+    const g = gaussianWeights(first.sigma);
+    figures = separableFromPhoto(photo, channel, g, g, 0, rule.border, input, out);
+  } else if (first?.op === 'kernel' && kernel) {
+    const pair = separate(kernel);
+    if (pair) figures = separableFromPhoto(photo, channel, pair.column, pair.row, kernel.offset, rule.border, input, out);
+  }
+  return figures ? { figures, steps: 1 } : null;
+}
+
 interface Handover {
   range: ValueRange;
   /** The workspace's packed mask, once a step has asked for it. */

@@ -18,6 +18,8 @@ export interface EngineExports {
   heapBase(): number;
   separable(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, mode: number, offset: number, scratch: number): void;
   separableScratchBytes(w: number, colLen: number, rowLen: number): number;
+  separableBytes(src: number, channels: number, kr: number, kg: number, kb: number, quality: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, mode: number, offset: number, scratch: number): void;
+  separableBytesScratchBytes(w: number, colLen: number, rowLen: number): number;
   laplacianOfGaussian(src: number, dst: number, w: number, h: number, g: number, g2: number, r: number, mode: number, scratch: number): void;
   correlate2d(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, scratch: number): void;
   directScratchBytes(w: number, rows: number, cols: number): number;
@@ -228,8 +230,6 @@ export class SimdKernels {
     samples: Uint8Array,
     channels: 1 | 3 | 4,
     weights: LumaWeights,
-    width: number,
-    height: number,
     column: ArrayLike<number>,
     row: ArrayLike<number>,
     a: number,
@@ -239,24 +239,47 @@ export class SimdKernels {
     out: Image,
     range?: ValueRange,
   ): QualitySums | null {
-    const k = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
-    if (!k) return null;
-    const pixels = width * height;
+    return this.fromPhoto(samples, channels, weights, out, (src, k, quality, dst, scope) => {
+      const col = scope.f32(column);
+      const rw = scope.f32(row);
+      const rangeAddress = range ? scope.alloc(8) : 0;
+      const scratch = scope.alloc(this.wasm.smoothedGradientBytesScratchBytes(out.width, column.length, row.length));
+      const [gradientCode, borderCode] = [GRADIENT_CODES[output], BORDER_CODES[border]];
+      this.wasm.smoothedGradientBytes(src, channels, k[0], k[1], k[2], quality, dst, out.width, out.height, col, column.length, rw, row.length, a, b, gradientCode, borderCode, rangeAddress, scratch);
+      if (range) this.readRange(rangeAddress, output, range);
+    });
+  }
+
+  /** As photoQualityAndSmoothedGradient, with `separable` (column ⊗ row + offset) of the input image. */
+  photoQualityAndSeparable(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, column: ArrayLike<number>, row: ArrayLike<number>, border: BorderMode, offset: number, out: Image): QualitySums | null {
+    return this.fromPhoto(samples, channels, weights, out, (src, k, quality, dst, scope) => {
+      const col = scope.f32(column);
+      const rw = scope.f32(row);
+      const scratch = scope.alloc(this.wasm.separableBytesScratchBytes(out.width, column.length, row.length));
+      this.wasm.separableBytes(src, channels, k[0], k[1], k[2], quality, dst, out.width, out.height, col, column.length, rw, row.length, BORDER_CODES[border], offset, scratch);
+    });
+  }
+
+  /** Copies the photo's bytes in, sums a grey photo's quality from them, and runs `kernel` from them into `out` (a colour photo's sums come from the kernel's rows). */
+  private fromPhoto(
+    samples: Uint8Array,
+    channels: 1 | 3 | 4,
+    weights: LumaWeights,
+    out: Image,
+    kernel: (src: number, thousandths: number[], quality: number, dst: number, scope: CallScope) => void,
+  ): QualitySums | null {
+    const thousandths = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
+    if (!thousandths) return null;
+    const pixels = out.width * out.height;
     const scope = new CallScope(this.heap);
     try {
       const src = scope.alloc(samples.length);
       new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
       const sums = scope.alloc(32);
-      if (channels === 1) this.wasm.grey8Quality(src, width, height, 0, sums);
+      if (channels === 1) this.wasm.grey8Quality(src, out.width, out.height, 0, sums);
       const resident = this.owns(out);
       const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
-      const col = scope.f32(column);
-      const rw = scope.f32(row);
-      const rangeAddress = range ? scope.alloc(8) : 0;
-      const scratch = scope.alloc(this.wasm.smoothedGradientBytesScratchBytes(width, column.length, row.length));
-      const codes = [GRADIENT_CODES[output], BORDER_CODES[border]];
-      this.wasm.smoothedGradientBytes(src, channels, k[0], k[1], k[2], channels === 1 ? 0 : sums, dst, width, height, col, column.length, rw, row.length, a, b, codes[0], codes[1], rangeAddress, scratch);
-      if (range) this.readRange(rangeAddress, output, range);
+      kernel(src, thousandths, channels === 1 ? 0 : sums, dst, scope);
       if (!resident) out.data.set(this.heap.f32(dst, pixels));
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
       return { sum, clipped, lapSum, lapSquares };

@@ -49,7 +49,8 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.photoWithQualitySums(bytes, 3, { red: 0.299, green: 0.587, blue: 0.114 }, b);
   for (const channels of [1, 3] as const) {
     const samples = bytes.subarray(0, channels * SIDE * SIDE);
-    kernels.photoQualityAndSmoothedGradient(samples, channels, { red: 0.299, green: 0.587, blue: 0.114 }, SIDE, SIDE, gaussianWeights(1), gaussianWeights(1), 1, 2, 'magnitude', 'reflect', b, range);
+    kernels.photoQualityAndSmoothedGradient(samples, channels, { red: 0.299, green: 0.587, blue: 0.114 }, gaussianWeights(1), gaussianWeights(1), 1, 2, 'magnitude', 'reflect', b, range);
+    kernels.photoQualityAndSeparable(samples, channels, { red: 0.299, green: 0.587, blue: 0.114 }, [1, 4, 6, 4, 1], [1, 4, 6, 4, 1], 'reflect', 0, b);
   }
   for (const image of [a, b, c]) kernels.heap.release(image.address);
 }

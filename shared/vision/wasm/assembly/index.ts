@@ -1,7 +1,7 @@
 // The engine's WebAssembly SIMD kernels (built by scripts/build-wasm.mjs into
 // shared/vision/wasm/module.generated.ts). Every function works on addresses in the module's
 // memory, which shared/vision/wasm/heap.ts manages from the JavaScript side.
-export { separable, laplacianOfGaussian, separableScratchBytes } from './separable';
+export { separable, laplacianOfGaussian, separableScratchBytes, separableBytes, separableBytesScratchBytes } from './separable';
 export { correlate2d, directScratchBytes } from './direct';
 export { correlateFft, fftScratchBytes, allFinite } from './fft';
 export { gradient, gradientScratchBytes } from './gradient';

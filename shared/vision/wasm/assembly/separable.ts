@@ -2,6 +2,7 @@
 // padded line (border filled by the policy), the horizontal pass reads it. Four pixels per v128,
 // float32 arithmetic; symmetric kernels add the mirrored samples first (one multiply per pair).
 import { align16, at, borderIndex, fillLineBorder, OUTSIDE, rowAddress } from './border';
+import { convertPhotoRows, finishPhotoRows, photoRingRows, startPhotoRows } from './photo-rows';
 
 /** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */
 export function separableScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
@@ -20,6 +21,31 @@ function isSymmetric(k: usize, n: i32): bool {
 export function separable(src: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize): void {
   prepareSeparableScratch(scratch, w, colLen);
   for (let y = 0; y < h; ) y += separableRows(src, 0, w, h, y, colK, colLen, rowK, rowLen, mode, offset, scratch, at(dst, y * w), at(dst, (y + 1) * w));
+}
+
+/**
+ * `separable` of an 8-bit photo's input image (w·h·channels bytes at src; grey, or colour to luma with
+ * weights kr, kg, kb in thousandths), its rows converted into a ring after the scratch as the passes
+ * need them (photo-rows.ts): the same bits as `separable` of the converted image. With `quality` ≠ 0,
+ * the quality gate's sums of the converted rows go there.
+ */
+export function separableBytes(src: usize, channels: i32, kr: i32, kg: i32, kb: i32, quality: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, mode: i32, offset: f32, scratch: usize): void {
+  prepareSeparableScratch(scratch, w, colLen);
+  const ring = photoRingRows(colLen);
+  const source = align16(scratch + <usize>separableScratchBytes(w, colLen, rowLen));
+  const reach = colLen >> 1;
+  let converted = 0;
+  startPhotoRows(quality);
+  for (let y = 0; y < h; ) {
+    converted = convertPhotoRows(src, channels, kr, kg, kb, quality, source, ring, w, h, converted, min(h, y + 2 + reach));
+    y += separableRows(source, ring, w, h, y, colK, colLen, rowK, rowLen, mode, offset, scratch, at(dst, y * w), at(dst, (y + 1) * w));
+  }
+  finishPhotoRows(quality, source, ring, w, h);
+}
+
+/** Scratch bytes `separableBytes` needs: those of `separable` and its ring of source rows. */
+export function separableBytesScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
+  return separableScratchBytes(w, colLen, rowLen) + 16 + photoRingRows(colLen) * 4 * w;
 }
 
 /** Readies the scratch of `separableRows` (its row of zeros) for a w-wide image. */

@@ -3,8 +3,7 @@
 // cache, instead of a whole smoothed image written out and read back. Both parts run the row
 // functions of the two steps' own kernels, so every sample comes out as from the two steps in turn.
 import { align16, at, borderIndex, OUTSIDE } from './border';
-import { bytesToFloats, lumaRgb8 } from './channels';
-import { finishQualitySums, qualityRows, startQualitySums } from './statistics';
+import { convertPhotoRows, finishPhotoRows, photoRingRows, startPhotoRows } from './photo-rows';
 import { gradientRow, gradientScratchBytes, prepareGradientScratch, storeRange } from './gradient';
 import { prepareSeparableScratch, separableRows, separableScratchBytes } from './separable';
 
@@ -18,12 +17,7 @@ export function smoothedGradientScratchBytes(w: i32, colLen: i32, rowLen: i32): 
 
 /** Scratch bytes `smoothedGradientBytes` needs: those of smoothedGradient and its ring of source rows. */
 export function smoothedGradientBytesScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
-  return smoothedGradientScratchBytes(w, colLen, rowLen) + 16 + sourceRingRows(colLen) * 4 * w;
-}
-
-/** Source rows kept as float32 by `smoothedGradientBytes`: the 2r + 2 rows a pair of smoothed rows reads (and at least the quality gate's three and one). */
-function sourceRingRows(colLen: i32): i32 {
-  return max(colLen + 1, 4);
+  return smoothedGradientScratchBytes(w, colLen, rowLen) + 16 + photoRingRows(colLen) * 4 * w;
 }
 
 /**
@@ -35,12 +29,10 @@ export function smoothedGradient(src: usize, dst: usize, w: i32, h: i32, colK: u
 }
 
 /**
- * smoothedGradient of an 8-bit photo's samples as float32 (w·h·channels bytes at src): grey (channels
- * 1), or colour (3 or 4, interleaved) to luma as lumaRgb8 with weights kr, kg, kb in thousandths. Each
- * source row is converted when the sweep first needs it, into a ring of rows after the scratch, instead
- * of a whole float32 image written and read back; the same bits as smoothedGradient of the converted
- * image. With `quality` ≠ 0 (colour), the quality gate's sums of the converted rows go there as
- * qualitySums(…, 255) gives them, rows summed in the same order.
+ * smoothedGradient of an 8-bit photo's input image (w·h·channels bytes at src; grey, or colour to luma
+ * with weights kr, kg, kb in thousandths), its rows converted into a ring after the scratch as the
+ * sweep needs them (photo-rows.ts); the same bits as smoothedGradient of the converted image. With
+ * `quality` ≠ 0, the quality gate's sums of the converted rows go there.
  */
 export function smoothedGradientBytes(src: usize, channels: i32, kr: i32, kg: i32, kb: i32, quality: usize, dst: usize, w: i32, h: i32, colK: usize, colLen: i32, rowK: usize, rowLen: i32, a: f32, b: f32, output: i32, mode: i32, range: usize, scratch: usize): void {
   sweep(0, src, channels, kr, kg, kb, quality, dst, w, h, colK, colLen, rowK, rowLen, a, b, output, mode, range, scratch);
@@ -55,29 +47,19 @@ function sweep(src: usize, bytes: usize, channels: i32, kr: i32, kg: i32, kb: i3
   prepareGradientScratch(gradients, w);
   const zeros = align16(gradients);
   // From bytes: source row k in slot k mod sourceRing of the rows after the smoothed ring.
-  const sourceRing = bytes != 0 ? sourceRingRows(colLen) : 0;
+  const sourceRing = bytes != 0 ? photoRingRows(colLen) : 0;
   const source = bytes != 0 ? align16(scratch + <usize>smoothedGradientScratchBytes(w, colLen, rowLen)) : src;
   const reach = colLen >> 1;
-  const rowBytes = <usize>(w * channels);
   let converted = 0;
-  if (quality != 0) startQualitySums();
+  startPhotoRows(quality);
   // Smoothed rows 0 … ready−1 exist; row k sits in slot k mod RING.
   let ready = 0;
   for (let y = 0; y < h; y++) {
     const last = min(y + 1, h - 1);
     while (ready <= last) {
       const next = (ready + 1) % RING;
-      if (bytes != 0) {
-        // The rows a pair starting at `ready` reads, up to row ready + 1 + r.
-        const needed = min(h, ready + 2 + reach);
-        for (; converted < needed; converted++) {
-          const row = at(source, (converted % sourceRing) * w);
-          if (channels == 1) bytesToFloats(bytes + <usize>converted * rowBytes, w, row);
-          else lumaRgb8(bytes + <usize>converted * rowBytes, channels, w, row, kr, kg, kb);
-          // A row's quality sums need the row below it.
-          if (quality != 0 && converted > 0) qualityRows(source, sourceRing, w, h, converted - 1, converted, 255);
-        }
-      }
+      // The rows a pair starting at `ready` reads, up to row ready + 1 + r.
+      if (bytes != 0) converted = convertPhotoRows(bytes, channels, kr, kg, kb, quality, source, sourceRing, w, h, converted, min(h, ready + 2 + reach));
       ready += separableRows(source, sourceRing, w, h, ready, colK, colLen, rowK, rowLen, mode, 0, smoothing, ring + <usize>(ready % RING) * slot, ring + <usize>next * slot);
     }
     const up = smoothedRow(ring, slot, y - 1, h, mode, zeros);
@@ -85,10 +67,7 @@ function sweep(src: usize, bytes: usize, channels: i32, kr: i32, kg: i32, kb: i3
     gradientRow(up, ring + <usize>(y % RING) * slot, down, at(dst, y * w), w, a, b, output, mode, gradients);
   }
   if (range != 0) storeRange(gradients, w, range);
-  if (quality != 0) {
-    if (h > 0) qualityRows(source, sourceRing, w, h, h - 1, h, 255);
-    finishQualitySums(quality);
-  }
+  if (bytes != 0) finishPhotoRows(quality, source, sourceRing, w, h);
 }
 
 /** The ring slot of smoothed row y (border applied: rows −1 and h map to rows 0, 1, h−2 or h−1), or the zeros row. */

@@ -1,0 +1,36 @@
+// An 8-bit photo's rows converted to float32 as a sweep first needs them, into a ring of rows
+// (source row k in slot k mod ring), instead of a whole float32 image written and read back: grey
+// samples as they are, colour (3 or 4 interleaved channels) to luma as lumaRgb8 with weights in
+// thousandths. With `quality` ≠ 0 the quality gate's sums of the converted rows (top 255) go there,
+// each row summed once the row below it exists, in the order of qualitySums over the whole image.
+import { at } from './border';
+import { bytesToFloats, lumaRgb8 } from './channels';
+import { finishQualitySums, qualityRows, startQualitySums } from './statistics';
+
+/** Rows the ring holds for a vertical kernel of colLen taps: the 2r + 2 rows a pair of output rows reads, and at least the quality gate's three and one. */
+export function photoRingRows(colLen: i32): i32 {
+  return max(colLen + 1, 4);
+}
+
+export function startPhotoRows(quality: usize): void {
+  if (quality != 0) startQualitySums();
+}
+
+/** Converts rows `converted` … needed−1 into the ring; returns the rows converted so far. */
+export function convertPhotoRows(bytes: usize, channels: i32, kr: i32, kg: i32, kb: i32, quality: usize, source: usize, ring: i32, w: i32, h: i32, converted: i32, needed: i32): i32 {
+  const rowBytes = <usize>(w * channels);
+  for (; converted < needed; converted++) {
+    const row = at(source, (converted % ring) * w);
+    if (channels == 1) bytesToFloats(bytes + <usize>converted * rowBytes, w, row);
+    else lumaRgb8(bytes + <usize>converted * rowBytes, channels, w, row, kr, kg, kb);
+    if (quality != 0 && converted > 0) qualityRows(source, ring, w, h, converted - 1, converted, 255);
+  }
+  return converted;
+}
+
+/** The last row's quality sums and the totals, once every row is converted. */
+export function finishPhotoRows(quality: usize, source: usize, ring: i32, w: i32, h: i32): void {
+  if (quality == 0) return;
+  if (h > 0) qualityRows(source, ring, w, h, h - 1, h, 255);
+  finishQualitySums(quality);
+}

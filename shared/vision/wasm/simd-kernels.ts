@@ -239,7 +239,7 @@ export class SimdKernels {
     out: Image,
     range?: ValueRange,
   ): QualitySums | null {
-    return this.fromPhoto(samples, channels, weights, out, (src, k, quality, dst, scope) => {
+    return this.fromPhoto(samples, channels, weights, out, true, (src, k, quality, dst, scope) => {
       const col = scope.f32(column);
       const rw = scope.f32(row);
       const rangeAddress = range ? scope.alloc(8) : 0;
@@ -252,7 +252,7 @@ export class SimdKernels {
 
   /** As photoQualityAndSmoothedGradient, with `separable` (column ⊗ row + offset) of the input image. */
   photoQualityAndSeparable(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, column: ArrayLike<number>, row: ArrayLike<number>, border: BorderMode, offset: number, out: Image): QualitySums | null {
-    return this.fromPhoto(samples, channels, weights, out, (src, k, quality, dst, scope) => {
+    return this.fromPhoto(samples, channels, weights, out, true, (src, k, quality, dst, scope) => {
       const col = scope.f32(column);
       const rw = scope.f32(row);
       const scratch = scope.alloc(this.wasm.separableBytesScratchBytes(out.width, column.length, row.length));
@@ -260,12 +260,16 @@ export class SimdKernels {
     });
   }
 
-  /** Copies the photo's bytes in, sums a grey photo's quality from them, and runs `kernel` from them into `out` (a colour photo's sums come from the kernel's rows). */
+  /**
+   * Copies the photo's bytes in and runs `kernel` from them into `out`; its `quality` is where the
+   * sums go, 0 for a grey photo when `greySums` (they are then summed from the bytes first).
+   */
   private fromPhoto(
     samples: Uint8Array,
     channels: 1 | 3 | 4,
     weights: LumaWeights,
     out: Image,
+    greySums: boolean,
     kernel: (src: number, thousandths: number[], quality: number, dst: number, scope: CallScope) => void,
   ): QualitySums | null {
     const thousandths = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
@@ -276,10 +280,11 @@ export class SimdKernels {
       const src = scope.alloc(samples.length);
       new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
       const sums = scope.alloc(32);
-      if (channels === 1) this.wasm.grey8Quality(src, out.width, out.height, 0, sums);
+      const greyFirst = greySums && channels === 1;
+      if (greyFirst) this.wasm.grey8Quality(src, out.width, out.height, 0, sums);
       const resident = this.owns(out);
       const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
-      kernel(src, thousandths, channels === 1 ? 0 : sums, dst, scope);
+      kernel(src, thousandths, greyFirst ? 0 : sums, dst, scope);
       if (!resident) out.data.set(this.heap.f32(dst, pixels));
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
       return { sum, clipped, lapSum, lapSquares };
@@ -522,25 +527,13 @@ export class SimdKernels {
    * gives them for that image, to the bit. null when the weights are not whole thousandths.
    */
   photoWithQualitySums(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, out: Image): QualitySums | null {
-    const thousandths = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
-    if (!thousandths) return null;
-    const pixels = out.data.length;
-    const scope = new CallScope(this.heap);
-    try {
-      const src = scope.alloc(samples.length);
-      new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
-      const resident = this.owns(out);
-      const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
-      const sums = scope.alloc(32);
-      if (channels === 1) this.wasm.grey8Quality(src, out.width, out.height, dst, sums);
-      else this.wasm.lumaRgb8Quality(src, channels, out.width, out.height, dst, thousandths[0], thousandths[1], thousandths[2], 255, sums);
-      if (!resident) out.data.set(this.heap.f32(dst, pixels));
-      const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
-      return { sum, clipped, lapSum, lapSquares };
-    } finally {
-      scope.end();
-    }
+    const { width: w, height: h } = out;
+    return this.fromPhoto(samples, channels, weights, out, false, (src, k, sums, dst) => {
+      if (channels === 1) this.wasm.grey8Quality(src, w, h, dst, sums);
+      else this.wasm.lumaRgb8Quality(src, channels, w, h, dst, k[0], k[1], k[2], 255, sums);
+    });
   }
+
 
   /** Address of the image's samples in the module's memory: its own, or a copy for the call. */
   private addressOf(image: Image, scope: CallScope): number {

@@ -61,10 +61,11 @@ export function TrialFigures({ summary }: { summary: TrialSummary }) {
 
 const styles = StyleSheet.create({
   figures: { gap: space.md },
-  table: { borderWidth: 1, borderColor: colors.line, alignSelf: 'flex-start', minWidth: 300 },
+  // Columns share the width, so that the table fits a phone (390 px) and stays compact on a wide screen.
+  table: { borderWidth: 1, borderColor: colors.line, alignSelf: 'stretch', maxWidth: 440 },
   row: { flexDirection: 'row', borderBottomWidth: 1, borderBottomColor: colors.line },
   headRow: { backgroundColor: colors.surfaceSunken },
-  first: { width: 150, padding: space.xs },
-  cell: { width: 80, padding: space.xs, textAlign: 'right' },
+  first: { flex: 2, minWidth: 0, padding: space.xs },
+  cell: { flex: 1, minWidth: 0, padding: space.xs, textAlign: 'right' },
   list: { gap: space.xs },
 });

@@ -1,6 +1,7 @@
 // The engineer's workbench in a real browser against the real server: build a rule from scratch,
 // see the live preview's verdict on a reference photo (and the server agreeing), run a trial, read
-// its figures and submit the draft for review at wide width; the rules list and a rule page on a phone.
+// its figures and submit the draft for review at wide width; the rules list, a rule page and a trial's
+// figures on a phone.
 import type { BrowserContext, Page } from 'playwright-core';
 import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
@@ -110,5 +111,30 @@ describe('at phone width', () => {
     await screenshot(page, 'workbench-rule-phone');
     expect(errors).toEqual([]);
     await page.close();
+  });
+
+  test('a trial of the demo draft runs on a phone and its confusion table fits the screen', async () => {
+    // A browser of its own: the test before left the engineer signed in.
+    const own = await launchBrowser(PHONE);
+    const page = await own.newPage();
+    const errors = watchErrors(page);
+    await signIn(page, 'engineer');
+    await page.goto(`${product.url}/rules`);
+    await page.getByRole('link', { name: 'Open rule Bracket hole and edge check' }).click();
+    await page.getByText('Live preview').waitFor();
+    // Its gauges are in mm: a calibrated station chosen in the preview gives the trial its scale.
+    await page.getByRole('radio', { name: /reference photos/ }).first().click();
+    await page.getByRole('radio', { name: /^Photo / }).first().click();
+    await page.getByRole('radio', { name: /Press 3 exit/ }).first().click();
+    await page.getByRole('button', { name: 'Run trial' }).click();
+    const table = page.getByRole('table', { name: 'Confusion table: labels against verdicts' });
+    await table.waitFor({ timeout: 120_000 });
+    await table.scrollIntoViewIfNeeded();
+    await screenshot(page, 'workbench-trial-phone');
+    const box = await table.boundingBox();
+    expect(box!.x).toBeGreaterThanOrEqual(0);
+    expect(box!.x + box!.width).toBeLessThanOrEqual(PHONE.width);
+    expect(errors).toEqual([]);
+    await own.close();
   });
 });

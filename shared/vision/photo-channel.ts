@@ -21,16 +21,22 @@ export function inputChannel(photo: RawPhoto, channel: InputChannel, out?: Image
 /** The input channel and its quality figures (qualityFigures of inputChannel's image, the same values). */
 export function inputWithQuality(photo: RawPhoto, channel: InputChannel, out?: Image): { input: Image; quality: QualityFigures } {
   const simd = simdKernels();
-  const { width, height, channels, bitDepth, samples } = photo;
-  const whole = bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height * channels;
-  const oneChannel = channels === 1 || (channel === 'luma' && (channels === 3 || channels === 4));
-  if (simd && whole && oneChannel) {
+  const bytes = eightBitSource(photo, channel);
+  if (simd && bytes) {
     const input = imageLike(photo, out);
-    const sums = simd.photoWithQualitySums(samples, channels as 1 | 3 | 4, BT601_WEIGHTS, input);
-    if (sums) return { input, quality: qualityFromSums(sums, width * height) };
+    const sums = simd.photoWithQualitySums(bytes.samples, bytes.channels, BT601_WEIGHTS, input);
+    if (sums) return { input, quality: qualityFromSums(sums, photo.width * photo.height) };
   }
   const input = inputChannel(photo, channel, out);
-  return { input, quality: qualityFigures(input, bitDepth) };
+  return { input, quality: qualityFigures(input, photo.bitDepth) };
+}
+
+/** The photo's bytes when the kernels can read the channel from them: 8-bit grey, or 8-bit colour for luma. */
+function eightBitSource(photo: RawPhoto, channel: InputChannel): { samples: Uint8Array; channels: 1 | 3 | 4 } | null {
+  const { width, height, channels, bitDepth, samples } = photo;
+  const oneChannel = channels === 1 || (channel === 'luma' && (channels === 3 || channels === 4));
+  const whole = bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height * channels;
+  return oneChannel && whole ? { samples: samples as Uint8Array, channels: channels as 1 | 3 | 4 } : null;
 }
 
 /**
@@ -79,11 +85,9 @@ export function separableFromPhoto(
 /** The SIMD kernels, and the photo's bytes as one channel or colour for luma, when a step can read them directly. */
 function directPhoto(photo: RawPhoto, channel: InputChannel, input: Image) {
   const simd = simdKernels();
-  const { width, height, channels, bitDepth, samples } = photo;
-  const oneChannel = channels === 1 || (channel === 'luma' && (channels === 3 || channels === 4));
-  const whole = bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height * channels;
-  if (!simd || !oneChannel || !whole || !simd.owns(input) || input.width !== width || input.height !== height) return null;
-  return { simd, samples, channels: channels as 1 | 3 | 4, input };
+  const bytes = eightBitSource(photo, channel);
+  if (!simd || !bytes || !simd.owns(input) || input.width !== photo.width || input.height !== photo.height) return null;
+  return { simd, ...bytes, input };
 }
 
 function opened(sums: QualitySums | null, photo: RawPhoto, channel: InputChannel, input: ResidentImage): QualityFigures | null {

@@ -231,10 +231,6 @@ function checkCalibration(rule: RuleDocument, mmPerPx?: number): void {
   if (issues.length > 0) throw new RuleRunError('missing_calibration', issues[0].message, issues);
 }
 
-/**
- * What a step measured or wrote on the way that the next step would otherwise compute again:
- * the range of a gradient magnitude (for Otsu), a threshold's mask in packed bits (for morphology).
- */
 /** The first step (or the Gaussian-and-gradient pair) already computed from the photo's bytes. */
 interface Opening {
   output: Image;
@@ -264,6 +260,10 @@ function openFromPhoto(rule: RuleDocument, photo: RawPhoto, kernel: Kernel | nul
   return figures ? { figures, steps: 1 } : null;
 }
 
+/**
+ * What a step measured or wrote on the way that the next step would otherwise compute again:
+ * the range of a gradient magnitude (for Otsu), a threshold's mask in packed bits (for morphology).
+ */
 interface Handover {
   range: ValueRange;
   /** The workspace's packed mask, once a step has asked for it. */

@@ -126,9 +126,15 @@ describe('at phone width', () => {
     await page.getByRole('radio', { name: /reference photos/ }).first().click();
     await page.getByRole('radio', { name: /^Photo / }).first().click();
     await page.getByRole('radio', { name: /Press 3 exit/ }).first().click();
+    await page.getByRole('heading', { name: /^Preview verdict: (PASS|FAIL|RETAKE)$/ }).waitFor({ timeout: 60_000 });
     await page.getByRole('button', { name: 'Run trial' }).click();
+    // The trial is a queued job; on a loaded machine it may wait for a worker before it runs.
+    await page.getByText(/Waiting to start|Running|good parts failed\): /).first().waitFor({ timeout: 60_000 });
     const table = page.getByRole('table', { name: 'Confusion table: labels against verdicts' });
-    await table.waitFor({ timeout: 120_000 });
+    await table.waitFor({ timeout: 300_000 }).catch(async (e: unknown) => {
+      await screenshot(page, 'workbench-trial-phone-waiting');
+      throw e;
+    });
     await table.scrollIntoViewIfNeeded();
     await screenshot(page, 'workbench-trial-phone');
     const box = await table.boundingBox();

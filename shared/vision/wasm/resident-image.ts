@@ -19,7 +19,7 @@ export interface DeferredMask {
 export class ResidentImage implements Image {
   private view: Float32Array;
   private deferred: DeferredMask | null = null;
-  private pendingFill: ((data: Float32Array) => void) | null = null;
+  private pendingFill: (() => void) | null = null;
 
   constructor(
     readonly heap: WasmHeap,
@@ -47,8 +47,8 @@ export class ResidentImage implements Image {
     this.deferred = mask;
   }
 
-  /** The samples will be written by `fill` when first read. */
-  fillLater(fill: (data: Float32Array) => void): void {
+  /** The samples will be written by `fill` (into this image) when first read. */
+  fillLater(fill: () => void): void {
     this.discard();
     this.pendingFill = fill;
   }
@@ -58,7 +58,7 @@ export class ResidentImage implements Image {
     const fill = this.pendingFill;
     if (fill) {
       this.pendingFill = null;
-      fill(this.data);
+      fill();
       return;
     }
     const mask = this.deferred;

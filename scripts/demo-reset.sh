@@ -7,5 +7,5 @@ pg_start
 psql -h 127.0.0.1 -p "$KW_PG_PORT" -U postgres -qc "drop database if exists \"$KW_DB_NAME\" with (force)"
 pg_create_db "$KW_DB_NAME"
 build_server
-node dist-server/server/cli/prepare.js
+node "${KW_POOL_NODE_FLAGS[@]}" dist-server/server/cli/prepare.js
 log "demo reset; start the app with npm start"

@@ -13,6 +13,9 @@ export KW_DATA_DIR="${KW_DATA_DIR:-$ROOT/.data}"
 export KW_PG_PORT="${KW_PG_PORT:-54329}"
 export KW_DB_NAME="${KW_DB_NAME:-kernwright}"
 export PGDATA_DIR="$KW_DATA_DIR/pg"
+# Node flags for the processes that run the vision worker pool (the server, the demo seed):
+# POOL_PROCESS_NODE_FLAGS in server/vision/pool.ts says why; tests/unit/vision/pool-flags.test.ts checks they agree.
+KW_POOL_NODE_FLAGS=(--single-threaded-gc)
 
 log() { printf '\033[1m[kernwright]\033[0m %s\n' "$*"; }
 

@@ -9,11 +9,11 @@ pg_start
 build_web
 build_server
 
-node dist-server/server/cli/prepare.js
+node "${KW_POOL_NODE_FLAGS[@]}" dist-server/server/cli/prepare.js
 
 cleanup() { trap - INT TERM EXIT; [ -n "${SERVER_PID:-}" ] && kill "$SERVER_PID" 2>/dev/null; wait "${SERVER_PID:-}" 2>/dev/null || true; pg_stop; rm -f "$KW_DATA_DIR/server.pid"; }
 trap cleanup INT TERM EXIT
-node dist-server/server/main.js &
+node "${KW_POOL_NODE_FLAGS[@]}" dist-server/server/main.js &
 SERVER_PID=$!
 echo "$SERVER_PID" > "$KW_DATA_DIR/server.pid"
 wait "$SERVER_PID"

@@ -10,7 +10,7 @@ import { createLogger } from './lib/logger';
 import { standInDir } from './lib/storage/open-store';
 import { createServices } from './services';
 import { loadKernelLibrary } from './vision/kernel-library';
-import { VisionPool } from './vision/pool';
+import { missingPoolFlags, VisionPool } from './vision/pool';
 import { startWorkers } from './workers';
 
 /**
@@ -41,6 +41,8 @@ async function main() {
     logger.info({ port: config.s3.standInPort, dir, startedHere: fake !== null }, 'stand-in S3 server on loopback for the image bucket');
   }
   const pool = new VisionPool({ kernels: await loadKernelLibrary(), threads: config.visionThreads });
+  const missingFlags = missingPoolFlags();
+  if (missingFlags.length > 0) logger.warn({ missing: missingFlags }, `started without ${missingFlags.join(' ')}: the worker pool loses a share of its throughput (see server/vision/pool.ts)`);
   const jobs = await new JobQueue(config.databaseUrl).start();
   const services = createServices({ config, dataSource, pool, jobs });
   if (works) await startWorkers(jobs, services);

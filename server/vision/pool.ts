@@ -41,6 +41,21 @@ export interface PoolRunOptions {
 /** A run from the pool, with the evidence raster when it was asked for and the verdict is FAIL. */
 export type PooledRun = RuleRun & { evidence?: EvidenceRaster };
 
+/**
+ * Node flags for a process that runs the pool: scripts/lib.sh (KW_POOL_NODE_FLAGS) starts the server
+ * and the demo seed with them; V8 takes them only on the command line. Each photo a worker receives is garbage after its run, and
+ * V8 collects a worker's heap every few photos. By default the collection runs on four helper threads
+ * as well, which compete with the workers for the cores: with two workers on two cores they took
+ * about 4 ms of CPU per 5 MP photo, and the pool gave 1.3–1.4× one thread's throughput. Collecting on
+ * the worker's own thread costs almost nothing here (small heaps), and the pool gave 1.7–1.9×.
+ */
+export const POOL_PROCESS_NODE_FLAGS: readonly string[] = ['--single-threaded-gc'];
+
+/** The flags of POOL_PROCESS_NODE_FLAGS this process was started without. */
+export function missingPoolFlags(execArgv: readonly string[] = process.execArgv): string[] {
+  return POOL_PROCESS_NODE_FLAGS.filter((flag) => !execArgv.includes(flag));
+}
+
 /** Spare image buffers kept for the workers at most (20 MB each at 5 MP). */
 const MAX_RETURNED_BUFFERS = 8;
 const BUFFERS_PER_TASK = 3;

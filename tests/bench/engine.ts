@@ -14,7 +14,7 @@ import sharp from 'sharp';
 import { decodePhoto } from '../../server/vision/decode';
 import { fftCorrelate } from '../../server/vision/fft-correlate';
 import { loadKernelLibrary } from '../../server/vision/kernel-library';
-import { VisionPool } from '../../server/vision/pool';
+import { POOL_PROCESS_NODE_FLAGS, VisionPool } from '../../server/vision/pool';
 import { validateRuleDocument, type RuleDocument } from '../../shared/rules/schema';
 import { createPackedMask } from '../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../shared/vision/blobs';
@@ -424,6 +424,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
 let builtDir: string | null = null;
 function builtServerDir(): string {
   if (builtDir) return builtDir;
+  if (process.env.KW_BENCH_BUILT_SERVER) return (builtDir = process.env.KW_BENCH_BUILT_SERVER);
   const root = path.join(__dirname, '..', '..');
   // Inside the repository (git-ignored), so that the compiled files find node_modules.
   const dir = path.join(root, 'tests', 'artifacts', 'bench-server');
@@ -499,6 +500,39 @@ async function benchPipelineThreads(size: SizeResult, engine: EngineName, runs: 
   }
 }
 
+interface PoolChildTask {
+  engine: EngineName;
+  images: 'none' | 'retained';
+  label: string;
+  width: number;
+  height: number;
+  opencv: Timing;
+}
+
+/**
+ * benchPool in a process of its own, started as the server is (POOL_PROCESS_NODE_FLAGS) and holding
+ * what a server holds, not this benchmark's OpenCV module and images: with them in the heap, this
+ * thread's collections took a share of the two cores from the workers (1.3× one thread, against
+ * 1.7–1.8× from a process of its own).
+ */
+function poolInOwnProcess(size: SizeResult, engine: EngineName, images: 'none' | 'retained'): void {
+  const task: PoolChildTask = { engine, images, label: size.label, width: size.photo.width, height: size.photo.height, opencv: size.pipeline.opencv };
+  const env = {
+    ...process.env,
+    KW_BENCH_POOL_CHILD: JSON.stringify(task),
+    KW_BENCH_BUILT_SERVER: builtServerDir(),
+    TS_NODE_PROJECT: path.join(__dirname, '..', '..', 'server', 'tsconfig.json'),
+  };
+  const child = spawnSync(process.execPath, [...POOL_PROCESS_NODE_FLAGS, '-r', 'ts-node/register/transpile-only', __filename], { stdio: 'inherit', env });
+  if (child.status !== 0) throw new Error(`the pool benchmark's process exited with ${child.status}`);
+}
+
+async function poolChild(task: PoolChildTask): Promise<void> {
+  const photo = washerPhoto(task.width, task.height);
+  const size = { label: task.label, photo, pipeline: { opencv: task.opencv }, fullRun: {} } as unknown as SizeResult;
+  await benchPool(size, task.engine, task.images);
+}
+
 /**
  * Two stations per thread feeding a pool of two worker threads, against the same runs in this thread
  * and against the same pool with one worker (its messages and the photo's move included). `images`: 'none'
@@ -571,7 +605,8 @@ async function benchPool(size: SizeResult, engine: EngineName, images: 'none' | 
     const single = summary(singleMs, singleMs);
     const onePooled = summary(onePoolMs, onePoolMs);
     const from = Pool === VisionPool ? 'workers from the TypeScript sources' : 'workers from the built server';
-    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, ${from}, ${size.label} whole rule runs, ${tasks} photos from ${stationCount} stations, ${rounds} rounds)`);
+    const flags = process.execArgv.filter((a) => a.startsWith('--')).join(' ') || 'no node flags';
+    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, ${from}, a process of its own with ${flags}, ${size.label} whole rule runs, ${tasks} photos from ${stationCount} stations, ${rounds} rounds)`);
     console.log(`  ${(1000 / pooled.best).toFixed(1)} images/s; ${pooled.best.toFixed(1)} ms per image best, ${pooled.median.toFixed(1)} median; CPU time of all threads ${pooled.cpuBest.toFixed(1)} ms per image`);
     console.log(`  one thread, the same runs in turn with the pool's rounds: ${single.best.toFixed(1)} ms per image best, ${single.median.toFixed(1)} median`);
     console.log(`  throughput against one thread: ${(single.best / pooled.best).toFixed(2)}x (best against best), ${(single.median / pooled.median).toFixed(2)}x (median against median); target ≥ 1.8`);
@@ -655,6 +690,7 @@ function load(): string {
 }
 
 async function main(): Promise<void> {
+  if (process.env.KW_BENCH_POOL_CHILD) return poolChild(JSON.parse(process.env.KW_BENCH_POOL_CHILD) as PoolChildTask);
   sharp.concurrency(1);
   const runs = Number(process.env.BENCH_RUNS ?? 5);
   console.log(`Kernwright vision benchmark — Node ${process.version}, ${os.cpus()[0]?.model ?? 'cpu'} × ${os.cpus().length}, load average (1, 5, 15 min) ${load()}`);
@@ -679,8 +715,8 @@ async function main(): Promise<void> {
   }
   for (const r of results) {
     // Every server caller (inspections, trials, the preview check, repeatability studies) takes the numbers only.
-    if (r.label === '5 MP') await benchPool(r, 'plain', 'none');
-    await benchPool(r, 'simd', 'none');
+    if (r.label === '5 MP') poolInOwnProcess(r, 'plain', 'none');
+    poolInOwnProcess(r, 'simd', 'none');
   }
   const fiveMp = results.find((r) => r.label === '5 MP');
   if (fiveMp) await photoToVerdict(fiveMp.photo, runs);

@@ -14,7 +14,7 @@ import { DEMO_PASSWORD, seedDemoUsers } from '../../server/seed/demo-users';
 import { MemoizingRunner } from '../../server/seed/memo-runner';
 import { createServices } from '../../server/services';
 import { loadKernelLibrary } from '../../server/vision/kernel-library';
-import { VisionPool } from '../../server/vision/pool';
+import { POOL_PROCESS_NODE_FLAGS, VisionPool } from '../../server/vision/pool';
 import { testConfig } from '../support/app';
 import { adminQuery } from './bench-db';
 
@@ -79,7 +79,7 @@ export function freePort(): Promise<number> {
 export async function startServer(databaseUrl: string, dataDir: string, logFile: string, extraEnv: NodeJS.ProcessEnv = {}): Promise<{ url: string; child: ChildProcess }> {
   const port = await freePort();
   const log = fs.openSync(logFile, 'a');
-  const child = spawn(process.execPath, ['-r', 'ts-node/register/transpile-only', path.join(ROOT, 'server', 'main.ts')], {
+  const child = spawn(process.execPath, [...POOL_PROCESS_NODE_FLAGS, '-r', 'ts-node/register/transpile-only', path.join(ROOT, 'server', 'main.ts')], {
     cwd: ROOT,
     stdio: ['ignore', log, log],
     env: {

@@ -43,11 +43,12 @@ export type PooledRun = RuleRun & { evidence?: EvidenceRaster };
 
 /**
  * Node flags for a process that runs the pool: scripts/lib.sh (KW_POOL_NODE_FLAGS) starts the server
- * and the demo seed with them; V8 takes them only on the command line. Each photo a worker receives is garbage after its run, and
- * V8 collects a worker's heap every few photos. By default the collection runs on four helper threads
- * as well, which compete with the workers for the cores: with two workers on two cores they took
- * about 4 ms of CPU per 5 MP photo, and the pool gave 1.3–1.4× one thread's throughput. Collecting on
- * the worker's own thread costs almost nothing here (small heaps), and the pool gave 1.7–1.9×.
+ * and the demo seed with them; V8 takes them only on the command line. Each photo a worker receives
+ * is garbage after its run, and V8 collects a worker's heap every few photos. By default each
+ * collection also runs on four helper threads, which compete with the workers for the cores: with
+ * two workers on two cores they took about 4 ms of CPU per 5 MP photo (the pool at 1.27× one
+ * thread's throughput in `npm run bench`). On the worker's own thread the same collections cost
+ * almost nothing (small heaps): 1.67–1.75× in the machine's good moments.
  */
 export const POOL_PROCESS_NODE_FLAGS: readonly string[] = ['--single-threaded-gc'];
 

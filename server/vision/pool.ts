@@ -48,7 +48,8 @@ export type PooledRun = RuleRun & { evidence?: EvidenceRaster };
  * collection also runs on four helper threads, which compete with the workers for the cores: with
  * two workers on two cores they took about 4 ms of CPU per 5 MP photo (the pool at 1.27× one
  * thread's throughput in `npm run bench`). On the worker's own thread the same collections cost
- * almost nothing (small heaps): 1.67–1.75× in the machine's good moments.
+ * almost nothing (small heaps): 1.67–1.75× in the machine's good moments. The price is memory:
+ * about 300 MB more at the peak under load (README, "One server under load").
  */
 export const POOL_PROCESS_NODE_FLAGS: readonly string[] = ['--single-threaded-gc'];
 

@@ -1,6 +1,6 @@
 // Benchmark of the operator's path: photo received → verdict, through the real HTTP route.
 // A throw-away database gets the demo plant's users and rules (the washer's released 4-step rule)
-// and a station calibrated for 5 MP photos; the real server (server/main.ts, its worker pool with one
+// and a station calibrated for 5 MP photos; the real server (server/main.ts built, its worker pool with one
 // thread per core) runs in a child process on loopback; this process photographs generated washers
 // at 2592x1944, encodes them as JPEG with sharp, and uploads them with POST /api/inspections:
 // first one station after another (sequential), then 2 and 4 stations at once. Prints p50/p95/p99 of

@@ -36,6 +36,30 @@ test('this Node accepts each flag (an unknown V8 flag stops node with "bad optio
   expect(spawnSync(process.execPath, ['--no-such-v8-flag-here', '-e', '0'], { encoding: 'utf8' }).status).not.toBe(0);
 });
 
+test('a process started with the flags runs a rule in its pool workers (the flags do not upset worker threads)', () => {
+  const root = path.join(__dirname, '..', '..', '..');
+  const script = `
+    const { VisionPool } = require('./server/vision/pool');
+    const { loadKernelLibrary } = require('./server/vision/kernel-library');
+    (async () => {
+      const pool = new VisionPool({ kernels: await loadKernelLibrary(), threads: 2 });
+      const samples = new Uint8Array(64 * 48).map((_, p) => ((p % 64) - 32) ** 2 + (((p / 64) | 0) - 24) ** 2 < 200 ? 200 : 40);
+      const photo = { width: 64, height: 48, channels: 1, bitDepth: 8, samples };
+      const rule = { format: 'kernwright-rule/1', name: 'Disc', steps: [{ op: 'gaussian', sigma: 1 }, { op: 'threshold', method: 'otsu' }],
+        gauges: [{ name: 'disc', measure: 'largest-blob-area', limits: { min: 100 } }] };
+      const runs = await Promise.all([1, 2, 3, 4].map(() => pool.run(rule, { ...photo, samples: samples.slice() }, { images: 'none' })));
+      await pool.destroy();
+      process.stdout.write(JSON.stringify({ missing: require('./server/vision/pool').missingPoolFlags(), verdicts: runs.map((r) => r.verdict) }));
+    })();`;
+  const run = spawnSync(process.execPath, [...POOL_PROCESS_NODE_FLAGS, '-r', 'ts-node/register/transpile-only', '-e', script], {
+    cwd: root,
+    encoding: 'utf8',
+    env: { ...process.env, TS_NODE_PROJECT: path.join(root, 'server', 'tsconfig.json') },
+  });
+  expect({ status: run.status, stderr: run.status === 0 ? '' : run.stderr }).toEqual({ status: 0, stderr: '' });
+  expect(JSON.parse(run.stdout)).toEqual({ missing: [], verdicts: ['PASS', 'PASS', 'PASS', 'PASS'] });
+}, 120_000);
+
 test('missingPoolFlags names the flags a process was started without', () => {
   expect(missingPoolFlags([...POOL_PROCESS_NODE_FLAGS, '--enable-source-maps'])).toEqual([]);
   expect(missingPoolFlags(['--enable-source-maps'])).toEqual([...POOL_PROCESS_NODE_FLAGS]);

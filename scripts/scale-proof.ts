@@ -29,7 +29,7 @@ import { DEMO_PASSWORD, seedDemoUsers } from '../server/seed/demo-users';
 import { MemoizingRunner } from '../server/seed/memo-runner';
 import { createServices } from '../server/services';
 import { loadKernelLibrary } from '../server/vision/kernel-library';
-import { VisionPool } from '../server/vision/pool';
+import { POOL_PROCESS_NODE_FLAGS, VisionPool } from '../server/vision/pool';
 
 const ROOT = path.join(__dirname, '..');
 const BUCKET = 'kernwright-scale';
@@ -170,7 +170,8 @@ function startNode(name: string, role: 'api' | 'worker', port: number, env: Node
   fs.mkdirSync(dataDir, { recursive: true });
   const log = fs.openSync(path.join(workDir, `${name}.log`), 'a');
   const imageDir = path.join(dataDir, 'images');
-  const child = spawn(process.execPath, ['-r', 'ts-node/register/transpile-only', path.join(ROOT, 'server', 'main.ts')], {
+  // Started as npm start starts the server: with the worker pool's node flags.
+  const child = spawn(process.execPath, [...POOL_PROCESS_NODE_FLAGS, '-r', 'ts-node/register/transpile-only', path.join(ROOT, 'server', 'main.ts')], {
     cwd: ROOT,
     stdio: ['ignore', log, log],
     env: {

@@ -33,6 +33,7 @@ import { gaussianGradient } from '../../shared/vision/smoothed-gradient';
 import { boxFilter, gaussianBlur } from '../../shared/vision/smoothing';
 import { thresholdAdaptiveMean, thresholdOtsu } from '../../shared/vision/threshold';
 import { ImageWorkspace } from '../../shared/vision/workspace';
+import { builtServerDir } from './built-server';
 import { washerPhoto } from './photos';
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
@@ -416,26 +417,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
   return { label, pipeline, fullRun, photo };
 }
 
-/**
- * The pool as the built server runs it: its workers load compiled JavaScript. From the TypeScript
- * sources (ts-node in every worker) their heaps hold the compiler, and each collection costs several
- * times more. The server is compiled once into a temporary folder (BENCH_POOL_FROM_SOURCE=1: don't).
- */
-let builtDir: string | null = null;
-function builtServerDir(): string {
-  if (builtDir) return builtDir;
-  if (process.env.KW_BENCH_BUILT_SERVER) return (builtDir = process.env.KW_BENCH_BUILT_SERVER);
-  const root = path.join(__dirname, '..', '..');
-  // Inside the repository (git-ignored), so that the compiled files find node_modules.
-  const dir = path.join(root, 'tests', 'artifacts', 'bench-server');
-  fs.rmSync(dir, { recursive: true, force: true });
-  // Type errors elsewhere in the server do not stop tsc from writing the files.
-  spawnSync('npx', ['tsc', '-p', 'server/tsconfig.build.json', '--outDir', dir], { cwd: root, stdio: 'ignore' });
-  if (!fs.existsSync(path.join(dir, 'server', 'vision', 'pool.js'))) throw new Error(`compiling the server into ${dir} gave no server/vision/pool.js`);
-  builtDir = dir;
-  return dir;
-}
-
+/** The pool as the built server runs it, its workers on compiled JavaScript (built-server.ts; BENCH_POOL_FROM_SOURCE=1: from the sources). */
 let builtPool: typeof VisionPool | null = null;
 function poolClass(): typeof VisionPool {
   if (process.env.BENCH_POOL_FROM_SOURCE === '1') return VisionPool;
@@ -500,6 +482,13 @@ async function benchPipelineThreads(size: SizeResult, engine: EngineName, runs: 
   }
 }
 
+/** What the pool's lines need of a size's results: its photo, and OpenCV's standard pipeline time for the ratio. */
+interface PoolTarget {
+  label: string;
+  photo: RawPhoto;
+  opencv: Timing;
+}
+
 interface PoolChildTask {
   engine: EngineName;
   images: 'none' | 'retained';
@@ -528,9 +517,7 @@ function poolInOwnProcess(size: SizeResult, engine: EngineName, images: 'none' |
 }
 
 async function poolChild(task: PoolChildTask): Promise<void> {
-  const photo = washerPhoto(task.width, task.height);
-  const size = { label: task.label, photo, pipeline: { opencv: task.opencv }, fullRun: {} } as unknown as SizeResult;
-  await benchPool(size, task.engine, task.images);
+  await benchPool({ label: task.label, photo: washerPhoto(task.width, task.height), opencv: task.opencv }, task.engine, task.images);
 }
 
 /**
@@ -538,8 +525,8 @@ async function poolChild(task: PoolChildTask): Promise<void> {
  * and against the same pool with one worker (its messages and the photo's move included). `images`: 'none'
  * as every server caller asks (numbers only), 'retained' to see the cost of moving the images back.
  */
-async function benchPool(size: SizeResult, engine: EngineName, images: 'none' | 'retained'): Promise<void> {
-  const { photo } = size;
+async function benchPool(target: PoolTarget, engine: EngineName, images: 'none' | 'retained'): Promise<void> {
+  const { photo } = target;
   const kernels = await loadKernelLibrary();
   const threads = 2;
   const Pool = poolClass();
@@ -606,13 +593,13 @@ async function benchPool(size: SizeResult, engine: EngineName, images: 'none' | 
     const onePooled = summary(onePoolMs, onePoolMs);
     const from = Pool === VisionPool ? 'workers from the TypeScript sources' : 'workers from the built server';
     const flags = process.execArgv.filter((a) => a.startsWith('--')).join(' ') || 'no node flags';
-    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, ${from}, a process of its own with ${flags}, ${size.label} whole rule runs, ${tasks} photos from ${stationCount} stations, ${rounds} rounds)`);
+    console.log(`\nworker pool, ${engine} engine, images ${images} (${threads} threads, ${os.cpus().length} cores, ${from}, a process of its own with ${flags}, ${target.label} whole rule runs, ${tasks} photos from ${stationCount} stations, ${rounds} rounds)`);
     console.log(`  ${(1000 / pooled.best).toFixed(1)} images/s; ${pooled.best.toFixed(1)} ms per image best, ${pooled.median.toFixed(1)} median; CPU time of all threads ${pooled.cpuBest.toFixed(1)} ms per image`);
     console.log(`  one thread, the same runs in turn with the pool's rounds: ${single.best.toFixed(1)} ms per image best, ${single.median.toFixed(1)} median`);
     console.log(`  throughput against one thread: ${(single.best / pooled.best).toFixed(2)}x (best against best), ${(single.median / pooled.median).toFixed(2)}x (median against median); target ≥ 1.8`);
     console.log(`  the same pool with one worker (two stations): ${onePooled.best.toFixed(1)} ms per image best, ${onePooled.median.toFixed(1)} median; two workers ${(onePooled.best / pooled.best).toFixed(2)}x its throughput (best), ${(onePooled.median / pooled.median).toFixed(2)}x (median)`);
     // Issue 3's pool target compares the standard pipeline with OpenCV's; a whole run does more (luma, quality gate, gauge), so this ratio is an upper bound.
-    const cv = size.pipeline.opencv;
+    const cv = target.opencv;
     console.log(`  per image through the pool (whole run) against OpenCV's standard pipeline on one thread: ${(pooled.best / cv.best).toFixed(2)} best, ${(pooled.median / cv.median).toFixed(2)} median${engine === 'plain' ? ' (the plain engine\'s target for the pipeline alone: ≤ 0.35)' : ''}`);
   } finally {
     await Promise.all([pool.destroy(), onePool.destroy()]);

@@ -1,7 +1,7 @@
 // The pieces the inspection benchmarks share: a throw-away database with the demo plant's users and
 // rules and stations calibrated for 5 MP washers, the real server in a child process on loopback,
 // generated 5 MP washer photos, and the server process's CPU time.
-import { execFileSync, spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
@@ -17,6 +17,7 @@ import { loadKernelLibrary } from '../../server/vision/kernel-library';
 import { POOL_PROCESS_NODE_FLAGS, VisionPool } from '../../server/vision/pool';
 import { testConfig } from '../support/app';
 import { adminQuery } from './bench-db';
+import { builtServerDir } from './built-server';
 
 const ROOT = path.join(__dirname, '..', '..');
 export const FRAME = { width: 2592, height: 1944 };
@@ -75,30 +76,11 @@ export function freePort(): Promise<number> {
   });
 }
 
-/**
- * The server compiled as `npm start` compiles it, into dist-bench/ (git-ignored; beside dist-server/,
- * so that it finds the repository's kernels and package.json the same way), once per process. Run
- * from the TypeScript sources instead, the server and every pool worker would carry the compiler in
- * their heaps, and each collection would cost more than in production.
- */
-let builtMain: string | null = null;
-function builtServerMain(): string {
-  if (builtMain) return builtMain;
-  const outDir = path.join(ROOT, 'dist-bench');
-  fs.rmSync(outDir, { recursive: true, force: true });
-  // Type errors elsewhere in the repository do not stop tsc from writing the files.
-  spawnSync('npx', ['tsc', '-p', 'server/tsconfig.build.json', '--outDir', outDir], { cwd: ROOT, stdio: 'ignore' });
-  const main = path.join(outDir, 'server', 'main.js');
-  if (!fs.existsSync(main)) throw new Error(`compiling the server into ${outDir} gave no server/main.js`);
-  builtMain = main;
-  return main;
-}
-
 /** The built server (server/main.ts) in a child process with the pool's node flags, API only, mail to a closed port (nothing here sends any). */
 export async function startServer(databaseUrl: string, dataDir: string, logFile: string, extraEnv: NodeJS.ProcessEnv = {}): Promise<{ url: string; child: ChildProcess }> {
   const port = await freePort();
   const log = fs.openSync(logFile, 'a');
-  const child = spawn(process.execPath, [...POOL_PROCESS_NODE_FLAGS, builtServerMain()], {
+  const child = spawn(process.execPath, [...POOL_PROCESS_NODE_FLAGS, path.join(builtServerDir(), 'server', 'main.js')], {
     cwd: ROOT,
     stdio: ['ignore', log, log],
     env: {

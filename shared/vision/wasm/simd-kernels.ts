@@ -300,7 +300,6 @@ export class SimdKernels {
     range.max = output === 'magnitude' ? found[1] : NaN;
   }
 
-
   /** True when every value is a whole number in 0 … 255. */
   eightBitLevels(image: Image): boolean {
     return this.read(image, (s) => this.wasm.eightBitLevels(s, image.data.length) === 1);
@@ -533,7 +532,6 @@ export class SimdKernels {
       else this.wasm.lumaRgb8Quality(src, channels, w, h, dst, k[0], k[1], k[2], 255, sums);
     });
   }
-
 
   /** Address of the image's samples in the module's memory: its own, or a copy for the call. */
   private addressOf(image: Image, scope: CallScope): number {

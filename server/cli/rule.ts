@@ -9,7 +9,6 @@ import { validateRuleDocument } from '../../shared/rules/schema';
 import { RuleRunError, runValidatedRule, type RuleRun, type Verdict } from '../../shared/vision/pipeline';
 import { PhotoDecodeError, decodePhoto } from '../vision/decode';
 import { displayPng, evidencePng } from '../vision/encode';
-import { fftCorrelate } from '../vision/fft-correlate';
 import { KernelLibraryError, loadKernelLibrary } from '../vision/kernel-library';
 import { npyFloat32 } from '../vision/npy';
 
@@ -135,7 +134,6 @@ async function runCommand(args: string[]): Promise<number> {
   const run = runValidatedRule(validation.rule, photo, {
     kernels: await loadKernelLibrary(),
     mmPerPx: options.stationScale,
-    largeKernelCorrelator: fftCorrelate,
   });
 
   await fs.mkdir(options.out, { recursive: true });

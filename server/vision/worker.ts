@@ -15,7 +15,6 @@ import { RuleRunError, runRule, type KernelLibrary, type RuleRun, type RuleRunEr
 import { isResident } from '../../shared/vision/wasm/resident-image';
 import { ImageWorkspace } from '../../shared/vision/workspace';
 import { evidenceRaster, type EvidenceRaster } from './evidence';
-import { fftCorrelate } from './fft-correlate';
 
 export interface PipelineWorkerData {
   engine: EngineChoice;
@@ -64,7 +63,6 @@ export default function runPipelineTask(task: PipelineTask): PipelineTaskResult 
       kernels,
       mmPerPx: task.mmPerPx,
       retain: task.retain,
-      largeKernelCorrelator: fftCorrelate,
       workspace,
     });
     const evidence = task.evidence && run.verdict === 'FAIL' ? evidenceRaster(run) : undefined;

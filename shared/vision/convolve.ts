@@ -1,44 +1,32 @@
 // Applying kernels: correlation (the kernel applied as written, as imaging libraries do),
 // with one border policy for every path. Rank-1 kernels run as two 1-D passes; other kernels
-// run directly, or through an FFT correlator that the caller may inject for large kernels.
+// run directly, or through the FFT in tiles when they are large (and the image is finite).
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { allFinite, correlateFft, FFT_MAX_KERNEL_SIDE } from './fft-correlate';
 import { imageLike, type Image } from './image';
 import { separate, type Kernel } from './kernels';
 import { simdKernels } from './engine';
 
-/** Correlates a whole image with a non-separable kernel of any size (e.g. through an FFT). */
-export type LargeKernelCorrelator = (src: Image, kernel: Kernel, border: BorderMode) => Image;
-
-export interface CorrelateOptions {
-  out?: Image;
-  /** Used for non-separable kernels with at least `largeKernelTaps` weights. */
-  largeKernelCorrelator?: LargeKernelCorrelator;
-  largeKernelTaps?: number;
-}
-
 /**
- * Kernel size (weights) from which an injected FFT correlator is used. tests/bench measures both
- * paths on a 5 MP image: the direct path wins clearly at 15×15 (about 6× faster than
- * ndarray-convolve's FFT) and loses at 31×31, so the FFT starts at 27×27 weights.
+ * Non-separable kernels of at least this many weights go through the plain engine's FFT
+ * (fft-correlate.ts): on a 5 MP image the FFT takes 15–22 ns/px from 7×7 to 31×31 and the direct
+ * path 15.6 ns/px at 7×7, 60 at 9×9 and 75 at 15×15 (tests/bench, 2-core machine). The SIMD engine
+ * has its own threshold (FFT_KERNEL_TAPS in wasm/simd-kernels.ts).
  */
-export const DEFAULT_LARGE_KERNEL_TAPS = 27 * 27;
+export const PLAIN_FFT_KERNEL_TAPS = 7 * 7;
 
-/** out(x,y) = Σⱼ Σᵢ m[j][i]·in[y+j−ry][x+i−rx] / divisor + offset, choosing the fastest exact path. */
-export function correlate(src: Image, kernel: Kernel, border: BorderMode, options: CorrelateOptions = {}): Image {
+/** out(x,y) = Σⱼ Σᵢ m[j][i]·in[y+j−ry][x+i−rx] / divisor + offset, choosing the fastest path. */
+export function correlate(src: Image, kernel: Kernel, border: BorderMode, out?: Image): Image {
   const pair = separate(kernel);
-  if (pair) return correlateSeparable(src, pair.column, pair.row, border, options.out, kernel.offset);
-  // The SIMD direct path stays ahead of the FFT up to the largest kernel a rule may hold (31×31).
+  if (pair) return correlateSeparable(src, pair.column, pair.row, border, out, kernel.offset);
   const simd = simdKernels();
-  if (simd) return simd.correlate2d(src, kernel, border, options.out);
-  const taps = kernel.rows * kernel.cols;
-  if (options.largeKernelCorrelator && taps >= (options.largeKernelTaps ?? DEFAULT_LARGE_KERNEL_TAPS)) {
-    const result = options.largeKernelCorrelator(src, kernel, border);
-    if (!options.out) return result;
-    const out = imageLike(src, options.out);
-    out.data.set(result.data);
-    return out;
-  }
-  return correlateDirect(src, kernel, border, options.out);
+  if (simd) return simd.correlate2d(src, kernel, border, out);
+  const large = kernel.rows * kernel.cols >= PLAIN_FFT_KERNEL_TAPS && Math.max(kernel.rows, kernel.cols) <= FFT_MAX_KERNEL_SIDE;
+  // A NaN or an infinity would spread over a whole tile through the transform; directly it stays in its windows.
+  if (!large || !allFinite(src.data)) return correlateDirect(src, kernel, border, out);
+  const dst = imageLike(src, out === src ? undefined : out);
+  correlateFft(src, kernel, border, dst);
+  return dst;
 }
 
 function isSymmetric(w: ArrayLike<number>): boolean {

@@ -4,7 +4,7 @@ import type { FieldIssue } from '../api/errors';
 import { validateRuleDocument, type Gauge, type GaugeMeasure, type GaugeUnit, type Limits, type RuleDocument, type Step } from '../rules/schema';
 import { MAX_PACKED_RADIUS, type PackedMask } from './binary-morphology';
 import type { BorderMode } from './border';
-import { correlate, type LargeKernelCorrelator } from './convolve';
+import { correlate } from './convolve';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
 import type { BitDepth, Image, RawPhoto, ValueRange } from './image';
@@ -33,8 +33,6 @@ export interface RunOptions {
   mmPerPx?: number;
   /** 'all' keeps every step's output (previews, the rule command); 'gauged' keeps only what gauges read and reuses the rest. */
   retain?: 'all' | 'gauged';
-  largeKernelCorrelator?: LargeKernelCorrelator;
-  largeKernelTaps?: number;
   /**
    * Buffers to reuse across runs (a batch, a worker thread). Outputs that are not retained go
    * back to it at the end of the run; hand a finished run back with `releaseRun`.
@@ -292,7 +290,7 @@ function applyStep(
   handover.packedReady = false;
   switch (step.op) {
     case 'kernel':
-      return correlate(src, kernel!, border, { out, largeKernelCorrelator: options.largeKernelCorrelator, largeKernelTaps: options.largeKernelTaps });
+      return correlate(src, kernel!, border, out);
     case 'gaussian':
       return gaussianBlur(src, step.sigma, border, out);
     case 'box':

@@ -5,7 +5,7 @@
 // (node --cpu-prof -r ts-node/register/transpile-only ... gives a profile of the same runs.)
 import { createPackedMask } from '../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../shared/vision/blobs';
-import { correlateDirect } from '../../shared/vision/convolve';
+import { correlate, correlateDirect } from '../../shared/vision/convolve';
 import { setEngine, type EngineName } from '../../shared/vision/engine';
 import { gradient } from '../../shared/vision/gradient';
 import { channelImage, type Image } from '../../shared/vision/image';
@@ -60,7 +60,8 @@ function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
     laplacian: () => laplacian(input, 4, 'reflect', a),
     log: () => laplacianOfGaussian(input, 1.4, 'reflect', a),
     k5: () => correlateDirect(input, k5, 'reflect', a),
-    k15: () => correlateDirect(input, k15, 'reflect', a),
+    k15: () => correlate(input, k15, 'reflect', a),
+    k15direct: () => correlateDirect(input, k15, 'reflect', a),
     blobs: () => labelBlobs(mask),
   };
 }

@@ -1,8 +1,8 @@
-// The direct path's unrolled and grouped kernel rows, and the one-sweep Laplacian of Gaussian,
-// against an outside reference: @techstark/opencv-js 4.5.2 (OpenCV 4.5.1, WebAssembly) filter2D
-// and sepFilter2D on CV_32F, every border mode.
+// The direct path's unrolled and grouped kernel rows, the FFT in tiles that large kernels take,
+// and the one-sweep Laplacian of Gaussian, against an outside reference: @techstark/opencv-js 4.5.2
+// (OpenCV 4.5.1, WebAssembly) filter2D and sepFilter2D on CV_32F, every border mode.
 import type { BorderMode } from '../../../shared/rules/schema';
-import { correlateDirect } from '../../../shared/vision/convolve';
+import { correlate, correlateDirect } from '../../../shared/vision/convolve';
 import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix } from '../../../shared/vision/kernels';
 import { laplacianOfGaussian } from '../../../shared/vision/laplacian';
 import { partImage } from './images';
@@ -54,14 +54,18 @@ describe.each(ENGINES)('on the %s engine', (engine) => {
     });
   });
 
+  // The engine's choice: the FFT in 128×128 tiles from 11×11 weights on SIMD, from 7×7 on plain.
   describe.each(BORDERS)('with the %s border, on an image of several FFT tiles', (border) => {
     test.each([
+      [7, 7],
+      [9, 9],
       [11, 13],
+      [15, 15],
       [31, 31],
     ])('a %ix%i kernel matches OpenCV filter2D across tile edges', (rows, cols) => {
       const image = partImage(301, 257, 255, rows + cols);
       const matrix = kernelMatrix(rows, cols);
-      const ours = correlateDirect(image, kernelFromMatrix(matrix, 7, -2), border);
+      const ours = correlate(image, kernelFromMatrix(matrix, 7, -2), border);
       const src = toMat32(cv, image);
       const dst = new cv.Mat();
       const k = cv.matFromArray(rows, cols, cv.CV_32F, matrix.flat().map((v) => v / 7));

@@ -1,0 +1,350 @@
+// The plain engine's correlation with a large kernel through the fast Fourier transform, in
+// 128×128 tiles (overlap-save), in double precision: the counterpart of wasm/assembly/fft.ts.
+// Each tile of the padded source is transformed, multiplied by the kernel's spectrum and transformed
+// back; its (129 − kernel) × (129 − kernel) inner outputs are exact circular ones. Two tiles go
+// through one complex transform, one as the real part and one as the imaginary part: the kernel is
+// real, so their results come back apart. Transforms: iterative radix-2 Cooley–Tukey (J. W. Cooley
+// and J. W. Tukey, Math. Comp. 19, 1965), two stages per sweep of the tile, down every column of
+// the tile at once; the forward transform takes its rows in bit-reversed order (decimation in time)
+// and the inverse leaves them so (decimation in frequency), so no pass only reorders rows.
+import { borderIndex, borderTable, OUTSIDE, type BorderMode } from './border';
+import type { Image } from './image';
+import type { Kernel } from './kernels';
+
+const N = 128;
+const LOG_N = 7;
+const AREA = N * N;
+
+/** Longest kernel side the tiles take: a tile keeps N − side + 1 valid outputs each way. */
+export const FFT_MAX_KERNEL_SIDE = 63;
+
+/** cos and −sin of 2πk/N for k < N: the forward twiddles e^(−2πik/N). */
+const COS = new Float64Array(N);
+const MINUS_SIN = new Float64Array(N);
+/** Bit-reversal permutation of 0 … N−1 (its own inverse). */
+const REVERSED = new Int32Array(N);
+for (let k = 0; k < N; k++) {
+  COS[k] = Math.cos((2 * Math.PI * k) / N);
+  MINUS_SIN[k] = -Math.sin((2 * Math.PI * k) / N);
+}
+for (let i = 0; i < N; i++) {
+  let r = 0;
+  for (let b = 0; b < LOG_N; b++) r |= ((i >> b) & 1) << (LOG_N - 1 - b);
+  REVERSED[i] = r;
+}
+
+/** The four planes a correlation works in (a tile pair, the kernel's spectrum), allocated on first use and kept (0.5 MB). */
+class Planes {
+  readonly re = new Float64Array(AREA);
+  readonly im = new Float64Array(AREA);
+  readonly kre = new Float64Array(AREA);
+  readonly kim = new Float64Array(AREA);
+}
+let planes: Planes | null = null;
+
+/** True when no sample is NaN or ±∞: one of them would spread over a whole tile through the transform. */
+export function allFinite(data: Float32Array): boolean {
+  let bad = 0;
+  // v − v is 0 exactly for a finite v, NaN otherwise.
+  for (let i = 0; i < data.length; i++) bad += +(data[i] - data[i] !== 0);
+  return bad === 0;
+}
+
+/**
+ * dst(x,y) = Σⱼ Σᵢ m[j][i]·src(x+i−rx, y+j−ry) / divisor + offset, with the border, as the direct
+ * correlation computes it (within double-precision rounding, then rounded to float32). The source
+ * must hold finite samples only (`allFinite`) and the kernel's sides be at most FFT_MAX_KERNEL_SIDE.
+ */
+export function correlateFft(src: Image, kernel: Kernel, border: BorderMode, dst: Image): void {
+  const { width: w, height: h, data } = src;
+  const { rows, cols, weights, divisor, offset } = kernel;
+  if (rows > FFT_MAX_KERNEL_SIDE || cols > FFT_MAX_KERNEL_SIDE) throw new RangeError(`the FFT takes kernels up to ${FFT_MAX_KERNEL_SIDE} a side`);
+  const p = (planes ??= new Planes());
+  const { re, im, kre, kim } = p;
+  const ry = rows >> 1;
+  const rx = cols >> 1;
+  const validRows = N - rows + 1;
+  const validCols = N - cols + 1;
+  const tilesDown = Math.ceil(h / validRows);
+  const tilesAcross = Math.ceil(w / validCols);
+  // Source column of each tile column: image columns −rx … tilesAcross·validCols − rx + N − 1.
+  const columns = borderTable(w, rx, tilesAcross * validCols + N - rx - w, border);
+
+  // The kernel flipped about its centre, circularly, so that the tiles' circular convolution with it
+  // is the correlation; 1/divisor and the inverse transform's 1/N² folded in.
+  kre.fill(0);
+  kim.fill(0);
+  const scale = 1 / (divisor * AREA);
+  for (let j = 0; j < rows; j++) {
+    for (let i = 0; i < cols; i++) {
+      const a = (ry - j + N) & (N - 1);
+      const b = (rx - i + N) & (N - 1);
+      kre[REVERSED[a] * N + b] = weights[j * cols + i] * scale;
+    }
+  }
+  firstStage(kre, kim);
+  forward(kre, kim);
+
+  const out = dst.data;
+  const tiles = tilesDown * tilesAcross;
+  for (let t = 0; t < tiles; t += 2) {
+    const y0 = Math.floor(t / tilesAcross) * validRows;
+    const x0 = (t % tilesAcross) * validCols;
+    fillTile(data, w, h, border, re, columns, y0 - ry, x0);
+    const second = t + 1 < tiles;
+    const y1 = Math.floor((t + 1) / tilesAcross) * validRows;
+    const x1 = ((t + 1) % tilesAcross) * validCols;
+    if (second) fillTile(data, w, h, border, im, columns, y1 - ry, x1);
+    else im.fill(0);
+    forward(re, im, kre, kim);
+    inverse(re, im);
+    writeTile(re, 1, out, w, h, ry, rx, validRows, validCols, y0, x0, offset);
+    if (second) writeTile(im, -1, out, w, h, ry, rx, validRows, validCols, y1, x1, offset);
+  }
+}
+
+/**
+ * The forward 2-D transform of (re, im), whose rows are in bit-reversed order and whose first stage
+ * is done (`fillTile`, `firstStage`): down the columns (decimation in time), transpose, down the
+ * columns (decimation in frequency). The spectrum is left transposed with its rows in bit-reversed
+ * order, as `inverse` takes it. With a kernel spectrum in that layout (kre, kim), the last stage
+ * multiplies by it on the way and leaves the product's complex conjugate, for `inverse`.
+ */
+function forward(re: Float64Array, im: Float64Array, kre?: Float64Array, kim?: Float64Array): void {
+  columnsInTime(re, im);
+  transpose(re);
+  transpose(im);
+  columnsInFrequency(re, im);
+  if (kre && kim) lastStageTimesConjugate(re, im, kre, kim);
+  else lastStage(re, im);
+}
+
+/**
+ * The inverse (unscaled) of `forward`, back untransposed, given the spectrum's complex conjugate: the
+ * forward transform of it is the conjugate of the inverse transform (conj(F(conj Z)) = F⁻¹(Z)·N²), so
+ * the real part is the result and the imaginary part its negative. All but the last stage, which
+ * `writeTile` does as it writes the outputs.
+ */
+function inverse(re: Float64Array, im: Float64Array): void {
+  firstStage(re, im);
+  columnsInTime(re, im);
+  transpose(re);
+  transpose(im);
+  columnsInFrequency(re, im);
+}
+
+function transpose(plane: Float64Array): void {
+  for (let i = 0; i < N; i++) {
+    for (let j = i + 1; j < N; j++) {
+      const a = i * N + j;
+      const b = j * N + i;
+      const t = plane[a];
+      plane[a] = plane[b];
+      plane[b] = t;
+    }
+  }
+}
+
+/** The first stage (half 1) of the transform down the columns, decimation in time: its twiddle is 1. */
+function firstStage(re: Float64Array, im: Float64Array): void {
+  for (let a = 0; a < AREA; a += 2 * N) {
+    const b = a + N;
+    for (let x = 0; x < N; x++) {
+      const ur = re[a + x], ui = im[a + x], vr = re[b + x], vi = im[b + x];
+      re[a + x] = ur + vr;
+      im[a + x] = ui + vi;
+      re[b + x] = ur - vr;
+      im[b + x] = ui - vi;
+    }
+  }
+}
+
+/**
+ * The N-point transform down every column, decimation in time: rows in bit-reversed order in,
+ * natural order out, forward (e^(−2πi/N)). Here the stages after `firstStage`, as
+ * three sweeps of two (half h, then 2h, for h = 2, 8, 32).
+ */
+function columnsInTime(re: Float64Array, im: Float64Array): void {
+  for (let h = 2; h < N; h <<= 2) {
+    const s1 = N / (2 * h);
+    const s2 = N / (4 * h);
+    for (let k = 0; k < h; k++) {
+      // Stage h: a0 ± w1·a1, a2 ± w1·a3 with w1 = W(2h)^k; stage 2h: the sums ± w2·(a2 + w1·a3) and the
+      // differences ± w3·(a2 − w1·a3), w2 = W(4h)^k, w3 = W(4h)^(k+h) = −i·w2. Three products:
+      // w1·a1, w2·a2 and w2·w1·a3, with w2·w1 = W(4h)^3k.
+      const w1r = COS[k * s1], w1i = MINUS_SIN[k * s1];
+      const w2r = COS[k * s2], w2i = MINUS_SIN[k * s2];
+      const w3r = COS[3 * k * s2], w3i = MINUS_SIN[3 * k * s2];
+      for (let start = 0; start < N; start += 4 * h) {
+        const p0 = (start + k) * N, p1 = p0 + h * N, p2 = p1 + h * N, p3 = p2 + h * N;
+        for (let x = 0; x < N; x++) {
+          const a0r = re[p0 + x], a0i = im[p0 + x];
+          const a1r = re[p1 + x], a1i = im[p1 + x];
+          const a2r = re[p2 + x], a2i = im[p2 + x];
+          const a3r = re[p3 + x], a3i = im[p3 + x];
+          const rr = a1r * w1r - a1i * w1i, ri = a1r * w1i + a1i * w1r;
+          const pr = a2r * w2r - a2i * w2i, pi = a2r * w2i + a2i * w2r;
+          const qr = a3r * w3r - a3i * w3i, qi = a3r * w3i + a3i * w3r;
+          const c0r = a0r + rr, c0i = a0i + ri, c1r = a0r - rr, c1i = a0i - ri;
+          const sr = pr + qr, si = pi + qi;
+          // −i·(p − q)
+          const dr = pi - qi, di = qr - pr;
+          re[p0 + x] = c0r + sr;
+          im[p0 + x] = c0i + si;
+          re[p2 + x] = c0r - sr;
+          im[p2 + x] = c0i - si;
+          re[p1 + x] = c1r + dr;
+          im[p1 + x] = c1i + di;
+          re[p3 + x] = c1r - dr;
+          im[p3 + x] = c1i - di;
+        }
+      }
+    }
+  }
+}
+
+/**
+ * The N-point transform down every column, decimation in frequency: natural order in, rows in
+ * bit-reversed order out after `lastStage`. Here the first six stages, as three sweeps of two
+ * (half 2h, then h, for h = 32, 8, 2).
+ */
+function columnsInFrequency(re: Float64Array, im: Float64Array): void {
+  for (let h = N >> 2; h >= 2; h >>= 2) {
+    const s1 = N / (2 * h);
+    const s2 = N / (4 * h);
+    for (let k = 0; k < h; k++) {
+      // Stage 2h: a0 + a2, a1 + a3 and (a0 − a2)·w2, (a1 − a3)·w3 with w2 = W(4h)^k, w3 = −i·w2;
+      // stage h: the sums' sum and their difference times w1 = W(2h)^k, likewise for the products.
+      // Three products: w1·(c0 − c1), w2·(d2 − i·d3) and w2·w1·(d2 + i·d3), w2·w1 = W(4h)^3k.
+      const w1r = COS[k * s1], w1i = MINUS_SIN[k * s1];
+      const w2r = COS[k * s2], w2i = MINUS_SIN[k * s2];
+      const w3r = COS[3 * k * s2], w3i = MINUS_SIN[3 * k * s2];
+      for (let start = 0; start < N; start += 4 * h) {
+        const p0 = (start + k) * N, p1 = p0 + h * N, p2 = p1 + h * N, p3 = p2 + h * N;
+        for (let x = 0; x < N; x++) {
+          const a0r = re[p0 + x], a0i = im[p0 + x];
+          const a1r = re[p1 + x], a1i = im[p1 + x];
+          const a2r = re[p2 + x], a2i = im[p2 + x];
+          const a3r = re[p3 + x], a3i = im[p3 + x];
+          const c0r = a0r + a2r, c0i = a0i + a2i, d2r = a0r - a2r, d2i = a0i - a2i;
+          const c1r = a1r + a3r, c1i = a1i + a3i, d3r = a1r - a3r, d3i = a1i - a3i;
+          // i·d3
+          const jr = -d3i, ji = d3r;
+          const er = c0r - c1r, ei = c0i - c1i;
+          const fr = d2r - jr, fi = d2i - ji;
+          const gr = d2r + jr, gi = d2i + ji;
+          re[p0 + x] = c0r + c1r;
+          im[p0 + x] = c0i + c1i;
+          re[p1 + x] = er * w1r - ei * w1i;
+          im[p1 + x] = er * w1i + ei * w1r;
+          re[p2 + x] = fr * w2r - fi * w2i;
+          im[p2 + x] = fr * w2i + fi * w2r;
+          re[p3 + x] = gr * w3r - gi * w3i;
+          im[p3 + x] = gr * w3i + gi * w3r;
+        }
+      }
+    }
+  }
+}
+
+/** The last stage of `columnsInFrequency` (half 1), whose twiddle is 1. */
+function lastStage(re: Float64Array, im: Float64Array): void {
+  for (let a = 0; a < AREA; a += 2 * N) {
+    const b = a + N;
+    for (let x = 0; x < N; x++) {
+      const ur = re[a + x], ui = im[a + x], vr = re[b + x], vi = im[b + x];
+      re[a + x] = ur + vr;
+      im[a + x] = ui + vi;
+      re[b + x] = ur - vr;
+      im[b + x] = ui - vi;
+    }
+  }
+}
+
+/** `lastStage` with each result multiplied by the kernel spectrum at its place, and conjugated. */
+function lastStageTimesConjugate(re: Float64Array, im: Float64Array, kre: Float64Array, kim: Float64Array): void {
+  for (let a = 0; a < AREA; a += 2 * N) {
+    const b = a + N;
+    for (let x = 0; x < N; x++) {
+      const ur = re[a + x], ui = im[a + x], vr = re[b + x], vi = im[b + x];
+      const sr = ur + vr, si = ui + vi, dr = ur - vr, di = ui - vi;
+      const pr = kre[a + x], pi = kim[a + x], qr = kre[b + x], qi = kim[b + x];
+      re[a + x] = sr * pr - si * pi;
+      im[a + x] = -(sr * pi + si * pr);
+      re[b + x] = dr * qr - di * qi;
+      im[b + x] = -(dr * qi + di * qr);
+    }
+  }
+}
+
+/**
+ * Tile rows y0 … y0+N−1 into a plane (source rows through the border, columns through the column
+ * table, which starts at −rx; zeros outside with the constant border) with the transform's first
+ * stage done on the way: plane rows 2m and 2m+1 take the sum and the difference of tile rows r and
+ * r + N/2, r = REVERSED[2m] (decimation in time takes the rows in bit-reversed order).
+ */
+function fillTile(data: Float32Array, w: number, h: number, border: BorderMode, plane: Float64Array, columns: Int32Array, y0: number, x0: number): void {
+  const first = columns[x0];
+  const inside = first !== OUTSIDE && columns[x0 + N - 1] === first + N - 1;
+  const half = N >> 1;
+  for (let r = 0; r < half; r++) {
+    const sum = REVERSED[r] * N;
+    const difference = sum + N;
+    const top = borderIndex(y0 + r, h, border);
+    const bottom = borderIndex(y0 + r + half, h, border);
+    if (inside && top !== OUTSIDE && bottom !== OUTSIDE) {
+      const a = top * w + first;
+      const b = bottom * w + first;
+      for (let s = 0; s < N; s++) {
+        const u = data[a + s], v = data[b + s];
+        plane[sum + s] = u + v;
+        plane[difference + s] = u - v;
+      }
+      continue;
+    }
+    copyTileRow(data, w, top, columns, x0, plane, sum);
+    copyTileRow(data, w, bottom, columns, x0, plane, difference);
+    for (let s = 0; s < N; s++) {
+      const u = plane[sum + s], v = plane[difference + s];
+      plane[sum + s] = u + v;
+      plane[difference + s] = u - v;
+    }
+  }
+}
+
+function copyTileRow(data: Float32Array, w: number, row: number, columns: Int32Array, x0: number, plane: Float64Array, line: number): void {
+  if (row === OUTSIDE) {
+    plane.fill(0, line, line + N);
+    return;
+  }
+  const source = row * w;
+  for (let s = 0; s < N; s++) {
+    const c = columns[x0 + s];
+    plane[line + s] = c === OUTSIDE ? 0 : data[source + c];
+  }
+}
+
+/**
+ * The inverse transform's last stage (half 1; real and imaginary parts apart), done only where a
+ * valid output needs it, times sign (−1 for the imaginary part, see `inverse`), and written straight
+ * to the output at (y0, x0), plus offset: plane rows 2m and 2m+1 give tile rows r and r + N/2,
+ * r = REVERSED[2m]; a tile's valid part is its rows ry … and columns rx ….
+ */
+function writeTile(plane: Float64Array, sign: number, out: Float32Array, w: number, h: number, ry: number, rx: number, validRows: number, validCols: number, y0: number, x0: number, offset: number): void {
+  const rowsOut = Math.min(validRows, h - y0);
+  const colsOut = Math.min(validCols, w - x0);
+  for (let m = 0; m < N; m += 2) {
+    const a = m * N + rx;
+    const b = a + N;
+    const top = REVERSED[m] - ry;
+    const bottom = top + (N >> 1);
+    if (top >= 0 && top < rowsOut) {
+      const to = (y0 + top) * w + x0;
+      for (let s = 0; s < colsOut; s++) out[to + s] = sign * (plane[a + s] + plane[b + s]) + offset;
+    }
+    if (bottom >= 0 && bottom < rowsOut) {
+      const to = (y0 + bottom) * w + x0;
+      for (let s = 0; s < colsOut; s++) out[to + s] = sign * (plane[a + s] - plane[b + s]) + offset;
+    }
+  }
+}

@@ -1,0 +1,79 @@
+// The plain engine's correlation through the FFT in 128×128 tiles (fft-correlate.ts) against its
+// direct correlation, which sums in double precision: the two agree within the double-precision FFT's
+// error bound, then float32 rounding. (OpenCV filter2D checks it from outside in
+// opencv-wide-kernels.test.ts.)
+import fc from 'fast-check';
+import { correlate, correlateDirect, PLAIN_FFT_KERNEL_TAPS } from '../../../shared/vision/convolve';
+import { correlateFft } from '../../../shared/vision/fft-correlate';
+import { createImage } from '../../../shared/vision/image';
+import { kernelFromMatrix } from '../../../shared/vision/kernels';
+import { bitsOf, borderMode, float32Tolerance, l1, largestDifference, largestMagnitude, sampleImage, sampleKind, seed, useEngine } from './engines';
+
+useEngine('plain');
+
+// Higham, Accuracy and Stability of Numerical Algorithms (2nd ed.), §24.1: a radix-2 FFT of m points
+// in floating point has a 2-norm relative error of at most log₂(m)·η/(1 − log₂(m)·η), η = μ + γ₄(√2 + μ),
+// μ the twiddles' error (one rounding). Forward, product and inverse give |error of one output| ≤
+// (3·log₂(m)·η + u)·‖k‖₁·‖tile‖₂, with ‖tile‖₂ ≤ √2·128·max|x| (two image tiles as real and imaginary
+// parts). Here u = 2⁻⁵³ (double precision). A structural mistake (a tile's edge, the border, the flip,
+// the bit-reversed rows) gives errors of the outputs' own size.
+const u = 2 ** -53;
+const eta = u + ((4 * u) / (1 - 4 * u)) * (Math.SQRT2 + u);
+const logM = Math.log2(128 * 128);
+const fftFactor = (3 * logM * eta) / (1 - logM * eta) + u;
+
+const weight = fc.integer({ min: -40, max: 40 }).map((v) => v / 8);
+const kernelShape = fc.constantFrom([7, 7], [9, 9], [7, 11], [11, 11], [15, 15], [5, 31], [31, 31], [3, 61], [61, 3]);
+
+function matrixOf(rows: number, cols: number, flat: number[]): number[][] {
+  const matrix = Array.from({ length: rows }, (_, j) => flat.slice(j * cols, (j + 1) * cols));
+  // Never rank 1 (that would be separable; here it does not matter, but keep kernels as rules have them).
+  matrix[0][0] += 0.375;
+  return matrix;
+}
+
+test('the FFT in tiles equals the direct correlation within the FFT bound in double precision, then float32 rounding', () => {
+  const kernel = kernelShape.chain(([rows, cols]) =>
+    fc.tuple(fc.constant(rows), fc.constant(cols), fc.array(weight, { minLength: rows * cols, maxLength: rows * cols }), fc.constantFrom(1, 3, 16), weight),
+  );
+  fc.assert(
+    fc.property(fc.tuple(fc.integer({ min: 1, max: 300 }), fc.integer({ min: 1, max: 200 })), sampleKind, seed, borderMode, kernel, ([w, h], kind, s, border, [rows, cols, flat, divisor, offset]) => {
+      const image = sampleImage(w, h, kind, s);
+      const matrix = matrixOf(rows, cols, flat);
+      const k = kernelFromMatrix(matrix, divisor, offset);
+      const direct = correlateDirect(image, k, border);
+      const fft = createImage(w, h);
+      correlateFft(image, k, border, fft);
+      const bound = fftFactor * (l1(matrix.flat()) / divisor) * Math.SQRT2 * 128 * largestMagnitude(image.data);
+      expect(largestDifference(fft.data, direct.data)).toBeLessThanOrEqual(bound + float32Tolerance(2, largestMagnitude(direct.data) + Math.abs(offset)));
+    }),
+    { numRuns: 40 },
+  );
+});
+
+test(`correlate takes the FFT from ${PLAIN_FFT_KERNEL_TAPS} weights and the direct path below`, () => {
+  const image = sampleImage(150, 140, '8-bit', 11);
+  const pattern = (rows: number, cols: number) =>
+    Array.from({ length: rows }, (_, j) => Array.from({ length: cols }, (_, i) => ((i * 7 + j * 3) % 5) / 3 - 0.7 + (i === j ? 0.1 : 0)));
+  const small = kernelFromMatrix(pattern(5, 9));
+  expect(small.rows * small.cols).toBeLessThan(PLAIN_FFT_KERNEL_TAPS);
+  expect(bitsOf(correlate(image, small, 'reflect'))).toEqual(bitsOf(correlateDirect(image, small, 'reflect')));
+  const large = kernelFromMatrix(pattern(7, 7));
+  const fft = createImage(150, 140);
+  correlateFft(image, large, 'reflect', fft);
+  expect(bitsOf(correlate(image, large, 'reflect'))).toEqual(bitsOf(fft));
+});
+
+test('a NaN or an infinity keeps a large kernel on the direct path: it reaches only the outputs whose window holds it', () => {
+  for (const bad of [NaN, Infinity]) {
+    const image = sampleImage(200, 150, '8-bit', 5);
+    image.data[70 * 200 + 90] = bad;
+    // No zero weight: 0·∞ is NaN.
+    const matrix = Array.from({ length: 15 }, (_, j) => Array.from({ length: 15 }, (_, i) => ((i * 7 + j * 3) % 5) - 2.25 + (i === j ? 1 : 0)));
+    const k = kernelFromMatrix(matrix);
+    const out = correlate(image, k, 'reflect');
+    expect(bitsOf(out)).toEqual(bitsOf(correlateDirect(image, k, 'reflect')));
+    expect(Number.isFinite(out.data[0])).toBe(true);
+    expect(Number.isFinite(out.data[70 * 200 + 90])).toBe(false);
+  }
+});

@@ -4,9 +4,11 @@
 // back; its (129 − kernel) × (129 − kernel) inner outputs are exact circular ones. Two tiles go
 // through one complex transform, one as the real part and one as the imaginary part: the kernel is
 // real, so their results come back apart. Transforms: iterative radix-2 Cooley–Tukey (J. W. Cooley
-// and J. W. Tukey, Math. Comp. 19, 1965), two stages per sweep of the tile, down every column of
-// the tile at once; the forward transform takes its rows in bit-reversed order (decimation in time)
-// and the inverse leaves them so (decimation in frequency), so no pass only reorders rows.
+// and J. W. Tukey, Math. Comp. 19, 1965), two stages per sweep of the tile (three were slower: the
+// values spill out of the registers), down every column of the tile at once; each dimension runs
+// decimation in time, which takes its rows in bit-reversed order, or decimation in frequency, which
+// leaves them so, so that no pass only reorders rows. The inverse is the forward transform of the
+// complex conjugate.
 import { borderIndex, borderTable, OUTSIDE, type BorderMode } from './border';
 import type { Image } from './image';
 import type { Kernel } from './kernels';
@@ -107,8 +109,8 @@ export function correlateFft(src: Image, kernel: Kernel, border: BorderMode, dst
  * The forward 2-D transform of (re, im), whose rows are in bit-reversed order and whose first stage
  * is done (`fillTile`, `firstStage`): down the columns (decimation in time), transpose, down the
  * columns (decimation in frequency). The spectrum is left transposed with its rows in bit-reversed
- * order, as `inverse` takes it. With a kernel spectrum in that layout (kre, kim), the last stage
- * multiplies by it on the way and leaves the product's complex conjugate, for `inverse`.
+ * order. With a kernel spectrum in that layout (kre, kim), the last stage multiplies by it on the
+ * way and leaves the product's complex conjugate with the first stage of `inverse` done on it.
  */
 function forward(re: Float64Array, im: Float64Array, kre?: Float64Array, kim?: Float64Array): void {
   columnsInTime(re, im);
@@ -122,17 +124,17 @@ function forward(re: Float64Array, im: Float64Array, kre?: Float64Array, kim?: F
 /**
  * The inverse (unscaled) of `forward`, back untransposed, given the spectrum's complex conjugate: the
  * forward transform of it is the conjugate of the inverse transform (conj(F(conj Z)) = F⁻¹(Z)·N²), so
- * the real part is the result and the imaginary part its negative. All but the last stage, which
- * `writeTile` does as it writes the outputs.
+ * the real part is the result and the imaginary part its negative. Its first stage is done by
+ * `forward`'s product, its last by `writeTile` as it writes the outputs.
  */
 function inverse(re: Float64Array, im: Float64Array): void {
-  firstStage(re, im);
   columnsInTime(re, im);
   transpose(re);
   transpose(im);
   columnsInFrequency(re, im);
 }
 
+/** In place: a plain transpose measured as fast as writing the last sweep's results transposed. */
 function transpose(plane: Float64Array): void {
   for (let i = 0; i < N; i++) {
     for (let j = i + 1; j < N; j++) {
@@ -261,7 +263,10 @@ function lastStage(re: Float64Array, im: Float64Array): void {
   }
 }
 
-/** `lastStage` with each result multiplied by the kernel spectrum at its place, and conjugated. */
+/**
+ * `lastStage` with each result multiplied by the kernel spectrum at its place and conjugated, then
+ * the inverse's `firstStage` on the same two rows (in the spectrum's layout both pair rows 2m and 2m+1).
+ */
 function lastStageTimesConjugate(re: Float64Array, im: Float64Array, kre: Float64Array, kim: Float64Array): void {
   for (let a = 0; a < AREA; a += 2 * N) {
     const b = a + N;
@@ -269,10 +274,12 @@ function lastStageTimesConjugate(re: Float64Array, im: Float64Array, kre: Float6
       const ur = re[a + x], ui = im[a + x], vr = re[b + x], vi = im[b + x];
       const sr = ur + vr, si = ui + vi, dr = ur - vr, di = ui - vi;
       const pr = kre[a + x], pi = kim[a + x], qr = kre[b + x], qi = kim[b + x];
-      re[a + x] = sr * pr - si * pi;
-      im[a + x] = -(sr * pi + si * pr);
-      re[b + x] = dr * qr - di * qi;
-      im[b + x] = -(dr * qi + di * qr);
+      const yr = sr * pr - si * pi, yi = -(sr * pi + si * pr);
+      const zr = dr * qr - di * qi, zi = -(dr * qi + di * qr);
+      re[a + x] = yr + zr;
+      im[a + x] = yi + zi;
+      re[b + x] = yr - zr;
+      im[b + x] = yi - zi;
     }
   }
 }

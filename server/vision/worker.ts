@@ -97,12 +97,18 @@ function withoutImages(run: RuleRun): RuleRun {
   return { ...run, input, steps: run.steps.map((s) => ({ ...s, output: null })) };
 }
 
-/** The result, with the buffers of the input, of every retained step output and of the evidence in the transfer list. */
+/**
+ * The result, with the buffers of the input and of every retained step output in the transfer list.
+ * The evidence raster (a few MB) is copied instead: moving a buffer detaches it here, and the first
+ * detached ArrayBuffer of a thread makes V8 drop an assumption its compiled code makes for every
+ * typed-array access (the "ArrayBufferDetaching" protector), after which the plain engine ran
+ * 15–55 % slower in this thread for good. Numbers-only runs, what every server caller asks for, then
+ * detach nothing here.
+ */
 function movingBuffers(run: RuleRun, evidence: EvidenceRaster | undefined): PipelineTaskResult {
   const buffers = new Set<ArrayBuffer>();
   if (run.input.data.length > 0) buffers.add(run.input.data.buffer as ArrayBuffer);
   for (const step of run.steps) if (step.output) buffers.add(step.output.data.buffer as ArrayBuffer);
-  if (evidence) buffers.add(evidence.rgb.buffer as ArrayBuffer);
   const result: PipelineTaskResult = evidence ? { ok: true, run, evidence } : { ok: true, run };
   if (buffers.size === 0) return result;
   // piscina sends a value marked movable with its transfer list instead of cloning the buffers.

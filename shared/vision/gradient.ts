@@ -186,13 +186,27 @@ function yRow(s: Float32Array, du: number, c: number, dd: number, w: number, a: 
   o[base + last] = a * (tPrev + ends[3]) + b * tCur;
 }
 
-/** xRow with Sobel's weights 1 and 2 (no multiplications: the same bits), two pixels per iteration. */
+/** xRow with Sobel's weights 1 and 2 (no multiplications: the same bits), four pixels per iteration (eight spill), then two. */
 function sobelXRow(s: Float32Array, du: number, c: number, dd: number, w: number, ends: Float64Array, o: Float32Array, base: number): void {
   let sPrev = ends[0];
   let sCur = s[c + du] + s[c + dd] + 2 * s[c];
   const last = w - 1;
   let x = 0;
   let p = c + 1;
+  for (; x + 3 < last; x += 4, p += 4) {
+    const q = base + x, u = p + du, d = p + dd;
+    const c1 = s[p], c2 = s[p + 1], c3 = s[p + 2], c4 = s[p + 3];
+    const s1 = s[u] + s[d] + (c1 + c1);
+    const s2 = s[u + 1] + s[d + 1] + (c2 + c2);
+    const s3 = s[u + 2] + s[d + 2] + (c3 + c3);
+    const s4 = s[u + 3] + s[d + 3] + (c4 + c4);
+    o[q] = s1 - sPrev;
+    o[q + 1] = s2 - sCur;
+    o[q + 2] = s3 - s1;
+    o[q + 3] = s4 - s2;
+    sPrev = s3;
+    sCur = s4;
+  }
   for (; x + 1 < last; x += 2, p += 2) {
     const c1 = s[p];
     const s1 = s[p + du] + s[p + dd] + (c1 + c1);

@@ -59,16 +59,20 @@ function boxPass(src: Image, size: number, border: BorderMode, dst: Image, compa
     if (comparison) windowMask(sums, size, w, scale, data, comparison.c, comparison.flip, o, y * w);
     else windowMeans(sums, size, w, scale, o, y * w);
     if (y + 1 === h) break;
-    // Slide the column sums down: add row y+r+1, drop row y−r.
+    // Slide the column sums down: add row y+r+1, drop row y−r (four columns per iteration: 2.70 →
+    // 2.45 ns/px for the box 5 at 5 MP; four windows per iteration in the row sums gained nothing).
     const add = rowOffsets[y + size];
     const drop = rowOffsets[y];
     if (add !== OUTSIDE && drop !== OUTSIDE) {
       let x = 0;
-      for (; x + 1 < w; x += 2) {
-        sums[r + x] += data[add + x] - data[drop + x];
-        sums[r + x + 1] += data[add + x + 1] - data[drop + x + 1];
+      for (; x + 3 < w; x += 4) {
+        const q = r + x, p = add + x, d = drop + x;
+        sums[q] += data[p] - data[d];
+        sums[q + 1] += data[p + 1] - data[d + 1];
+        sums[q + 2] += data[p + 2] - data[d + 2];
+        sums[q + 3] += data[p + 3] - data[d + 3];
       }
-      if (x < w) sums[r + x] += data[add + x] - data[drop + x];
+      for (; x < w; x++) sums[r + x] += data[add + x] - data[drop + x];
     } else if (add !== OUTSIDE) {
       for (let x = 0; x < w; x++) sums[r + x] += data[add + x];
     } else if (drop !== OUTSIDE) {

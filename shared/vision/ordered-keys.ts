@@ -17,6 +17,21 @@ export function allOrdered(data: Float32Array): boolean {
   return true;
 }
 
+/**
+ * allOrdered, and whether every sample is also +0 or above: then the bit patterns themselves sort
+ * as the values (their keys are the patterns), so a selection needs no conversion at all.
+ */
+export function sampleOrder(data: Float32Array): 'unordered' | 'ordered' | 'non-negative' {
+  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
+  let signs = 0;
+  for (let p = 0; p < bits.length; p++) {
+    const b = bits[p];
+    if ((b & 0x7fffffff) > 0x7f800000 || b === -0x80000000) return 'unordered';
+    signs |= b;
+  }
+  return signs < 0 ? 'ordered' : 'non-negative';
+}
+
 /** The key of a float32 bit pattern (its own inverse: floatFromKey). */
 export function keyOfFloatBits(bits: number): number {
   return bits ^ ((bits >> 31) & 0x7fffffff);

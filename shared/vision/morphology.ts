@@ -9,7 +9,7 @@ import { binaryMorphology, type PackedMask } from './binary-morphology';
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { simdKernels } from './engine';
 import { createImage, imageLike, type Image } from './image';
-import { allOrdered, floatFromKey, keyOfFloatBits, minKey } from './ordered-keys';
+import { floatFromKey, keyOfFloatBits, minKey, sampleOrder } from './ordered-keys';
 
 export function erode(src: Image, radius: number, border: BorderMode, out?: Image): Image {
   return binaryMorphology(src, 'erode', radius, border, out) ?? extremeFilter(src, radius, border, false, out);
@@ -37,8 +37,18 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
     case 'open':
     case 'close': {
       const tmp = scratch && scratch !== out ? imageLike(src, scratch) : createImage(src.width, src.height);
-      const first = extremeFilter(src, radius, border, op !== 'open', tmp);
-      return extremeFilter(first, radius, border, op === 'open', out);
+      const order = simdKernels() ? 'unordered' : sampleOrder(src.data);
+      if (order === 'unordered') {
+        const first = extremeFilter(src, radius, border, op !== 'open', tmp);
+        return extremeFilter(first, radius, border, op === 'open', out);
+      }
+      // Keys from one pass to the next: converted once in and once out (the scratch holds keys).
+      const dst = imageLike(src, out);
+      const { width: w, height: h } = src;
+      extremeOfKeys(keysOf(src.data, order), w, h, radius, border, op !== 'open', bitsOf(tmp.data));
+      extremeOfKeys(bitsOf(tmp.data), w, h, radius, border, op === 'open', bitsOf(dst.data));
+      if (order === 'ordered') samplesFromKeys(bitsOf(dst.data));
+      return dst;
     }
   }
 }
@@ -47,7 +57,13 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
 function extremeFilter(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
   const simd = simdKernels();
   if (simd) return simd.extreme(src, r, border, takeMax, out);
-  if (allOrdered(src.data)) return extremeFilterByKeys(src, r, border, takeMax, imageLike(src, out === src ? undefined : out));
+  const order = sampleOrder(src.data);
+  if (order !== 'unordered') {
+    const dst = imageLike(src, out === src ? undefined : out);
+    extremeOfKeys(keysOf(src.data, order), src.width, src.height, r, border, takeMax, bitsOf(dst.data));
+    if (order === 'ordered') samplesFromKeys(bitsOf(dst.data));
+    return dst;
+  }
   const { width: w, height: h, data } = src;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
@@ -149,10 +165,25 @@ function horizontalMax(line: Float32Array, size: number, w: number, o: Float32Ar
  * place) (log₂L + 1 operations per pixel: the sparse table of range-minimum queries, M. A. Bender
  * and M. Farach-Colton, "The LCA Problem Revisited", LATIN 2000).
  */
-function extremeFilterByKeys(src: Image, r: number, border: BorderMode, takeMax: boolean, dst: Image): Image {
-  const { width: w, height: h, data } = src;
-  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
-  const out = new Int32Array(dst.data.buffer, dst.data.byteOffset, dst.data.length);
+function bitsOf(data: Float32Array): Int32Array {
+  return new Int32Array(data.buffer, data.byteOffset, data.length);
+}
+
+/**
+ * Keys that sort as the samples (ordered-keys.ts): samples of +0 and above are their own keys (the
+ * bit patterns, no copy); others are converted into a new array.
+ */
+function keysOf(data: Float32Array, order: 'ordered' | 'non-negative'): Int32Array {
+  const bits = bitsOf(data);
+  return order === 'non-negative' ? bits : bits.map(keyOfFloatBits);
+}
+
+function samplesFromKeys(keys: Int32Array): void {
+  for (let p = 0; p < keys.length; p++) keys[p] = floatFromKey(keys[p]);
+}
+
+/** The minimum (maximum with takeMax) of keys over the square of side 2r+1 into out, as keys. */
+function extremeOfKeys(keysIn: Int32Array, w: number, h: number, r: number, border: BorderMode, takeMax: boolean, out: Int32Array): void {
   const size = 2 * r + 1;
   const n = w + 2 * r;
   const flip = takeMax ? -1 : 0;
@@ -174,7 +205,7 @@ function extremeFilterByKeys(src: Image, r: number, border: BorderMode, takeMax:
     const keys = rings[0][t % rings[0].length];
     const off = rowOffsets[t];
     if (off === OUTSIDE) keys.fill(flip);
-    else for (let x = 0; x < w; x++) keys[x] = keyOfFloatBits(bits[off + x]) ^ flip;
+    else for (let x = 0; x < w; x++) keys[x] = keysIn[off + x] ^ flip;
     for (let l = 1; l <= levels; l++) {
       const start = t - (1 << l) + 1;
       if (start < 0) break;
@@ -187,7 +218,6 @@ function extremeFilterByKeys(src: Image, r: number, border: BorderMode, takeMax:
     minOfRows(top[y % top.length], top[(y + size - run) % top.length], line, w, r);
     windowMinima(line, w, r, run, colTable, flip, out, y * w);
   }
-  return dst;
 }
 
 /** into[pad + x] = the smaller key of a[x] and b[x]. */
@@ -195,7 +225,7 @@ function minOfRows(a: Int32Array, b: Int32Array, into: Int32Array, w: number, pa
   for (let x = 0; x < w; x++) into[pad + x] = minKey(a[x], b[x]);
 }
 
-/** Fills the line's border, then out[base + x] = the minimum of line[x … x+2r], written back as float32 bits. */
+/** Fills the line's border, then out[base + x] = the minimum of line[x … x+2r] (the flip undone). */
 function windowMinima(line: Int32Array, w: number, r: number, run: number, colTable: Int32Array, flip: number, out: Int32Array, base: number): void {
   const n = w + 2 * r;
   for (let t = 0; t < r; t++) {
@@ -209,5 +239,5 @@ function windowMinima(line: Int32Array, w: number, r: number, run: number, colTa
     for (let x = 0; x + step < n; x++) line[x] = minKey(line[x], line[x + step]);
   }
   const second = 2 * r + 1 - run;
-  for (let x = 0; x < w; x++) out[base + x] = floatFromKey(minKey(line[x], line[x + second]) ^ flip);
+  for (let x = 0; x < w; x++) out[base + x] = minKey(line[x], line[x + second]) ^ flip;
 }

@@ -102,7 +102,7 @@ function withoutImages(run: RuleRun): RuleRun {
  * The evidence raster (a few MB) is copied instead: moving a buffer detaches it here, and the first
  * detached ArrayBuffer of a thread makes V8 drop an assumption its compiled code makes for every
  * typed-array access (the "ArrayBufferDetaching" protector), after which the plain engine ran
- * 15–55 % slower in this thread for good. Numbers-only runs, what every server caller asks for, then
+ * 15–70 % slower in this thread for good. Numbers-only runs, what every server caller asks for, then
  * detach nothing here.
  */
 function movingBuffers(run: RuleRun, evidence: EvidenceRaster | undefined): PipelineTaskResult {

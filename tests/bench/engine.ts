@@ -45,7 +45,7 @@ type Cv = any;
  * engine. Growing a WebAssembly memory detaches its old ArrayBuffer, and the first detached buffer in a
  * JavaScript isolate makes V8 drop an assumption its compiled code relies on for every typed-array
  * access (its "ArrayBufferDetaching" protector, `node --trace-protector-invalidation` shows the moment):
- * timed after the SIMD engine, the plain steps ran 15–55 % slower in the same process. A process of
+ * timed after the SIMD engine, the plain steps ran 15–70 % slower in the same process. A process of
  * the product runs one engine.
  */
 const PLAIN_CHILD_OUT = process.env.KW_BENCH_PLAIN_CHILD;

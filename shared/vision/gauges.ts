@@ -1,7 +1,7 @@
 // Gauges: measurements of a step's output inside a region, converted to the gauge's unit and
 // compared with its limits (inclusive).
 import type { Gauge, GaugeMeasure, GaugeUnit, Limits, Region } from '../rules/schema';
-import { labelBlobs, wholeImageSpans, type RowSpans } from './blobs';
+import { findBlobs, wholeImageSpans, type RowSpans } from './blobs';
 import { simdKernels } from './engine';
 import type { Image } from './image';
 
@@ -73,11 +73,11 @@ export function measurePixels(image: Image, measure: GaugeMeasure, spans: RowSpa
   const height = spans.start.length;
   switch (measure) {
     case 'blob-count':
-      return labelBlobs(image, spans).blobs.length;
+      return findBlobs(image, spans).length;
     case 'largest-blob-area':
-      return labelBlobs(image, spans).blobs.reduce((best, b) => Math.max(best, b.area), 0);
+      return findBlobs(image, spans).reduce((best, b) => Math.max(best, b.area), 0);
     case 'largest-blob-length': {
-      const blobs = labelBlobs(image, spans).blobs;
+      const blobs = findBlobs(image, spans);
       if (blobs.length === 0) return 0;
       let largest = blobs[0];
       for (const b of blobs) if (b.area > largest.area) largest = b;

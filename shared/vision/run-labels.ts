@@ -5,6 +5,17 @@
 // their first pixel, as the rule format states.
 import type { Blob, BlobLabels, RowSpans } from './blobs';
 
+/** labelRuns without the image of labels: the blobs only (what gauges read). */
+export function blobsOfRuns(words: Int32Array, width: number, height: number, spans: RowSpans): Blob[] {
+  return scanRuns(words, width, height, spans, null);
+}
+
+/** 8-connected blobs of the set bits (bit i of word k of row y is pixel (32k + i, y)) inside the spans, and the label of every pixel. */
+export function labelRuns(words: Int32Array, width: number, height: number, spans: RowSpans): BlobLabels {
+  const labels = new Int32Array(width * height);
+  return { labels, blobs: scanRuns(words, width, height, spans, labels) };
+}
+
 /** Runs found so far: start (inclusive), end (exclusive), row, provisional label. */
 class Runs {
   start: Int32Array = new Int32Array(1024);
@@ -74,8 +85,8 @@ function find(parent: Int32Array, a: number): number {
   return a;
 }
 
-/** 8-connected blobs of the set bits (bit i of word k of row y is pixel (32k + i, y)) inside the spans. */
-export function labelRuns(words: Int32Array, width: number, height: number, spans: RowSpans): BlobLabels {
+/** The blobs; with an image of labels (width × height, zeros), each pixel's blob number into it as well. */
+function scanRuns(words: Int32Array, width: number, height: number, spans: RowSpans, labels: Int32Array | null): Blob[] {
   const wordsPerRow = (width + 31) >>> 5;
   const runs = new Runs();
   let parent: Int32Array = new Int32Array(1024);
@@ -115,7 +126,6 @@ export function labelRuns(words: Int32Array, width: number, height: number, span
     previousEnd = runs.count;
   }
   // Second scan: final numbers in raster order of each blob's first pixel, areas and boxes.
-  const labels = new Int32Array(width * height);
   const final = new Int32Array(labelCount + 1);
   const blobs: { area: number; minX: number; minY: number; maxX: number; maxY: number }[] = [];
   for (let r = 0; r < runs.count; r++) {
@@ -128,12 +138,12 @@ export function labelRuns(words: Int32Array, width: number, height: number, span
       blobs.push({ area: 0, minX: s, minY: y, maxX: s, maxY: y });
       id = final[root] = blobs.length;
     }
-    labels.fill(id, y * width + s, y * width + e);
+    if (labels) labels.fill(id, y * width + s, y * width + e);
     const b = blobs[id - 1];
     b.area += e - s;
     if (s < b.minX) b.minX = s;
     if (e - 1 > b.maxX) b.maxX = e - 1;
     b.maxY = y;
   }
-  return { labels, blobs: blobs as Blob[] };
+  return blobs as Blob[];
 }

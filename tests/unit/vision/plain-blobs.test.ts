@@ -4,9 +4,9 @@
 // connectedComponentsWithStats numbers them; from memory), with area and bounding box; NaN counts
 // as non-zero and −0 as zero (the comparison v !== 0).
 import fc from 'fast-check';
-import { labelBlobs, type RowSpans } from '../../../shared/vision/blobs';
+import { findBlobs, labelBlobs, type RowSpans } from '../../../shared/vision/blobs';
 import type { Image } from '../../../shared/vision/image';
-import { onEngine, sampleImage, seed, type SampleKind } from './engines';
+import { ENGINES, onEngine, sampleImage, seed, type SampleKind } from './engines';
 
 function floodFill(image: Image, spans: RowSpans): { labels: number[]; blobs: { area: number; minX: number; minY: number; maxX: number; maxY: number }[] } {
   const { width: w, height: h, data } = image;
@@ -57,6 +57,8 @@ test('plain blob labels, areas and boxes equal a flood fill of the 8-connected n
       const expected = floodFill(image, spans);
       expect(Array.from(ours.labels)).toEqual(expected.labels);
       expect(ours.blobs).toEqual(expected.blobs);
+      // The gauges' way, without the image of labels: the same blobs, on either engine.
+      for (const engine of ENGINES) expect(onEngine(engine, () => findBlobs(image, spans))).toEqual(expected.blobs);
     }),
     { numRuns: 300 },
   );

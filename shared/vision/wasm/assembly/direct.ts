@@ -68,7 +68,32 @@ function rows3x3(slots: usize, table: usize, w: i32, out: usize, scale: f32, off
 function general(slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: usize, scale: f32, offset: f32): void {
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
   let x = 0;
-  // Two vectors per pass: each weight is loaded once for eight pixels.
+  // Four vectors per pass: each weight is loaded once for sixteen pixels, and the four sums, each
+  // a chain of dependent additions, advance side by side (two chains left the adder waiting on the
+  // one before: 2.5 ns/px at 5×5). Each sum keeps its order of additions, so the same bits.
+  for (; x + 16 <= w; x += 16) {
+    const o = (<usize>x) << 2;
+    let acc0 = f32x4.splat(0);
+    let acc1 = f32x4.splat(0);
+    let acc2 = f32x4.splat(0);
+    let acc3 = f32x4.splat(0);
+    for (let j = 0; j < rows; j++) {
+      const line = load<usize>(at(slots, j)) + o;
+      const kj = table + ((<usize>(j * cols)) << 4);
+      for (let i = 0; i < cols; i++) {
+        const k = v128.load(kj + ((<usize>i) << 4));
+        const p = at(line, i);
+        acc0 = f32x4.add(acc0, f32x4.mul(k, v128.load(p)));
+        acc1 = f32x4.add(acc1, f32x4.mul(k, v128.load(p, 16)));
+        acc2 = f32x4.add(acc2, f32x4.mul(k, v128.load(p, 32)));
+        acc3 = f32x4.add(acc3, f32x4.mul(k, v128.load(p, 48)));
+      }
+    }
+    v128.store(out + o, f32x4.add(f32x4.mul(acc0, vs), vo));
+    v128.store(out + o, f32x4.add(f32x4.mul(acc1, vs), vo), 16);
+    v128.store(out + o, f32x4.add(f32x4.mul(acc2, vs), vo), 32);
+    v128.store(out + o, f32x4.add(f32x4.mul(acc3, vs), vo), 48);
+  }
   for (; x + 8 <= w; x += 8) {
     const o = (<usize>x) << 2;
     let acc0 = f32x4.splat(0);

@@ -84,7 +84,7 @@ export function correlateFft(src: Image, kernel: Kernel, border: BorderMode, dst
       kre[REVERSED[a] * N + b] = weights[j * cols + i] * scale;
     }
   }
-  firstStage(kre, kim);
+  adjacentRows(kre, kim);
   forward(kre, kim);
 
   const out = dst.data;
@@ -107,7 +107,7 @@ export function correlateFft(src: Image, kernel: Kernel, border: BorderMode, dst
 
 /**
  * The forward 2-D transform of (re, im), whose rows are in bit-reversed order and whose first stage
- * is done (`fillTile`, `firstStage`): down the columns (decimation in time), transpose, down the
+ * is done (`fillTile`, `adjacentRows`): down the columns (decimation in time), transpose, down the
  * columns (decimation in frequency). The spectrum is left transposed with its rows in bit-reversed
  * order. With a kernel spectrum in that layout (kre, kim), the last stage multiplies by it on the
  * way and leaves the product's complex conjugate with the first stage of `inverse` done on it.
@@ -118,7 +118,7 @@ function forward(re: Float64Array, im: Float64Array, kre?: Float64Array, kim?: F
   transpose(im);
   columnsInFrequency(re, im);
   if (kre && kim) lastStageTimesConjugate(re, im, kre, kim);
-  else lastStage(re, im);
+  else adjacentRows(re, im);
 }
 
 /**
@@ -147,8 +147,11 @@ function transpose(plane: Float64Array): void {
   }
 }
 
-/** The first stage (half 1) of the transform down the columns, decimation in time: its twiddle is 1. */
-function firstStage(re: Float64Array, im: Float64Array): void {
+/**
+ * The stage of half 1, whose twiddle is 1: rows 2m and 2m+1 become their sum and difference. It is
+ * both the first stage of decimation in time and the last of decimation in frequency.
+ */
+function adjacentRows(re: Float64Array, im: Float64Array): void {
   for (let a = 0; a < AREA; a += 2 * N) {
     const b = a + N;
     for (let x = 0; x < N; x++) {
@@ -163,7 +166,7 @@ function firstStage(re: Float64Array, im: Float64Array): void {
 
 /**
  * The N-point transform down every column, decimation in time: rows in bit-reversed order in,
- * natural order out, forward (e^(−2πi/N)). Here the stages after `firstStage`, as
+ * natural order out, forward (e^(−2πi/N)). Here the stages after the first (`adjacentRows`), as
  * three sweeps of two (half h, then 2h, for h = 2, 8, 32).
  */
 function columnsInTime(re: Float64Array, im: Float64Array): void {
@@ -207,7 +210,7 @@ function columnsInTime(re: Float64Array, im: Float64Array): void {
 
 /**
  * The N-point transform down every column, decimation in frequency: natural order in, rows in
- * bit-reversed order out after `lastStage`. Here the first six stages, as three sweeps of two
+ * bit-reversed order out after the last (`adjacentRows`). Here the first six stages, as three sweeps of two
  * (half 2h, then h, for h = 32, 8, 2).
  */
 function columnsInFrequency(re: Float64Array, im: Float64Array): void {
@@ -249,23 +252,9 @@ function columnsInFrequency(re: Float64Array, im: Float64Array): void {
   }
 }
 
-/** The last stage of `columnsInFrequency` (half 1), whose twiddle is 1. */
-function lastStage(re: Float64Array, im: Float64Array): void {
-  for (let a = 0; a < AREA; a += 2 * N) {
-    const b = a + N;
-    for (let x = 0; x < N; x++) {
-      const ur = re[a + x], ui = im[a + x], vr = re[b + x], vi = im[b + x];
-      re[a + x] = ur + vr;
-      im[a + x] = ui + vi;
-      re[b + x] = ur - vr;
-      im[b + x] = ui - vi;
-    }
-  }
-}
-
 /**
- * `lastStage` with each result multiplied by the kernel spectrum at its place and conjugated, then
- * the inverse's `firstStage` on the same two rows (in the spectrum's layout both pair rows 2m and 2m+1).
+ * The last stage (`adjacentRows`) with each result multiplied by the kernel spectrum at its place and
+ * conjugated, then the inverse's first stage on the same two rows (in the spectrum's layout both pair rows 2m and 2m+1).
  */
 function lastStageTimesConjugate(re: Float64Array, im: Float64Array, kre: Float64Array, kim: Float64Array): void {
   for (let a = 0; a < AREA; a += 2 * N) {

@@ -94,23 +94,6 @@ function general(slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: 
     v128.store(out + o, f32x4.add(f32x4.mul(acc2, vs), vo), 32);
     v128.store(out + o, f32x4.add(f32x4.mul(acc3, vs), vo), 48);
   }
-  for (; x + 8 <= w; x += 8) {
-    const o = (<usize>x) << 2;
-    let acc0 = f32x4.splat(0);
-    let acc1 = f32x4.splat(0);
-    for (let j = 0; j < rows; j++) {
-      const line = load<usize>(at(slots, j)) + o;
-      const kj = table + ((<usize>(j * cols)) << 4);
-      for (let i = 0; i < cols; i++) {
-        const k = v128.load(kj + ((<usize>i) << 4));
-        const p = at(line, i);
-        acc0 = f32x4.add(acc0, f32x4.mul(k, v128.load(p)));
-        acc1 = f32x4.add(acc1, f32x4.mul(k, v128.load(p, 16)));
-      }
-    }
-    v128.store(out + o, f32x4.add(f32x4.mul(acc0, vs), vo));
-    v128.store(out + o, f32x4.add(f32x4.mul(acc1, vs), vo), 16);
-  }
   for (; x + 4 <= w; x += 4) {
     const o = (<usize>x) << 2;
     let acc = f32x4.splat(0);

@@ -36,7 +36,8 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
       return extremeFilter(src, radius, border, true, out);
     case 'open':
     case 'close': {
-      const tmp = scratch && scratch !== out ? imageLike(src, scratch) : createImage(src.width, src.height);
+      // The scratch must not be the source: the first pass reads the source while it writes the scratch.
+      const tmp = scratch && scratch !== out && scratch.data !== src.data ? imageLike(src, scratch) : createImage(src.width, src.height);
       const order = simdKernels() ? 'unordered' : sampleOrder(src.data);
       if (order === 'unordered') {
         const first = extremeFilter(src, radius, border, op !== 'open', tmp);
@@ -198,14 +199,23 @@ function extremeOfKeys(keysIn: Int32Array, w: number, h: number, r: number, bord
   // levels[l] holds the minima of runs of 2^l table rows starting at t, in a ring of the rows still
   // needed: a run of 2^(l+1) reads the runs at t and t + 2^l; the output reads the top runs at y and y + size − run.
   const ringSize = (l: number) => (l < levels ? (1 << l) + 1 : size - run + 1);
-  const rings = Array.from({ length: levels + 1 }, (_, l) => Array.from({ length: ringSize(l) }, () => new Int32Array(w)));
+  const rings: Int32Array[][] = Array.from({ length: levels + 1 }, (_, l) => Array.from({ length: ringSize(l) }, () => new Int32Array(w)));
   const line = new Int32Array(n);
+  const copies = rings[0].slice();
+  const zeroRow = new Int32Array(w);
   for (let t = 0; t < h + 2 * r; t++) {
     // Table entry t is image row t − r (an outside row holds the value 0).
-    const keys = rings[0][t % rings[0].length];
+    const slot = t % rings[0].length;
     const off = rowOffsets[t];
-    if (off === OUTSIDE) keys.fill(flip);
-    else for (let x = 0; x < w; x++) keys[x] = keysIn[off + x] ^ flip;
+    if (flip === 0) {
+      // A minimum reads the input rows themselves (the outside row: zeros).
+      rings[0][slot] = off === OUTSIDE ? zeroRow : keysIn.subarray(off, off + w);
+    } else {
+      const keys = copies[slot];
+      rings[0][slot] = keys;
+      if (off === OUTSIDE) keys.fill(flip);
+      else for (let x = 0; x < w; x++) keys[x] = keysIn[off + x] ^ flip;
+    }
     for (let l = 1; l <= levels; l++) {
       const start = t - (1 << l) + 1;
       if (start < 0) break;

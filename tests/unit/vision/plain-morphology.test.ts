@@ -63,3 +63,16 @@ test('plain erosion orders infinities and negative values as numbers (keys rever
   const dilated = onEngine('plain', () => valueMorphology(image, 'dilate', 1, 'replicate'));
   expect(Array.from(dilated.data)).toEqual([3, Math.fround(1e30), Infinity, Infinity, 3, Math.fround(1e30), Infinity, Infinity]);
 });
+
+test('plain opening and closing with the source itself offered as scratch, or written in place: the same result', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<SampleKind>('8-bit', 'signed float'), seed, borderMode, fc.integer({ min: 1, max: 4 }), fc.constantFrom<MorphologyOp>('open', 'close'), ([w, h], kind, s, border, r, op) => {
+      const expected = canonicalBits(definition(sampleImage(w, h, kind, s), op, r, border));
+      const image = sampleImage(w, h, kind, s);
+      expect(canonicalBits(onEngine('plain', () => valueMorphology(image, op, r, border, undefined, image)))).toEqual(expected);
+      const inPlace = sampleImage(w, h, kind, s);
+      expect(canonicalBits(onEngine('plain', () => valueMorphology(inPlace, op, r, border, inPlace)))).toEqual(expected);
+    }),
+    { numRuns: 100 },
+  );
+});

@@ -5,6 +5,7 @@ import type { MorphologyOp } from '../rules/schema';
 import type { BorderMode } from './border';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
+import { sampleBits } from './ordered-keys';
 
 /** Radius the packed path handles: a shift must stay within the neighbouring word. */
 export const MAX_PACKED_RADIUS = 31;
@@ -26,10 +27,6 @@ export function createPackedMask(width: number, height: number): PackedMask {
 /** Bit pattern of the float32 value 1 (IEEE 754 binary32). */
 const FLOAT_ONE_BITS = 0x3f800000;
 
-/** The float32 samples' bit patterns, read as integers (same buffer, no copy). */
-function sampleBits(data: Float32Array): Int32Array {
-  return new Int32Array(data.buffer, data.byteOffset, data.length);
-}
 
 /**
  * Packs an image whose every value is 0 or 1; null as soon as another value turns up.

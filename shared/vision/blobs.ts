@@ -2,6 +2,7 @@
 // to a region given as one span of columns per row, labelled over runs of set bits (run-labels.ts).
 import { simdKernels } from './engine';
 import type { Image } from './image';
+import { sampleBits } from './ordered-keys';
 import { blobsOfRuns, labelRuns } from './run-labels';
 
 /** Per row y, the region holds columns start[y] ≤ x < end[y] (empty when start ≥ end). */
@@ -52,7 +53,7 @@ function nonZeroWords(image: Image): Int32Array {
 /** Bit i of word k of row y set when pixel (32k + i, y) is not zero (NaN counts as not zero, −0 as zero, as `!== 0`). */
 function packNonZero(image: Image): Int32Array {
   const { width: w, height: h, data } = image;
-  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
+  const bits = sampleBits(data);
   const wordsPerRow = (w + 31) >>> 5;
   const words = new Int32Array(wordsPerRow * h);
   for (let y = 0; y < h; y++) {

@@ -4,6 +4,7 @@ import type { Gauge, GaugeMeasure, GaugeUnit, Limits, Region } from '../rules/sc
 import { findBlobs, wholeImageSpans, type RowSpans } from './blobs';
 import { simdKernels } from './engine';
 import type { Image } from './image';
+import { sampleBits } from './ordered-keys';
 
 /**
  * The region's pixels as one span of columns per row. A pixel belongs when its centre
@@ -53,7 +54,7 @@ function nonZeroShare(image: Image, spans: RowSpans): number {
   }
   const w = image.width;
   // Float32 bit patterns: a value is non-zero (NaN included) exactly when a bit other than the sign is set.
-  const bits = new Int32Array(image.data.buffer, image.data.byteOffset, image.data.length);
+  const bits = sampleBits(image.data);
   let n = 0;
   let set = 0;
   for (let y = 0; y < spans.start.length; y++) {

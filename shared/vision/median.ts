@@ -9,7 +9,7 @@ import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border'
 import { padImage } from './convolve';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
-import { floatFromKey, keyOfFloatBits, maxKey, minKey, sampleOrder } from './ordered-keys';
+import { keysOf, maxKey, minKey, sampleBits, sampleOrder, samplesFromKeys } from './ordered-keys';
 
 const HISTOGRAM_LEVELS = 65536;
 
@@ -109,11 +109,10 @@ warmUpMedianRows();
  */
 function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array, nonNegative: boolean): void {
   const { width: w, height: h, data } = src;
-  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
-  const out = new Int32Array(o.buffer, o.byteOffset, o.length);
+  const out = sampleBits(o);
   // Samples of +0 and above sort by their bit patterns; others are compared as keys, converted once
   // here and back at the end (converting in the column sorts did it three times per sample: 8 % slower).
-  const keys = nonNegative ? bits : bits.map(keyOfFloatBits);
+  const keys = keysOf(data, nonNegative ? 'non-negative' : 'ordered');
   const rowOffsets = rowOffsetTable(h, w, 1, 1, border);
   const colTable = borderTable(w, 1, 1, border);
   const n = w + 2;
@@ -165,7 +164,7 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array,
       out[base + x] = median;
     }
   }
-  if (!nonNegative) for (let p = 0; p < out.length; p++) out[p] = floatFromKey(out[p]);
+  if (!nonNegative) samplesFromKeys(out);
 }
 
 /** Sorts the columns x = from … to−1 of three rows of keys (ordered-keys.ts) into lows, middles and highs at x + shift. */

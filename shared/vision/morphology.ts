@@ -9,7 +9,7 @@ import { binaryMorphology, type PackedMask } from './binary-morphology';
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { simdKernels } from './engine';
 import { createImage, imageLike, type Image } from './image';
-import { floatFromKey, keyOfFloatBits, minKey, sampleOrder } from './ordered-keys';
+import { keysOf, minKey, sampleBits, sampleOrder, samplesFromKeys } from './ordered-keys';
 
 export function erode(src: Image, radius: number, border: BorderMode, out?: Image): Image {
   return binaryMorphology(src, 'erode', radius, border, out) ?? extremeFilter(src, radius, border, false, out);
@@ -46,9 +46,9 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
       // Keys from one pass to the next: converted once in and once out (the scratch holds keys).
       const dst = imageLike(src, out);
       const { width: w, height: h } = src;
-      extremeOfKeys(keysOf(src.data, order), w, h, radius, border, op !== 'open', bitsOf(tmp.data));
-      extremeOfKeys(bitsOf(tmp.data), w, h, radius, border, op === 'open', bitsOf(dst.data));
-      if (order === 'ordered') samplesFromKeys(bitsOf(dst.data));
+      extremeOfKeys(keysOf(src.data, order), w, h, radius, border, op !== 'open', sampleBits(tmp.data));
+      extremeOfKeys(sampleBits(tmp.data), w, h, radius, border, op === 'open', sampleBits(dst.data));
+      if (order === 'ordered') samplesFromKeys(sampleBits(dst.data));
       return dst;
     }
   }
@@ -61,8 +61,8 @@ function extremeFilter(src: Image, r: number, border: BorderMode, takeMax: boole
   const order = sampleOrder(src.data);
   if (order !== 'unordered') {
     const dst = imageLike(src, out === src ? undefined : out);
-    extremeOfKeys(keysOf(src.data, order), src.width, src.height, r, border, takeMax, bitsOf(dst.data));
-    if (order === 'ordered') samplesFromKeys(bitsOf(dst.data));
+    extremeOfKeys(keysOf(src.data, order), src.width, src.height, r, border, takeMax, sampleBits(dst.data));
+    if (order === 'ordered') samplesFromKeys(sampleBits(dst.data));
     return dst;
   }
   const { width: w, height: h, data } = src;
@@ -156,34 +156,17 @@ function horizontalMax(line: Float32Array, size: number, w: number, o: Float32Ar
 }
 
 /**
- * extremeFilter for an image without NaN or −0: the samples as integer keys that sort as the values
- * (ordered-keys.ts), so every minimum and maximum is exact and needs no branch (a branch per
+ * The minimum (maximum with takeMax) over the square of side 2r+1, from keys into out, as keys:
+ * keys of an image without NaN or −0 sort as its values (ordered-keys.ts), so every minimum and
+ * maximum is exact and needs no branch (a branch per
  * comparison mispredicts on noisy pixels). A maximum is the minimum of the keys' complements (~k
  * reverses the order), so one minimum path serves both. Down the image and along the row alike,
  * minima over runs of 1, 2, 4 … L (L the largest power of two within the window) are built from the
  * runs half as long, and each window is the minimum of two runs of L that cover it (down the image
- * each row converted to keys once, the runs kept in rings of the rows still needed; along the row in
+ * a minimum reads the input rows in place, a maximum their complements, the runs kept in rings of the rows still needed; along the row in
  * place) (log₂L + 1 operations per pixel: the sparse table of range-minimum queries, M. A. Bender
  * and M. Farach-Colton, "The LCA Problem Revisited", LATIN 2000).
  */
-function bitsOf(data: Float32Array): Int32Array {
-  return new Int32Array(data.buffer, data.byteOffset, data.length);
-}
-
-/**
- * Keys that sort as the samples (ordered-keys.ts): samples of +0 and above are their own keys (the
- * bit patterns, no copy); others are converted into a new array.
- */
-function keysOf(data: Float32Array, order: 'ordered' | 'non-negative'): Int32Array {
-  const bits = bitsOf(data);
-  return order === 'non-negative' ? bits : bits.map(keyOfFloatBits);
-}
-
-function samplesFromKeys(keys: Int32Array): void {
-  for (let p = 0; p < keys.length; p++) keys[p] = floatFromKey(keys[p]);
-}
-
-/** The minimum (maximum with takeMax) of keys over the square of side 2r+1 into out, as keys. */
 function extremeOfKeys(keysIn: Int32Array, w: number, h: number, r: number, border: BorderMode, takeMax: boolean, out: Int32Array): void {
   const size = 2 * r + 1;
   const n = w + 2 * r;

@@ -9,11 +9,14 @@ import { simdKernels } from './engine';
 
 /**
  * Non-separable kernels of at least this many weights go through the plain engine's FFT
- * (fft-correlate.ts): on a 5 MP image the FFT takes 15–22 ns/px from 7×7 to 31×31 and the direct
- * path 15.6 ns/px at 7×7, 60 at 9×9 and 75 at 15×15 (tests/bench, 2-core machine). The SIMD engine
- * has its own threshold (FFT_KERNEL_TAPS in wasm/simd-kernels.ts).
+ * (fft-correlate.ts), the SIMD engine's threshold (FFT_KERNEL_TAPS in wasm/simd-kernels.ts), so that
+ * both engines take the same kind of path for a kernel. It matters beyond rounding: where the exact
+ * result is 0 (a LoG over a flat part of a mask) a direct sum gives 0 and a transform a round-off
+ * residue, and a gauge counting non-zero pixels then tells them apart (at 7×7 a preview on SIMD
+ * and the server on the plain engine gave 0.07 against 0.86). On a 5 MP image the FFT takes
+ * 15–22 ns/px from 7×7 to 31×31 and the direct path 15.6 ns/px at 7×7 and 60 at 9×9 (tests/bench).
  */
-export const PLAIN_FFT_KERNEL_TAPS = 7 * 7;
+export const PLAIN_FFT_KERNEL_TAPS = 11 * 11;
 
 /** out(x,y) = Σⱼ Σᵢ m[j][i]·in[y+j−ry][x+i−rx] / divisor + offset, choosing the fastest path. */
 export function correlate(src: Image, kernel: Kernel, border: BorderMode, out?: Image): Image {

@@ -54,7 +54,7 @@ describe.each(ENGINES)('on the %s engine', (engine) => {
     });
   });
 
-  // The engine's choice: the FFT in 128×128 tiles from 11×11 weights on SIMD, from 7×7 on plain.
+  // The engine's choice: the FFT in 128×128 tiles from 11×11 weights on both engines.
   describe.each(BORDERS)('with the %s border, on an image of several FFT tiles', (border) => {
     test.each([
       [7, 7],

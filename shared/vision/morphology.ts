@@ -163,9 +163,10 @@ function horizontalMax(line: Float32Array, size: number, w: number, o: Float32Ar
  * reverses the order), so one minimum path serves both. Down the image and along the row alike,
  * minima over runs of 1, 2, 4 … L (L the largest power of two within the window) are built from the
  * runs half as long, and each window is the minimum of two runs of L that cover it (down the image
- * a minimum reads the input rows in place, a maximum their complements, the runs kept in rings of the rows still needed; along the row in
- * place) (log₂L + 1 operations per pixel: the sparse table of range-minimum queries, M. A. Bender
- * and M. Farach-Colton, "The LCA Problem Revisited", LATIN 2000).
+ * from the input rows read in place, a maximum's complements taken on the way, the runs kept in rings
+ * of the rows still needed; along the row in place, or in registers for r ≤ 3) (log₂L + 1
+ * operations per pixel: the sparse table of range-minimum queries, M. A. Bender and
+ * M. Farach-Colton, "The LCA Problem Revisited", LATIN 2000).
  */
 function extremeOfKeys(keysIn: Int32Array, w: number, h: number, r: number, border: BorderMode, takeMax: boolean, out: Int32Array): void {
   const size = 2 * r + 1;
@@ -182,40 +183,70 @@ function extremeOfKeys(keysIn: Int32Array, w: number, h: number, r: number, bord
   // levels[l] holds the minima of runs of 2^l table rows starting at t, in a ring of the rows still
   // needed: a run of 2^(l+1) reads the runs at t and t + 2^l; the output reads the top runs at y and y + size − run.
   const ringSize = (l: number) => (l < levels ? (1 << l) + 1 : size - run + 1);
-  const rings: Int32Array[][] = Array.from({ length: levels + 1 }, (_, l) => Array.from({ length: ringSize(l) }, () => new Int32Array(w)));
-  const line = new Int32Array(n);
-  const copies = rings[0].slice();
   const zeroRow = new Int32Array(w);
+  const rings: Int32Array[][] = Array.from({ length: levels + 1 }, (_, l) => Array.from({ length: ringSize(l) }, () => (l === 0 ? zeroRow : new Int32Array(w))));
+  const line = new Int32Array(n);
+  const inputs = rings[0];
   for (let t = 0; t < h + 2 * r; t++) {
-    // Table entry t is image row t − r (an outside row holds the value 0).
-    const slot = t % rings[0].length;
+    // Table entry t is image row t − r (an outside row holds the value 0); the rows are read in
+    // place, a maximum's complement taken as the first runs read them.
     const off = rowOffsets[t];
-    if (flip === 0) {
-      // A minimum reads the input rows themselves (the outside row: zeros).
-      rings[0][slot] = off === OUTSIDE ? zeroRow : keysIn.subarray(off, off + w);
-    } else {
-      const keys = copies[slot];
-      rings[0][slot] = keys;
-      if (off === OUTSIDE) keys.fill(flip);
-      else for (let x = 0; x < w; x++) keys[x] = keysIn[off + x] ^ flip;
-    }
-    for (let l = 1; l <= levels; l++) {
-      const start = t - (1 << l) + 1;
-      if (start < 0) break;
-      const below = rings[l - 1];
-      minOfRows(below[start % below.length], below[(start + (1 << (l - 1))) % below.length], rings[l][start % rings[l].length], w, 0);
-    }
+    inputs[t % inputs.length] = off === OUTSIDE ? zeroRow : keysIn.subarray(off, off + w);
     const y = t - 2 * r;
-    if (y < 0) continue;
-    const top = rings[levels];
-    minOfRows(top[y % top.length], top[(y + size - run) % top.length], line, w, r);
+    if (y >= 0 && levels <= 2) {
+      // Every run length has a new row at each t from here: all of them in one sweep along the row.
+      columnRunsInOneSweep(rings, t, levels, y, size - run, w, flip, line, r);
+    } else {
+      for (let l = 1; l <= levels; l++) {
+        const start = t - (1 << l) + 1;
+        if (start < 0) break;
+        const below = rings[l - 1];
+        minOfRows(below[start % below.length], below[(start + (1 << (l - 1))) % below.length], rings[l][start % rings[l].length], w, 0, l === 1 ? flip : 0);
+      }
+      if (y < 0) continue;
+      const top = rings[levels];
+      minOfRows(top[y % top.length], top[(y + size - run) % top.length], line, w, r, 0);
+    }
     windowMinima(line, w, r, run, colTable, flip, out, y * w);
   }
 }
 
-/** into[pad + x] = the smaller key of a[x] and b[x]. */
-function minOfRows(a: Int32Array, b: Int32Array, into: Int32Array, w: number, pad: number): void {
-  for (let x = 0; x < w; x++) into[pad + x] = minKey(a[x], b[x]);
+/**
+ * The runs of 2 (and 4, with two levels) that start at table rows t − 1 (and t − 3), and the
+ * window's minimum of the oldest and newest top runs into line, in one pass: the new runs stay in
+ * registers for the next level, stored once for the rows after.
+ */
+function columnRunsInOneSweep(rings: Int32Array[][], t: number, levels: number, y: number, gap: number, w: number, flip: number, line: Int32Array, pad: number): void {
+  const inputs = rings[0];
+  const upper = inputs[(t - 1) % inputs.length];
+  const lower = inputs[t % inputs.length];
+  const pairs = rings[1];
+  const newPairs = pairs[(t - 1) % pairs.length];
+  if (levels === 1) {
+    const oldest = pairs[y % pairs.length];
+    for (let x = 0; x < w; x++) {
+      const pair = minKey(upper[x] ^ flip, lower[x] ^ flip);
+      newPairs[x] = pair;
+      line[pad + x] = minKey(oldest[x], pair);
+    }
+    return;
+  }
+  const olderPairs = pairs[(t - 3) % pairs.length];
+  const fours = rings[2];
+  const newFours = fours[(y + gap) % fours.length];
+  const oldest = fours[y % fours.length];
+  for (let x = 0; x < w; x++) {
+    const pair = minKey(upper[x] ^ flip, lower[x] ^ flip);
+    newPairs[x] = pair;
+    const four = minKey(olderPairs[x], pair);
+    newFours[x] = four;
+    line[pad + x] = minKey(oldest[x], four);
+  }
+}
+
+/** into[pad + x] = the smaller key of a[x] ^ flip and b[x] ^ flip. */
+function minOfRows(a: Int32Array, b: Int32Array, into: Int32Array, w: number, pad: number, flip: number): void {
+  for (let x = 0; x < w; x++) into[pad + x] = minKey(a[x] ^ flip, b[x] ^ flip);
 }
 
 /** Fills the line's border, then out[base + x] = the minimum of line[x … x+2r] (the flip undone). */
@@ -227,10 +258,74 @@ function windowMinima(line: Int32Array, w: number, r: number, run: number, colTa
     const right = colTable[r + w + t];
     line[r + w + t] = right === OUTSIDE ? flip : line[r + right];
   }
+  if (r <= 3) {
+    windowMinimaInRegisters(line, w, r, flip, out, base);
+    return;
+  }
   // In place, ascending: line[x + step] is still the shorter run when line[x] reads it.
   for (let step = 1; step < run; step *= 2) {
     for (let x = 0; x + step < n; x++) line[x] = minKey(line[x], line[x + step]);
   }
   const second = 2 * r + 1 - run;
   for (let x = 0; x < w; x++) out[base + x] = minKey(line[x], line[x + second]) ^ flip;
+}
+
+/**
+ * windowMinima's runs for r ≤ 3 kept in registers as they slide: one load and one store per pixel
+ * instead of two loads and a store per run length (the same minima, so the same keys).
+ */
+function windowMinimaInRegisters(line: Int32Array, w: number, r: number, flip: number, out: Int32Array, base: number): void {
+  if (r === 1) {
+    // out = min(pair at x, line[x + 2])
+    let a1 = line[1];
+    let pair0 = minKey(line[0], a1);
+    for (let x = 0; x < w; x++) {
+      const a2 = line[x + 2];
+      out[base + x] = minKey(pair0, a2) ^ flip;
+      pair0 = minKey(a1, a2);
+      a1 = a2;
+    }
+    return;
+  }
+  // pairK: the minimum of line[x + K] and line[x + K + 1]; fourK: of line[x + K … x + K + 3].
+  if (r === 2) {
+    // out = min(four at x, four at x + 1)
+    let a3 = line[3];
+    let pair1 = minKey(line[1], line[2]);
+    let pair2 = minKey(line[2], a3);
+    let four0 = minKey(minKey(line[0], line[1]), pair2);
+    for (let x = 0; x < w; x++) {
+      const a4 = line[x + 4];
+      const pair3 = minKey(a3, a4);
+      const four1 = minKey(pair1, pair3);
+      out[base + x] = minKey(four0, four1) ^ flip;
+      four0 = four1;
+      pair1 = pair2;
+      pair2 = pair3;
+      a3 = a4;
+    }
+    return;
+  }
+  // r = 3: out = min(four at x, four at x + 3)
+  let a5 = line[5];
+  const pair0 = minKey(line[0], line[1]);
+  const pair1 = minKey(line[1], line[2]);
+  const pair2 = minKey(line[2], line[3]);
+  let pair3 = minKey(line[3], line[4]);
+  let pair4 = minKey(line[4], a5);
+  let four0 = minKey(pair0, pair2);
+  let four1 = minKey(pair1, pair3);
+  let four2 = minKey(pair2, pair4);
+  for (let x = 0; x < w; x++) {
+    const a6 = line[x + 6];
+    const pair5 = minKey(a5, a6);
+    const four3 = minKey(pair3, pair5);
+    out[base + x] = minKey(four0, four3) ^ flip;
+    four0 = four1;
+    four1 = four2;
+    four2 = four3;
+    pair3 = pair4;
+    pair4 = pair5;
+    a5 = a6;
+  }
 }

@@ -2,7 +2,7 @@
 // with one border policy for every path. Rank-1 kernels run as two 1-D passes; other kernels
 // run directly, or through the FFT in tiles when they are large (and the image is finite).
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
-import { allFinite, correlateFft, FFT_MAX_KERNEL_SIDE } from './fft-correlate';
+import { correlateFft, FFT_MAX_KERNEL_SIDE, largestFiniteMagnitude } from './fft-correlate';
 import { imageLike, type Image } from './image';
 import { separate, type Kernel } from './kernels';
 import { simdKernels } from './engine';
@@ -10,11 +10,10 @@ import { simdKernels } from './engine';
 /**
  * Non-separable kernels of at least this many weights go through the plain engine's FFT
  * (fft-correlate.ts), the SIMD engine's threshold (FFT_KERNEL_TAPS in wasm/simd-kernels.ts), so that
- * both engines take the same kind of path for a kernel. It matters beyond rounding: where the exact
- * result is 0 (a LoG over a flat part of a mask) a direct sum gives 0 and a transform a round-off
- * residue, and a gauge counting non-zero pixels then tells them apart (at 7×7 a preview on SIMD
- * and the server on the plain engine gave 0.07 against 0.86). On a 5 MP image the FFT takes
- * 15–22 ns/px from 7×7 to 31×31 and the direct path 15.6 ns/px at 7×7 and 60 at 9×9 (tests/bench).
+ * both engines take the same kind of path for a kernel and differ by rounding only. (Where the exact
+ * result is 0, a transform's round-off residue is written as 0 on both engines: `fftZeroFloor`.)
+ * On a 5 MP image the FFT takes 15–22 ns/px from 7×7 to 31×31 and the direct path 15.6 ns/px at
+ * 7×7 and 60 at 9×9 (tests/bench).
  */
 export const PLAIN_FFT_KERNEL_TAPS = 11 * 11;
 
@@ -25,10 +24,12 @@ export function correlate(src: Image, kernel: Kernel, border: BorderMode, out?: 
   const simd = simdKernels();
   if (simd) return simd.correlate2d(src, kernel, border, out);
   const large = kernel.rows * kernel.cols >= PLAIN_FFT_KERNEL_TAPS && Math.max(kernel.rows, kernel.cols) <= FFT_MAX_KERNEL_SIDE;
+  if (!large) return correlateDirect(src, kernel, border, out);
   // A NaN or an infinity would spread over a whole tile through the transform; directly it stays in its windows.
-  if (!large || !allFinite(src.data)) return correlateDirect(src, kernel, border, out);
+  const largest = largestFiniteMagnitude(src.data);
+  if (!Number.isFinite(largest)) return correlateDirect(src, kernel, border, out);
   const dst = imageLike(src, out === src ? undefined : out);
-  correlateFft(src, kernel, border, dst);
+  correlateFft(src, kernel, border, dst, largest);
   return dst;
 }
 

@@ -4,6 +4,7 @@
 import type { MorphologyOp } from '../../rules/schema';
 import type { PackedMask } from '../binary-morphology';
 import type { BorderMode } from '../border';
+import { fftZeroFloor } from '../fft-correlate';
 import type { MeanComparison } from '../smoothing';
 import { imageLike, type Image, type ValueRange } from '../image';
 import type { Kernel } from '../kernels';
@@ -23,7 +24,7 @@ export interface EngineExports {
   laplacianOfGaussian(src: number, dst: number, w: number, h: number, g: number, g2: number, r: number, mode: number, scratch: number): void;
   correlate2d(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, scratch: number): void;
   directScratchBytes(w: number, rows: number, cols: number): number;
-  correlateFft(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, scratch: number): void;
+  correlateFft(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, floor: number, scratch: number): void;
   fftScratchBytes(w: number, cols: number): number;
   allFinite(src: number, n: number): number;
   gradient(src: number, dst: number, w: number, h: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
@@ -141,8 +142,12 @@ export class SimdKernels {
     return this.mapImage(src, out, (s, d, scope) => {
       const weights = scope.f32(kernel.weights);
       if (large && this.wasm.allFinite(s, src.data.length) === 1) {
+        const range = scope.alloc(8);
+        this.wasm.valueRange(s, src.data.length, range);
+        const [lo, hi] = this.heap.f32(range, 2);
+        const floor = fftZeroFloor(kernel, Math.max(Math.abs(lo), Math.abs(hi)), 2 ** -24);
         const scratch = scope.alloc(this.wasm.fftScratchBytes(src.width, kernel.cols));
-        this.wasm.correlateFft(s, d, src.width, src.height, weights, kernel.rows, kernel.cols, BORDER_CODES[border], 1 / kernel.divisor, kernel.offset, scratch);
+        this.wasm.correlateFft(s, d, src.width, src.height, weights, kernel.rows, kernel.cols, BORDER_CODES[border], 1 / kernel.divisor, kernel.offset, floor, scratch);
         return;
       }
       const scratch = scope.alloc(this.wasm.directScratchBytes(src.width, kernel.rows, kernel.cols));

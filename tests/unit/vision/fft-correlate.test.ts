@@ -93,3 +93,27 @@ test('both engines take the direct path below the FFT threshold, so exact zeros 
   expect(plain).toBe(simd);
   expect(bitsOf(onEngine('plain', () => correlate(mask, log9, 'reflect')))).toEqual(bitsOf(correlateDirect(mask, log9, 'reflect')));
 });
+
+test('through the FFT, a sum whose exact value is 0 comes out 0 on both engines: masks and whole-number kernels from 11×11 to 31×31 give the non-zero pixels of the direct path', () => {
+  // The direct sums are exact here (whole numbers), so their zeros are the exact zeros; a transform's
+  // round-off residue there would count as an edge (fftZeroFloor).
+  const side = fc.constantFrom(11, 13, 21, 31);
+  fc.assert(
+    fc.property(fc.tuple(fc.integer({ min: 40, max: 300 }), fc.integer({ min: 40, max: 200 })), seed, borderMode, side, side, fc.integer({ min: 0, max: 2 ** 31 - 1 }), ([w, h], s, border, rows, cols, weightSeed) => {
+      const mask = sampleImage(w, h, 'mask', s);
+      let state = weightSeed;
+      const matrix = Array.from({ length: rows }, () =>
+        Array.from({ length: cols }, () => {
+          state = (Math.imul(state, 1103515245) + 12345) >>> 0;
+          return (state % 41) - 20;
+        }),
+      );
+      const k = kernelFromMatrix(matrix);
+      const zeros = (data: Float32Array) => Array.from(data, (v) => +(v === 0));
+      const expected = zeros(onEngine('plain', () => correlateDirect(mask, k, border)).data);
+      expect(zeros(onEngine('plain', () => correlate(mask, k, border)).data)).toEqual(expected);
+      expect(zeros(onEngine('simd', () => correlate(mask, k, border)).data)).toEqual(expected);
+    }),
+    { numRuns: 30 },
+  );
+});

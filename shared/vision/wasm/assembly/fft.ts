@@ -20,9 +20,11 @@ export function fftScratchBytes(w: i32, cols: i32): i32 {
 
 /**
  * dst(x,y) = Σⱼ Σᵢ k[j][i]·src(x+i−rx, y+j−ry)·scale + offset (as `correlate2d`), k float32 row-major
- * at weights, rows and cols odd and at most N / 2 − 1 each; mode a border mode of border.ts.
+ * at weights, rows and cols odd and at most N / 2 − 1 each; mode a border mode of border.ts. A sum of
+ * magnitude up to floor is written as 0 (plus offset): a round-off residue where the exact sum is 0
+ * (the plain engine's fftZeroFloor).
  */
-export function correlateFft(src: usize, dst: usize, w: i32, h: i32, weights: usize, rows: i32, cols: i32, mode: i32, scale: f32, offset: f32, scratch: usize): void {
+export function correlateFft(src: usize, dst: usize, w: i32, h: i32, weights: usize, rows: i32, cols: i32, mode: i32, scale: f32, offset: f32, floor: f32, scratch: usize): void {
   const kre = align16(scratch);
   const kim = kre + PLANE_BYTES;
   const re = kim + PLANE_BYTES;
@@ -61,8 +63,8 @@ export function correlateFft(src: usize, dst: usize, w: i32, h: i32, weights: us
     transform2d(re, im, twiddles, reversed, false);
     multiplySpectra(re, im, kre, kim);
     transform2d(re, im, twiddles, reversed, true);
-    writeTile(re, dst, w, h, ry, rx, validRows, validCols, (t / tilesAcross) * validRows, (t % tilesAcross) * validCols, offset);
-    if (hasSecond) writeTile(im, dst, w, h, ry, rx, validRows, validCols, ((t + 1) / tilesAcross) * validRows, ((t + 1) % tilesAcross) * validCols, offset);
+    writeTile(re, dst, w, h, ry, rx, validRows, validCols, (t / tilesAcross) * validRows, (t % tilesAcross) * validCols, offset, floor);
+    if (hasSecond) writeTile(im, dst, w, h, ry, rx, validRows, validCols, ((t + 1) / tilesAcross) * validRows, ((t + 1) % tilesAcross) * validCols, offset, floor);
   }
 }
 
@@ -108,16 +110,22 @@ function fillTile(src: usize, w: i32, h: i32, mode: i32, plane: usize, columns: 
   }
 }
 
-/** The valid inner part of a tile (rows ry …, columns rx …) into the output at (y0, x0), plus offset. */
-function writeTile(plane: usize, dst: usize, w: i32, h: i32, ry: i32, rx: i32, validRows: i32, validCols: i32, y0: i32, x0: i32, offset: f32): void {
+/** The valid inner part of a tile (rows ry …, columns rx …) into the output at (y0, x0), sums within floor of 0 as 0, plus offset. */
+function writeTile(plane: usize, dst: usize, w: i32, h: i32, ry: i32, rx: i32, validRows: i32, validCols: i32, y0: i32, x0: i32, offset: f32, floor: f32): void {
   const rowsOut = min(validRows, h - y0), colsOut = min(validCols, w - x0);
-  const vo = f32x4.splat(offset);
+  const vo = f32x4.splat(offset), vf = f32x4.splat(floor);
   for (let t = 0; t < rowsOut; t++) {
     const from = plane + <usize>(ry + t) * ROW_BYTES + ((<usize>rx) << 2);
     const to = at(dst, (y0 + t) * w + x0);
     let s = 0;
-    for (; s + 4 <= colsOut; s += 4) v128.store(to + ((<usize>s) << 2), f32x4.add(v128.load(from + ((<usize>s) << 2)), vo));
-    for (; s < colsOut; s++) store<f32>(at(to, s), load<f32>(at(from, s)) + offset);
+    for (; s + 4 <= colsOut; s += 4) {
+      const v = v128.load(from + ((<usize>s) << 2));
+      v128.store(to + ((<usize>s) << 2), f32x4.add(v128.and(v, f32x4.gt(f32x4.abs(v), vf)), vo));
+    }
+    for (; s < colsOut; s++) {
+      const v = load<f32>(at(from, s));
+      store<f32>(at(to, s), (Mathf.abs(v) > floor ? v : <f32>0) + offset);
+    }
   }
 }
 

@@ -1,6 +1,6 @@
 // A kernel step: a kernel from the library, or a matrix edited in a grid with divisor and offset.
 import { useState } from 'react';
-import { StyleSheet, TextInput, View } from 'react-native';
+import { ScrollView, StyleSheet, TextInput, View } from 'react-native';
 import type { KernelStep } from '../../shared/rules/schema';
 import type { KernelInfo } from '../../shared/api/kernels';
 import { colors, minTouchTarget, radius, space, type as typeScale } from '../../lib/theme';
@@ -19,6 +19,12 @@ interface KernelStepEditorProps {
 }
 
 const SIZES = [1, 3, 5, 7, 9] as const;
+
+/** The sizes offered, with the matrix's own when it is larger (a rule document may hold up to 31). */
+function sizeChoices(current: number): { value: string; label: string }[] {
+  const sizes: number[] = SIZES.includes(current as (typeof SIZES)[number]) ? [...SIZES] : [...SIZES, current].sort((a, b) => a - b);
+  return sizes.map((n) => ({ value: String(n), label: String(n) }));
+}
 const ANY = { min: -1e9, max: 1e9, step: 1 };
 
 function resized(matrix: number[][], rows: number, cols: number): number[][] {
@@ -93,18 +99,24 @@ export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, error
       ) : (
         <View style={styles.group}>
           <View style={styles.sizeRow}>
-            <ChoiceChips label="Rows" choices={SIZES.map((n) => ({ value: String(n), label: String(n) }))} value={String(rows)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, Number(v), cols) })} />
-            <ChoiceChips label="Columns" choices={SIZES.map((n) => ({ value: String(n), label: String(n) }))} value={String(cols)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, rows, Number(v)) })} />
+            <ChoiceChips label="Rows" choices={sizeChoices(rows)} value={String(rows)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, Number(v), cols) })} />
+            <ChoiceChips label="Columns" choices={sizeChoices(cols)} value={String(cols)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, rows, Number(v)) })} />
           </View>
-          <View accessibilityLabel={`Weights, ${rows} rows by ${cols} columns`} style={styles.grid}>
-            {matrix.map((row, j) => (
-              <View key={j} style={styles.gridRow}>
-                {row.map((w, i) => (
-                  <MatrixCell key={`${j}-${i}-${rows}-${cols}`} value={w} label={`Weight row ${j + 1} column ${i + 1}`} onChange={(v) => setCell(j, i, v)} />
-                ))}
-              </View>
-            ))}
-          </View>
+          {cols > 5 ? (
+            <AppText variant="caption" tone="muted">{`${cols} columns: the grid scrolls sideways.`}</AppText>
+          ) : null}
+          {/* A wide matrix scrolls sideways in its own box instead of pushing the page past the screen. */}
+          <ScrollView horizontal style={styles.gridScroller} contentContainerStyle={styles.gridContent}>
+            <View accessibilityLabel={`Weights, ${rows} rows by ${cols} columns`} style={styles.grid}>
+              {matrix.map((row, j) => (
+                <View key={j} style={styles.gridRow}>
+                  {row.map((w, i) => (
+                    <MatrixCell key={`${j}-${i}-${rows}-${cols}`} value={w} label={`Weight row ${j + 1} column ${i + 1}`} onChange={(v) => setCell(j, i, v)} />
+                  ))}
+                </View>
+              ))}
+            </View>
+          </ScrollView>
           {errorOf('matrix') ? <AppText tone="danger" variant="caption">{`⚠ ${errorOf('matrix')}`}</AppText> : null}
           <View style={styles.sizeRow}>
             <View style={styles.half}>
@@ -146,6 +158,8 @@ const styles = StyleSheet.create({
   group: { gap: space.sm },
   sizeRow: { flexDirection: 'row', flexWrap: 'wrap', gap: space.lg },
   half: { flexGrow: 1, flexBasis: 160 },
+  gridScroller: { flexGrow: 0, maxWidth: '100%' },
+  gridContent: { paddingBottom: space.xs },
   grid: { gap: space.xs, alignSelf: 'flex-start' },
   gridRow: { flexDirection: 'row', gap: space.xs },
   cell: {

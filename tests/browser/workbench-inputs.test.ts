@@ -396,6 +396,42 @@ describe('at phone width', () => {
     await page.close();
   });
 
+  test("a rule document's 15×15 matrix: its size among the choices, its grid scrolling sideways inside the card", async () => {
+    // The grid offers 1–9 a side; a rule document may hold up to 31 (a rule written by a script).
+    const name = 'Wide matrix phone';
+    const matrix = Array.from({ length: 15 }, (_, j) => Array.from({ length: 15 }, (_, i) => (i === 7 && j === 7 ? 1 : i - 7)));
+    const rule = await product.services.rules.create(engineer, {
+      name,
+      partType: PART_TYPE.code,
+      smallestDefectMm: null,
+      document: { ...BLOCKS_RULE, name, steps: [...BLOCKS_RULE.steps, { op: 'kernel', matrix }] },
+    });
+    const page = await browser.newPage();
+    const errors = watchErrors(page);
+    await signIn(page);
+    await page.goto(`${product.url}/rules/${rule.id}`);
+    const grid = page.getByLabel('Weights, 15 rows by 15 columns');
+    await grid.waitFor();
+    for (const size of ['Rows', 'Columns']) expect(await page.getByRole('radiogroup', { name: size }).getByRole('radio', { name: '15' }).getAttribute('aria-checked')).toBe('true');
+    await page.getByText('15 columns: the grid scrolls sideways.').waitFor();
+    const divisor = page.getByLabel(/^Divisor/).first();
+    await divisor.scrollIntoViewIfNeeded();
+    const before = (await divisor.boundingBox())!;
+    const phoneWidth = page.viewportSize()!.width;
+    expect(before.x + before.width).toBeLessThanOrEqual(phoneWidth);
+    // The last column comes into view by scrolling the grid; the rest of the card stays where it was.
+    const lastCell = page.getByLabel('Weight row 8 column 15');
+    await lastCell.scrollIntoViewIfNeeded();
+    const cell = (await lastCell.boundingBox())!;
+    expect(cell.x).toBeGreaterThanOrEqual(0);
+    expect(cell.x + cell.width).toBeLessThanOrEqual(phoneWidth);
+    expect(await lastCell.inputValue()).toBe('7');
+    expect((await divisor.boundingBox())!.x).toBe(before.x);
+    await screenshot(page, 'workbench-wide-matrix-phone');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
   test('a rectangle set by tapping two corners on the preview becomes the gauge region', async () => {
     const { ruleId, versionId, setName } = await blocksRule('Drawn regions phone');
     const page = await browser.newPage();

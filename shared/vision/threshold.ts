@@ -264,12 +264,27 @@ function writeAtLeastPacked(s: Float32Array, cut: number, invert: boolean, o: Fl
           o[x0 + i] = bit;
           acc |= bit << i;
         }
+      } else if (n === 32) {
+        acc = wordAtLeast(s, x0, cut);
+        if (flip) acc = ~acc;
       } else {
         for (let i = 0; i < n; i++) acc |= (flip ^ +(s[x0 + i] >= cut)) << i;
       }
       words[y * wordsPerRow + word] = acc;
     }
   }
+}
+
+/** Bit i set where s[x0 + i] ≥ cut, for 32 pixels: four interleaved words of constant shifts (no per-pixel flip or loop). */
+function wordAtLeast(s: Float32Array, x0: number, cut: number): number {
+  let a = 0, b = 0, c = 0, d = 0;
+  for (let i = 0; i < 32; i += 4) {
+    a |= +(s[x0 + i] >= cut) << i;
+    b |= +(s[x0 + i + 1] >= cut) << (i + 1);
+    c |= +(s[x0 + i + 2] >= cut) << (i + 2);
+    d |= +(s[x0 + i + 3] >= cut) << (i + 3);
+  }
+  return a | b | c | d;
 }
 
 /** Every pixel set to `value` (0 or 1) in packed form. */

@@ -10,7 +10,7 @@ import { ChoiceChips } from '../ChoiceChips';
 import { TextField } from '../TextField';
 import { NumberField } from './NumberField';
 import type { EditorAction, EditorGauge, EditorStep } from './ruleEditorState';
-import { STEP_DESCRIPTIONS } from './stepCatalogue';
+import { MASK_MEASURES, outputsMask, STEP_DESCRIPTIONS } from './stepCatalogue';
 
 export const MEASURE_LABELS: Record<GaugeMeasure, string> = {
   'edge-fraction': 'Share of mask pixels',
@@ -56,6 +56,9 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
         const errorOf = (field: string) => gaugeIssues.find((i) => i.path === field || i.path.startsWith(`${field}.`))?.message;
         const change = (next: Partial<EditorGauge['gauge']>, stepKey = entry.stepKey) => dispatch({ type: 'change-gauge', key: entry.key, gauge: { ...gauge, ...next }, stepKey });
         const units = UNITS_OF_MEASURE[gauge.measure];
+        const measuredIndex = entry.stepKey ? enabled.findIndex((s) => s.key === entry.stepKey) : enabled.length - 1;
+        const measuredSteps = enabled.slice(0, (measuredIndex < 0 ? enabled.length - 1 : measuredIndex) + 1);
+        const notAMask = (MASK_MEASURES as readonly string[]).includes(gauge.measure) && !outputsMask(measuredSteps.map((s) => s.step));
         const region = gauge.region;
         const label = `Gauge ${index + 1}, ${gauge.name}`;
         const setRegion = (patch: Record<string, number | undefined>) => {
@@ -91,6 +94,13 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
               value={entry.stepKey && enabled.some((s) => s.key === entry.stepKey) ? entry.stepKey : ''}
               onChange={(key) => change({}, key === '' ? null : key)}
             />
+            {notAMask ? (
+              <View style={styles.note} accessibilityRole="text">
+                <AppText variant="caption" tone="caution">
+                  {`ℹ ${measuredSteps.length === 0 ? 'The photo' : `Step ${measuredSteps.length} (${STEP_DESCRIPTIONS[measuredSteps[measuredSteps.length - 1].step.op].title})`} is not a mask, so this measure counts every pixel that is not exactly 0. Add a threshold step and measure its mask.`}
+                </AppText>
+              </View>
+            ) : null}
             {units.length > 0 ? (
               <ChoiceChips label="Unit" choices={units.map((u) => ({ value: u, label: UNIT_LABELS[u] }))} value={gauge.unit ?? units[0]} onChange={(unit) => change({ unit })} />
             ) : (
@@ -167,4 +177,5 @@ const styles = StyleSheet.create({
   quarter: { flexGrow: 1, flexBasis: 130 },
   regionBox: { gap: space.sm, padding: space.md, borderRadius: radius.md, backgroundColor: colors.surfaceSunken },
   start: { alignSelf: 'flex-start' },
+  note: { padding: space.sm, borderLeftWidth: 4, borderLeftColor: colors.caution, backgroundColor: colors.cautionTint, borderRadius: radius.sm },
 });

@@ -73,3 +73,20 @@ export function describeStep(step: Step): string {
       return `radius ${step.radius} px`;
   }
 }
+
+/** Measures that count a mask's pixels or its blobs (DESIGN.md: edge fraction and blobs are of a mask's non-zero pixels). */
+export const MASK_MEASURES = ['edge-fraction', 'blob-count', 'largest-blob-area', 'largest-blob-length'] as const;
+
+/**
+ * Whether the output after these steps (in order, the photo before the first) is a 0/1 mask: a
+ * threshold makes one; morphology and the median keep one (of 0/1 values they give 0/1); every
+ * other step gives values.
+ */
+export function outputsMask(steps: readonly Step[]): boolean {
+  let mask = false;
+  for (const step of steps) {
+    if (step.op === 'threshold') mask = true;
+    else if (!(step.op === 'erode' || step.op === 'dilate' || step.op === 'open' || step.op === 'close' || step.op === 'median')) mask = false;
+  }
+  return mask;
+}

@@ -56,8 +56,9 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
         const errorOf = (field: string) => gaugeIssues.find((i) => i.path === field || i.path.startsWith(`${field}.`))?.message;
         const change = (next: Partial<EditorGauge['gauge']>, stepKey = entry.stepKey) => dispatch({ type: 'change-gauge', key: entry.key, gauge: { ...gauge, ...next }, stepKey });
         const units = UNITS_OF_MEASURE[gauge.measure];
-        const measuredIndex = entry.stepKey ? enabled.findIndex((s) => s.key === entry.stepKey) : enabled.length - 1;
-        const measuredSteps = enabled.slice(0, (measuredIndex < 0 ? enabled.length - 1 : measuredIndex) + 1);
+        // The steps up to the measured one (all of them for "the last step", or a step no longer enabled).
+        const chosen = entry.stepKey ? enabled.findIndex((s) => s.key === entry.stepKey) : -1;
+        const measuredSteps = chosen >= 0 ? enabled.slice(0, chosen + 1) : enabled;
         const notAMask = (MASK_MEASURES as readonly string[]).includes(gauge.measure) && !outputsMask(measuredSteps.map((s) => s.step));
         const region = gauge.region;
         const label = `Gauge ${index + 1}, ${gauge.name}`;

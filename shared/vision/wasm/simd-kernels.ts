@@ -35,7 +35,8 @@ export interface EngineExports {
   smoothedGradientBytesScratchBytes(w: number, colLen: number, rowLen: number): number;
   eightBitLevels(src: number, n: number): number;
   valueRange(src: number, n: number, out: number): void;
-  histogram(src: number, n: number, origin: number, scale: number, partial: number, bins: number): void;
+  histogram(src: number, n: number, origin: number, scale: number, scratch: number, bins: number, counts: number, pairs: number): void;
+  histogramScratchBytes(pairs: number): number;
   thresholdBinsPacked(bins: number, w: number, h: number, k: number, invert: number, words: number): void;
   thresholdAt(src: number, dst: number, n: number, cut: number, invert: number): void;
   thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number, writeMask: number): void;
@@ -76,9 +77,12 @@ function wholeThousandths(weights: LumaWeights): [number, number, number] | null
 const BORDER_CODES: Record<BorderMode, number> = { reflect: 0, replicate: 1, constant: 2 };
 const GRADIENT_CODES = { x: 0, y: 1, magnitude: 2 } as const;
 const HISTOGRAM_BINS = 256;
-/** Bins 0 … 256 in each of the kernel's partial histograms (HISTOGRAM_TABLES in assembly/threshold.ts). */
-const PARTIAL_STRIDE = HISTOGRAM_BINS + 1;
-const HISTOGRAM_TABLES = 8;
+/**
+ * Images from this many pixels have their histogram counted in pairs of neighbours (assembly/threshold.ts).
+ * Its tables take about 0.13 ms to clear and add up; on the standard pipeline, counting in pairs took
+ * 17 % off at 5 MP and added 6 % at 1.3 MP (measured on one CPU, tests/bench/steps.ts).
+ */
+const HISTOGRAM_PAIRS_FROM = 2 ** 21;
 /**
  * Non-separable kernels of at least this many weights go through the FFT in tiles (assembly/fft.ts),
  * unless the image holds a NaN or an infinity: 6.2 against about 13 ns/px direct at 11×11 on 5 MP.
@@ -323,20 +327,19 @@ export class SimdKernels {
   /**
    * counts[min(255, trunc((v − origin)·scale))]++ for every v (computed in double precision; NaN
    * counts in bin 0). With keepBins, every pixel's bin also goes as a byte into a block of the
-   * module's memory (`bins`, for thresholdBins; the caller frees it with releaseBlock).
+   * module's memory (`bins`, for thresholdBins; the caller frees it with releaseBlock). inPairs
+   * chooses the counting in pairs of neighbours, which large images use (the same counts).
    */
-  histogram(image: Image, origin: number, scale: number, keepBins = false): { counts: Float64Array; bins?: number } {
+  histogram(image: Image, origin: number, scale: number, keepBins = false, inPairs = image.width * image.height >= HISTOGRAM_PAIRS_FROM): { counts: Float64Array; bins?: number } {
     return this.read(image, (s, scope) => {
-      const partial = scope.alloc(4 * HISTOGRAM_TABLES * PARTIAL_STRIDE);
       const n = image.width * image.height;
+      const pairs = inPairs ? 1 : 0;
+      const scratch = scope.alloc(this.wasm.histogramScratchBytes(pairs));
+      const sums = scope.alloc(4 * HISTOGRAM_BINS);
       // 32 spare bytes: thresholdBinsPacked reads two vectors from the last word's start.
       const bins = keepBins ? this.heap.alloc(n + 32) : 0;
-      this.wasm.histogram(s, n, origin, scale, partial, bins);
-      const sums = this.heap.i32(partial, HISTOGRAM_TABLES * PARTIAL_STRIDE);
-      const counts = new Float64Array(HISTOGRAM_BINS);
-      for (let table = 0; table < HISTOGRAM_TABLES; table++) {
-        for (let bin = 0; bin < PARTIAL_STRIDE; bin++) counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += sums[table * PARTIAL_STRIDE + bin];
-      }
+      this.wasm.histogram(s, n, origin, scale, scratch, bins, sums, pairs);
+      const counts = Float64Array.from(this.heap.i32(sums, HISTOGRAM_BINS));
       return keepBins ? { counts, bins } : { counts };
     });
   }

@@ -10,7 +10,8 @@ import { createPackedMask } from '../../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../../shared/vision/blobs';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { gradient } from '../../../shared/vision/gradient';
-import { channelImage, createImage, type RawPhoto } from '../../../shared/vision/image';
+import { simdKernels } from '../../../shared/vision/engine';
+import { channelImage, createImage, imageFromSamples, type RawPhoto } from '../../../shared/vision/image';
 import { inputChannel, inputWithQuality } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { qualityFigures } from '../../../shared/vision/quality';
@@ -18,7 +19,7 @@ import { releaseRun, runRule } from '../../../shared/vision/pipeline';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
 import { medianFilter } from '../../../shared/vision/median';
 import { boxFilter } from '../../../shared/vision/smoothing';
-import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
+import { otsuHistogram, thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
 import type { Image } from '../../../shared/vision/image';
 import { bitsOf, borderMode, imageSize, onBoth, onEngine, sampleImage, seed, type SampleKind } from './engines';
 import { seededRandom } from './images';
@@ -204,6 +205,48 @@ test('Otsu: the same bin, threshold and mask bits on 8-bit, 16-bit, float and aw
       expect(simd.result.threshold).toBe(plain.result.threshold);
       expect(bitsOf(simd.result.mask)).toEqual(bitsOf(plain.result.mask));
       expect(simd.words).toEqual(plain.words);
+    }),
+    RUNS,
+  );
+});
+
+test('Otsu on images of 2²¹ pixels and more, which the SIMD engine counts in pairs: the same counts, bin and mask bits', () => {
+  // Skewed values with repeats and NaN, like a gradient magnitude: equal neighbours in most pairs.
+  const skewed = (w: number, h: number, s: number): Image => {
+    const rand = seededRandom(s);
+    return imageFromSamples(w, h, Array.from({ length: w * h }, () => (rand() < 0.01 ? NaN : Math.floor(rand() ** 4 * 300) / 7)));
+  };
+  const cases: [number, number, () => Image][] = [
+    // 2 099 601 pixels: one past the last group of sixteen.
+    [1449, 1449, () => skewed(1449, 1449, 11)],
+    [2048, 1024, () => sampleImage(2048, 1024, 'signed float', 12)],
+    [1453, 1445, () => sampleImage(1453, 1445, '8-bit', 14)],
+  ];
+  cases.forEach(([w, h, make], i) => {
+    const image = make();
+    const invert = i % 2 === 1;
+    const { plain, simd } = onBoth(() => {
+      const packed = createPackedMask(w, h);
+      const result = thresholdOtsu(image, invert, undefined, undefined, packed, false);
+      return { bin: result.bin, threshold: result.threshold, words: Array.from(packed.words) };
+    });
+    expect(simd.bin).toBe(plain.bin);
+    expect(simd.threshold).toBe(plain.threshold);
+    expect(simd.words).toEqual(plain.words);
+    const hist = onEngine('plain', () => otsuHistogram(image.data));
+    const simdCounts = onEngine('simd', () => simdKernels()!.histogram(image, hist.origin, hist.binsPerUnit).counts);
+    expect(Array.from(simdCounts)).toEqual(Array.from(hist.counts));
+  });
+});
+
+test('Otsu\'s histogram counted in pairs of neighbours (as from 2²¹ pixels), on small images of any kind: the plain engine\'s counts', () => {
+  fc.assert(
+    fc.property(imageSize, anyKind, seed, ([w, h], kind, s) => {
+      const image = sampleImage(w, h, kind, s);
+      const hist = onEngine('plain', () => otsuHistogram(image.data));
+      fc.pre(!hist.flat);
+      const paired = onEngine('simd', () => simdKernels()!.histogram(image, hist.origin, hist.binsPerUnit, false, true));
+      expect(Array.from(paired.counts)).toEqual(Array.from(hist.counts));
     }),
     RUNS,
   );

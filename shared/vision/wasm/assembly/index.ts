@@ -6,7 +6,7 @@ export { correlate2d, directScratchBytes } from './direct';
 export { correlateFft, fftScratchBytes, allFinite } from './fft';
 export { gradient, gradientScratchBytes } from './gradient';
 export { smoothedGradient, smoothedGradientScratchBytes, smoothedGradientBytes, smoothedGradientBytesScratchBytes } from './smoothed-gradient';
-export { eightBitLevels, valueRange, histogram, thresholdAt, thresholdAtPacked, thresholdBinsPacked } from './threshold';
+export { eightBitLevels, valueRange, histogram, histogramScratchBytes, thresholdAt, thresholdAtPacked, thresholdBinsPacked } from './threshold';
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero, countSetBits } from './blobs';
 export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares } from './statistics';

@@ -1,13 +1,11 @@
 // Thresholds and Otsu's histogram. Masks are float32 0 and 1, written without branches:
 // a compare gives all-ones lanes, ANDed with the bit pattern of 1.0.
-import { at } from './border';
+import { align16, at } from './border';
 import { storeExtremes } from './extremes';
 
 const ONE_BITS: i32 = 0x3f800000;
 /** Pixels checked between early exits of the 8-bit test. */
 const BLOCK: i32 = 64;
-/** Bins of each partial histogram: 0 … 256 (a value at the maximum may land on 256 by rounding). */
-const PARTIAL_STRIDE: i32 = 257;
 
 /** 1 when every value is a whole number in 0 … 255 (8-bit data), else 0; stops at the first other value. */
 export function eightBitLevels(src: usize, n: i32): i32 {
@@ -51,49 +49,119 @@ export function valueRange(src: usize, n: i32, out: usize): void {
   storeExtremes(out, lo, hi, l, g);
 }
 
-/** Partial histograms the counting fills in turn. */
-export const HISTOGRAM_TABLES: i32 = 8;
+/** Partial histograms of single pixels, filled in turn: 256 bins each, 1028 bytes apart (not a divisor of 4096). */
+const SINGLE_TABLES: i32 = 8;
+const SINGLE_TABLE_BYTES: usize = 4 * 257;
+/** Tables of pair counts, filled in turn: 256 × 256 int32 each. */
+const PAIR_TABLES: i32 = 8;
+const PAIR_TABLE_BYTES: usize = 4 * 256 * 256;
+
+/** Scratch bytes `histogram` needs, counting in pairs (pairs = 1) or singly. */
+export function histogramScratchBytes(pairs: i32): i32 {
+  return (pairs ? PAIR_TABLES * <i32>PAIR_TABLE_BYTES : SINGLE_TABLES * <i32>SINGLE_TABLE_BYTES) + 16;
+}
 
 /**
- * Counts bin(v) = trunc((v − origin)·scale), computed in double precision as the plain engine does
- * (so both put every value in the same bin; NaN goes to bin 0), into eight partial histograms of
- * 257 int32 at partial (zeroed here): pixel p goes to table p mod 8, so that equal neighbours do not
- * wait on one counter. When bins ≠ 0 each pixel's bin also goes there as a byte (256, a value at the
- * maximum, as 255: Otsu's chosen bin is at most 254, so the mask is the same), for `thresholdBinsPacked`.
+ * Counts bin(v) = min(255, trunc((v − origin)·scale)), computed in double precision as the plain
+ * engine does (so both put every value in the same bin; NaN goes to bin 0), into counts (256 int32).
+ * When bins ≠ 0 each pixel's bin also goes there as a byte, for `thresholdBinsPacked` (Otsu's chosen
+ * bin is at most 254, so a value at the maximum counted in bin 255 gives the same mask). With pairs ≠ 0
+ * neighbours are counted in pairs (`countPairs`), else singly.
  */
-export function histogram(src: usize, n: i32, origin: f64, scale: f64, partial: usize, bins: usize): void {
-  memory.fill(partial, 0, 4 * HISTOGRAM_TABLES * PARTIAL_STRIDE);
+export function histogram(src: usize, n: i32, origin: f64, scale: f64, scratch: usize, bins: usize, counts: usize, pairs: i32): void {
+  const tables = align16(scratch);
+  const top = i32x4.splat(255);
+  const p = pairs ? countPairs(src, n, origin, scale, tables, bins, counts) : countSingles(src, n, origin, scale, tables, bins, counts);
+  for (let q = p; q < n; q++) {
+    const scaled = f64x2.splat((<f64>load<f32>(at(src, q)) - origin) * scale);
+    const bin = i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0);
+    count(counts, bin);
+    if (bins != 0) store<u8>(bins + <usize>q, <u8>bin);
+  }
+}
+
+/**
+ * `histogram` for the pixels before the last multiple of 8; returns that multiple. Pixel p goes to
+ * table p mod 8, so that equal neighbours do not wait on one counter.
+ */
+function countSingles(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, counts: usize): i32 {
+  memory.fill(tables, 0, SINGLE_TABLES * SINGLE_TABLE_BYTES);
   const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
-  const top = i32x4.splat(PARTIAL_STRIDE - 1);
-  // Table t starts PARTIAL_STRIDE·t int32 after the first; 1028 bytes apart.
-  const stride = (<usize>PARTIAL_STRIDE) << 2;
+  const top = i32x4.splat(255);
   // From origin 0 (a gradient magnitude's usual minimum) v − 0 is v for every float32, so the
   // subtraction goes (about 5 % of the pass).
   const fromZero = origin == 0;
   const zero16 = i16x8.splat(0);
   let p = 0;
   for (; p + 8 <= n; p += 8) {
-    const va = v128.load(at(src, p)), vb = v128.load(at(src, p + 4));
-    const a = fromZero ? binsFromZero(va, vs, top) : binsOf(va, vo, vs, top);
-    const b = fromZero ? binsFromZero(vb, vs, top) : binsOf(vb, vo, vs, top);
-    if (bins != 0) {
-      const bytes = i8x16.narrow_i16x8_u(i16x8.narrow_i32x4_u(a, b), zero16);
-      store<i64>(bins + <usize>p, i64x2.extract_lane(bytes, 0));
-    }
-    count(partial, i32x4.extract_lane(a, 0));
-    count(partial + stride, i32x4.extract_lane(a, 1));
-    count(partial + 2 * stride, i32x4.extract_lane(a, 2));
-    count(partial + 3 * stride, i32x4.extract_lane(a, 3));
-    count(partial + 4 * stride, i32x4.extract_lane(b, 0));
-    count(partial + 5 * stride, i32x4.extract_lane(b, 1));
-    count(partial + 6 * stride, i32x4.extract_lane(b, 2));
-    count(partial + 7 * stride, i32x4.extract_lane(b, 3));
+    const a = bins4(src, p, fromZero, vo, vs, top);
+    const b = bins4(src, p + 4, fromZero, vo, vs, top);
+    if (bins != 0) store<i64>(bins + <usize>p, i64x2.extract_lane(i8x16.narrow_i16x8_u(i16x8.narrow_i32x4_u(a, b), zero16), 0));
+    count(tables, i32x4.extract_lane(a, 0));
+    count(tables + SINGLE_TABLE_BYTES, i32x4.extract_lane(a, 1));
+    count(tables + 2 * SINGLE_TABLE_BYTES, i32x4.extract_lane(a, 2));
+    count(tables + 3 * SINGLE_TABLE_BYTES, i32x4.extract_lane(a, 3));
+    count(tables + 4 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 0));
+    count(tables + 5 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 1));
+    count(tables + 6 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 2));
+    count(tables + 7 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 3));
   }
-  for (; p < n; p++) {
-    const scaled = f64x2.splat((<f64>load<f32>(at(src, p)) - origin) * scale);
-    const bin = i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0);
-    count(partial, bin);
-    if (bins != 0) store<u8>(bins + <usize>p, <u8>min(bin, 255));
+  memory.fill(counts, 0, 4 * 256);
+  for (let t: usize = 0; t < <usize>SINGLE_TABLES; t++) {
+    const table = tables + t * SINGLE_TABLE_BYTES;
+    for (let k: usize = 0; k < 1024; k += 16) v128.store(counts + k, i32x4.add(v128.load(counts + k), v128.load(table + k)));
+  }
+  return p;
+}
+
+/**
+ * `histogram` for the pixels before the last multiple of 16, counted in pairs; returns that multiple.
+ * Two neighbours' bins, as bytes, are one 16-bit index into a 256 × 256 table, so one increment counts
+ * two pixels; pair k of sixteen pixels goes to table k. A table's rows and columns then add up to the
+ * bins' counts.
+ */
+function countPairs(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, counts: usize): i32 {
+  memory.fill(tables, 0, PAIR_TABLES * PAIR_TABLE_BYTES);
+  const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
+  const top = i32x4.splat(255);
+  const fromZero = origin == 0;
+  let p = 0;
+  for (; p + 16 <= n; p += 16) {
+    const a = bins4(src, p, fromZero, vo, vs, top);
+    const b = bins4(src, p + 4, fromZero, vo, vs, top);
+    const c = bins4(src, p + 8, fromZero, vo, vs, top);
+    const d = bins4(src, p + 12, fromZero, vo, vs, top);
+    // Bytes b0 … b15; as 16-bit lanes, pair k is b(2k) + 256·b(2k+1).
+    const bytes = i8x16.narrow_i16x8_u(i16x8.narrow_i32x4_u(a, b), i16x8.narrow_i32x4_u(c, d));
+    if (bins != 0) v128.store(bins + <usize>p, bytes);
+    count(tables, <i32>i16x8.extract_lane_u(bytes, 0));
+    count(tables + PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 1));
+    count(tables + 2 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 2));
+    count(tables + 3 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 3));
+    count(tables + 4 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 4));
+    count(tables + 5 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 5));
+    count(tables + 6 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 6));
+    count(tables + 7 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 7));
+  }
+  addPairTables(tables, counts);
+  return p;
+}
+
+/** counts[i] = pairs with first bin i plus pairs with second bin i, over every table. */
+function addPairTables(tables: usize, counts: usize): void {
+  memory.fill(counts, 0, 4 * 256);
+  for (let t: usize = 0; t < <usize>PAIR_TABLES; t++) {
+    for (let second = 0; second < 256; second++) {
+      const row = tables + t * PAIR_TABLE_BYTES + ((<usize>second) << 10);
+      let sum = i32x4.splat(0);
+      for (let first: usize = 0; first < 1024; first += 16) {
+        const v = v128.load(row + first);
+        sum = i32x4.add(sum, v);
+        v128.store(counts + first, i32x4.add(v128.load(counts + first), v));
+      }
+      const total = i32x4.extract_lane(sum, 0) + i32x4.extract_lane(sum, 1) + i32x4.extract_lane(sum, 2) + i32x4.extract_lane(sum, 3);
+      store<i32>(at(counts, second), load<i32>(at(counts, second)) + total);
+    }
   }
 }
 
@@ -120,6 +188,12 @@ export function thresholdBinsPacked(bins: usize, w: i32, h: i32, k: i32, invert:
   }
 }
 
+@inline
+function bins4(src: usize, p: i32, fromZero: bool, vo: v128, vs: v128, top: v128): v128 {
+  const v = v128.load(at(src, p));
+  return fromZero ? binsFromZero(v, vs, top) : binsOf(v, vo, vs, top);
+}
+
 /** binsOf with origin 0. */
 @inline
 function binsFromZero(v: v128, scale: v128, top: v128): v128 {
@@ -128,7 +202,7 @@ function binsFromZero(v: v128, scale: v128, top: v128): v128 {
   return i32x4.min_u(v128.shuffle<i32>(low, high, 0, 1, 4, 5), top);
 }
 
-/** The four values' bins; above 256 cannot occur for values up to the maximum, the clamp keeps memory safe. */
+/** The four values' bins, at most 255 (a value at the maximum may land on 256 by rounding). */
 @inline
 function binsOf(v: v128, origin: v128, scale: v128, top: v128): v128 {
   const low = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v), origin), scale));

@@ -8,6 +8,8 @@ import fc from 'fast-check';
 import type { MorphologyOp } from '../../../shared/rules/schema';
 import { createPackedMask } from '../../../shared/vision/binary-morphology';
 import { labelBlobs } from '../../../shared/vision/blobs';
+import { borderIndex, OUTSIDE, type BorderMode } from '../../../shared/vision/border';
+import { correlateDirect } from '../../../shared/vision/convolve';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { gradient } from '../../../shared/vision/gradient';
 import { simdKernels } from '../../../shared/vision/engine';
@@ -17,6 +19,7 @@ import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { qualityFigures } from '../../../shared/vision/quality';
 import { releaseRun, runRule } from '../../../shared/vision/pipeline';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
+import { kernelFromMatrix, type Kernel } from '../../../shared/vision/kernels';
 import { medianFilter } from '../../../shared/vision/median';
 import { boxFilter } from '../../../shared/vision/smoothing';
 import { otsuHistogram, thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
@@ -185,6 +188,53 @@ test('median of windows with many equal values and of the largest and smallest f
       for (let p = 0; p < image.data.length; p++) image.data[p] = values[Math.floor(rand() * values.length)];
       const { plain, simd } = onBoth(() => medianFilter(image, size, border));
       expect(bitsOf(simd)).toEqual(bitsOf(plain));
+    }),
+    RUNS,
+  );
+});
+
+/**
+ * The SIMD direct correlation's float32 arithmetic, one pixel at a time: Σ over kernel rows, then
+ * columns, of fround(k·x) added from +0 and rounded after each addition, then fround(fround(sum·s) + o)
+ * with s = fround(1/divisor), o = fround(offset). A sum of whole numbers below 2²⁴ is exact this way.
+ */
+function float32DirectSums(image: Image, k: Kernel, border: BorderMode): Float32Array {
+  const { width: w, height: h, data } = image;
+  const out = new Float32Array(w * h);
+  const [ry, rx] = [k.rows >> 1, k.cols >> 1];
+  const [scale, offset] = [Math.fround(1 / k.divisor), Math.fround(k.offset)];
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      let acc = 0;
+      for (let j = 0; j < k.rows; j++) {
+        const sy = borderIndex(y + j - ry, h, border);
+        for (let i = 0; i < k.cols; i++) {
+          const sx = borderIndex(x + i - rx, w, border);
+          const v = sy === OUTSIDE || sx === OUTSIDE ? 0 : data[sy * w + sx];
+          acc = Math.fround(acc + Math.fround(Math.fround(k.weights[j * k.cols + i]) * v));
+        }
+      }
+      out[y * w + x] = Math.fround(Math.fround(acc * scale) + offset);
+    }
+  }
+  return out;
+}
+
+test('direct correlation of whole-number kernels on whole-number images (16-bit sums on the SIMD engine), some rows not whole: the float32 sums bit for bit', () => {
+  const kernel = fc
+    .tuple(fc.constantFrom(3, 5, 7, 9), fc.constantFrom(3, 5, 7))
+    .chain(([rows, cols]) => fc.tuple(fc.constant(rows), fc.constant(cols), fc.array(fc.integer({ min: -4, max: 4 }), { minLength: rows * cols, maxLength: rows * cols }), fc.constantFrom(1, 3, 16), fc.integer({ min: -40, max: 40 })));
+  // Widths past 32 and 8 pixels reach every loop of the kernel: 32 at a time, 8 at a time, one at a time.
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 30, max: 100 }), fc.integer({ min: 1, max: 12 })));
+  const kind = fc.constantFrom<SampleKind>('8-bit', 'mask', '16-bit');
+  fc.assert(
+    fc.property(size, kind, seed, borderMode, kernel, fc.array(fc.nat(), { maxLength: 2 }), ([w, h], sampleKind, s, border, [rows, cols, flat, divisor, eighths], notWhole) => {
+      const image = sampleImage(w, h, sampleKind, s);
+      // A row holding a value that is not a whole number sends every output row whose window reaches it through float32.
+      for (const r of notWhole) image.data[(r % h) * w + (r % w)] += 0.5;
+      const k = kernelFromMatrix(Array.from({ length: rows }, (_, j) => flat.slice(j * cols, (j + 1) * cols)), divisor, eighths / 8);
+      const simd = onEngine('simd', () => correlateDirect(image, k, border));
+      expect(bitsOf(simd)).toEqual(Array.from(new Uint32Array(float32DirectSums(image, k, border).buffer)));
     }),
     RUNS,
   );

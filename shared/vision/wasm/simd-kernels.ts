@@ -26,7 +26,7 @@ export interface EngineExports {
   directScratchBytes(w: number, rows: number, cols: number): number;
   correlateFft(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, floor: number, scratch: number): void;
   fftScratchBytes(w: number, cols: number): number;
-  allFinite(src: number, n: number): number;
+  largestFiniteMagnitude(src: number, n: number): number;
   gradient(src: number, dst: number, w: number, h: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
   gradientScratchBytes(w: number): number;
   smoothedGradient(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, a: number, b: number, output: number, mode: number, range: number, scratch: number): void;
@@ -145,11 +145,9 @@ export class SimdKernels {
     const large = kernel.rows * kernel.cols >= FFT_KERNEL_TAPS && Math.max(kernel.rows, kernel.cols) <= FFT_KERNEL_SIDE;
     return this.mapImage(src, out, (s, d, scope) => {
       const weights = scope.f32(kernel.weights);
-      if (large && this.wasm.allFinite(s, src.data.length) === 1) {
-        const range = scope.alloc(8);
-        this.wasm.valueRange(s, src.data.length, range);
-        const [lo, hi] = this.heap.f32(range, 2);
-        const floor = fftZeroFloor(kernel, Math.max(Math.abs(lo), Math.abs(hi)), 2 ** -24);
+      const largest = large ? this.wasm.largestFiniteMagnitude(s, src.data.length) : -1;
+      if (largest >= 0) {
+        const floor = fftZeroFloor(kernel, largest, 2 ** -24);
         const scratch = scope.alloc(this.wasm.fftScratchBytes(src.width, kernel.cols));
         this.wasm.correlateFft(s, d, src.width, src.height, weights, kernel.rows, kernel.cols, BORDER_CODES[border], 1 / kernel.divisor, kernel.offset, floor, scratch);
         return;

@@ -236,22 +236,27 @@ function swapTransposedBlocks(p: usize, q: usize): void {
 }
 
 /**
- * 1 when every one of the n values is finite, else 0: a NaN or an infinity in a tile would spread
- * over the whole tile's outputs through the transform, where the direct sum keeps it to its window.
+ * The largest |v| when every one of the n values is finite, else −1, in one pass: a NaN or an infinity
+ * in a tile would spread over the whole tile's outputs through the transform, where the direct sum
+ * keeps it to its window; the largest magnitude sets the transform's zero floor.
  */
-export function allFinite(src: usize, n: i32): i32 {
+export function largestFiniteMagnitude(src: usize, n: i32): f32 {
   const zero = f32x4.splat(0);
   let ok = i32x4.splat(-1);
+  let largest = zero;
   let p = 0;
   // v − v is 0 exactly for finite v (NaN for NaN and ±∞).
   for (; p + 4 <= n; p += 4) {
     const v = v128.load(at(src, p));
     ok = v128.and(ok, f32x4.eq(f32x4.sub(v, v), zero));
+    largest = f32x4.pmax(largest, f32x4.abs(v));
   }
-  if (!i32x4.all_true(ok)) return 0;
+  if (!i32x4.all_true(ok)) return -1;
+  let m = max(max(f32x4.extract_lane(largest, 0), f32x4.extract_lane(largest, 1)), max(f32x4.extract_lane(largest, 2), f32x4.extract_lane(largest, 3)));
   for (; p < n; p++) {
     const v = load<f32>(at(src, p));
-    if (v - v != 0) return 0;
+    if (v - v != 0) return -1;
+    m = max(m, Mathf.abs(v));
   }
-  return 1;
+  return m;
 }

@@ -3,7 +3,7 @@
 // memory, which shared/vision/wasm/heap.ts manages from the JavaScript side.
 export { separable, laplacianOfGaussian, separableScratchBytes, separableBytes, separableBytesScratchBytes } from './separable';
 export { correlate2d, directScratchBytes } from './direct';
-export { correlateFft, fftScratchBytes, allFinite } from './fft';
+export { correlateFft, fftScratchBytes, largestFiniteMagnitude } from './fft';
 export { gradient, gradientScratchBytes } from './gradient';
 export { smoothedGradient, smoothedGradientScratchBytes, smoothedGradientBytes, smoothedGradientBytesScratchBytes } from './smoothed-gradient';
 export { eightBitLevels, valueRange, histogram, histogramScratchBytes, thresholdAt, thresholdAtPacked, thresholdBinsPacked } from './threshold';

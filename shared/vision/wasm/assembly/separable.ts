@@ -268,6 +268,23 @@ function pairSweep(dst: usize, centre: usize, kc: f32, rows: usize, line: usize,
   const start = centre ? centre : dst;
   const vs = f32x4.splat(centre ? kc : 1);
   const vo = f32x4.splat(offset);
+  if (line && pairs > 0) {
+    // Along a line every sample of the sweep is a constant offset from one of two addresses: the
+    // lowest below and the nearest above (ten addresses would not all stay in registers).
+    const la = line - ((<usize>(i + pairs - 1)) << 2), lb = line + ((<usize>i) << 2);
+    if (last) {
+      if (pairs == 5) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 5, 1, vo, w);
+      else if (pairs == 4) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 4, 1, vo, w);
+      else if (pairs == 3) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 3, 1, vo, w);
+      else if (pairs == 2) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 2, 1, vo, w);
+      else sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 1, 1, vo, w);
+    } else if (pairs == 5) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 5, 0, vo, w);
+    else if (pairs == 4) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 4, 0, vo, w);
+    else if (pairs == 3) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 3, 0, vo, w);
+    else if (pairs == 2) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 2, 0, vo, w);
+    else sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 1, 0, vo, w);
+    return;
+  }
   if (pairs == 0) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 0, 1, vo, w);
   else if (last) {
     if (pairs == 5) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 5, 1, vo, w);
@@ -317,6 +334,26 @@ function sweepPairs(
     if (pairs >= 3) acc = f32x4.add(acc, f32x4.mul(k3, f32x4.add(v128.load(a3 + o), v128.load(b3 + o))));
     if (pairs >= 4) acc = f32x4.add(acc, f32x4.mul(k4, f32x4.add(v128.load(a4 + o), v128.load(b4 + o))));
     if (pairs >= 5) acc = f32x4.add(acc, f32x4.mul(k5, f32x4.add(v128.load(a5 + o), v128.load(b5 + o))));
+    v128.store(dst + o, last ? f32x4.add(acc, vo) : acc);
+  }
+}
+
+/** sweepPairs along a padded line: pair n's samples at la + 4·(pairs − n) and lb + 4·(n − 1). */
+@inline
+function sweepLinePairs(
+  dst: usize, start: usize, vs: v128, la: usize, lb: usize,
+  k1: v128, k2: v128, k3: v128, k4: v128, k5: v128,
+  pairs: i32, last: i32, vo: v128, w: i32,
+): void {
+  for (let x = 0; x + 4 <= w; x += 4) {
+    const o = (<usize>x) << 2;
+    const a = la + o, b = lb + o;
+    let acc = f32x4.mul(vs, v128.load(start + o));
+    if (pairs >= 1) acc = f32x4.add(acc, f32x4.mul(k1, f32x4.add(v128.load(a + <usize>(4 * (pairs - 1))), v128.load(b))));
+    if (pairs >= 2) acc = f32x4.add(acc, f32x4.mul(k2, f32x4.add(v128.load(a + <usize>(4 * (pairs - 2))), v128.load(b + 4))));
+    if (pairs >= 3) acc = f32x4.add(acc, f32x4.mul(k3, f32x4.add(v128.load(a + <usize>(4 * (pairs - 3))), v128.load(b + 8))));
+    if (pairs >= 4) acc = f32x4.add(acc, f32x4.mul(k4, f32x4.add(v128.load(a + <usize>(4 * (pairs - 4))), v128.load(b + 12))));
+    if (pairs >= 5) acc = f32x4.add(acc, f32x4.mul(k5, f32x4.add(v128.load(a), v128.load(b + 16))));
     v128.store(dst + o, last ? f32x4.add(acc, vo) : acc);
   }
 }

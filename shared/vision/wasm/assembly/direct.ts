@@ -194,8 +194,10 @@ function rows3x3(slots: usize, table: usize, w: i32, out: usize, scale: f32, off
 function general(slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: usize, scale: f32, offset: f32): void {
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
   let x = 0;
-  // Eight vectors per pass while they fit: each sum is a chain of rows·cols dependent additions, and
-  // eight chains side by side keep the adders busy where four waited on their chains (2.4 ns/px at 5×5).
+  // Eight vectors per pass: each weight is loaded once for 32 pixels, and each sum is a chain of
+  // rows·cols dependent additions; eight chains side by side keep the adders busy, where four waited
+  // on their chains (2.4 against 2.1–2.3 ns/px at 5×5) and two more so (2.7). The last pixels of a row
+  // go four at a time. Each sum keeps its order of additions, so the same bits.
   for (; x + 32 <= w; x += 32) {
     const o = (<usize>x) << 2;
     let acc0 = f32x4.splat(0);
@@ -230,32 +232,6 @@ function general(slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: 
     v128.store(out + o, f32x4.add(f32x4.mul(acc5, vs), vo), 80);
     v128.store(out + o, f32x4.add(f32x4.mul(acc6, vs), vo), 96);
     v128.store(out + o, f32x4.add(f32x4.mul(acc7, vs), vo), 112);
-  }
-  // Four vectors per pass: each weight is loaded once for sixteen pixels, and the four sums, each
-  // a chain of dependent additions, advance side by side (two chains left the adder waiting on the
-  // one before: 2.5 ns/px at 5×5). Each sum keeps its order of additions, so the same bits.
-  for (; x + 16 <= w; x += 16) {
-    const o = (<usize>x) << 2;
-    let acc0 = f32x4.splat(0);
-    let acc1 = f32x4.splat(0);
-    let acc2 = f32x4.splat(0);
-    let acc3 = f32x4.splat(0);
-    for (let j = 0; j < rows; j++) {
-      const line = load<usize>(at(slots, j)) + o;
-      const kj = table + ((<usize>(j * cols)) << 4);
-      for (let i = 0; i < cols; i++) {
-        const k = v128.load(kj + ((<usize>i) << 4));
-        const p = at(line, i);
-        acc0 = f32x4.add(acc0, f32x4.mul(k, v128.load(p)));
-        acc1 = f32x4.add(acc1, f32x4.mul(k, v128.load(p, 16)));
-        acc2 = f32x4.add(acc2, f32x4.mul(k, v128.load(p, 32)));
-        acc3 = f32x4.add(acc3, f32x4.mul(k, v128.load(p, 48)));
-      }
-    }
-    v128.store(out + o, f32x4.add(f32x4.mul(acc0, vs), vo));
-    v128.store(out + o, f32x4.add(f32x4.mul(acc1, vs), vo), 16);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc2, vs), vo), 32);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc3, vs), vo), 48);
   }
   for (; x + 4 <= w; x += 4) {
     const o = (<usize>x) << 2;

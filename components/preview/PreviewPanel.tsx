@@ -156,7 +156,6 @@ export function PreviewPanel(props: PreviewPanelProps) {
                 <AppText variant="bodyStrong" style={styles.grow}>{shown.title}</AppText>
                 <ChoiceChips label="Zoom" choices={ZOOMS.map((z) => ({ value: z, label: `${z}×` }))} value={zoom} onChange={setZoom} />
               </View>
-              {drawing ? <AppText tone="caution">✎ Drag across the photo, or tap two opposite corners, to set the region.</AppText> : null}
               <View onLayout={(e) => setFrameWidth(e.nativeEvent.layout.width)}>
                 {zoom === '1' ? (
                   <View>
@@ -174,6 +173,12 @@ export function PreviewPanel(props: PreviewPanelProps) {
                   </ScrollView>
                 )}
               </View>
+              {/* Below the photo, so that the photo stays where it was when drawing starts (a hint above it pushed it down under the finger). */}
+              {drawing ? (
+                <AppText tone="caution" accessibilityLiveRegion="polite">
+                  ✎ Drag across the photo, or tap two opposite corners, to set the region.
+                </AppText>
+              ) : null}
             </View>
           ) : null}
 

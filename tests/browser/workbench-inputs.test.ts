@@ -135,10 +135,25 @@ function expectNear(actual: number, expected: number, onePixel: number): void {
   expect(Math.abs(actual - expected)).toBeLessThanOrEqual(onePixel + 0.0005);
 }
 
-/** Turns drawing on; the hint it shows moves the photo down, so the photo is found after it. */
+/**
+ * Chooses the region's shape, which sets its default region (the middle of the photo), and waits
+ * for the preview of it (`shownValue`): the new verdict above the photo can move the photo, so the
+ * points of a drag are found after it.
+ */
+async function chooseShape(page: Page, shape: 'Rectangle' | 'Circle', shownValue: string): Promise<void> {
+  await page.getByRole('radio', { name: shape }).click();
+  await expectShownValue(page, shownValue);
+}
+
+/** Turns drawing on (its hint goes below the photo, which stays put) and brings the photo into view. */
 async function startDrawing(page: Page, canvas: Locator): Promise<void> {
+  const header = page.getByRole('radiogroup', { name: 'Zoom' });
+  const gap = async () => (await canvas.boundingBox())!.y - (await header.boundingBox())!.y;
+  const before = await gap();
   await page.getByRole('button', { name: `Draw the region of ${GAUGE} on the preview` }).click();
   await page.getByText(/Drag across the photo, or tap two opposite corners/).waitFor();
+  // The hint goes below the photo: the photo has not moved away from the header above it.
+  expect(await gap()).toBe(before);
   await canvas.scrollIntoViewIfNeeded();
 }
 
@@ -253,7 +268,7 @@ describe('at wide width', () => {
     await page.getByRole('heading', { name: 'Preview verdict: FAIL' }).waitFor();
 
     // A rectangle dragged around block B with the mouse.
-    await page.getByRole('radio', { name: 'Rectangle' }).click();
+    await chooseShape(page, 'Rectangle', '1250 px²');
     await startDrawing(page, canvas);
     const from = await screenPoint(canvas, BLOCKS.B.x - 15, BLOCKS.B.y - 15);
     const to = await screenPoint(canvas, BLOCKS.B.x + BLOCKS.B.w + 15, BLOCKS.B.y + BLOCKS.B.h + 15);
@@ -279,7 +294,7 @@ describe('at wide width', () => {
     expectNear(rect.h, to.fy - from.fy, 2 * from.pxY);
 
     // A circle dragged as the square around block C: the circle inside that square.
-    await page.getByRole('radio', { name: 'Circle' }).click();
+    await chooseShape(page, 'Circle', '1756 px²');
     await startDrawing(page, canvas);
     const centre = { x: BLOCKS.C.x + BLOCKS.C.w / 2, y: BLOCKS.C.y + BLOCKS.C.h / 2 };
     const corner1 = await screenPoint(canvas, centre.x - 35, centre.y - 35);
@@ -440,7 +455,7 @@ describe('at phone width', () => {
     const canvas = await openPreview(page, ruleId, setName);
     await expectShownValue(page, '6000 px²');
 
-    await page.getByRole('radio', { name: 'Rectangle' }).click();
+    await chooseShape(page, 'Rectangle', '1250 px²');
     await startDrawing(page, canvas);
     const a = await screenPoint(canvas, BLOCKS.C.x + BLOCKS.C.w + 15, BLOCKS.C.y - 15);
     const b = await screenPoint(canvas, BLOCKS.C.x - 15, BLOCKS.C.y + BLOCKS.C.h + 15);

@@ -18,12 +18,12 @@ export function warmUp(kernels: SimdKernels): void {
   for (const sigma of [0.5, 0.8, 1, 2]) kernels.separable(a, gaussianWeights(sigma), gaussianWeights(sigma), 'reflect', b);
   kernels.separable(a, [1, 2, 1], [-1, 0, 1], 'replicate', b);
   kernels.correlate2d(a, kernelFromMatrix([[0, 1, 0], [1, -4, 1], [0, 1, 0]]), 'reflect', b);
-  // On whole numbers (a) the direct sums go in 16 bits; on the smoothed image (b) in float32.
+  // On whole numbers (a) a 5×5 kernel's sums go in 16 bits; on the smoothed image (b) in float32 (3×3
+  // kernels always do, as the Laplacian above).
   const fiveByFive = kernelFromMatrix([[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]]);
   kernels.correlate2d(a, fiveByFive, 'reflect', b);
   kernels.separable(a, gaussianWeights(1), gaussianWeights(1), 'reflect', b);
   kernels.correlate2d(b, fiveByFive, 'reflect', c);
-  kernels.correlate2d(b, kernelFromMatrix([[0, 1, 0], [1, -4, 1], [0, 1, 0]]), 'reflect', c);
   // 11×11 (non-separable) is where the FFT in tiles takes over.
   kernels.correlate2d(a, kernelFromMatrix(Array.from({ length: 11 }, (_, j) => Array.from({ length: 11 }, (_, i) => ((i * 7 + j * 3) % 5) - 2))), 'reflect', b);
   kernels.laplacianOfGaussian(a, gaussianWeights(1.4), gaussianWeights(1.4), 'reflect', b);

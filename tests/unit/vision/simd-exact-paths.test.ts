@@ -197,6 +197,8 @@ test('median of windows with many equal values and of the largest and smallest f
  * The SIMD direct correlation's float32 arithmetic, one pixel at a time: Σ over kernel rows, then
  * columns, of fround(k·x) added from +0 and rounded after each addition, then fround(fround(sum·s) + o)
  * with s = fround(1/divisor), o = fround(offset). A sum of whole numbers below 2²⁴ is exact this way.
+ * The reference is IEEE 754 binary32 arithmetic, round to nearest (Math.fround in ECMA-262),
+ * and the correlation's definition as OpenCV's filter2D computes it (REFERENCES.md §1; from memory).
  */
 function float32DirectSums(image: Image, k: Kernel, border: BorderMode): Float32Array {
   const { width: w, height: h, data } = image;
@@ -261,7 +263,9 @@ test('Otsu: the same bin, threshold and mask bits on 8-bit, 16-bit, float and aw
 });
 
 test('Otsu on images of 2²¹ pixels and more, which the SIMD engine counts in pairs: the same counts, bin and mask bits', () => {
-  // Skewed values with repeats and NaN, like a gradient magnitude: equal neighbours in most pairs.
+  // The reference is the plain engine's histogram, whose bins otsu-histogram.test.ts holds to the rule
+  // format's binning (DESIGN.md, "threshold"). Skewed values with repeats and NaN, like a gradient
+  // magnitude: equal neighbours in most pairs.
   const skewed = (w: number, h: number, s: number): Image => {
     const rand = seededRandom(s);
     return imageFromSamples(w, h, Array.from({ length: w * h }, () => (rand() < 0.01 ? NaN : Math.floor(rand() ** 4 * 300) / 7)));

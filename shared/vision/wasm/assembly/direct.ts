@@ -11,7 +11,7 @@ const I16_LIMIT: i32 = 32767;
 
 /** Scratch bytes `correlate2d` needs. */
 export function directScratchBytes(w: i32, rows: i32, cols: i32): i32 {
-  return 32 * rows * cols + 12 * rows + rows * (4 * (w + cols) + 32) + rows * (2 * (w + cols) + 32) + 192;
+  return 48 * rows * cols + 12 * rows + rows * (4 * (w + cols) + 32) + rows * (2 * (w + cols) + 32) + 224;
 }
 
 /**
@@ -28,10 +28,29 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   // cost more than the 16-bit sums saved (the 4-neighbour Laplacian at 5 MP 0.63 → 0.89 ns/px).
   const table16 = table + ((<usize>taps) << 4);
   const bound = rows == 3 && cols == 3 ? 0 : wholeSampleBound(weights, taps);
-  if (bound > 0) for (let t = 0; t < taps; t++) v128.store(table16 + ((<usize>t) << 4), i16x8.splat(<i16>load<f32>(at(weights, t))));
-  const slots = table16 + ((<usize>taps) << 4);
+  // The 16-bit sums skip zero weights: only the nonzero taps go into table16, each with its
+  // source (row j, byte offset 2i in its line) at taps16; adding a zero product changes no sum.
+  const taps16 = table16 + ((<usize>taps) << 4);
+  // Weights of 1 come first and −1 next: those taps add or subtract their line without a product.
+  let nonzero = 0, ones = 0, minusOnes = 0;
+  if (bound > 0) {
+    for (let pass = 0; pass < 3; pass++) {
+      for (let t = 0; t < taps; t++) {
+        const k = <i16>load<f32>(at(weights, t));
+        if (k == 0 || (pass == 0) != (k == 1) || (pass == 1) != (k == -1)) continue;
+        v128.store(table16 + ((<usize>nonzero) << 4), i16x8.splat(k));
+        store<i32>(at(taps16, 2 * nonzero), t / cols);
+        store<i32>(at(taps16, 2 * nonzero + 1), 2 * (t % cols));
+        nonzero++;
+        if (pass == 0) ones++;
+        else if (pass == 1) minusOnes++;
+      }
+    }
+  }
+  const slots = align16(at(taps16, 2 * taps));
   const slots16 = align16(at(slots, rows));
-  const whole = align16(at(slots16, rows));
+  const tapLines = align16(at(slots16, rows));
+  const whole = align16(at(tapLines, taps));
   const lineBytes = (<usize>(4 * (w + cols) + 16)) & ~(<usize>15);
   const line16Bytes = (<usize>(2 * (w + cols) + 16)) & ~(<usize>15);
   const ring = align16(at(whole, rows));
@@ -49,7 +68,13 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
       allWhole = allWhole && load<i32>(at(whole, slot)) != 0;
     }
     const out = at(dst, y * w);
-    if (allWhole) whole16(slots16, slots, table16, table, rows, cols, w, out, scale, offset);
+    if (allWhole) {
+      for (let t = 0; t < nonzero; t++) {
+        const line = load<usize>(at(slots16, load<i32>(at(taps16, 2 * t))));
+        store<usize>(at(tapLines, t), line + <usize>load<i32>(at(taps16, 2 * t + 1)));
+      }
+      whole16(tapLines, table16, ones, ones + minusOnes, nonzero, slots, table, rows, cols, w, out, scale, offset);
+    }
     else if (rows == 3 && cols == 3) rows3x3(slots, table, w, out, scale, offset);
     else general(slots, table, rows, cols, w, out, scale, offset);
   }
@@ -104,11 +129,12 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32): i32 {
 }
 
 /**
- * One output row in 16-bit sums, eight pixels per v128, from whole-number lines (slots16) and 16-bit
- * weights (table16); each sum converted to float32, then scaled and offset as the float32 loops do.
- * Pixels past the last eight come from the float32 lines (slots) as scalarPixel: the same exact sums.
+ * One output row in 16-bit sums, eight pixels per v128: tap t adds weight table16[t] times the 16-bit
+ * line from tapLines[t] (already offset to the tap's column); each sum converted to float32, then
+ * scaled and offset as the float32 loops do. Pixels past the last eight come from the float32 lines
+ * (slots) as scalarPixel: the same exact sums.
  */
-function whole16(slots16: usize, slots: usize, table16: usize, table: usize, rows: i32, cols: i32, w: i32, out: usize, scale: f32, offset: f32): void {
+function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: usize, scale: f32, offset: f32): void {
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
   let x = 0;
   for (; x + 32 <= w; x += 32) {
@@ -117,19 +143,30 @@ function whole16(slots16: usize, slots: usize, table16: usize, table: usize, row
     let acc1 = i16x8.splat(0);
     let acc2 = i16x8.splat(0);
     let acc3 = i16x8.splat(0);
-    for (let j = 0; j < rows; j++) {
-      const line = load<usize>(at(slots16, j)) + o;
-      const kj = table16 + ((<usize>(j * cols)) << 4);
-      for (let i = 0; i < cols; i++) {
-        const k = v128.load(kj + ((<usize>i) << 4));
-        const p = line + ((<usize>i) << 1);
-        // The vectors' offsets go into the address: as the loads' immediate offsets, Node 20's V8
-        // returned zeros from these 16-bit products (seen here, caught by the exact-path test).
-        acc0 = i16x8.add(acc0, i16x8.mul(k, v128.load(p)));
-        acc1 = i16x8.add(acc1, i16x8.mul(k, v128.load(p + 16)));
-        acc2 = i16x8.add(acc2, i16x8.mul(k, v128.load(p + 32)));
-        acc3 = i16x8.add(acc3, i16x8.mul(k, v128.load(p + 48)));
-      }
+    let t = 0;
+    for (; t < ones; t++) {
+      const p = load<usize>(at(tapLines, t)) + o;
+      acc0 = i16x8.add(acc0, v128.load(p));
+      acc1 = i16x8.add(acc1, v128.load(p + 16));
+      acc2 = i16x8.add(acc2, v128.load(p + 32));
+      acc3 = i16x8.add(acc3, v128.load(p + 48));
+    }
+    for (; t < signed; t++) {
+      const p = load<usize>(at(tapLines, t)) + o;
+      acc0 = i16x8.sub(acc0, v128.load(p));
+      acc1 = i16x8.sub(acc1, v128.load(p + 16));
+      acc2 = i16x8.sub(acc2, v128.load(p + 32));
+      acc3 = i16x8.sub(acc3, v128.load(p + 48));
+    }
+    for (; t < taps; t++) {
+      const k = v128.load(table16 + ((<usize>t) << 4));
+      const p = load<usize>(at(tapLines, t)) + o;
+      // The vectors' offsets go into the address: as the loads' immediate offsets, Node 20's V8
+      // returned zeros from these 16-bit products (seen here, caught by the exact-path test).
+      acc0 = i16x8.add(acc0, i16x8.mul(k, v128.load(p)));
+      acc1 = i16x8.add(acc1, i16x8.mul(k, v128.load(p + 16)));
+      acc2 = i16x8.add(acc2, i16x8.mul(k, v128.load(p + 32)));
+      acc3 = i16x8.add(acc3, i16x8.mul(k, v128.load(p + 48)));
     }
     const q = out + ((<usize>x) << 2);
     storeSums(q, acc0, vs, vo, 0);
@@ -140,11 +177,7 @@ function whole16(slots16: usize, slots: usize, table16: usize, table: usize, row
   for (; x + 8 <= w; x += 8) {
     const o = (<usize>x) << 1;
     let acc = i16x8.splat(0);
-    for (let j = 0; j < rows; j++) {
-      const line = load<usize>(at(slots16, j)) + o;
-      const kj = table16 + ((<usize>(j * cols)) << 4);
-      for (let i = 0; i < cols; i++) acc = i16x8.add(acc, i16x8.mul(v128.load(kj + ((<usize>i) << 4)), v128.load(line + ((<usize>i) << 1))));
-    }
+    for (let t = 0; t < taps; t++) acc = i16x8.add(acc, i16x8.mul(v128.load(table16 + ((<usize>t) << 4)), v128.load(load<usize>(at(tapLines, t)) + o)));
     storeSums(out + ((<usize>x) << 2), acc, vs, vo, 0);
   }
   for (; x < w; x++) scalarPixel(slots, table, rows, cols, x, out, scale, offset);

@@ -78,7 +78,8 @@ export default function runPipelineTask(task: PipelineTask): PipelineTaskResult 
 /** The run with every image in ordinary memory: an image in the engine's memory is copied out and its buffer kept for the next run. */
 function inOrdinaryMemory(run: RuleRun): RuleRun {
   const copyOut = (image: Image): Image => {
-    if (!isResident(image)) return image;
+    // A plain workspace image becomes an ordinary one (samples written) on its own buffer.
+    if (!isResident(image)) return workspace.detach(image);
     const pixels = image.data.length;
     const index = outgoing.findIndex((b) => b.length === pixels);
     const buffer = index >= 0 ? outgoing.splice(index, 1)[0] : new Float32Array(pixels);

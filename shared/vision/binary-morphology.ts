@@ -3,6 +3,7 @@
 // Same results as the value path in morphology.ts for masks; other images go there instead.
 import type { MorphologyOp } from '../rules/schema';
 import type { BorderMode } from './border';
+import { DeferrableImage, FLOAT_ONE_BITS, pendingMask, unpackMask } from './deferrable-image';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
 import { sampleBits } from './ordered-keys';
@@ -24,8 +25,6 @@ export function createPackedMask(width: number, height: number): PackedMask {
   return { width, height, wordsPerRow, words: new Int32Array(wordsPerRow * height) };
 }
 
-/** Bit pattern of the float32 value 1 (IEEE 754 binary32). */
-const FLOAT_ONE_BITS = 0x3f800000;
 
 
 /**
@@ -72,26 +71,6 @@ function packWordByValue(data: Float32Array, x0: number, n: number): number | nu
     word |= (v === 1 ? 1 : 0) << i;
   }
   return word;
-}
-
-/** Writes the mask as float32 0 and 1 through the bit patterns (integer stores, no conversion). */
-function unpackMask(mask: PackedMask, out: Float32Array): void {
-  const { width: w, height: h, wordsPerRow, words } = mask;
-  const bits = sampleBits(out);
-  for (let y = 0; y < h; y++) {
-    const row = y * w;
-    const wordRow = y * wordsPerRow;
-    for (let k = 0; k < wordsPerRow; k++) {
-      const x0 = row + (k << 5);
-      const n = Math.min(32, w - (k << 5));
-      const word = words[wordRow + k];
-      if (word === 0) {
-        bits.fill(0, x0, x0 + n);
-      } else {
-        for (let i = 0; i < n; i++) bits[x0 + i] = ((word >>> i) & 1) * FLOAT_ONE_BITS;
-      }
-    }
-  }
 }
 
 /**
@@ -164,7 +143,7 @@ export function binaryMorphology(src: Image, op: MorphologyOp, radius: number, b
   const given = packed && packed.width === src.width && packed.height === src.height ? packed : null;
   const simd = simdKernels();
   if (simd) return simd.binaryMorphology(src, op, radius, border, out, given ?? undefined);
-  const source = given ?? packMask(src);
+  const source = given ?? pendingMask(src) ?? packMask(src);
   if (!source) return null;
   const erodeOutside: 0 | 1 = border === 'constant' ? 0 : 1;
   const erodeOnce = (m: PackedMask) => packedExtreme(m, radius, false, erodeOutside);
@@ -183,6 +162,11 @@ export function binaryMorphology(src: Image, op: MorphologyOp, radius: number, b
     case 'close':
       result = erodeOnce(dilateOnce(source));
       break;
+  }
+  // A workspace image keeps the result in bits until its samples are read.
+  if (out instanceof DeferrableImage && out.width === src.width && out.height === src.height) {
+    out.defer(result);
+    return out;
   }
   const dst = imageLike(src, out);
   unpackMask(result, dst.data);

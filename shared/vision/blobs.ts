@@ -1,5 +1,6 @@
 // Connected components: blobs are the 8-connected groups of non-zero pixels, optionally restricted
 // to a region given as one span of columns per row, labelled over runs of set bits (run-labels.ts).
+import { pendingMask } from './deferrable-image';
 import { simdKernels } from './engine';
 import type { Image } from './image';
 import { sampleBits } from './ordered-keys';
@@ -47,7 +48,9 @@ export function findBlobs(image: Image, spans: RowSpans = wholeImageSpans(image.
 
 function nonZeroWords(image: Image): Int32Array {
   const simd = simdKernels();
-  return simd ? simd.nonZeroWords(image) : packNonZero(image);
+  if (simd) return simd.nonZeroWords(image);
+  // A mask still in packed bits is its own non-zero words (bits past the last column are 0).
+  return pendingMask(image)?.words ?? packNonZero(image);
 }
 
 /** Bit i of word k of row y set when pixel (32k + i, y) is not zero (NaN counts as not zero, −0 as zero, as `!== 0`). */

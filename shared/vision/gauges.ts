@@ -1,7 +1,9 @@
 // Gauges: measurements of a step's output inside a region, converted to the gauge's unit and
 // compared with its limits (inclusive).
 import type { Gauge, GaugeMeasure, GaugeUnit, Limits, Region } from '../rules/schema';
+import type { PackedMask } from './binary-morphology';
 import { findBlobs, wholeImageSpans, type RowSpans } from './blobs';
+import { pendingMask } from './deferrable-image';
 import { simdKernels } from './engine';
 import type { Image } from './image';
 import { sampleBits } from './ordered-keys';
@@ -52,6 +54,8 @@ function nonZeroShare(image: Image, spans: RowSpans): number {
     const n = spanPixelCount(spans);
     return n === 0 ? NaN : simd.countNonZero(image, spans.start, spans.end) / n;
   }
+  const packed = pendingMask(image);
+  if (packed) return setBitShare(packed, spans);
   const w = image.width;
   // Float32 bit patterns: a value is non-zero (NaN included) exactly when a bit other than the sign is set.
   const bits = sampleBits(image.data);
@@ -66,6 +70,37 @@ function nonZeroShare(image: Image, spans: RowSpans): number {
     for (let p = row + start; p < row + end; p++) set += -(bits[p] & 0x7fffffff) >>> 31;
   }
   return n === 0 ? NaN : set / n;
+}
+
+/** nonZeroShare of a 0/1 mask from its packed bits: the set bits of each row's span, 32 columns a word. */
+function setBitShare(mask: PackedMask, spans: RowSpans): number {
+  const { wordsPerRow, words } = mask;
+  let n = 0;
+  let set = 0;
+  for (let y = 0; y < spans.start.length; y++) {
+    const start = spans.start[y];
+    const end = spans.end[y];
+    if (end <= start) continue;
+    n += end - start;
+    const row = y * wordsPerRow;
+    const first = start >>> 5;
+    const last = (end - 1) >>> 5;
+    for (let k = first; k <= last; k++) {
+      let word = words[row + k];
+      if (k === first) word &= -1 << (start & 31);
+      const past = end - (k << 5);
+      if (k === last && past < 32) word &= (1 << past) - 1;
+      set += bitCount(word);
+    }
+  }
+  return n === 0 ? NaN : set / n;
+}
+
+/** Set bits of a 32-bit word, by the parallel sideways sum (H. S. Warren, Hacker's Delight, 2nd ed., §5-1). */
+function bitCount(word: number): number {
+  let v = word - ((word >>> 1) & 0x55555555);
+  v = (v & 0x33333333) + ((v >>> 2) & 0x33333333);
+  return Math.imul((v + (v >>> 4)) & 0x0f0f0f0f, 0x01010101) >>> 24;
 }
 
 /** The measure in pixel units (px, px²) or unitless; NaN for statistics of an empty region. */

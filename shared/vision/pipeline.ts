@@ -5,6 +5,7 @@ import { validateRuleDocument, type Gauge, type GaugeMeasure, type GaugeUnit, ty
 import { MAX_PACKED_RADIUS, type PackedMask } from './binary-morphology';
 import type { BorderMode } from './border';
 import { correlate } from './convolve';
+import { DeferrableImage } from './deferrable-image';
 import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, withinLimits } from './gauges';
 import { gradient } from './gradient';
 import type { BitDepth, Image, RawPhoto, ValueRange } from './image';
@@ -109,7 +110,13 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const needed = new Set<number>(rule.gauges.map((g) => g.step ?? rule.steps.length));
   needed.add(rule.steps.length);
   const spare: Image[] = [];
-  const take = () => spare.pop() ?? workspace.take(photo.width, photo.height);
+  // A spare image is overwritten by the step that takes it: samples it still holds in packed bits go unwritten.
+  const take = () => {
+    const image = spare.pop();
+    if (!image) return workspace.take(photo.width, photo.height);
+    if (image instanceof DeferrableImage) image.discard();
+    return image;
+  };
   const handover: Handover = { range: { min: NaN, max: NaN }, packed: null, workspace, packedReady: false };
 
   // A rule whose first step is separable (a Gaussian and a gradient after it that nobody else reads

@@ -2,7 +2,9 @@
 // costs page faults and garbage-collection pressure that can exceed the filtering itself, so a
 // batch (a trial, a worker thread, the preview) keeps a few spare buffers of the last image size.
 // With the SIMD engine the buffers live in its WebAssembly memory, where the kernels work in place.
+// Either engine's buffers may hold a mask in packed bits until it is read (deferrable-image.ts).
 import { createPackedMask, type PackedMask } from './binary-morphology';
+import { DeferrableImage } from './deferrable-image';
 import { simdKernels } from './engine';
 import { createImage, type Image } from './image';
 import { isResident, ResidentImage } from './wasm/resident-image';
@@ -24,9 +26,10 @@ export class ImageWorkspace {
     const index = this.spare.findIndex((b) => (simd ? simd.owns(b) : !isResident(b)) && b.width * b.height === pixels);
     if (index >= 0) {
       const [image] = this.spare.splice(index, 1);
-      return image.width === width && image.height === height ? image : reshape(image, width, height);
+      const ready = image.width === width && image.height === height && (simd !== null || image instanceof DeferrableImage);
+      return ready ? image : reshape(image, width, height);
     }
-    return simd ? simd.takeImage(width, height) : createImage(width, height);
+    return simd ? simd.takeImage(width, height) : new DeferrableImage(width, height, new Float32Array(pixels));
   }
 
   /**
@@ -41,7 +44,7 @@ export class ImageWorkspace {
 
   /** Hands a buffer back; the caller must not use the image afterwards. Detached buffers are ignored. */
   give(image: Image): void {
-    if (isResident(image)) image.discard();
+    if (isResident(image) || image instanceof DeferrableImage) image.discard();
     if (this.spare.some((b) => sameBuffer(b, image))) return;
     if (!isResident(image) && image.data.length === 0) return;
     // Keep the buffers of the latest size only: a station does not change its camera between photos.
@@ -51,10 +54,12 @@ export class ImageWorkspace {
   }
 
   /**
-   * An image in ordinary memory with the same samples: a resident image is copied out and its
-   * buffer handed back (for results that leave the workspace), any other image is returned as it is.
+   * An image in ordinary memory with the same samples, its samples written (for results that leave
+   * the workspace): a resident image is copied out and its buffer handed back, a plain workspace
+   * image becomes an ordinary one on the same buffer, any other image is returned as it is.
    */
   detach(image: Image): Image {
+    if (image instanceof DeferrableImage) return createImage(image.width, image.height, image.data);
     if (!isResident(image)) return image;
     const copy = createImage(image.width, image.height, image.data.slice());
     this.give(image);
@@ -86,5 +91,5 @@ function free(image: Image): void {
 /** The same buffer seen with another width and height of the same pixel count. */
 function reshape(image: Image, width: number, height: number): Image {
   if (isResident(image)) return new ResidentImage(image.heap, image.address, width, height);
-  return createImage(width, height, image.data);
+  return new DeferrableImage(width, height, image.data);
 }

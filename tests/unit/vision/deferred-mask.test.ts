@@ -1,19 +1,25 @@
-// A mask the SIMD engine's packed-bit morphology writes into its workspace keeps its samples in
-// packed bits until something reads them (shared/vision/wasm/resident-image.ts): the edge fraction
-// and the blobs read the bits. Every figure must equal the one from the written samples, the samples
-// must appear when read, and a buffer given back must never show a stale mask.
+// A mask the packed-bit morphology writes into a workspace image keeps its samples in packed bits
+// until something reads them, on both engines (shared/vision/wasm/resident-image.ts for SIMD,
+// shared/vision/deferrable-image.ts for plain): the edge fraction and the blobs read the bits. Every
+// figure must equal the one from the written samples, the samples must appear when read, and a
+// buffer given back must never show a stale mask.
 import { labelBlobs } from '../../../shared/vision/blobs';
-import { setEngine, simdKernels } from '../../../shared/vision/engine';
+import { pendingMask } from '../../../shared/vision/deferrable-image';
+import { setEngine, simdKernels, type EngineName } from '../../../shared/vision/engine';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
-import { createImage } from '../../../shared/vision/image';
+import { createImage, type Image } from '../../../shared/vision/image';
 import { morphology } from '../../../shared/vision/morphology';
 import { gaussianBlur } from '../../../shared/vision/smoothing';
 import { isResident } from '../../../shared/vision/wasm/resident-image';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
 import { seededRandom } from './images';
 
-beforeAll(() => setEngine('simd'));
 afterAll(() => setEngine('auto'));
+
+/** True while the image's samples wait in packed bits. */
+function deferred(image: Image): boolean {
+  return isResident(image) ? image.packedMask !== null : pendingMask(image) !== null;
+}
 
 /** A 0/1 mask of blobs and noise, 77 columns (not a multiple of 32, so rows end inside a word). */
 function noisyMask(width: number, height: number, seed: number): Float32Array {
@@ -25,49 +31,75 @@ function noisyMask(width: number, height: number, seed: number): Float32Array {
   });
 }
 
-test('the opening of a mask in a workspace: edge fraction, blobs and samples equal those of the same opening written out', () => {
-  expect(simdKernels()).not.toBeNull();
-  const [w, h] = [77, 45];
-  const workspace = new ImageWorkspace();
-  const source = workspace.take(w, h);
-  source.data.set(noisyMask(w, h, 5));
-  const out = workspace.take(w, h);
-  const deferred = morphology(source, 'open', 1, 'reflect', out);
-  expect(isResident(deferred) && deferred.packedMask !== null).toBe(true);
-  // The reference: the same opening into ordinary memory, written at once.
-  const written = morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect');
-  for (const region of [undefined, { shape: 'rect' as const, x: 0.13, y: 0.2, w: 0.61, h: 0.5 }, { shape: 'circle' as const, cx: 0.5, cy: 0.5, r: 0.3 }]) {
-    const spans = regionSpans(w, h, region);
-    expect(measurePixels(deferred, 'edge-fraction', spans)).toBe(measurePixels(written, 'edge-fraction', spans));
-    expect(labelBlobs(deferred, spans)).toEqual(labelBlobs(written, spans));
-  }
-  // Counting from the bits wrote no samples; reading them does.
-  expect(isResident(deferred) && deferred.packedMask !== null).toBe(true);
-  expect(Array.from(deferred.data)).toEqual(Array.from(written.data));
-  expect(isResident(deferred) && deferred.packedMask === null).toBe(true);
-});
+describe.each<EngineName>(['simd', 'plain'])('%s engine', (engine) => {
+  beforeAll(() => setEngine(engine));
 
-test('a deferred mask read by the next step, and a buffer given back while deferred, show no stale samples', () => {
-  const [w, h] = [77, 45];
-  const workspace = new ImageWorkspace();
-  const source = workspace.take(w, h);
-  source.data.set(noisyMask(w, h, 9));
-  const opened = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
-  // Closing straight from the opening's bits equals closing its written samples.
-  const closed = morphology(opened, 'close', 2, 'reflect', workspace.take(w, h));
-  const expected = morphology(morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect'), 'close', 2, 'reflect');
-  expect(Array.from(closed.data)).toEqual(Array.from(expected.data));
-  // A Gaussian of the deferred opening reads its samples.
-  const opened2 = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
-  const blurred = gaussianBlur(opened2, 1, 'reflect', workspace.take(w, h));
-  const blurredExpected = gaussianBlur(morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect'), 1, 'reflect');
-  expect(Array.from(blurred.data)).toEqual(Array.from(blurredExpected.data));
-  // Given back deferred, then reused as another step's output: that step's samples, not the mask.
-  const heap = (source as unknown as { heap: { blocksInUse: number } }).heap;
-  const stale = morphology(source, 'dilate', 3, 'reflect', workspace.take(w, h));
-  const inUse = heap.blocksInUse;
-  workspace.give(stale);
-  expect(heap.blocksInUse).toBe(inUse - 1);
-  const reused = gaussianBlur(source, 2, 'reflect', workspace.take(w, h));
-  expect(Array.from(reused.data)).toEqual(Array.from(gaussianBlur(createImage(w, h, source.data.slice()), 2, 'reflect').data));
+  test('edge fraction from the bits in spans that start and end on and beside word boundaries equals the count of the written samples', () => {
+    const [w, h] = [77, 45];
+    const workspace = new ImageWorkspace();
+    const source = workspace.take(w, h);
+    source.data.set(noisyMask(w, h, 13));
+    const opened = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
+    const written = morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect');
+    const edges = [0, 1, 31, 32, 33, 63, 64, 65, 76, 77];
+    const rand = seededRandom(21);
+    for (let trial = 0; trial < 20; trial++) {
+      const pick = () => edges[Math.floor(rand() * edges.length)];
+      const start = Int32Array.from({ length: h }, pick);
+      const end = Int32Array.from({ length: h }, pick);
+      const spans = { start, end };
+      expect(measurePixels(opened, 'edge-fraction', spans)).toBe(measurePixels(written, 'edge-fraction', spans));
+    }
+    expect(deferred(opened)).toBe(true);
+  });
+
+  test('the opening of a mask in a workspace: edge fraction, blobs and samples equal those of the same opening written out', () => {
+    expect(simdKernels() !== null).toBe(engine === 'simd');
+    const [w, h] = [77, 45];
+    const workspace = new ImageWorkspace();
+    const source = workspace.take(w, h);
+    source.data.set(noisyMask(w, h, 5));
+    const out = workspace.take(w, h);
+    const opened = morphology(source, 'open', 1, 'reflect', out);
+    expect(opened).toBe(out);
+    expect(deferred(opened)).toBe(true);
+    // The reference: the same opening into ordinary memory, written at once.
+    const written = morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect');
+    for (const region of [undefined, { shape: 'rect' as const, x: 0.13, y: 0.2, w: 0.61, h: 0.5 }, { shape: 'circle' as const, cx: 0.5, cy: 0.5, r: 0.3 }]) {
+      const spans = regionSpans(w, h, region);
+      expect(measurePixels(opened, 'edge-fraction', spans)).toBe(measurePixels(written, 'edge-fraction', spans));
+      expect(labelBlobs(opened, spans)).toEqual(labelBlobs(written, spans));
+    }
+    // Counting from the bits wrote no samples; reading them does.
+    expect(deferred(opened)).toBe(true);
+    expect(Array.from(opened.data)).toEqual(Array.from(written.data));
+    expect(deferred(opened)).toBe(false);
+  });
+
+  test('a deferred mask read by the next step, and a buffer given back while deferred, show no stale samples', () => {
+    const [w, h] = [77, 45];
+    const workspace = new ImageWorkspace();
+    const source = workspace.take(w, h);
+    source.data.set(noisyMask(w, h, 9));
+    const opened = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
+    // Closing straight from the opening's bits equals closing its written samples.
+    const closed = morphology(opened, 'close', 2, 'reflect', workspace.take(w, h));
+    const expected = morphology(morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect'), 'close', 2, 'reflect');
+    expect(Array.from(closed.data)).toEqual(Array.from(expected.data));
+    // A Gaussian of the deferred opening reads its samples.
+    const opened2 = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
+    const blurred = gaussianBlur(opened2, 1, 'reflect', workspace.take(w, h));
+    const blurredExpected = gaussianBlur(morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect'), 1, 'reflect');
+    expect(Array.from(blurred.data)).toEqual(Array.from(blurredExpected.data));
+    // Given back deferred, then reused as another step's output: that step's samples, not the mask.
+    const heap = engine === 'simd' ? (source as unknown as { heap: { blocksInUse: number } }).heap : null;
+    const stale = morphology(source, 'dilate', 3, 'reflect', workspace.take(w, h));
+    expect(deferred(stale)).toBe(true);
+    const inUse = heap?.blocksInUse ?? 0;
+    workspace.give(stale);
+    expect(deferred(stale)).toBe(false);
+    if (heap) expect(heap.blocksInUse).toBe(inUse - 1);
+    const reused = gaussianBlur(source, 2, 'reflect', workspace.take(w, h));
+    expect(Array.from(reused.data)).toEqual(Array.from(gaussianBlur(createImage(w, h, source.data.slice()), 2, 'reflect').data));
+  });
 });

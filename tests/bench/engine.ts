@@ -1,7 +1,8 @@
 // Benchmark of the vision engine, both its paths (plain TypeScript and WebAssembly SIMD), against
 // OpenCV (WebAssembly, @techstark/opencv-js 4.5.2) and sharp (libvips), on photos generated in memory
 // at 5 MP (2592x1944) and 1.3 MP (1280x1024). Prints ns per pixel (best and median of the runs,
-// every contender timed in turn), the ratios to OpenCV, ns per 1-D pass of the convolutions, the
+// every contender timed in turn; the standard pipeline also with each contender's runs back to
+// back, caches warm), the ratios to OpenCV, ns per 1-D pass of the convolutions, the
 // whole rule run, the worker pool's throughput against one thread, the photo-received-to-verdict
 // split of a 5 MP JPEG, peak memory, and the machine's load before and after (it is shared).
 // The plain engine is timed in a process of its own, with OpenCV in turn (plainInOwnProcess).
@@ -122,6 +123,30 @@ function inTurn(runs: number, contenders: Record<string, () => unknown>): Record
     }
   }
   return Object.fromEntries(names.map((n) => [n, summary(wall[n], cpu[n])]));
+}
+
+/**
+ * Times each contender's runs one after another (after one warm-up), so that every run starts with
+ * the caches as the same contender's previous run left them, as a stream of photos through one
+ * worker does. In turn (inTurn) the others' runs come between and evict its buffers.
+ */
+function backToBack(runs: number, contenders: Record<string, () => unknown>): Record<string, Timing> {
+  const times: Record<string, Timing> = {};
+  for (const [name, run] of Object.entries(contenders)) {
+    run();
+    const wall: number[] = [];
+    const cpu: number[] = [];
+    for (let i = 0; i < runs; i++) {
+      const c0 = process.cpuUsage();
+      const t0 = performance.now();
+      run();
+      wall.push(performance.now() - t0);
+      const used = process.cpuUsage(c0);
+      cpu.push((used.user + used.system) / 1000);
+    }
+    times[name] = summary(wall, cpu);
+  }
+  return times;
 }
 
 async function timeAsync(runs: number, fn: () => Promise<unknown>): Promise<Timing> {
@@ -264,8 +289,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
     cv.threshold(m4, m2, 0, 1, cv.THRESH_BINARY | cv.THRESH_OTSU);
     cv.morphologyEx(m2, m3, cv.MORPH_OPEN, square3, anchor, 1, REFLECT);
   };
-  // The headline figure: twice the runs of the single steps.
-  const pipeline = inTurn(2 * runs, {
+  const pipelines = {
     ...onEngines(buffers, ({ input, a, b, c }) => {
       const range = { min: NaN, max: NaN };
       gaussianGradient(input, 1, 'sobel', 'magnitude', 'reflect', b, range, a);
@@ -274,8 +298,11 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
       morphology(a, 'open', 1, 'reflect', b, c, packed);
     }),
     opencv: openCvPipeline,
-  });
+  };
+  // The headline figure: twice the runs of the single steps.
+  const pipeline = inTurn(2 * runs, pipelines);
   rows.push({ step: 'standard pipeline (G1→Sobel mag→Otsu→open1)', times: pipeline, note: 'OpenCV: 32F filters, 8U Otsu and open' });
+  rows.push({ step: 'the same, each one\'s runs back to back', times: backToBack(2 * runs, pipelines), note: 'caches as its own last run left them' });
 
   // A batch reuses the buffers of finished runs, as a trial, a worker thread or the preview does.
   const workspaces = { plain: new ImageWorkspace(), simd: new ImageWorkspace() };
@@ -761,6 +788,8 @@ async function main(): Promise<void> {
     const cvPlain = t.opencvForPlain;
     console.log(`  ${r.label}: plain ${f(t.plain)} (OpenCV there ${f(cvPlain)}), simd ${f(t.simd)}, OpenCV ${f(t.opencv)}; simd/OpenCV ${(t.simd.best / t.opencv.best).toFixed(3)} best, ${(t.simd.median / t.opencv.median).toFixed(3)} median; plain/OpenCV ${(t.plain.best / cvPlain.best).toFixed(2)} best, ${(t.plain.median / cvPlain.median).toFixed(2)} median`);
     console.log(`  ${r.label} CPU time: plain ${t.plain.cpuBest.toFixed(1)} (OpenCV there ${cvPlain.cpuBest.toFixed(1)}), simd ${t.simd.cpuBest.toFixed(1)}, OpenCV ${t.opencv.cpuBest.toFixed(1)}; simd/OpenCV ${(t.simd.cpuBest / t.opencv.cpuBest).toFixed(3)}`);
+    const warm = r.rows.find((row) => row.step.startsWith('the same, each'))!.times;
+    console.log(`  ${r.label} back to back: plain ${f(warm.plain)} (OpenCV there ${f(warm.opencvForPlain)}), simd ${f(warm.simd)}, OpenCV ${f(warm.opencv)}; simd/OpenCV ${(warm.simd.best / warm.opencv.best).toFixed(3)} best, ${(warm.simd.median / warm.opencv.median).toFixed(3)} median; plain/OpenCV ${(warm.plain.best / warm.opencvForPlain.best).toFixed(2)} best`);
     const whole = r.rows.find((row) => row.step.startsWith('whole rule run'))!.times;
     console.log(`  ${r.label} whole rule run: plain ${f(whole.plain)}, simd ${f(whole.simd)}`);
   }

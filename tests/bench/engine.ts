@@ -112,17 +112,18 @@ function inTurn(runs: number, contenders: Record<string, () => unknown>): Record
   const wall: Record<string, number[]> = {};
   const cpu: Record<string, number[]> = {};
   for (const name of names) (wall[name] = []), (cpu[name] = []);
-  for (let i = 0; i < runs; i++) {
-    for (const name of names) {
-      const c0 = process.cpuUsage();
-      const t0 = performance.now();
-      contenders[name]();
-      wall[name].push(performance.now() - t0);
-      const used = process.cpuUsage(c0);
-      cpu[name].push((used.user + used.system) / 1000);
-    }
-  }
+  for (let i = 0; i < runs; i++) for (const name of names) timeOnce(contenders[name], wall[name], cpu[name]);
   return Object.fromEntries(names.map((n) => [n, summary(wall[n], cpu[n])]));
+}
+
+/** Runs `run` once, adding its wall time and this process's CPU time (ms) to the lists. */
+function timeOnce(run: () => unknown, wall: number[], cpu: number[]): void {
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  run();
+  wall.push(performance.now() - t0);
+  const used = process.cpuUsage(c0);
+  cpu.push((used.user + used.system) / 1000);
 }
 
 /**
@@ -136,14 +137,7 @@ function backToBack(runs: number, contenders: Record<string, () => unknown>): Re
     run();
     const wall: number[] = [];
     const cpu: number[] = [];
-    for (let i = 0; i < runs; i++) {
-      const c0 = process.cpuUsage();
-      const t0 = performance.now();
-      run();
-      wall.push(performance.now() - t0);
-      const used = process.cpuUsage(c0);
-      cpu.push((used.user + used.system) / 1000);
-    }
+    for (let i = 0; i < runs; i++) timeOnce(run, wall, cpu);
     times[name] = summary(wall, cpu);
   }
   return times;

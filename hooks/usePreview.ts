@@ -1,15 +1,18 @@
 // The draft editor's live preview: the photo's samples as the server decodes them, the same engine
-// run in the browser after each change (debounced), the time from change to updated preview, and
-// a check of the browser's numbers against the server, which stays the authority.
+// run in the browser after each change, the time from change to updated preview, and a check of the
+// browser's numbers against the server, which stays the authority. When a change runs: previewPause.ts.
 import { useEffect, useRef, useState } from 'react';
 import { useMutation, useQuery } from '@tanstack/react-query';
 import type { PreviewResult } from '../shared/api/preview';
+import { validateRuleDocument } from '../shared/rules/schema';
 import { prepareEngine, type EngineName } from '../shared/vision/engine';
 import { ImageWorkspace } from '../shared/vision/workspace';
 import { releaseRun, RuleRunError, runRule, type KernelLibrary, type RuleRun } from '../shared/vision/pipeline';
 import { fetchPhotoSamples, runServerPreview, type PhotoSamples } from '../lib/api';
+import { previewPauseMs } from '../components/preview/previewPause';
 
-export const PREVIEW_DEBOUNCE_MS = 150;
+/** One frame: "Updating…" is on screen before the run takes the main thread. */
+const NEXT_FRAME_MS = 16;
 
 export const previewKeys = {
   all: ['preview'] as const,
@@ -32,6 +35,8 @@ export interface LocalPreview {
   error: RuleRunError | Error | null;
   /** From the change that asked for this run to the updated preview on screen, in ms. */
   changeToPreviewMs: number | null;
+  /** The pause for typing that run waited (0 when it ran at the next frame). */
+  pauseMs: number;
   running: boolean;
   /** The engine the preview runs on: WebAssembly SIMD where the browser has it, else plain TypeScript. */
   engine: EngineName | null;
@@ -51,7 +56,9 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
   const workspace = useRef<ImageWorkspace | null>(null);
   workspace.current ??= new ImageWorkspace();
   const current = useRef<RuleRun | null>(null);
-  const [outcome, setOutcome] = useState<{ run: RuleRun | null; error: RuleRunError | Error | null; askedAt: number }>({ run: null, error: null, askedAt: 0 });
+  const [outcome, setOutcome] = useState<{ run: RuleRun | null; error: RuleRunError | Error | null; askedAt: number; pauseMs: number }>({ run: null, error: null, askedAt: 0, pauseMs: 0 });
+  const lastChange = useRef(Number.NEGATIVE_INFINITY);
+  const lastRunMs = useRef(0);
   const [changeToPreviewMs, setChangeToPreviewMs] = useState<number | null>(null);
   const [running, setRunning] = useState(false);
   const [engine, setEngineName] = useState<EngineName | null>(null);
@@ -83,18 +90,22 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
     const ws = workspace.current!;
     setRunning(true);
     const askedAt = changedAt;
+    const now = performance.now();
+    const pauseMs = previewPauseMs({ sinceLastChangeMs: now - lastChange.current, lastRunMs: lastRunMs.current, valid: validateRuleDocument(JSON.parse(documentKey)).ok });
+    lastChange.current = now;
     const timer = setTimeout(() => {
       if (current.current) releaseRun(current.current, ws);
       current.current = null;
       try {
         const run = runRule(JSON.parse(documentKey), samples, { kernels, mmPerPx, workspace: ws, retain: 'all' });
         current.current = run;
-        setOutcome({ run, error: null, askedAt });
+        lastRunMs.current = run.ms;
+        setOutcome({ run, error: null, askedAt, pauseMs });
       } catch (error) {
-        setOutcome({ run: null, error: error instanceof Error ? error : new Error(String(error)), askedAt });
+        setOutcome({ run: null, error: error instanceof Error ? error : new Error(String(error)), askedAt, pauseMs });
       }
       setRunning(false);
-    }, PREVIEW_DEBOUNCE_MS);
+    }, pauseMs || NEXT_FRAME_MS);
     return () => clearTimeout(timer);
   }, [documentKey, samples, kernels, mmPerPx, changedAt, engine]);
 
@@ -105,7 +116,7 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
     return () => cancelAnimationFrame(frame);
   }, [outcome]);
 
-  return { run: outcome.run, error: outcome.error, changeToPreviewMs, running, engine };
+  return { run: outcome.run, error: outcome.error, changeToPreviewMs, pauseMs: outcome.pauseMs, running, engine };
 }
 
 export interface ServerComparison {

@@ -9,7 +9,7 @@ import { RuleRunError, type RuleRun } from '../../shared/vision/pipeline';
 import { colors, radius, space } from '../../lib/theme';
 import { useKernelLibrary } from '../../hooks/useKernels';
 import { useReferenceImages } from '../../hooks/useReferenceSets';
-import { compareWithServer, PREVIEW_DEBOUNCE_MS, useLocalPreview, usePhotoSamples, useServerPreview } from '../../hooks/usePreview';
+import { compareWithServer, useLocalPreview, usePhotoSamples, useServerPreview } from '../../hooks/usePreview';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { ChoiceChips } from '../ChoiceChips';
@@ -124,7 +124,7 @@ export function PreviewPanel(props: PreviewPanelProps) {
                 {`${image.fileName} · labelled ${labelText(image)} · ${samples.data.width}×${samples.data.height}, ${samples.data.bitDepth}-bit`}
               </AppText>
               <AppText variant="caption" tone="muted" role="status" aria-live="polite">
-                {`${preview.running ? 'Updating… ' : ''}Engine ${preview.run.ms.toFixed(0)} ms${preview.engine ? ` on ${ENGINE_WORDS[preview.engine]}` : ''}${preview.changeToPreviewMs !== null ? ` · change to updated preview ${preview.changeToPreviewMs.toFixed(0)} ms (includes a ${PREVIEW_DEBOUNCE_MS} ms pause for typing)` : ''}`}
+                {`${preview.running ? 'Updating… ' : ''}Engine ${preview.run.ms.toFixed(0)} ms${preview.engine ? ` on ${ENGINE_WORDS[preview.engine]}` : ''}${preview.changeToPreviewMs !== null ? ` · change to updated preview ${preview.changeToPreviewMs.toFixed(0)} ms${preview.pauseMs > 0 ? ` (includes a ${preview.pauseMs} ms pause for typing)` : ''}` : ''}`}
               </AppText>
             </View>
           </View>

@@ -7,7 +7,7 @@ import type { PreviewResult } from '../shared/api/preview';
 import { validateRuleDocument } from '../shared/rules/schema';
 import { prepareEngine, type EngineName } from '../shared/vision/engine';
 import { ImageWorkspace } from '../shared/vision/workspace';
-import { releaseRun, RuleRunError, runRule, type KernelLibrary, type RuleRun } from '../shared/vision/pipeline';
+import { releaseRun, remeasureRun, RuleRunError, runRule, type KernelLibrary, type RuleRun } from '../shared/vision/pipeline';
 import { fetchPhotoSamples, runServerPreview, type PhotoSamples } from '../lib/api';
 import { previewPauseMs } from '../components/preview/previewPause';
 
@@ -37,6 +37,8 @@ export interface LocalPreview {
   changeToPreviewMs: number | null;
   /** The pause for typing that run waited (0 when it ran at the next frame). */
   pauseMs: number;
+  /** True when the last change touched only gauges or limits, measured again on the kept images (run.ms is that time). */
+  gaugesOnly: boolean;
   running: boolean;
   /** The engine the preview runs on: WebAssembly SIMD where the browser has it, else plain TypeScript. */
   engine: EngineName | null;
@@ -56,9 +58,17 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
   const workspace = useRef<ImageWorkspace | null>(null);
   workspace.current ??= new ImageWorkspace();
   const current = useRef<RuleRun | null>(null);
-  const [outcome, setOutcome] = useState<{ run: RuleRun | null; error: RuleRunError | Error | null; askedAt: number; pauseMs: number }>({ run: null, error: null, askedAt: 0, pauseMs: 0 });
+  const [outcome, setOutcome] = useState<{ run: RuleRun | null; error: RuleRunError | Error | null; askedAt: number; pauseMs: number; gaugesOnly: boolean }>({
+    run: null,
+    error: null,
+    askedAt: 0,
+    pauseMs: 0,
+    gaugesOnly: false,
+  });
   const lastChange = useRef(Number.NEGATIVE_INFINITY);
   const lastRunMs = useRef(0);
+  /** The photo samples and kernel library the kept run was made with. */
+  const lastInputs = useRef<{ samples: PhotoSamples | null; kernels: KernelLibrary | null }>({ samples: null, kernels: null });
   const [changeToPreviewMs, setChangeToPreviewMs] = useState<number | null>(null);
   const [running, setRunning] = useState(false);
   const [engine, setEngineName] = useState<EngineName | null>(null);
@@ -88,8 +98,27 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
   useEffect(() => {
     if (!samples || engine === null) return;
     const ws = workspace.current!;
-    setRunning(true);
     const askedAt = changedAt;
+    // A change of gauges, limits, regions or quality limits only: measured again on the last run's images.
+    const last = current.current;
+    if (last && lastInputs.current.samples === samples && lastInputs.current.kernels === kernels) {
+      try {
+        const again = remeasureRun(last, JSON.parse(documentKey), { mmPerPx });
+        if (again) {
+          current.current = again;
+          lastChange.current = performance.now();
+          setOutcome({ run: again, error: null, askedAt, pauseMs: 0, gaugesOnly: true });
+          setRunning(false);
+          return;
+        }
+      } catch (error) {
+        // Only mm gauges without calibration are refused here; the run keeps its images for the next change.
+        setOutcome({ run: null, error: error instanceof Error ? error : new Error(String(error)), askedAt, pauseMs: 0, gaugesOnly: true });
+        setRunning(false);
+        return;
+      }
+    }
+    setRunning(true);
     const now = performance.now();
     const pauseMs = previewPauseMs({ sinceLastChangeMs: now - lastChange.current, lastRunMs: lastRunMs.current, valid: validateRuleDocument(JSON.parse(documentKey)).ok });
     lastChange.current = now;
@@ -99,10 +128,11 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
       try {
         const run = runRule(JSON.parse(documentKey), samples, { kernels, mmPerPx, workspace: ws, retain: 'all' });
         current.current = run;
+        lastInputs.current = { samples, kernels };
         lastRunMs.current = run.ms;
-        setOutcome({ run, error: null, askedAt, pauseMs });
+        setOutcome({ run, error: null, askedAt, pauseMs, gaugesOnly: false });
       } catch (error) {
-        setOutcome({ run: null, error: error instanceof Error ? error : new Error(String(error)), askedAt, pauseMs });
+        setOutcome({ run: null, error: error instanceof Error ? error : new Error(String(error)), askedAt, pauseMs, gaugesOnly: false });
       }
       setRunning(false);
     }, pauseMs || NEXT_FRAME_MS);
@@ -116,7 +146,7 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
     return () => cancelAnimationFrame(frame);
   }, [outcome]);
 
-  return { run: outcome.run, error: outcome.error, changeToPreviewMs, pauseMs: outcome.pauseMs, running, engine };
+  return { run: outcome.run, error: outcome.error, changeToPreviewMs, pauseMs: outcome.pauseMs, gaugesOnly: outcome.gaugesOnly, running, engine };
 }
 
 export interface ServerComparison {

@@ -4,7 +4,7 @@
 import { useEffect, useMemo, useState } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import type { Station } from '../../shared/api/stations';
-import type { Region } from '../../shared/rules/schema';
+import { regionSchema, type Region } from '../../shared/rules/schema';
 import { RuleRunError, type RuleRun } from '../../shared/vision/pipeline';
 import { colors, radius, space } from '../../lib/theme';
 import { useKernelLibrary } from '../../hooks/useKernels';
@@ -38,8 +38,15 @@ interface PreviewPanelProps {
   target: PreviewTarget;
   onTarget: (target: PreviewTarget) => void;
   regions: OverlayRegion[];
-  drawing: { key: string; shape: Region['shape'] } | null;
+  /** The gauge whose region is being drawn: its key, shape and place among the document's gauges. */
+  drawing: { key: string; shape: Region['shape']; index: number } | null;
   onRegionDrawn: (key: string, region: Region) => void;
+}
+
+/** The document with gauge `index` measuring inside `region` (the region under the finger while it drags). */
+function withGaugeRegion(document: Record<string, unknown>, index: number, region: Region): Record<string, unknown> {
+  const gauges = Array.isArray(document.gauges) ? (document.gauges as Record<string, unknown>[]) : [];
+  return { ...document, gauges: gauges.map((g, i) => (i === index ? { ...g, region } : g)) };
 }
 
 const STEP_WORDS: Record<string, string> = {
@@ -63,7 +70,11 @@ export function PreviewPanel(props: PreviewPanelProps) {
   const setImages = useReferenceImages(target.setId, { label: null, defectKind: null, limit: PICKER_PAGE, offset: 0 });
   const image = setImages.data?.items.find((i) => i.id === target.imageId) ?? null;
   const samples = usePhotoSamples(image ? { id: image.id, imageUrl: image.imageUrl } : null);
-  const preview = useLocalPreview({ document, changedAt, samples: samples.data, kernels, mmPerPx: station?.mmPerPx ?? undefined });
+  // While a region is dragged the preview measures inside it (the gauge alone, on the same images); the draft changes on release.
+  const [rubber, setRubber] = useState<{ region: Region; at: number } | null>(null);
+  const onDrawing = (region: Region | null) => setRubber(region && regionSchema.safeParse(region).success ? { region, at: performance.now() } : null);
+  const previewDocument = useMemo(() => (rubber && drawing ? withGaugeRegion(document, drawing.index, rubber.region) : document), [document, rubber, drawing]);
+  const preview = useLocalPreview({ document: previewDocument, changedAt: rubber?.at ?? changedAt, samples: samples.data, kernels, mmPerPx: station?.mmPerPx ?? undefined });
   const server = useServerPreview();
   const [selected, setSelected] = useState<number | null>(null);
   const [zoom, setZoom] = useState<(typeof ZOOMS)[number]>('1');
@@ -124,7 +135,7 @@ export function PreviewPanel(props: PreviewPanelProps) {
                 {`${image.fileName} · labelled ${labelText(image)} · ${samples.data.width}×${samples.data.height}, ${samples.data.bitDepth}-bit`}
               </AppText>
               <AppText variant="caption" tone="muted" role="status" aria-live="polite">
-                {`${preview.running ? 'Updating… ' : ''}Engine ${preview.run.ms.toFixed(0)} ms${preview.engine ? ` on ${ENGINE_WORDS[preview.engine]}` : ''}${preview.changeToPreviewMs !== null ? ` · change to updated preview ${preview.changeToPreviewMs.toFixed(0)} ms${preview.pauseMs > 0 ? ` (includes a ${preview.pauseMs} ms pause for typing)` : ''}` : ''}`}
+                {`${preview.running ? 'Updating… ' : ''}${preview.gaugesOnly ? `Gauges measured again on the same images in ${preview.run.ms.toFixed(0)} ms` : `Engine ${preview.run.ms.toFixed(0)} ms`}${preview.engine ? ` on ${ENGINE_WORDS[preview.engine]}` : ''}${preview.changeToPreviewMs !== null ? ` · change to updated preview ${preview.changeToPreviewMs.toFixed(0)} ms${preview.pauseMs > 0 ? ` (includes a ${preview.pauseMs} ms pause for typing)` : ''}` : ''}`}
               </AppText>
             </View>
           </View>
@@ -160,14 +171,14 @@ export function PreviewPanel(props: PreviewPanelProps) {
                 {zoom === '1' ? (
                   <View>
                     <StepCanvas image={shown.image} kind={shown.kind} maxSide={largeSide} label={`${shown.title} output, large`} />
-                    <RegionOverlay regions={regions} drawing={drawing} aspect={shown.image.width / shown.image.height} onDrawn={onRegionDrawn} />
+                    <RegionOverlay regions={regions} drawing={drawing} aspect={shown.image.width / shown.image.height} onDrawn={onRegionDrawn} onDrawing={onDrawing} />
                   </View>
                 ) : (
                   <ScrollView horizontal style={styles.zoomBox}>
                     <ScrollView style={styles.zoomBox}>
                       <View style={{ width: frameWidth * Number(zoom) }}>
                         <StepCanvas image={shown.image} kind={shown.kind} maxSide={largeSide} label={`${shown.title} output, zoomed ${zoom} times`} />
-                        <RegionOverlay regions={regions} drawing={drawing} aspect={shown.image.width / shown.image.height} onDrawn={onRegionDrawn} />
+                        <RegionOverlay regions={regions} drawing={drawing} aspect={shown.image.width / shown.image.height} onDrawn={onRegionDrawn} onDrawing={onDrawing} />
                       </View>
                     </ScrollView>
                   </ScrollView>

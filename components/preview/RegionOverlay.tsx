@@ -19,6 +19,8 @@ interface RegionOverlayProps {
   /** Photo width / height, so a circle's radius follows min(width, height) as the engine does. */
   aspect: number;
   onDrawn: (key: string, region: Region) => void;
+  /** The region under the finger while it drags (null when the drag ends), for a live measurement. */
+  onDrawing?: (region: Region | null) => void;
 }
 
 const TAP_SLOP_PX = 8;
@@ -69,7 +71,7 @@ function boxOf(region: Region, aspect: number): Box {
   return { left: region.cx - rx, top: region.cy - ry, width: 2 * rx, height: 2 * ry, round: true };
 }
 
-export function RegionOverlay({ regions, drawing, aspect, onDrawn }: RegionOverlayProps) {
+export function RegionOverlay({ regions, drawing, aspect, onDrawn, onDrawing }: RegionOverlayProps) {
   const [size, setSize] = useState({ width: 1, height: 1 });
   const start = useRef<{ x: number; y: number; px: number; py: number } | null>(null);
   const [firstCorner, setFirstCorner] = useState<{ x: number; y: number } | null>(null);
@@ -91,18 +93,23 @@ export function RegionOverlay({ regions, drawing, aspect, onDrawn }: RegionOverl
         onResponderTerminate: () => {
           start.current = null;
           setRubber(null);
+          onDrawing?.(null);
         },
         onResponderGrant: (e: GestureResponderEvent) => {
           start.current = point(e);
         },
         onResponderMove: (e: GestureResponderEvent) => {
-          if (start.current) setRubber(regionFromCorners(start.current, point(e), drawing.shape, aspect));
+          if (!start.current) return;
+          const region = regionFromCorners(start.current, point(e), drawing.shape, aspect);
+          setRubber(region);
+          onDrawing?.(region);
         },
         onResponderRelease: (e: GestureResponderEvent) => {
           const end = point(e);
           const begin = start.current;
           start.current = null;
           setRubber(null);
+          onDrawing?.(null);
           if (!begin) return;
           const dragged = Math.hypot(end.px - begin.px, end.py - begin.py) > TAP_SLOP_PX;
           const from = dragged ? begin : firstCorner;

@@ -64,7 +64,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   const station = stations.find((s) => s.id === stationId) ?? null;
 
   const drawingGauge = state.gauges.find((g) => g.key === drawingKey);
-  const drawing = drawingGauge?.gauge.region ? { key: drawingGauge.key, shape: drawingGauge.gauge.region.shape } : null;
+  const drawing = drawingGauge?.gauge.region ? { key: drawingGauge.key, shape: drawingGauge.gauge.region.shape, index: state.gauges.indexOf(drawingGauge) } : null;
   const regions = state.gauges.flatMap((g) => (g.gauge.region ? [{ key: g.key, name: g.gauge.name, region: g.gauge.region }] : []));
   const onRegionDrawn = (key: string, region: Region) => {
     const entry = state.gauges.find((g) => g.key === key);

@@ -192,7 +192,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   }
 
   const measurements = rule.gauges.map((g) => measure(g, outputs, rule.steps.length, options.mmPerPx));
-  const verdict: Verdict = !quality.pass ? 'RETAKE' : measurements.every((m) => m.pass) ? 'PASS' : 'FAIL';
+  const verdict = verdictOf(quality, measurements);
   const retainedSteps = steps.map((s) => (outputs[s.index] ? s : { ...s, output: null }));
   for (const image of spare) workspace.give(image);
   if (!ownWorkspace) return { rule, verdict, quality, measurements, steps: retainedSteps, input, bitDepth: photo.bitDepth, ms: now() - started };
@@ -200,6 +200,37 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   const detachedInput = workspace.detach(input);
   workspace.dispose();
   return { rule, verdict, quality, measurements, steps: detached, input: detachedInput, bitDepth: photo.bitDepth, ms: now() - started };
+}
+
+/**
+ * The run's measurements and verdict for another version of its rule whose input channel, border and
+ * steps are the same (only the gauges, their limits and regions, or the quality gate's limits differ),
+ * from the images the run kept: a gauge edit in the preview needs no new pass over the photo. The new
+ * run shares the images (hand back only one of the two). null when the document does not validate,
+ * its pipeline differs, or an image a gauge reads was not kept: run it instead. Throws RuleRunError
+ * for mm gauges without calibration, as runRule does.
+ */
+export function remeasureRun(run: RuleRun, document: unknown, options: Pick<RunOptions, 'mmPerPx'> = {}): RuleRun | null {
+  const started = now();
+  const validation = validateRuleDocument(document);
+  if (!validation.ok) return null;
+  const rule = validation.rule;
+  if (pipelineKey(rule) !== pipelineKey(run.rule)) return null;
+  const outputs = [run.input, ...run.steps.map((s) => s.output)];
+  if (rule.gauges.some((g) => !outputs[g.step ?? rule.steps.length])) return null;
+  checkCalibration(rule, options.mmPerPx);
+  const quality = judgeQuality(run.quality, rule.quality);
+  const measurements = rule.gauges.map((g) => measure(g, outputs, rule.steps.length, options.mmPerPx));
+  return { ...run, rule, quality, measurements, verdict: verdictOf(quality, measurements), ms: now() - started };
+}
+
+/** What decides a run's images: the input channel, the border and the steps. */
+function pipelineKey(rule: RuleDocument): string {
+  return JSON.stringify([rule.input, rule.border, rule.steps]);
+}
+
+function verdictOf(quality: QualityJudgement, measurements: Measurement[]): Verdict {
+  return !quality.pass ? 'RETAKE' : measurements.every((m) => m.pass) ? 'PASS' : 'FAIL';
 }
 
 /** Hands the buffers of a finished run (input and retained outputs) to the workspace; the run must not be used afterwards. */

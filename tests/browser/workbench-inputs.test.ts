@@ -276,10 +276,14 @@ describe('at wide width', () => {
     await page.mouse.down();
     await page.mouse.move((from.x + to.x) / 2, (from.y + to.y) / 2, { steps: 4 });
     await page.mouse.move(to.x, to.y, { steps: 4 });
+    // Measured inside the region under the pointer before it is let go: block B alone.
+    await expectShownValue(page, '2000 px²');
     await page.mouse.up();
     // Block B alone: 50×40 px, within the limit.
     await expectShownValue(page, '2000 px²');
     await page.getByRole('heading', { name: 'Preview verdict: PASS' }).waitFor();
+    // Only the gauge changed: measured again on the last run's images, the pipeline not run again.
+    await page.getByText(/^Gauges measured again on the same images in \d+ ms/).waitFor();
     await page.getByRole('button', { name: `Draw the region of ${GAUGE} on the preview` }).waitFor();
     await screenshot(page, 'workbench-region-rect-wide');
     await page.getByRole('table', { name: 'Gauge values' }).scrollIntoViewIfNeeded();

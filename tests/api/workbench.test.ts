@@ -6,6 +6,7 @@ import { runRule } from '../../shared/vision/pipeline';
 import { UserEntity } from '../../server/components/auth/entities';
 import { loadKernelLibrary } from '../../server/vision/kernel-library';
 import { createTestApp, TEST_PASSWORD, type TestApp } from '../support/app';
+import { STANDARD_STEPS } from '../support/standard-steps';
 
 jest.setTimeout(60_000);
 
@@ -17,12 +18,7 @@ let imageUrl: string;
 const RULE = {
   format: 'kernwright-rule/1',
   name: 'Edges',
-  steps: [
-    { op: 'gaussian', sigma: 1 },
-    { op: 'gradient', operator: 'sobel', output: 'magnitude' },
-    { op: 'threshold', method: 'otsu' },
-    { op: 'open', radius: 1 },
-  ],
+  steps: STANDARD_STEPS,
   gauges: [
     { name: 'Edge share', measure: 'edge-fraction', limits: { max: 0.5 } },
     { name: 'Largest blob', measure: 'largest-blob-area', unit: 'px2', limits: { max: 5000 } },

@@ -10,18 +10,14 @@ import {
   startingDocument,
   type EditorState,
 } from '../../../components/rules/ruleEditorState';
+import { STANDARD_STEPS } from '../../support/standard-steps';
 
 const DOCUMENT = {
   format: 'kernwright-rule/1',
   name: 'Bracket slot',
   input: { channel: 'green' },
   border: 'replicate',
-  steps: [
-    { op: 'gaussian', sigma: 1 },
-    { op: 'gradient', operator: 'sobel', output: 'magnitude' },
-    { op: 'threshold', method: 'otsu' },
-    { op: 'open', radius: 1 },
-  ],
+  steps: STANDARD_STEPS,
   gauges: [
     { name: 'Edge share', measure: 'edge-fraction', step: 3, limits: { max: 0.2 } },
     { name: 'Slot area', measure: 'largest-blob-area', unit: 'px2', limits: { min: 100, max: 900 } },

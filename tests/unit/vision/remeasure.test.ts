@@ -7,6 +7,7 @@ import { releaseRun, remeasureRun, RuleRunError, runRule, type RuleRun } from '.
 import { ImageWorkspace } from '../../../shared/vision/workspace';
 import { ENGINES, useEngine } from './engines';
 import { partImage } from './images';
+import { STANDARD_STEPS } from '../../support/standard-steps';
 
 const [W, H] = [97, 61];
 const photo: RawPhoto = { width: W, height: H, channels: 1, bitDepth: 8, samples: Uint8Array.from(partImage(W, H, 255, 7).data) };
@@ -14,12 +15,7 @@ const photo: RawPhoto = { width: W, height: H, channels: 1, bitDepth: 8, samples
 const base: RuleDocumentInput = {
   format: 'kernwright-rule/1',
   name: 'Disc edges',
-  steps: [
-    { op: 'gaussian', sigma: 1 },
-    { op: 'gradient', operator: 'sobel', output: 'magnitude' },
-    { op: 'threshold', method: 'otsu' },
-    { op: 'open', radius: 1 },
-  ],
+  steps: STANDARD_STEPS,
   gauges: [
     { name: 'Edge share', measure: 'edge-fraction', limits: { max: 0.5 } },
     { name: 'Marks', measure: 'blob-count', limits: { max: 40 } },

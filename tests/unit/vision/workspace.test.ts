@@ -3,6 +3,7 @@ import type { RawPhoto } from '../../../shared/vision/image';
 import { releaseRun, runRule } from '../../../shared/vision/pipeline';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
 import { onEngine } from './engines';
+import { STANDARD_STEPS } from '../../support/standard-steps';
 
 const photo: RawPhoto = (() => {
   const w = 45;
@@ -15,12 +16,7 @@ const photo: RawPhoto = (() => {
 const rule = {
   format: 'kernwright-rule/1',
   name: 'Bright corner',
-  steps: [
-    { op: 'gaussian', sigma: 1 },
-    { op: 'gradient', operator: 'sobel', output: 'magnitude' },
-    { op: 'threshold', method: 'otsu' },
-    { op: 'open', radius: 1 },
-  ],
+  steps: STANDARD_STEPS,
   gauges: [
     { name: 'edges', measure: 'edge-fraction', limits: { max: 0.5 } },
     { name: 'mean gradient', measure: 'mean', step: 2, limits: { max: 1000 } },

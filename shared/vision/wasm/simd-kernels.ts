@@ -54,7 +54,8 @@ export interface EngineExports {
   regionSums(src: number, w: number, h: number, starts: number, ends: number, out: number): void;
   regionSquares(src: number, w: number, h: number, starts: number, ends: number, mean: number): number;
   lumaRgb8(src: number, channels: number, n: number, dst: number, kr: number, kg: number, kb: number): void;
-  lumaRgb8Quality(src: number, channels: number, w: number, h: number, dst: number, kr: number, kg: number, kb: number, top: number, out: number): void;
+  lumaRgb8Quality(src: number, channels: number, w: number, h: number, dst: number, kr: number, kg: number, kb: number, top: number, out: number, scratch: number): void;
+  wideRingBytes(w: number): number;
   grey8Quality(src: number, w: number, h: number, dst: number, out: number): void;
   box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
   boxScratchBytes(w: number, size: number): number;
@@ -533,9 +534,9 @@ export class SimdKernels {
    */
   photoWithQualitySums(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, out: Image): QualitySums | null {
     const { width: w, height: h } = out;
-    return this.fromPhoto(samples, channels, weights, out, false, (src, k, sums, dst) => {
+    return this.fromPhoto(samples, channels, weights, out, false, (src, k, sums, dst, scope) => {
       if (channels === 1) this.wasm.grey8Quality(src, w, h, dst, sums);
-      else this.wasm.lumaRgb8Quality(src, channels, w, h, dst, k[0], k[1], k[2], 255, sums);
+      else this.wasm.lumaRgb8Quality(src, channels, w, h, dst, k[0], k[1], k[2], 255, sums, scope.alloc(this.wasm.wideRingBytes(w)));
     });
   }
 

@@ -9,7 +9,7 @@ export { smoothedGradient, smoothedGradientScratchBytes, smoothedGradientBytes, 
 export { eightBitLevels, valueRange, histogram, histogramScratchBytes, thresholdAt, thresholdAtPacked, thresholdBinsPacked } from './threshold';
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero, countSetBits } from './blobs';
-export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares } from './statistics';
+export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares, wideRingBytes } from './statistics';
 export { lumaRgb8 } from './channels';
 export { lumaRgb8Quality, grey8Quality } from './input-quality';
 export { box, boxScratchBytes } from './box';

@@ -1,22 +1,26 @@
 // A photo's input image and the quality gate's sums in one pass over its rows: each row is converted
 // and then summed while it is still in the cache, instead of a second pass over the whole float32
 // image (20 MB at 5 MP).
-import { at, borderIndex, REFLECT } from './border';
+import { align16, at, borderIndex, REFLECT } from './border';
 import { bytesToFloats, lumaRgb8 } from './channels';
-import { finishQualitySums, qualityRows, startQualitySums } from './statistics';
+import { finishQualitySums, qualityRowsWide, startQualitySums, widenRow } from './statistics';
 
 /**
- * 8-bit colour: dst = luma as lumaRgb8 writes it, out = qualitySums(dst) with the same bits (each row's
- * sums are added once the row below it is converted).
+ * 8-bit colour: dst = luma as lumaRgb8 writes it, out = qualitySums(dst) with the same per-pixel terms
+ * (each row's sums are added once the row below it is converted, from rows widened to float64 in
+ * `scratch`, wideRingBytes(w) bytes).
  */
-export function lumaRgb8Quality(src: usize, channels: i32, w: i32, h: i32, dst: usize, kr: i32, kg: i32, kb: i32, top: f32, out: usize): void {
+export function lumaRgb8Quality(src: usize, channels: i32, w: i32, h: i32, dst: usize, kr: i32, kg: i32, kb: i32, top: f32, out: usize, scratch: usize): void {
   startQualitySums();
+  const wide = align16(scratch);
   const rowBytes = <usize>(w * channels);
   for (let y = 0; y < h; y++) {
-    lumaRgb8(src + <usize>y * rowBytes, channels, w, at(dst, y * w), kr, kg, kb);
-    if (y > 0) qualityRows(dst, 0, w, h, y - 1, y, top);
+    const row = at(dst, y * w);
+    lumaRgb8(src + <usize>y * rowBytes, channels, w, row, kr, kg, kb);
+    widenRow(row, w, y, wide);
+    if (y > 0) qualityRowsWide(wide, w, h, y - 1, y, top);
   }
-  if (h > 0) qualityRows(dst, 0, w, h, h - 1, h, top);
+  if (h > 0) qualityRowsWide(wide, w, h, h - 1, h, top);
   finishQualitySums(out);
 }
 

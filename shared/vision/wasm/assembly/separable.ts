@@ -2,7 +2,7 @@
 // padded line (border filled by the policy), the horizontal pass reads it. Four pixels per v128,
 // float32 arithmetic; symmetric kernels add the mirrored samples first (one multiply per pair).
 import { align16, at, borderIndex, fillLineBorder, OUTSIDE, rowAddress } from './border';
-import { convertPhotoRows, finishPhotoRows, photoRingRows, startPhotoRows } from './photo-rows';
+import { convertPhotoRows, finishPhotoRows, photoRingBytes, photoRingRows, startPhotoRows } from './photo-rows';
 
 /** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */
 export function separableScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
@@ -45,7 +45,7 @@ export function separableBytes(src: usize, channels: i32, kr: i32, kg: i32, kb: 
 
 /** Scratch bytes `separableBytes` needs: those of `separable` and its ring of source rows. */
 export function separableBytesScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
-  return separableScratchBytes(w, colLen, rowLen) + 16 + photoRingRows(colLen) * 4 * w;
+  return separableScratchBytes(w, colLen, rowLen) + 16 + photoRingBytes(colLen, w);
 }
 
 /** Readies the scratch of `separableRows` (its row of zeros) for a w-wide image. */

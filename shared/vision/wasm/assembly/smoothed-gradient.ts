@@ -3,7 +3,7 @@
 // cache, instead of a whole smoothed image written out and read back. Both parts run the row
 // functions of the two steps' own kernels, so every sample comes out as from the two steps in turn.
 import { align16, at, borderIndex, OUTSIDE } from './border';
-import { convertPhotoRows, finishPhotoRows, photoRingRows, startPhotoRows } from './photo-rows';
+import { convertPhotoRows, finishPhotoRows, photoRingBytes, photoRingRows, startPhotoRows } from './photo-rows';
 import { gradientRow, gradientScratchBytes, prepareGradientScratch, storeRange } from './gradient';
 import { prepareSeparableScratch, separableRows, separableScratchBytes } from './separable';
 
@@ -17,7 +17,7 @@ export function smoothedGradientScratchBytes(w: i32, colLen: i32, rowLen: i32): 
 
 /** Scratch bytes `smoothedGradientBytes` needs: those of smoothedGradient and its ring of source rows. */
 export function smoothedGradientBytesScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
-  return smoothedGradientScratchBytes(w, colLen, rowLen) + 16 + photoRingRows(colLen) * 4 * w;
+  return smoothedGradientScratchBytes(w, colLen, rowLen) + 16 + photoRingBytes(colLen, w);
 }
 
 /**

@@ -47,7 +47,7 @@ export interface EngineExports {
   packedExtreme(src: number, dst: number, w: number, h: number, r: number, takeMax: number, outside: number, scratch: number): void;
   packedScratchBytes(w: number): number;
   packNonZero(src: number, w: number, h: number, words: number): void;
-  qualitySums(src: number, w: number, h: number, top: number, out: number): void;
+  qualitySums(src: number, w: number, h: number, top: number, out: number, scratch: number): void;
   qualitySumsWhole8(src: number, w: number, h: number, out: number): void;
   countNonZero(src: number, w: number, h: number, starts: number, ends: number): number;
   countSetBits(words: number, wordsPerRow: number, w: number, h: number, starts: number, ends: number): number;
@@ -454,7 +454,7 @@ export class SimdKernels {
     return this.read(image, (s, scope) => {
       const out = scope.alloc(32);
       if (top === 255 && this.wasm.eightBitLevels(s, image.data.length) === 1) this.wasm.qualitySumsWhole8(s, image.width, image.height, out);
-      else this.wasm.qualitySums(s, image.width, image.height, top, out);
+      else this.wasm.qualitySums(s, image.width, image.height, top, out, scope.alloc(this.wasm.wideRingBytes(image.width)));
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, out, 4);
       return { sum, clipped, lapSum, lapSquares };
     });

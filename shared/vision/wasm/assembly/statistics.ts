@@ -1,12 +1,12 @@
 // Sums over an image for the quality gate and the gauges, in double precision where the plain engine
 // sums in double precision (each pixel's terms in the same order; the sums themselves in other order).
-import { at, borderIndex, REFLECT } from './border';
+import { align16, at, borderIndex, REFLECT } from './border';
 import { storeExtremes } from './extremes';
 
 /**
- * The quality gate's running sums: Σv and Σlap and Σlap² as float64 pairs, the clipped count as int32
- * lanes, then the scalar columns' Σv, Σlap, Σlap² (float64) and count (int32). Static: the module runs
- * one call at a time.
+ * The quality gate's running sums: Σv and Σlap and Σlap² as float64 pairs (bytes 0, 16, 32), then Σv,
+ * Σlap, Σlap² of the columns summed one at a time (float64, bytes 64, 72, 80) and the clipped count
+ * (int32, byte 88; bytes 48–63 unused). Static: the module runs one call at a time.
  */
 const QUALITY_SUMS: usize = memory.data(96, 16);
 
@@ -14,87 +14,21 @@ const QUALITY_SUMS: usize = memory.data(96, 16);
  * out[0] = Σ v, out[1] = number of v ≥ top, out[2] = Σ lap, out[3] = Σ lap² as four float64, where lap
  * is the 4-neighbour Laplacian with the reflect border, computed per pixel as the plain engine does:
  * up + down + left + right − 4·centre in double precision (first and last columns: up + down + 2·inner − 4·centre).
+ * Each row is widened to float64 once into a ring of three rows in `scratch` (wideRingBytes(w) bytes).
  */
-export function qualitySums(src: usize, w: i32, h: i32, top: f32, out: usize): void {
+export function qualitySums(src: usize, w: i32, h: i32, top: f32, out: usize, scratch: usize): void {
   startQualitySums();
-  qualityRows(src, 0, w, h, 0, h, top);
+  const wide = align16(scratch);
+  for (let y = 0; y < h; y++) {
+    widenRow(at(src, y * w), w, y, wide);
+    if (y > 0) qualityRowsWide(wide, w, h, y - 1, y, top);
+  }
+  if (h > 0) qualityRowsWide(wide, w, h, h - 1, h, top);
   finishQualitySums(out);
 }
 
 export function startQualitySums(): void {
   memory.fill(QUALITY_SUMS, 0, 96);
-}
-
-/**
- * Adds rows y0 … y1−1 of the image to the quality gate's running sums (see qualitySums). With `ring`
- * > 0, src holds only some rows, row k in slot k mod ring (rows y0 − 1 … y1 must be there).
- */
-export function qualityRows(src: usize, ring: i32, w: i32, h: i32, y0: i32, y1: i32, top: f32): void {
-  let sum = v128.load(QUALITY_SUMS);
-  let lapSum = v128.load(QUALITY_SUMS, 16);
-  let lapSquares = v128.load(QUALITY_SUMS, 32);
-  let clippedLanes = v128.load(QUALITY_SUMS, 48);
-  let sumScalar = load<f64>(QUALITY_SUMS, 64);
-  let lapSumScalar = load<f64>(QUALITY_SUMS, 72);
-  let lapSquaresScalar = load<f64>(QUALITY_SUMS, 80);
-  let clipped = load<i32>(QUALITY_SUMS, 88);
-  const vtop = f32x4.splat(top);
-  const four = f64x2.splat(4);
-  for (let y = y0; y < y1; y++) {
-    const c = ringRow(src, ring, y, w);
-    const up = ringRow(src, ring, borderIndex(y - 1, h, REFLECT), w);
-    const down = ringRow(src, ring, borderIndex(y + 1, h, REFLECT), w);
-    if (w == 1) {
-      const v = <f64>load<f32>(c);
-      const lap = <f64>load<f32>(up) + <f64>load<f32>(down) - 2 * v;
-      sumScalar += v;
-      clipped += load<f32>(c) >= top ? 1 : 0;
-      lapSumScalar += lap;
-      lapSquaresScalar += lap * lap;
-      continue;
-    }
-    const v0 = <f64>load<f32>(c);
-    const vLast = <f64>load<f32>(at(c, w - 1));
-    const first = <f64>load<f32>(up) + <f64>load<f32>(down) + 2 * <f64>load<f32>(at(c, 1)) - 4 * v0;
-    const last = <f64>load<f32>(at(up, w - 1)) + <f64>load<f32>(at(down, w - 1)) + 2 * <f64>load<f32>(at(c, w - 2)) - 4 * vLast;
-    lapSumScalar += first + last;
-    lapSquaresScalar += first * first + last * last;
-    sumScalar += v0 + vLast;
-    clipped += (load<f32>(c) >= top ? 1 : 0) + (load<f32>(at(c, w - 1)) >= top ? 1 : 0);
-    let x = 1;
-    for (; x + 4 <= w - 1; x += 4) {
-      const o = (<usize>x) << 2;
-      const u = v128.load(up + o), d = v128.load(down + o), l = v128.load(c + o - 4), r = v128.load(c + o + 4), m = v128.load(c + o);
-      clippedLanes = i32x4.sub(clippedLanes, f32x4.ge(m, vtop));
-      // Low and high halves as float64 pairs.
-      let lap = laplacianPair(f64x2.promote_low_f32x4(u), f64x2.promote_low_f32x4(d), f64x2.promote_low_f32x4(l), f64x2.promote_low_f32x4(r), f64x2.promote_low_f32x4(m), four);
-      sum = f64x2.add(sum, f64x2.promote_low_f32x4(m));
-      lapSum = f64x2.add(lapSum, lap);
-      lapSquares = f64x2.add(lapSquares, f64x2.mul(lap, lap));
-      const uh = v128.shuffle<f32>(u, u, 2, 3, 0, 1), dh = v128.shuffle<f32>(d, d, 2, 3, 0, 1), lh = v128.shuffle<f32>(l, l, 2, 3, 0, 1);
-      const rh = v128.shuffle<f32>(r, r, 2, 3, 0, 1), mh = v128.shuffle<f32>(m, m, 2, 3, 0, 1);
-      lap = laplacianPair(f64x2.promote_low_f32x4(uh), f64x2.promote_low_f32x4(dh), f64x2.promote_low_f32x4(lh), f64x2.promote_low_f32x4(rh), f64x2.promote_low_f32x4(mh), four);
-      sum = f64x2.add(sum, f64x2.promote_low_f32x4(mh));
-      lapSum = f64x2.add(lapSum, lap);
-      lapSquares = f64x2.add(lapSquares, f64x2.mul(lap, lap));
-    }
-    for (; x < w - 1; x++) {
-      const centre = <f64>load<f32>(at(c, x));
-      const lap = <f64>load<f32>(at(up, x)) + <f64>load<f32>(at(down, x)) + <f64>load<f32>(at(c, x - 1)) + <f64>load<f32>(at(c, x + 1)) - 4 * centre;
-      sumScalar += centre;
-      clipped += load<f32>(at(c, x)) >= top ? 1 : 0;
-      lapSumScalar += lap;
-      lapSquaresScalar += lap * lap;
-    }
-  }
-  v128.store(QUALITY_SUMS, sum);
-  v128.store(QUALITY_SUMS, lapSum, 16);
-  v128.store(QUALITY_SUMS, lapSquares, 32);
-  v128.store(QUALITY_SUMS, clippedLanes, 48);
-  store<f64>(QUALITY_SUMS, sumScalar, 64);
-  store<f64>(QUALITY_SUMS, lapSumScalar, 72);
-  store<f64>(QUALITY_SUMS, lapSquaresScalar, 80);
-  store<i32>(QUALITY_SUMS, clipped, 88);
 }
 
 /** Rows of the quality gate's widened ring: a row and its neighbours above and below. */
@@ -125,9 +59,9 @@ export function widenRow(src: usize, w: i32, y: i32, wide: usize): void {
 }
 
 /**
- * qualityRows from rows already widened to float64 (widenRow; rows y−1 … y+1 of each row y in the
- * ring): the same per-pixel terms, added in the same order, without widening every sample five
- * times (as centre, up, down, left and right). Colour photos' luma takes this way.
+ * Adds rows y0 … y1−1 of the image to the quality gate's running sums (see qualitySums), from rows
+ * already widened to float64 (widenRow; rows y−1 … y+1 of each row y in the ring): each sample is
+ * widened once, not five times (as centre, up, down, left and right).
  */
 export function qualityRowsWide(wide: usize, w: i32, h: i32, y0: i32, y1: i32, top: f32): void {
   let sum = v128.load(QUALITY_SUMS);
@@ -166,7 +100,7 @@ export function qualityRowsWide(wide: usize, w: i32, h: i32, y0: i32, y1: i32, t
     let x = 1;
     for (; x + 4 <= w - 1; x += 4) {
       const o = (<usize>x) << 3;
-      // Pixels x, x+1, then x+2, x+3: the order qualityRows adds them in.
+      // Pixels x, x+1, then x+2, x+3 into the same pairs of sums.
       let m = v128.load(c + o);
       let lap = laplacianPair(v128.load(up + o), v128.load(down + o), v128.load(c + o - 8), v128.load(c + o + 8), m, four);
       clippedWide = i64x2.sub(clippedWide, f64x2.ge(m, vtop));
@@ -199,17 +133,11 @@ export function qualityRowsWide(wide: usize, w: i32, h: i32, y0: i32, y1: i32, t
   store<i32>(QUALITY_SUMS, clipped + <i32>(i64x2.extract_lane(clippedWide, 0) + i64x2.extract_lane(clippedWide, 1)), 88);
 }
 
-@inline
-function ringRow(src: usize, ring: i32, y: i32, w: i32): usize {
-  return at(src, (ring > 0 ? y % ring : y) * w);
-}
-
 /** The running sums' totals, as qualitySums stores them at out. */
 export function finishQualitySums(out: usize): void {
-  const sum = v128.load(QUALITY_SUMS), lapSum = v128.load(QUALITY_SUMS, 16), lapSquares = v128.load(QUALITY_SUMS, 32), clippedLanes = v128.load(QUALITY_SUMS, 48);
-  const clipped = load<i32>(QUALITY_SUMS, 88);
+  const sum = v128.load(QUALITY_SUMS), lapSum = v128.load(QUALITY_SUMS, 16), lapSquares = v128.load(QUALITY_SUMS, 32);
   store<f64>(out, load<f64>(QUALITY_SUMS, 64) + f64x2.extract_lane(sum, 0) + f64x2.extract_lane(sum, 1));
-  store<f64>(out, <f64>(clipped + i32x4.extract_lane(clippedLanes, 0) + i32x4.extract_lane(clippedLanes, 1) + i32x4.extract_lane(clippedLanes, 2) + i32x4.extract_lane(clippedLanes, 3)), 8);
+  store<f64>(out, <f64>load<i32>(QUALITY_SUMS, 88), 8);
   store<f64>(out, load<f64>(QUALITY_SUMS, 72) + f64x2.extract_lane(lapSum, 0) + f64x2.extract_lane(lapSum, 1), 16);
   store<f64>(out, load<f64>(QUALITY_SUMS, 80) + f64x2.extract_lane(lapSquares, 0) + f64x2.extract_lane(lapSquares, 1), 24);
 }

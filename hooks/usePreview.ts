@@ -9,7 +9,7 @@ import { prepareEngine, type EngineName } from '../shared/vision/engine';
 import { ImageWorkspace } from '../shared/vision/workspace';
 import { releaseRun, remeasureRun, RuleRunError, runRule, type KernelLibrary, type RuleRun } from '../shared/vision/pipeline';
 import { fetchPhotoSamples, runServerPreview, type PhotoSamples } from '../lib/api';
-import { previewPauseMs } from '../components/preview/previewPause';
+import { previewPauseMs } from './previewPause';
 
 /** One frame: "Updating…" is on screen before the run takes the main thread. */
 const NEXT_FRAME_MS = 16;
@@ -99,11 +99,12 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
     if (!samples || engine === null) return;
     const ws = workspace.current!;
     const askedAt = changedAt;
+    const document: unknown = JSON.parse(documentKey);
     // A change of gauges, limits, regions or quality limits only: measured again on the last run's images.
     const last = current.current;
     if (last && lastInputs.current.samples === samples && lastInputs.current.kernels === kernels) {
       try {
-        const again = remeasureRun(last, JSON.parse(documentKey), { mmPerPx });
+        const again = remeasureRun(last, document, { mmPerPx });
         if (again) {
           current.current = again;
           lastChange.current = performance.now();
@@ -120,13 +121,13 @@ export function useLocalPreview({ document, changedAt, samples, kernels, mmPerPx
     }
     setRunning(true);
     const now = performance.now();
-    const pauseMs = previewPauseMs({ sinceLastChangeMs: now - lastChange.current, lastRunMs: lastRunMs.current, valid: validateRuleDocument(JSON.parse(documentKey)).ok });
+    const pauseMs = previewPauseMs({ sinceLastChangeMs: now - lastChange.current, lastRunMs: lastRunMs.current, valid: validateRuleDocument(document).ok });
     lastChange.current = now;
     const timer = setTimeout(() => {
       if (current.current) releaseRun(current.current, ws);
       current.current = null;
       try {
-        const run = runRule(JSON.parse(documentKey), samples, { kernels, mmPerPx, workspace: ws, retain: 'all' });
+        const run = runRule(document, samples, { kernels, mmPerPx, workspace: ws, retain: 'all' });
         current.current = run;
         lastInputs.current = { samples, kernels };
         lastRunMs.current = run.ms;

@@ -25,8 +25,6 @@ export function createPackedMask(width: number, height: number): PackedMask {
   return { width, height, wordsPerRow, words: new Int32Array(wordsPerRow * height) };
 }
 
-
-
 /**
  * Packs an image whose every value is 0 or 1; null as soon as another value turns up.
  * Bits past the last column are left 0. Works on the bit patterns: 1.0 is 0x3f800000 (bit 29 set),

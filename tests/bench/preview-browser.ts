@@ -129,7 +129,7 @@ async function measure(url: string, ruleId: string, withoutWebAssembly: boolean,
       const pixels = ((photo.width * photo.height) / 1e6).toFixed(1);
       // Each change right after the last update (as typing comes), then each after a pause (as clicks
       // and drawn regions come): the first wait for the editor's pause for typing, the second run at
-      // the next frame when the engine keeps up (hooks/usePreview.ts). One change first to warm up.
+      // the next frame when the engine keeps up (hooks/previewPause.ts). One change first to warm up.
       for (const [mode, gapMs] of [['quick succession', 0], ['single changes', 400]] as const) {
         const readings: Reading[] = [];
         for (let i = 0; i <= CHANGES; i++) {

@@ -1,6 +1,6 @@
 // When the live preview runs after a change: at the next frame for a single change when the engine
-// keeps up and the draft validates, after the pause for typing otherwise (components/preview/previewPause.ts).
-import { PREVIEW_DEBOUNCE_MS, previewPauseMs, QUICK_RUN_MS } from '../../../components/preview/previewPause';
+// keeps up and the draft validates, after the pause for typing otherwise (hooks/previewPause.ts).
+import { PREVIEW_DEBOUNCE_MS, previewPauseMs, QUICK_RUN_MS } from '../../../hooks/previewPause';
 
 test('a single change with a quick engine and a valid draft runs at the next frame', () => {
   expect(previewPauseMs({ sinceLastChangeMs: Infinity, lastRunMs: 0, valid: true })).toBe(0);

@@ -15,6 +15,11 @@ export interface ShownMeasurement {
 
 const UNIT_TEXT: Record<string, string> = { px: 'px', px2: 'px²', mm: 'mm', mm2: 'mm²' };
 
+/** A gauge value with its unit, as the table shows it. */
+export function valueWithUnit(value: number, unit: string | null): string {
+  return `${formatValue(value)}${unit ? ` ${UNIT_TEXT[unit] ?? unit}` : ''}`;
+}
+
 export function describeLimits(limits: Limits, unit: string | null): string {
   const u = unit ? ` ${UNIT_TEXT[unit] ?? unit}` : '';
   if (limits.min !== undefined && limits.max !== undefined) return `${limits.min} to ${limits.max}${u}`;
@@ -29,7 +34,7 @@ export function MeasurementTable({ measurements }: { measurements: ShownMeasurem
       {measurements.map((m) => (
         <View role="row" key={m.name} style={styles.row}>
           <AppText role="cell" variant="bodyStrong" style={styles.name}>{m.name}</AppText>
-          <AppText role="cell" style={styles.value}>{`${formatValue(m.value)}${m.unit ? ` ${UNIT_TEXT[m.unit] ?? m.unit}` : ''}`}</AppText>
+          <AppText role="cell" style={styles.value}>{valueWithUnit(m.value, m.unit)}</AppText>
           <AppText role="cell" tone="muted" style={styles.limits}>{describeLimits(m.limits, m.unit)}</AppText>
           <AppText role="cell" variant="label" tone={m.pass ? 'notice' : 'danger'} style={styles.outcome}>
             {m.pass ? '✓ within limits' : '✕ outside limits'}

@@ -16,7 +16,7 @@ import { ChoiceChips } from '../ChoiceChips';
 import { ErrorBanner } from '../ErrorBanner';
 import { ErrorState, LoadingState } from '../StateViews';
 import { VerdictMark } from '../inspect/VerdictMark';
-import { MeasurementTable } from './MeasurementTable';
+import { MeasurementTable, valueWithUnit } from './MeasurementTable';
 import { PICKER_PAGE, PhotoPicker, labelText } from './PhotoPicker';
 import { RegionOverlay, type OverlayRegion } from './RegionOverlay';
 import { SamplingNotice } from './SamplingNotice';
@@ -75,6 +75,7 @@ export function PreviewPanel(props: PreviewPanelProps) {
   const onDrawing = (region: Region | null) => setRubber(region && regionSchema.safeParse(region).success ? { region, at: performance.now() } : null);
   const previewDocument = useMemo(() => (rubber && drawing ? withGaugeRegion(document, drawing.index, rubber.region) : document), [document, rubber, drawing]);
   const preview = useLocalPreview({ document: previewDocument, changedAt: rubber?.at ?? changedAt, samples: samples.data, kernels, mmPerPx: station?.mmPerPx ?? undefined });
+  const draggedMeasurement = drawing && preview.run?.measurements[drawing.index];
   const server = useServerPreview();
   const [selected, setSelected] = useState<number | null>(null);
   const [zoom, setZoom] = useState<(typeof ZOOMS)[number]>('1');
@@ -188,6 +189,12 @@ export function PreviewPanel(props: PreviewPanelProps) {
               {drawing ? (
                 <AppText tone="caution" accessibilityLiveRegion="polite">
                   ✎ Drag across the photo, or tap two opposite corners, to set the region.
+                </AppText>
+              ) : null}
+              {/* The measurement table may be off screen on a phone while the finger drags: the value under it shows here too. */}
+              {drawing && rubber && draggedMeasurement ? (
+                <AppText variant="bodyStrong" accessibilityLiveRegion="polite">
+                  {`Inside this region: ${draggedMeasurement.name} ${valueWithUnit(draggedMeasurement.value, draggedMeasurement.unit)}, ${draggedMeasurement.pass ? '✓ within limits' : '✕ outside limits'}`}
                 </AppText>
               ) : null}
             </View>

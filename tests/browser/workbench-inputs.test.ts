@@ -276,8 +276,10 @@ describe('at wide width', () => {
     await page.mouse.down();
     await page.mouse.move((from.x + to.x) / 2, (from.y + to.y) / 2, { steps: 4 });
     await page.mouse.move(to.x, to.y, { steps: 4 });
-    // Measured inside the region under the pointer before it is let go: block B alone.
+    // Measured inside the region under the pointer before it is let go: block B alone, in the table
+    // and under the photo (where a phone still shows it while the finger drags).
     await expectShownValue(page, '2000 px²');
+    await page.getByText(/^Inside this region: .* 2000 px², ✓ within limits$/).waitFor();
     await page.mouse.up();
     // Block B alone: 50×40 px, within the limit.
     await expectShownValue(page, '2000 px²');

@@ -31,16 +31,26 @@ function noisyMask(width: number, height: number, seed: number): Float32Array {
   });
 }
 
+/**
+ * A noisy 77×45 mask in a workspace opened (r = 1) into another workspace image, and the same
+ * opening written into ordinary memory at once (the reference).
+ */
+function openedInWorkspace(seed: number) {
+  const [w, h] = [77, 45];
+  const workspace = new ImageWorkspace();
+  const source = workspace.take(w, h);
+  source.data.set(noisyMask(w, h, seed));
+  const out = workspace.take(w, h);
+  const opened = morphology(source, 'open', 1, 'reflect', out);
+  const written = morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect');
+  return { w, h, workspace, source, out, opened, written };
+}
+
 describe.each<EngineName>(['simd', 'plain'])('%s engine', (engine) => {
   beforeAll(() => setEngine(engine));
 
   test('edge fraction from the bits in spans that start and end on and beside word boundaries equals the count of the written samples', () => {
-    const [w, h] = [77, 45];
-    const workspace = new ImageWorkspace();
-    const source = workspace.take(w, h);
-    source.data.set(noisyMask(w, h, 13));
-    const opened = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
-    const written = morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect');
+    const { h, opened, written } = openedInWorkspace(13);
     const edges = [0, 1, 31, 32, 33, 63, 64, 65, 76, 77];
     const rand = seededRandom(21);
     for (let trial = 0; trial < 20; trial++) {
@@ -55,16 +65,9 @@ describe.each<EngineName>(['simd', 'plain'])('%s engine', (engine) => {
 
   test('the opening of a mask in a workspace: edge fraction, blobs and samples equal those of the same opening written out', () => {
     expect(simdKernels() !== null).toBe(engine === 'simd');
-    const [w, h] = [77, 45];
-    const workspace = new ImageWorkspace();
-    const source = workspace.take(w, h);
-    source.data.set(noisyMask(w, h, 5));
-    const out = workspace.take(w, h);
-    const opened = morphology(source, 'open', 1, 'reflect', out);
+    const { w, h, out, opened, written } = openedInWorkspace(5);
     expect(opened).toBe(out);
     expect(deferred(opened)).toBe(true);
-    // The reference: the same opening into ordinary memory, written at once.
-    const written = morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect');
     for (const region of [undefined, { shape: 'rect' as const, x: 0.13, y: 0.2, w: 0.61, h: 0.5 }, { shape: 'circle' as const, cx: 0.5, cy: 0.5, r: 0.3 }]) {
       const spans = regionSpans(w, h, region);
       expect(measurePixels(opened, 'edge-fraction', spans)).toBe(measurePixels(written, 'edge-fraction', spans));
@@ -77,19 +80,15 @@ describe.each<EngineName>(['simd', 'plain'])('%s engine', (engine) => {
   });
 
   test('a deferred mask read by the next step, and a buffer given back while deferred, show no stale samples', () => {
-    const [w, h] = [77, 45];
-    const workspace = new ImageWorkspace();
-    const source = workspace.take(w, h);
-    source.data.set(noisyMask(w, h, 9));
-    const opened = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
+    const { w, h, workspace, source, opened, written } = openedInWorkspace(9);
     // Closing straight from the opening's bits equals closing its written samples.
     const closed = morphology(opened, 'close', 2, 'reflect', workspace.take(w, h));
-    const expected = morphology(morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect'), 'close', 2, 'reflect');
+    const expected = morphology(written, 'close', 2, 'reflect');
     expect(Array.from(closed.data)).toEqual(Array.from(expected.data));
     // A Gaussian of the deferred opening reads its samples.
     const opened2 = morphology(source, 'open', 1, 'reflect', workspace.take(w, h));
     const blurred = gaussianBlur(opened2, 1, 'reflect', workspace.take(w, h));
-    const blurredExpected = gaussianBlur(morphology(createImage(w, h, source.data.slice()), 'open', 1, 'reflect'), 1, 'reflect');
+    const blurredExpected = gaussianBlur(written, 1, 'reflect');
     expect(Array.from(blurred.data)).toEqual(Array.from(blurredExpected.data));
     // Given back deferred, then reused as another step's output: that step's samples, not the mask.
     const heap = engine === 'simd' ? (source as unknown as { heap: { blocksInUse: number } }).heap : null;

@@ -6,6 +6,7 @@ import { correlateFft, FFT_MAX_KERNEL_SIDE, largestFiniteMagnitude } from './fft
 import { imageLike, type Image } from './image';
 import { separate, type Kernel } from './kernels';
 import { simdKernels } from './engine';
+import { COLUMN_LOOP_ROWS_AT_MOST, directRowLoop, symmetricColumnLoop, symmetricRowLoop, type ColumnLoop, type RowLoop } from './kernel-loops';
 
 /**
  * Non-separable kernels of at least this many weights go through the plain engine's FFT
@@ -62,6 +63,9 @@ export function correlateSeparable(
   return dst;
 }
 
+/** Most rows one step of SeparableSweep makes. */
+export const SEPARABLE_ROWS_AT_MOST = Math.max(4, COLUMN_LOOP_ROWS_AT_MOST);
+
 /**
  * The plain engine's separable correlation as a sweep down the image: each call of `next` computes
  * the next one, two or four output rows (as float32, the image's own values) into rows that the
@@ -84,6 +88,8 @@ export class SeparableSweep {
   private readonly verticalFolded: boolean;
   private readonly horizontal: HorizontalKind;
   private readonly sums: Float64Array;
+  private readonly columnLoop: ColumnLoop | null;
+  private readonly rowLoop: RowLoop | null;
   private y = 0;
 
   constructor(src: Image, column: ArrayLike<number>, row: ArrayLike<number>, border: BorderMode, private readonly offset = 0) {
@@ -99,20 +105,26 @@ export class SeparableSweep {
     this.krow = Float64Array.from(row);
     this.zeros = new Float32Array(w);
     this.rows = new Array<Float32Array>(Math.max(10, column.length + 1)).fill(this.zeros);
-    this.lines = Array.from({ length: 4 }, () => new Float64Array(w + 2 * this.rx));
+    this.columnLoop = isSymmetric(this.col) ? symmetricColumnLoop(this.col) : null;
+    this.rowLoop = isSymmetric(this.krow) ? symmetricRowLoop(this.krow) : null;
+    this.lines = Array.from({ length: Math.max(4, this.columnLoop?.rows ?? 0) }, () => new Float64Array(w + 2 * this.rx));
     this.verticalUnrolled = isSymmetric(this.col) && this.ry <= 3;
     this.verticalFolded = isSymmetric(this.col) && this.ry > 3;
     this.horizontal = !isSymmetric(this.krow) ? 'general' : this.rx <= 3 ? 'unrolled' : 'folded';
     this.sums = new Float64Array(this.horizontal === 'folded' ? w : 0);
   }
 
-  /** Computes output rows y, y+1, … (one to four) into o from base(y), base(y+1), …; returns how many (0 at the end). */
+  /** Computes output rows y, y+1, … (one to SEPARABLE_ROWS_AT_MOST) into o from base(y), base(y+1), …; returns how many (0 at the end). */
   next(o: Float32Array, base: (y: number) => number): number {
     const { w, h, y, data, rowOffsets, rows, zeros, col, krow, rx, ry, lines, colTable, offset } = this;
     if (y >= h) return 0;
     const { horizontal, sums } = this;
     let count: number;
-    if (this.verticalUnrolled && ry === 3 && y + 3 < h && isStrided(rowOffsets, y, 10, w)) {
+    const { columnLoop, rowLoop } = this;
+    if (columnLoop && y + columnLoop.rows <= h && isStrided(rowOffsets, y, columnLoop.rows + 2 * ry, w)) {
+      columnLoop.run(data, rowOffsets[y + ry], w, lines, rx);
+      count = columnLoop.rows;
+    } else if (this.verticalUnrolled && ry === 3 && y + 3 < h && isStrided(rowOffsets, y, 10, w)) {
       verticalRadius3QuadStrided(data, rowOffsets[y], w, col, lines, rx);
       count = 4;
     } else if (this.verticalFolded && y + 1 < h && isStrided(rowOffsets, y, 2 * ry + 2, w)) {
@@ -145,7 +157,7 @@ export class SeparableSweep {
         count = 1;
       }
     }
-    for (let q = 0; q < count; q++) horizontalPass(lines[q], krow, rx, w, colTable, horizontal, sums, o, base(y + q), offset);
+    for (let q = 0; q < count; q++) horizontalPass(lines[q], krow, rx, w, colTable, horizontal, rowLoop, sums, o, base(y + q), offset);
     this.y = y + count;
     return count;
   }
@@ -162,6 +174,7 @@ function horizontalPass(
   w: number,
   colTable: Int32Array,
   kind: HorizontalKind,
+  rowLoop: RowLoop | null,
   sums: Float64Array,
   o: Float32Array,
   base: number,
@@ -173,7 +186,8 @@ function horizontalPass(
     const right = colTable[r + w + t];
     line[r + w + t] = right === OUTSIDE ? 0 : line[r + right];
   }
-  if (kind === 'unrolled') horizontalSymmetric(line, k, r, w, o, base, offset);
+  if (rowLoop) rowLoop(line, o, base, w, offset);
+  else if (kind === 'unrolled') horizontalSymmetric(line, k, r, w, o, base, offset);
   else if (kind === 'folded') horizontalFolded(line, k, r, w, sums, o, base, offset);
   else horizontalGeneral(line, k, w, o, base, offset);
 }
@@ -543,6 +557,22 @@ export function correlateDirect(src: Image, kernel: Kernel, border: BorderMode, 
     fillRowBorder(line, w, rx, colTable);
   };
   for (let t = 0; t < rows - 1; t++) fillLine(t);
+  const generated = directRowLoop(weights, rows, cols, scale === 1);
+  if (generated) {
+    // Rows outside the image under the constant border read a line of zeros.
+    const zeros = new Float64Array(pw);
+    const lines = new Array<Float64Array>(rows);
+    for (let y = 0; y < h; y++) {
+      fillLine(y + rows - 1);
+      for (let j = 0; j < rows; j++) {
+        const slot = (y + j) % rows;
+        lines[j] = isZeroRow[slot] ? zeros : ring[slot];
+      }
+      // + 0 makes an offset of −0 a +0, as the general loop's sums starting from +0 do.
+      generated(lines, o, y * w, w, scale, offset + 0);
+    }
+    return dst;
+  }
   for (let y = 0; y < h; y++) {
     fillLine(y + rows - 1);
     acc.fill(0);

@@ -6,7 +6,7 @@
 // (`SeparableSweep`, `GradientRows`), so its output and range are those of its two steps in turn.
 import type { GradientOperator, GradientOutput } from '../rules/schema';
 import { borderTable, OUTSIDE, type BorderMode } from './border';
-import { SeparableSweep } from './convolve';
+import { SEPARABLE_ROWS_AT_MOST, SeparableSweep } from './convolve';
 import { simdKernels } from './engine';
 import { gradient, GradientRows, gradientWeights } from './gradient';
 import { imageLike, type Image, type ValueRange } from './image';
@@ -34,8 +34,8 @@ export function gaussianGradient(
   return sweepPlain(src, sigma, operator, output, border, out, range);
 }
 
-/** Smoothed rows go into a ring of eight (rows y−1 … y+5 are alive: the gradient takes two rows, the sweep makes up to four at a time). */
-const RING = 8;
+/** Smoothed rows go into a ring (rows y−1 … y+2+SEPARABLE_ROWS_AT_MOST are alive: the gradient takes two rows, the sweep makes several at a time). */
+const RING = 2 * SEPARABLE_ROWS_AT_MOST;
 
 function sweepPlain(src: Image, sigma: number, operator: GradientOperator, output: GradientOutput, border: BorderMode, out?: Image, range?: ValueRange): Image {
   const { width: w, height: h } = src;

@@ -1,0 +1,112 @@
+// The plain engine's generated kernel loops (kernel-loops.ts) against its general loops: the same
+// sums in the same order, so the same float32 bits, for direct kernels (zero taps, weights ±1 and ±2
+// written without multiplication, rows of zeros) and symmetric separable kernels (radius 0 to 12,
+// Gaussians), every border mode, 8- and 16-bit and signed float images of odd sizes, including images
+// narrower than one iteration and shorter than one column loop. Outside references for the same code
+// are in plain-separable.test.ts (the definition, term by term) and opencv-reference.test.ts
+// (OpenCV.js filter2D and GaussianBlur), which run with the generated loops on.
+import fc from 'fast-check';
+import { correlateDirect, correlateSeparable } from '../../../shared/vision/convolve';
+import { imageFromSamples, type Image } from '../../../shared/vision/image';
+import { directRowLoop, kernelLoopsEnabled, MOST_GENERATED_TAPS, setKernelLoops, symmetricColumnLoop } from '../../../shared/vision/kernel-loops';
+import { gaussianWeights, kernelFromMatrix } from '../../../shared/vision/kernels';
+import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
+import { bitsOf, borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
+import { seededRandom } from './images';
+
+/** fn with the generated loops, then with the general loops. */
+function generatedAndGeneral(fn: () => Image): { generated: Image; general: Image } {
+  const generated = onEngine('plain', fn);
+  setKernelLoops(false);
+  try {
+    return { generated, general: onEngine('plain', fn) };
+  } finally {
+    setKernelLoops(true);
+  }
+}
+
+/**
+ * Samples whose sums cancel: 2⁵³ + 1 rounds to 2⁵³ in double precision, so adding in another order
+ * changes a result by whole units, which the float32 store keeps (every sample is a float32 exactly).
+ */
+function cancellingImage(width: number, height: number, s: number): Image {
+  const rand = seededRandom(s);
+  const values = [2 ** 53, -(2 ** 53), 2 ** 60, -(2 ** 60), 1, -1, 0.75, 3, 0];
+  return imageFromSamples(width, height, Array.from({ length: width * height }, () => values[Math.floor(rand() * values.length)]));
+}
+
+const imageKind = fc.constantFrom<SampleKind | 'cancelling'>('8-bit', '16-bit', 'signed float', 'cancelling', 'cancelling');
+
+function testImage(width: number, height: number, kind: SampleKind | 'cancelling', s: number): Image {
+  return kind === 'cancelling' ? cancellingImage(width, height, s) : sampleImage(width, height, kind, s);
+}
+
+/** Weights the generated code writes differently (0, ±1, ±2) among ordinary ones. */
+const weight = fc.oneof(fc.constantFrom(0, 0, 1, -1, 2, -2, -0), fc.integer({ min: -40, max: 40 }).map((v) => v / 8), fc.double({ min: -5, max: 5, noNaN: true }));
+
+const directKernel = fc
+  .tuple(fc.constantFrom(1, 3, 5, 7), fc.constantFrom(1, 3, 5, 7))
+  .chain(([rows, cols]) => fc.array(fc.array(weight, { minLength: cols, maxLength: cols }), { minLength: rows, maxLength: rows }));
+
+const symmetric = (radius: number) => fc.array(weight, { minLength: radius + 1, maxLength: radius + 1 }).map((half) => [...half.slice(1).reverse(), ...half]);
+
+test('the generated loops are on where the runtime compiles code (Node does)', () => {
+  expect(kernelLoopsEnabled()).toBe(true);
+  expect(directRowLoop([1, 2, 1], 1, 3, true)).not.toBeNull();
+  expect(symmetricColumnLoop([1, 2, 1])).not.toBeNull();
+  // Kernels too large for them keep the general loop.
+  expect(directRowLoop(new Array(MOST_GENERATED_TAPS + 2).fill(1), 1, MOST_GENERATED_TAPS + 2, true)).toBeNull();
+});
+
+test('generated direct correlation gives the general loop’s bits: zero taps, ±1, ±2, any size up to 7×7, divisor and offset', () => {
+  fc.assert(
+    fc.property(imageSize, imageKind, seed, borderMode, directKernel, fc.integer({ min: 1, max: 9 }), fc.constantFrom(0, -0, 0.5, -3), ([w, h], kind, s, border, matrix, divisor, offset) => {
+      const image = testImage(w, h, kind, s);
+      const kernel = kernelFromMatrix(matrix, divisor, offset);
+      const { generated, general } = generatedAndGeneral(() => correlateDirect(image, kernel, border));
+      expect(bitsOf(generated)).toEqual(bitsOf(general));
+    }),
+    { numRuns: 300 },
+  );
+});
+
+test('generated separable passes give the general loops’ bits: symmetric kernels of radius 0 to 12, tall and short images', () => {
+  fc.assert(
+    fc.property(
+      fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 20, max: 70 }))),
+      imageKind,
+      seed,
+      borderMode,
+      fc.integer({ min: 0, max: 12 }).chain(symmetric),
+      fc.integer({ min: 0, max: 12 }).chain(symmetric),
+      fc.constantFrom(0, 0.25, -2),
+      ([w, h], kind, s, border, column, row, offset) => {
+        const image = testImage(w, h, kind, s);
+        const { generated, general } = generatedAndGeneral(() => correlateSeparable(image, column, row, border, undefined, offset));
+        expect(bitsOf(generated)).toEqual(bitsOf(general));
+      },
+    ),
+    { numRuns: 300 },
+  );
+});
+
+test('the Gaussians of the rule format (σ 0.5 to 5) and the Gaussian → Sobel sweep give the general loops’ bits', () => {
+  fc.assert(
+    fc.property(
+      fc.tuple(fc.integer({ min: 1, max: 45 }), fc.integer({ min: 1, max: 60 })),
+      imageKind,
+      seed,
+      borderMode,
+      fc.constantFrom(0.5, 0.8, 1, 1.4, 2, 3, 5),
+      ([w, h], kind, s, border, sigma) => {
+        const image = testImage(w, h, kind, s);
+        const g = gaussianWeights(sigma);
+        const blur = generatedAndGeneral(() => correlateSeparable(image, g, g, border));
+        expect(bitsOf(blur.generated)).toEqual(bitsOf(blur.general));
+        const edges = generatedAndGeneral(() => gaussianGradient(image, sigma, 'sobel', 'magnitude', border));
+        expect(bitsOf(edges.generated)).toEqual(bitsOf(edges.general));
+      },
+    ),
+    { numRuns: 150 },
+  );
+});

@@ -6,7 +6,7 @@ import { correlateFft, FFT_MAX_KERNEL_SIDE, largestFiniteMagnitude } from './fft
 import { imageLike, type Image } from './image';
 import { separate, type Kernel } from './kernels';
 import { simdKernels } from './engine';
-import { COLUMN_LOOP_ROWS_AT_MOST, directRowLoop, symmetricColumnLoop, symmetricRowLoop, type ColumnLoop, type RowLoop } from './kernel-loops';
+import { COLUMN_LOOP_ROWS, directRowLoop, symmetricColumnLoop, symmetricRowLoop, type ColumnLoop, type RowLoop } from './kernel-loops';
 
 /**
  * Non-separable kernels of at least this many weights go through the plain engine's FFT
@@ -64,7 +64,7 @@ export function correlateSeparable(
 }
 
 /** Most rows one step of SeparableSweep makes. */
-export const SEPARABLE_ROWS_AT_MOST = Math.max(4, COLUMN_LOOP_ROWS_AT_MOST);
+export const SEPARABLE_ROWS_AT_MOST = Math.max(4, COLUMN_LOOP_ROWS);
 
 /**
  * The plain engine's separable correlation as a sweep down the image: each call of `next` computes
@@ -107,7 +107,7 @@ export class SeparableSweep {
     this.rows = new Array<Float32Array>(Math.max(10, column.length + 1)).fill(this.zeros);
     this.columnLoop = isSymmetric(this.col) ? symmetricColumnLoop(this.col) : null;
     this.rowLoop = isSymmetric(this.krow) ? symmetricRowLoop(this.krow) : null;
-    this.lines = Array.from({ length: Math.max(4, this.columnLoop?.rows ?? 0) }, () => new Float64Array(w + 2 * this.rx));
+    this.lines = Array.from({ length: this.columnLoop ? COLUMN_LOOP_ROWS : 4 }, () => new Float64Array(w + 2 * this.rx));
     this.verticalUnrolled = isSymmetric(this.col) && this.ry <= 3;
     this.verticalFolded = isSymmetric(this.col) && this.ry > 3;
     this.horizontal = !isSymmetric(this.krow) ? 'general' : this.rx <= 3 ? 'unrolled' : 'folded';
@@ -121,9 +121,9 @@ export class SeparableSweep {
     const { horizontal, sums } = this;
     let count: number;
     const { columnLoop, rowLoop } = this;
-    if (columnLoop && y + columnLoop.rows <= h && isStrided(rowOffsets, y, columnLoop.rows + 2 * ry, w)) {
-      columnLoop.run(data, rowOffsets[y + ry], w, lines, rx);
-      count = columnLoop.rows;
+    if (columnLoop && y + COLUMN_LOOP_ROWS <= h && isStrided(rowOffsets, y, COLUMN_LOOP_ROWS + 2 * ry, w)) {
+      columnLoop(data, rowOffsets[y + ry], w, lines, rx);
+      count = COLUMN_LOOP_ROWS;
     } else if (this.verticalUnrolled && ry === 3 && y + 3 < h && isStrided(rowOffsets, y, 10, w)) {
       verticalRadius3QuadStrided(data, rowOffsets[y], w, col, lines, rx);
       count = 4;

@@ -59,20 +59,12 @@ function boxPass(src: Image, size: number, border: BorderMode, dst: Image, compa
     if (comparison) windowMask(sums, size, w, scale, data, comparison.c, comparison.flip, o, y * w);
     else windowMeans(sums, size, w, scale, o, y * w);
     if (y + 1 === h) break;
-    // Slide the column sums down: add row y+r+1, drop row y−r (four columns per iteration: 2.70 →
-    // 2.45 ns/px for the box 5 at 5 MP; four windows per iteration in the row sums gained nothing).
+    // Slide the column sums down: add row y+r+1, drop row y−r (slideColumns; four windows per
+    // iteration in the row sums gained nothing).
     const add = rowOffsets[y + size];
     const drop = rowOffsets[y];
     if (add !== OUTSIDE && drop !== OUTSIDE) {
-      let x = 0;
-      for (; x + 3 < w; x += 4) {
-        const q = r + x, p = add + x, d = drop + x;
-        sums[q] += data[p] - data[d];
-        sums[q + 1] += data[p + 1] - data[d + 1];
-        sums[q + 2] += data[p + 2] - data[d + 2];
-        sums[q + 3] += data[p + 3] - data[d + 3];
-      }
-      for (; x < w; x++) sums[r + x] += data[add + x] - data[drop + x];
+      slideColumns(sums, r, data, add, drop, w);
     } else if (add !== OUTSIDE) {
       for (let x = 0; x < w; x++) sums[r + x] += data[add + x];
     } else if (drop !== OUTSIDE) {
@@ -80,6 +72,27 @@ function boxPass(src: Image, size: number, border: BorderMode, dst: Image, compa
     }
   }
   return dst;
+}
+
+/**
+ * sums[r + x] += data[add + x] − data[drop + x], eight columns per iteration, in a function of its own
+ * (not inside boxPass's long loop, which V8 compiles on-stack): box 5 at 5 MP 3.1 → 2.9 ns/px, four
+ * columns per iteration inline before (2.70 → 2.45 against one, on another day).
+ */
+function slideColumns(sums: Float64Array, r: number, data: Float32Array, add: number, drop: number, w: number): void {
+  let x = 0;
+  for (; x + 7 < w; x += 8) {
+    const q = r + x, p = add + x, d = drop + x;
+    sums[q] += data[p] - data[d];
+    sums[q + 1] += data[p + 1] - data[d + 1];
+    sums[q + 2] += data[p + 2] - data[d + 2];
+    sums[q + 3] += data[p + 3] - data[d + 3];
+    sums[q + 4] += data[p + 4] - data[d + 4];
+    sums[q + 5] += data[p + 5] - data[d + 5];
+    sums[q + 6] += data[p + 6] - data[d + 6];
+    sums[q + 7] += data[p + 7] - data[d + 7];
+  }
+  for (; x < w; x++) sums[r + x] += data[add + x] - data[drop + x];
 }
 
 /** o[base + x] = scale · Σ_{i<size} sums[x + i] for x = 0 … w−1, as two interleaved running sums. */

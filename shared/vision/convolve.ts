@@ -656,26 +656,18 @@ function addFiveTaps(line: Float64Array, k: Float64Array, i: number, w: number, 
   }
 }
 
-/**
- * A copy of the image with rx columns and ry rows of border on each side (row-major, width w+2rx);
- * into an Int32Array for whole-number samples (each padded row converted by one native copy).
- */
-export function padImage(src: Image, rx: number, ry: number, border: BorderMode): Float32Array;
-export function padImage(src: Image, rx: number, ry: number, border: BorderMode, into: 'int32'): Int32Array;
-export function padImage(src: Image, rx: number, ry: number, border: BorderMode, into: 'float32' | 'int32' = 'float32'): Float32Array | Int32Array {
+/** A copy of the image with rx columns and ry rows of border on each side (row-major, width w+2rx); the benchmark's ndarray-convolve input. */
+export function padImage(src: Image, rx: number, ry: number, border: BorderMode): Float32Array {
   const { width: w, height: h, data } = src;
   const pw = w + 2 * rx;
-  const size = pw * (h + 2 * ry);
-  const padded = into === 'int32' ? new Int32Array(size) : new Float32Array(size);
+  const padded = new Float32Array(pw * (h + 2 * ry));
   const colTable = borderTable(w, rx, rx, border);
   const rowTable = borderTable(h, ry, ry, border);
-  const line = new Float32Array(pw);
   for (let t = 0; t < rowTable.length; t++) {
     const sy = rowTable[t];
     if (sy === OUTSIDE) continue;
-    line.set(data.subarray(sy * w, sy * w + w), rx);
-    fillRowBorder(line, w, rx, colTable);
-    padded.set(line, t * pw);
+    padded.set(data.subarray(sy * w, sy * w + w), t * pw + rx);
+    fillRowBorder(padded.subarray(t * pw, (t + 1) * pw), w, rx, colTable);
   }
   return padded;
 }

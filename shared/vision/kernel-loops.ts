@@ -216,3 +216,49 @@ ${step(1)}
 };`;
   });
 }
+
+/**
+ * The running-histogram median's step along a row for one window size (median.ts), x = 1 … w−1:
+ * each row of the window drops its left sample and adds the next on the right, then the median m
+ * moves until `below` (the count of samples < m) brackets the rank. Returns nothing; writes o.
+ */
+export type MedianRowLoop = (padded: Int32Array, rowsAt: Int32Array, w: number, hist: Int32Array, o: Float32Array, base: number, m: number, below: number, rank: number) => void;
+
+/** The median step for size × size windows with the window's rows unrolled, or null where the general loop is to run. */
+export function histogramMedianRowLoop(size: number): MedianRowLoop | null {
+  if (!enabled) return null;
+  const known = cache.get(`median ${size}`);
+  if (known) return known as MedianRowLoop;
+  const loop = compiled<MedianRowLoop>(`median ${size}`, () => {
+    const rows = Array.from({ length: size }, (_, j) => j);
+    return `return function histogramMedianRow(padded, rowsAt, w, hist, o, base, m, below, rank) {
+${rows.map((j) => `const t${j} = rowsAt[${j}];`).join('\n')}
+for (let x = 1; x < w; x++) {
+${rows.map((j) => `const r${j} = t${j} + x;`).join('\n')}
+${rows.map((j) => `const o${j} = padded[r${j} - 1], i${j} = padded[r${j} + ${size - 1}];`).join('\n')}
+${rows.map((j) => `hist[o${j}]--; hist[i${j}]++;`).join('\n')}
+below += ${rows.map((j) => `((o${j} - m) >> 31) - ((i${j} - m) >> 31)`).join(' + ')};
+while (below > rank) below -= hist[--m];
+while (below + hist[m] <= rank) below += hist[m++];
+o[base + x] = m;
+}
+};`;
+  });
+  // A few short rows first, so that the optimising compiler sees every statement with type feedback
+  // instead of compiling the first photo's long row on-stack (as median.ts warms its own loop).
+  const w = 8;
+  const pw = w + size - 1;
+  const padded = Int32Array.from({ length: size * pw }, (_, i) => (i * 7) % 11);
+  const rowsAt = Int32Array.from({ length: size }, (_, j) => j * pw);
+  const hist = new Int32Array(16);
+  for (let i = 0; i < 6; i++) {
+    hist.fill(0);
+    for (let j = 0; j < size; j++) for (let q = 0; q < size; q++) hist[padded[j * pw + q]]++;
+    let m = 0;
+    let below = 0;
+    const rank = (size * size - 1) >> 1;
+    while (below + hist[m] <= rank) below += hist[m++];
+    loop(padded, rowsAt, w, hist, new Float32Array(w), 0, m, below, rank);
+  }
+  return loop;
+}

@@ -5,10 +5,10 @@
 // The SIMD engine takes 3×3 and 5×5 through selection networks (wasm/assembly/median.ts), which give
 // the same bits unless the image holds NaN or −0, and wider windows of whole numbers through this
 // running histogram (wasm/assembly/median-histogram.ts); this code runs the rest.
-import { borderTable, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
-import { padImage } from './convolve';
+import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
+import { histogramMedianRowLoop } from './kernel-loops';
 import { keysOf, maxKey, minKey, sampleBits, sampleOrder, samplesFromKeys } from './ordered-keys';
 
 const HISTOGRAM_LEVELS = 65536;
@@ -45,27 +45,49 @@ function integerLevels(data: Float32Array): number {
 }
 
 function medianByHistogram(src: Image, size: number, border: BorderMode, o: Float32Array, levels: number): void {
-  const { width: w, height: h } = src;
+  const { width: w, height: h, data } = src;
   const r = (size - 1) >> 1;
-  // Integer indices: a float-valued key would make every histogram access a slow generic lookup.
-  const padded = padImage(src, r, r, border, 'int32');
   const pw = w + 2 * r;
+  // The padded rows a window needs, in a ring of `size` rows (padded row t in slot t mod size), as
+  // integers: a float-valued key would make every histogram access a slow generic lookup.
+  const ring = new Int32Array(size * pw);
+  const rowsAt = new Int32Array(size);
+  const colTable = borderTable(w, r, r, border);
+  const rowTable = borderTable(h, r, r, border);
+  const line = new Float32Array(pw);
+  const fill = (t: number) => {
+    const sy = rowTable[t];
+    const slot = (t % size) * pw;
+    if (sy === OUTSIDE) {
+      ring.fill(0, slot, slot + pw);
+      return;
+    }
+    line.set(data.subarray(sy * w, sy * w + w), r);
+    fillRowBorder(line, w, r, colTable);
+    ring.set(line, slot);
+  };
+  for (let t = 0; t < size - 1; t++) fill(t);
   const hist = new Int32Array(levels);
-  for (let y = 0; y < h; y++) medianRowByHistogram(padded, pw, y * pw, w, size, hist, o, y * w);
+  for (let y = 0; y < h; y++) {
+    fill(y + size - 1);
+    for (let j = 0; j < size; j++) rowsAt[j] = ((y + j) % size) * pw;
+    medianRowByHistogram(ring, rowsAt, w, size, hist, o, y * w);
+  }
 }
 
 /**
- * One output row of the running-histogram median: the first window counted whole, then each step
- * right drops a column and adds one. A function of its own, warmed up when the module loads
+ * One output row of the running-histogram median from the padded rows at rowsAt[0 … size−1]: the
+ * first window counted whole, then each step right drops a column and adds one (the generated loop
+ * for the size, or the general one). A function of its own, warmed up when the module loads
  * (warmUpMedianRows), so that the optimising compiler sees every statement with type feedback
  * instead of compiling the first photo's long loop on-stack (tests/bench: 29–42 ns/px for the same
  * 5×5 median from one process to the next before).
  */
-function medianRowByHistogram(padded: Int32Array, pw: number, top: number, w: number, size: number, hist: Int32Array, o: Float32Array, base: number): void {
+function medianRowByHistogram(padded: Int32Array, rowsAt: Int32Array, w: number, size: number, hist: Int32Array, o: Float32Array, base: number): void {
   const rank = (size * size - 1) >> 1; // 0-based rank of the median among size² values
   hist.fill(0);
   for (let j = 0; j < size; j++) {
-    const row = top + j * pw;
+    const row = rowsAt[j];
     for (let i = 0; i < size; i++) hist[padded[row + i]]++;
   }
   // below = number of values < m; the median m satisfies below ≤ rank < below + hist[m].
@@ -73,9 +95,14 @@ function medianRowByHistogram(padded: Int32Array, pw: number, top: number, w: nu
   let below = 0;
   while (below + hist[m] <= rank) below += hist[m++];
   o[base] = m;
+  const generated = histogramMedianRowLoop(size);
+  if (generated) {
+    generated(padded, rowsAt, w, hist, o, base, m, below, rank);
+    return;
+  }
   for (let x = 1; x < w; x++) {
     for (let j = 0; j < size; j++) {
-      const row = top + j * pw + x;
+      const row = rowsAt[j] + x;
       const vOut = padded[row - 1];
       const vIn = padded[row + size - 1];
       hist[vOut]--;
@@ -94,7 +121,9 @@ function warmUpMedianRows(): void {
   const padded = Int32Array.from({ length: 7 * (w + 6) }, (_, i) => (i * 7) % 11);
   const hist = new Int32Array(16);
   const o = new Float32Array(w);
-  for (let i = 0; i < 6; i++) for (const size of [3, 5, 7]) medianRowByHistogram(padded, w + size - 1, 0, w, size, hist, o, 0);
+  for (let i = 0; i < 6; i++) {
+    for (const size of [3, 5, 7]) medianRowByHistogram(padded, Int32Array.from({ length: size }, (_, j) => j * (w + size - 1)), w, size, hist, o, 0);
+  }
 }
 
 warmUpMedianRows();

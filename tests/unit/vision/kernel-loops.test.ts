@@ -10,6 +10,7 @@ import { correlateDirect, correlateSeparable } from '../../../shared/vision/conv
 import { imageFromSamples, type Image } from '../../../shared/vision/image';
 import { directRowLoop, kernelLoopsEnabled, MOST_GENERATED_TAPS, setKernelLoops, symmetricColumnLoop } from '../../../shared/vision/kernel-loops';
 import { gaussianWeights, kernelFromMatrix } from '../../../shared/vision/kernels';
+import { medianFilter } from '../../../shared/vision/median';
 import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { bitsOf, borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
 import { seededRandom } from './images';
@@ -107,6 +108,17 @@ test('the Gaussians of the rule format (σ 0.5 to 5) and the Gaussian → Sobel 
         expect(bitsOf(edges.generated)).toEqual(bitsOf(edges.general));
       },
     ),
+    { numRuns: 150 },
+  );
+});
+
+test('the generated running-histogram median gives the general loop’s values: 8- and 16-bit images, windows 5 to 11', () => {
+  fc.assert(
+    fc.property(imageSize, fc.constantFrom<SampleKind>('8-bit', '16-bit', 'mask'), seed, borderMode, fc.constantFrom(5, 7, 9, 11), ([w, h], kind, s, border, size) => {
+      const image = sampleImage(w, h, kind, s);
+      const { generated, general } = generatedAndGeneral(() => medianFilter(image, size, border));
+      expect(bitsOf(generated)).toEqual(bitsOf(general));
+    }),
     { numRuns: 150 },
   );
 });

@@ -129,9 +129,14 @@ function directSource(weights: ArrayLike<number>, rows: number, cols: number, un
     }
     return interleaved([...loads].map(([text, column]) => ({ text, column })), outputs, (p) => p + cols - 1);
   };
+  return rowFunctionSource('directRow(lines, o, base, w, scale, offset)', usedRows.map((j) => `const L${j} = lines[${j}];`).join('\n'), step);
+}
+
+/** A function along a row: the prologue, then `step(P)` for P outputs at a time and `step(1)` for the last ones. */
+function rowFunctionSource(signature: string, prologue: string, step: (pixels: number) => string): string {
   const P = PIXELS_PER_ITERATION;
-  return `return function directRow(lines, o, base, w, scale, offset) {
-${usedRows.map((j) => `const L${j} = lines[${j}];`).join('\n')}
+  return `return function ${signature} {
+${prologue}
 let x = 0;
 for (; x + ${P - 1} < w; x += ${P}) {
 ${step(P)}
@@ -204,16 +209,7 @@ export function symmetricRowLoop(k: ArrayLike<number>): RowLoop | null {
       const outputs = Array.from({ length: pixels }, (_, p) => `o[base + x + ${p}] = ${foldedSum(k, r, `s${p + r}`, (j) => `s${p + r - j} + s${p + r + j}`)} + offset;`);
       return interleaved(loads, outputs, (p) => p + 2 * r);
     };
-    const P = PIXELS_PER_ITERATION;
-    return `return function symmetricRow(line, o, base, w, offset) {
-let x = 0;
-for (; x + ${P - 1} < w; x += ${P}) {
-${step(P)}
-}
-for (; x < w; x++) {
-${step(1)}
-}
-};`;
+    return rowFunctionSource('symmetricRow(line, o, base, w, offset)', '', step);
   });
 }
 

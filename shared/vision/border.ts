@@ -50,3 +50,11 @@ export function rowOffsetTable(height: number, width: number, before: number, af
   for (let t = 0; t < table.length; t++) if (table[t] !== OUTSIDE) table[t] *= width;
   return table;
 }
+
+/** True when the `count` rows from table entry t on are rows of the image one after the other (no border row among them). */
+export function isStrided(rowOffsets: Int32Array, t: number, count: number, w: number): boolean {
+  const first = rowOffsets[t];
+  if (first === OUTSIDE) return false;
+  for (let j = 1; j < count; j++) if (rowOffsets[t + j] !== first + j * w) return false;
+  return true;
+}

@@ -1,7 +1,7 @@
 // Applying kernels: correlation (the kernel applied as written, as imaging libraries do),
 // with one border policy for every path. Rank-1 kernels run as two 1-D passes; other kernels
 // run directly, or through the FFT in tiles when they are large (and the image is finite).
-import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { borderTable, fillRowBorder, isStrided, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { correlateFft, FFT_MAX_KERNEL_SIDE, largestFiniteMagnitude } from './fft-correlate';
 import { imageLike, type Image } from './image';
 import { separate, type Kernel } from './kernels';
@@ -243,14 +243,6 @@ function verticalRadius3Quad(rows: Float32Array[], k: Float64Array, w: number, l
     l2[i] = k0 * v5 + k1 * (v4 + v6) + k2 * (v3 + v7) + k3 * (v2 + v8);
     l3[i] = k0 * v6 + k1 * (v5 + v7) + k2 * (v4 + v8) + k3 * (v3 + v9);
   }
-}
-
-/** True when the `count` rows from table entry t on are rows of the image one after the other (no border row among them). */
-function isStrided(rowOffsets: Int32Array, t: number, count: number, w: number): boolean {
-  const first = rowOffsets[t];
-  if (first === OUTSIDE) return false;
-  for (let j = 1; j < count; j++) if (rowOffsets[t + j] !== first + j * w) return false;
-  return true;
 }
 
 /**

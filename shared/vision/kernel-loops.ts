@@ -258,3 +258,60 @@ o[base + x] = m;
   }
   return loop;
 }
+
+/** Σ k[r+j]·pair(j) added left to right from k[r]·centre, one addition per tap pair (the LoG's general loops add so). */
+function pairwiseSum(k: ArrayLike<number>, r: number, centre: string, pair: (j: number) => string): string {
+  return sumOf([term(k[r], centre), ...Array.from({ length: r }, (_, i) => term(k[r + i + 1], `(${pair(i + 1)})`))]);
+}
+
+/**
+ * Output rows y … y+COLUMN_LOOP_ROWS−1 of the Laplacian of Gaussian's vertical pass over consecutive
+ * image rows: smooth[q] = Σ g·rows and curve[q] = Σ g″·rows from the same loads (laplacian.ts).
+ */
+export type LogColumnLoop = (d: Float32Array, centre: number, w: number, smooth: readonly Float64Array[], curve: readonly Float64Array[], pad: number) => void;
+
+/** The LoG's vertical loop for these weights (g and g″, symmetric, 2r+1 each), or null where the general loop is to run. */
+export function logColumnLoop(g: ArrayLike<number>, g2: ArrayLike<number>): LogColumnLoop | null {
+  if (!enabled) return null;
+  const r = (g.length - 1) >> 1;
+  const key = `log column ${Array.from(g, literal).join(',')} ${Array.from(g2, literal).join(',')}`;
+  return compiled<LogColumnLoop>(key, () => {
+    const R = COLUMN_LOOP_ROWS;
+    const loads = Array.from({ length: R + 2 * r }, (_, q) => ({ text: `const s${q} = d[p + ${q - r} * w];`, column: q }));
+    const outputs = Array.from({ length: R }, (_, q) => {
+      const c = q + r;
+      const pair = (j: number) => `s${c - j} + s${c + j}`;
+      return `m${q}[pad + x] = ${pairwiseSum(g, r, `s${c}`, pair)};\nc${q}[pad + x] = ${pairwiseSum(g2, r, `s${c}`, pair)};`;
+    });
+    return `return function logColumn(d, centre, w, smooth, curve, pad) {
+${Array.from({ length: R }, (_, q) => `const m${q} = smooth[${q}], c${q} = curve[${q}];`).join('\n')}
+for (let x = 0, p = centre; x < w; x++, p++) {
+${interleaved(loads, outputs, (q) => q + 2 * r)}
+}
+};`;
+  });
+}
+
+/** One output row of the LoG's horizontal pass: o[base + x] = g″ across `smooth` + g across `curve` (padded lines, centre of x at x + r). */
+export type LogRowLoop = (smooth: Float64Array, curve: Float64Array, o: Float32Array, base: number, w: number) => void;
+
+/** The LoG's horizontal loop for these weights, or null where the general loop is to run. */
+export function logRowLoop(g: ArrayLike<number>, g2: ArrayLike<number>): LogRowLoop | null {
+  if (!enabled) return null;
+  const r = (g.length - 1) >> 1;
+  const key = `log row ${Array.from(g, literal).join(',')} ${Array.from(g2, literal).join(',')}`;
+  return compiled<LogRowLoop>(key, () => {
+    // Per output: g″c·s + gc·u, then for each distance i the pair (g″ᵢ·(s pair) + gᵢ·(u pair)) added as one term.
+    const step = (pixels: number): string => {
+      const loads = Array.from({ length: pixels + 2 * r }, (_, q) => ({ text: `const s${q} = smooth[x + ${q}], u${q} = curve[x + ${q}];`, column: q }));
+      const outputs = Array.from({ length: pixels }, (_, p) => {
+        const c = p + r;
+        let total = sumOf([term(g2[r], `s${c}`), term(g[r], `u${c}`)]);
+        for (let i = 1; i <= r; i++) total = `(${total}) + (${sumOf([term(g2[r + i], `(s${c - i} + s${c + i})`), term(g[r + i], `(u${c - i} + u${c + i})`)])})`;
+        return `o[base + x + ${p}] = ${total};`;
+      });
+      return interleaved(loads, outputs, (p) => p + 2 * r);
+    };
+    return rowFunctionSource('logRow(smooth, curve, o, base, w)', '', step);
+  });
+}

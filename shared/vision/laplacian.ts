@@ -1,5 +1,6 @@
 // Second-derivative operators: the discrete Laplacian (4- or 8-neighbour) and the Laplacian of Gaussian.
-import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { borderTable, fillRowBorder, isStrided, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
+import { COLUMN_LOOP_ROWS, logColumnLoop, logRowLoop } from './kernel-loops';
 import { imageLike, type Image } from './image';
 import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix, LAPLACIAN_4, LAPLACIAN_8 } from './kernels';
 import { simdKernels } from './engine';
@@ -124,49 +125,78 @@ export function laplacianOfGaussian(src: Image, sigma: number, border: BorderMod
   const g2 = gaussianSecondDerivativeWeights(sigma);
   const simd = simdKernels();
   if (simd) return simd.laplacianOfGaussian(src, g, g2, border, out);
+  return laplacianOfGaussianSweep(src, g, g2, border, out);
+}
+
+/** The plain engine's LoG sweep for symmetric weights g and g″ of one radius (laplacianOfGaussian's, or any, for tests). */
+export function laplacianOfGaussianSweep(src: Image, g: Float64Array, g2: Float64Array, border: BorderMode, out?: Image): Image {
   const { width: w, height: h, data } = src;
   const r = (g.length - 1) >> 1;
   const dst = imageLike(src, out === src ? undefined : out);
   const o = dst.data;
   const rowOffsets = rowOffsetTable(h, w, r, r, border);
   const colTable = borderTable(w, r, r, border);
-  // Vertical g (smoothed) and g″ (second derivative) of the current row, padded by r each side.
-  const smooth = new Float64Array(w + 2 * r);
-  const curve = new Float64Array(w + 2 * r);
+  const columnLoop = logColumnLoop(g, g2);
+  const rowLoop = logRowLoop(g, g2);
+  // Vertical g (smoothed) and g″ (second derivative) of the current rows, padded by r each side.
+  const lines = columnLoop ? COLUMN_LOOP_ROWS : 1;
+  const smooth = Array.from({ length: lines }, () => new Float64Array(w + 2 * r));
+  const curve = Array.from({ length: lines }, () => new Float64Array(w + 2 * r));
   const zeros = new Float32Array(w);
   const rowAt = (t: number) => {
     const off = rowOffsets[t];
     return off === OUTSIDE ? zeros : data.subarray(off, off + w);
   };
-  for (let y = 0; y < h; y++) {
-    const centre = rowAt(y + r);
-    const gc = g[r];
-    const g2c = g2[r];
-    for (let x = 0; x < w; x++) {
-      const v = centre[x];
-      smooth[r + x] = gc * v;
-      curve[r + x] = g2c * v;
+  for (let y = 0; y < h; ) {
+    let count = 1;
+    if (columnLoop && y + COLUMN_LOOP_ROWS <= h && isStrided(rowOffsets, y, COLUMN_LOOP_ROWS + 2 * r, w)) {
+      columnLoop(data, rowOffsets[y + r], w, smooth, curve, r);
+      count = COLUMN_LOOP_ROWS;
+    } else {
+      logColumnSums(rowAt, y, w, g, g2, r, smooth[0], curve[0]);
     }
-    for (let j = 1; j <= r; j++) {
-      const above = rowAt(y + r - j);
-      const below = rowAt(y + r + j);
-      const gj = g[r + j];
-      const g2j = g2[r + j];
-      for (let x = 0; x < w; x++) {
-        const pair = above[x] + below[x];
-        smooth[r + x] += gj * pair;
-        curve[r + x] += g2j * pair;
-      }
+    for (let q = 0; q < count; q++) {
+      fillRowBorder(smooth[q], w, r, colTable);
+      fillRowBorder(curve[q], w, r, colTable);
+      if (rowLoop) rowLoop(smooth[q], curve[q], o, (y + q) * w, w);
+      else logRowSums(smooth[q], curve[q], g, g2, r, w, o, (y + q) * w);
     }
-    fillRowBorder(smooth, w, r, colTable);
-    fillRowBorder(curve, w, r, colTable);
-    const base = y * w;
-    for (let x = 0; x < w; x++) {
-      const c = x + r;
-      let acc = g2c * smooth[c] + gc * curve[c];
-      for (let i = 1; i <= r; i++) acc += g2[r + i] * (smooth[c - i] + smooth[c + i]) + g[r + i] * (curve[c - i] + curve[c + i]);
-      o[base + x] = acc;
-    }
+    y += count;
   }
   return dst;
+}
+
+/** The LoG's vertical sums of row y (source rows y − r … y + r through rowAt), one pass per tap pair. */
+function logColumnSums(rowAt: (t: number) => Float32Array, y: number, w: number, g: Float64Array, g2: Float64Array, r: number, smooth: Float64Array, curve: Float64Array): void {
+  const centre = rowAt(y + r);
+  const gc = g[r];
+  const g2c = g2[r];
+  for (let x = 0; x < w; x++) {
+    const v = centre[x];
+    smooth[r + x] = gc * v;
+    curve[r + x] = g2c * v;
+  }
+  for (let j = 1; j <= r; j++) {
+    const above = rowAt(y + r - j);
+    const below = rowAt(y + r + j);
+    const gj = g[r + j];
+    const g2j = g2[r + j];
+    for (let x = 0; x < w; x++) {
+      const pair = above[x] + below[x];
+      smooth[r + x] += gj * pair;
+      curve[r + x] += g2j * pair;
+    }
+  }
+}
+
+/** The LoG's horizontal pass of one row: g″ across `smooth` plus g across `curve`. */
+function logRowSums(smooth: Float64Array, curve: Float64Array, g: Float64Array, g2: Float64Array, r: number, w: number, o: Float32Array, base: number): void {
+  const gc = g[r];
+  const g2c = g2[r];
+  for (let x = 0; x < w; x++) {
+    const c = x + r;
+    let acc = g2c * smooth[c] + gc * curve[c];
+    for (let i = 1; i <= r; i++) acc += g2[r + i] * (smooth[c - i] + smooth[c + i]) + g[r + i] * (curve[c - i] + curve[c + i]);
+    o[base + x] = acc;
+  }
 }

@@ -10,6 +10,7 @@ import { correlateDirect, correlateSeparable } from '../../../shared/vision/conv
 import { imageFromSamples, type Image } from '../../../shared/vision/image';
 import { directRowLoop, kernelLoopsEnabled, MOST_GENERATED_TAPS, setKernelLoops, symmetricColumnLoop } from '../../../shared/vision/kernel-loops';
 import { gaussianWeights, kernelFromMatrix } from '../../../shared/vision/kernels';
+import { laplacianOfGaussian, laplacianOfGaussianSweep } from '../../../shared/vision/laplacian';
 import { medianFilter } from '../../../shared/vision/median';
 import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { bitsOf, borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
@@ -36,10 +37,19 @@ function cancellingImage(width: number, height: number, s: number): Image {
   return imageFromSamples(width, height, Array.from({ length: width * height }, () => values[Math.floor(rand() * values.length)]));
 }
 
-const imageKind = fc.constantFrom<SampleKind | 'cancelling'>('8-bit', '16-bit', 'signed float', 'cancelling', 'cancelling');
+/** cancellingImage's values, one per row: a vertical sum's order then shows through a horizontal pass of any weights. */
+function cancellingRows(width: number, height: number, s: number): Image {
+  const rows = cancellingImage(1, height, s).data;
+  return imageFromSamples(width, height, Array.from({ length: width * height }, (_, i) => rows[Math.floor(i / width)]));
+}
 
-function testImage(width: number, height: number, kind: SampleKind | 'cancelling', s: number): Image {
-  return kind === 'cancelling' ? cancellingImage(width, height, s) : sampleImage(width, height, kind, s);
+type TestKind = SampleKind | 'cancelling' | 'cancelling rows';
+const imageKind = fc.constantFrom<TestKind>('8-bit', '16-bit', 'signed float', 'cancelling', 'cancelling', 'cancelling rows');
+
+function testImage(width: number, height: number, kind: TestKind, s: number): Image {
+  if (kind === 'cancelling') return cancellingImage(width, height, s);
+  if (kind === 'cancelling rows') return cancellingRows(width, height, s);
+  return sampleImage(width, height, kind, s);
 }
 
 /** Weights the generated code writes differently (0, ±1, ±2) among ordinary ones. */
@@ -121,4 +131,38 @@ test('the generated running-histogram median gives the general loop’s values: 
     }),
     { numRuns: 150 },
   );
+});
+
+test('the generated Laplacian-of-Gaussian sweep gives the general loops’ bits: symmetric g and g″ of radius 1 to 9, and the LoG of σ 0.5 to 3', () => {
+  fc.assert(
+    fc.property(
+      fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 20, max: 60 }))),
+      imageKind,
+      seed,
+      borderMode,
+      fc.integer({ min: 1, max: 9 }).chain((r) => fc.tuple(symmetric(r), symmetric(r))),
+      fc.constantFrom(0.5, 1, 1.4, 2, 3),
+      ([w, h], kind, s, border, [g, g2], sigma) => {
+        const image = testImage(w, h, kind, s);
+        const dyadic = generatedAndGeneral(() => laplacianOfGaussianSweep(image, Float64Array.from(g), Float64Array.from(g2), border));
+        expect(bitsOf(dyadic.generated)).toEqual(bitsOf(dyadic.general));
+        const log = generatedAndGeneral(() => laplacianOfGaussian(image, sigma, border));
+        expect(bitsOf(log.generated)).toEqual(bitsOf(log.general));
+      },
+    ),
+    { numRuns: 200 },
+  );
+});
+
+test('the LoG sweep adds its vertical sums in the general loop’s order: 1 + 2⁶⁰ − 2⁶⁰ is 0 that way, 1 the other', () => {
+  // Rows repeating −2⁶⁰, 2⁶⁰, 1, 0, 0: at each centre row 1 the pairs are 2⁶⁰ and −2⁶⁰, and the centre
+  // term added first is lost in the first of them (double precision keeps 53 bits).
+  const pattern = [-(2 ** 60), 2 ** 60, 1, 0, 0];
+  const image = imageFromSamples(3, 40, Array.from({ length: 120 }, (_, i) => pattern[Math.floor(i / 3) % 5]));
+  const g = Float64Array.of(1, 1, 1, 1, 1);
+  const g2 = Float64Array.of(0, 0, 1, 0, 0);
+  const { generated, general } = generatedAndGeneral(() => laplacianOfGaussianSweep(image, g, g2, 'reflect'));
+  expect(bitsOf(generated)).toEqual(bitsOf(general));
+  // Row 22 (pattern index 2, the 1): smooth 0, curve 1, so the output is 0 + 1 + 2·2·1 = 5.
+  expect(general.data[22 * 3 + 1]).toBe(5);
 });

@@ -37,6 +37,12 @@ export function kernelLoopsEnabled(): boolean {
   return enabled;
 }
 
+/** Whether every weight can be written as a literal (an infinite or NaN weight keeps the general loop). */
+function allFinite(weights: ArrayLike<number>): boolean {
+  for (let i = 0; i < weights.length; i++) if (!Number.isFinite(weights[i])) return false;
+  return true;
+}
+
 /** The weight as a literal that reads back as the same double. */
 function literal(k: number): string {
   if (!Number.isFinite(k)) throw new RangeError(`kernel weight ${k} is not finite`);
@@ -91,7 +97,7 @@ export type DirectRowLoop = (lines: readonly Float64Array[], o: Float32Array, ba
 
 /** The direct row loop for this kernel, or null where the general loop is to run; `unscaled` when scale is 1 (x·1 is x: no multiplication). */
 export function directRowLoop(weights: ArrayLike<number>, rows: number, cols: number, unscaled: boolean): DirectRowLoop | null {
-  if (!enabled || rows * cols > MOST_GENERATED_TAPS) return null;
+  if (!enabled || !allFinite(weights) || rows * cols > MOST_GENERATED_TAPS) return null;
   const k = Array.from(weights, (v) => literal(v)).join(',');
   return compiled<DirectRowLoop>(`direct ${rows}x${cols} ${unscaled} ${k}`, () => directSource(weights, rows, cols, unscaled));
 }
@@ -174,7 +180,7 @@ export type ColumnLoop = (d: Float32Array, centre: number, w: number, lines: rea
 
 /** The symmetric column loop for these weights (2r+1 of them), or null where the general loops are to run. */
 export function symmetricColumnLoop(k: ArrayLike<number>): ColumnLoop | null {
-  if (!enabled) return null;
+  if (!enabled || !allFinite(k)) return null;
   const r = (k.length - 1) >> 1;
   const key = `column ${Array.from(k, (v) => literal(v)).join(',')}`;
   const R = COLUMN_LOOP_ROWS;
@@ -200,7 +206,7 @@ export type RowLoop = (line: Float64Array, o: Float32Array, base: number, w: num
 
 /** The symmetric row loop for these weights (2r+1 of them), or null where the general loops are to run. */
 export function symmetricRowLoop(k: ArrayLike<number>): RowLoop | null {
-  if (!enabled) return null;
+  if (!enabled || !allFinite(k)) return null;
   const r = (k.length - 1) >> 1;
   const key = `row ${Array.from(k, (v) => literal(v)).join(',')}`;
   return compiled<RowLoop>(key, () => {
@@ -272,7 +278,7 @@ export type LogColumnLoop = (d: Float32Array, centre: number, w: number, smooth:
 
 /** The LoG's vertical loop for these weights (g and g″, symmetric, 2r+1 each), or null where the general loop is to run. */
 export function logColumnLoop(g: ArrayLike<number>, g2: ArrayLike<number>): LogColumnLoop | null {
-  if (!enabled) return null;
+  if (!enabled || !allFinite(g) || !allFinite(g2)) return null;
   const r = (g.length - 1) >> 1;
   const key = `log column ${Array.from(g, literal).join(',')} ${Array.from(g2, literal).join(',')}`;
   return compiled<LogColumnLoop>(key, () => {
@@ -297,7 +303,7 @@ export type LogRowLoop = (smooth: Float64Array, curve: Float64Array, o: Float32A
 
 /** The LoG's horizontal loop for these weights, or null where the general loop is to run. */
 export function logRowLoop(g: ArrayLike<number>, g2: ArrayLike<number>): LogRowLoop | null {
-  if (!enabled) return null;
+  if (!enabled || !allFinite(g) || !allFinite(g2)) return null;
   const r = (g.length - 1) >> 1;
   const key = `log row ${Array.from(g, literal).join(',')} ${Array.from(g2, literal).join(',')}`;
   return compiled<LogRowLoop>(key, () => {

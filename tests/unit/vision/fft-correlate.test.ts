@@ -4,7 +4,7 @@
 // opencv-wide-kernels.test.ts.)
 import fc from 'fast-check';
 import { correlate, correlateDirect, PLAIN_FFT_KERNEL_TAPS } from '../../../shared/vision/convolve';
-import { correlateFft } from '../../../shared/vision/fft-correlate';
+import { correlateFft, largestFiniteMagnitude } from '../../../shared/vision/fft-correlate';
 import { createImage } from '../../../shared/vision/image';
 import { kernelFromMatrix } from '../../../shared/vision/kernels';
 import { bitsOf, borderMode, float32Tolerance, l1, largestDifference, largestMagnitude, onEngine, sampleImage, sampleKind, seed, useEngine } from './engines';
@@ -116,4 +116,28 @@ test('through the FFT, a sum whose exact value is 0 comes out 0 on both engines:
     }),
     { numRuns: 30 },
   );
+});
+
+test('largestFiniteMagnitude: the largest |sample|, NaN when a sample is NaN or ±∞ (IEEE 754 binary32 patterns)', () => {
+  fc.assert(
+    fc.property(fc.array(fc.float({ noNaN: true, noDefaultInfinity: true }), { maxLength: 41 }), (values) => {
+      const data = Float32Array.from(values);
+      const expected = data.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+      expect(largestFiniteMagnitude(data)).toBe(expected);
+    }),
+    { numRuns: 300 },
+  );
+  for (const bad of [NaN, Infinity, -Infinity]) {
+    for (const at of [0, 3, 4, 6]) {
+      const data = Float32Array.from([1, -2, 0.5, -0, 3, 7, -7]);
+      data[at] = bad;
+      expect(largestFiniteMagnitude(data)).toBeNaN();
+    }
+  }
+  // A subarray reads its own samples only; the largest subnormal and the largest finite float32.
+  const whole = Float32Array.from([Infinity, -5, 2, NaN]);
+  expect(largestFiniteMagnitude(whole.subarray(1, 3))).toBe(5);
+  expect(largestFiniteMagnitude(Float32Array.of(-(2 ** -149), 2 ** -149))).toBe(2 ** -149);
+  expect(largestFiniteMagnitude(Float32Array.of(-3.4028234663852886e38, 1))).toBe(3.4028234663852886e38);
+  expect(largestFiniteMagnitude(new Float32Array(0))).toBe(0);
 });

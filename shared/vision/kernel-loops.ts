@@ -321,3 +321,53 @@ export function logRowLoop(g: ArrayLike<number>, g2: ArrayLike<number>): LogRowL
     return rowFunctionSource('logRow(smooth, curve, o, base, w)', '', step);
   });
 }
+
+/**
+ * One row of the box filter's window sums (smoothing.ts, windowMeans and windowMask): the running
+ * sums of the even and odd windows, each step adding (b₀ + b₁) − (a₀ + a₁) as the general loop does,
+ * written out for 24 outputs per iteration with the window's size as a literal. The output is the
+ * mean, or with `masked` flip ^ (src > fround(mean) − c).
+ */
+export type BoxWindowLoop = (sums: Float64Array, w: number, scale: number, o: Float32Array, base: number, src: Float32Array, c: number, flip: number) => void;
+
+/** The box filter's row loop for this window size, or null where the general loop is to run. */
+export function boxWindowLoop(size: number, masked: boolean): BoxWindowLoop | null {
+  if (!enabled) return null;
+  return compiled<BoxWindowLoop>(`box ${size} ${masked}`, () => {
+    const write = (p: number | string, sum: string) =>
+      masked ? `o[base + x + ${p}] = flip ^ +(src[base + x + ${p}] > Math.fround(${sum} * scale) - c);` : `o[base + x + ${p}] = ${sum} * scale;`;
+    const P = PIXELS_PER_ITERATION;
+    const body: string[] = [];
+    const loaded = new Set<number>();
+    const at = (q: number) => {
+      if (!loaded.has(q)) {
+        loaded.add(q);
+        body.push(`const s${q} = sums[x + ${q}];`);
+      }
+      return `s${q}`;
+    };
+    for (let p = 0; p < P; p += 2) {
+      body.push(write(p, 'even'), write(p + 1, 'odd'));
+      const a0 = at(p), a1 = at(p + 1), a2 = at(p + 2), b0 = at(p + size), b1 = at(p + size + 1), b2 = at(p + size + 2);
+      body.push(`even += ${b0} + ${b1} - (${a0} + ${a1});`, `odd += ${b1} + ${b2} - (${a1} + ${a2});`);
+    }
+    return `return function boxWindow(sums, w, scale, o, base, src, c, flip) {
+let even = 0;
+for (let i = 0; i < ${size}; i++) even += sums[i];
+let odd = even + sums[${size}] - sums[0];
+let x = 0;
+for (; x + ${P - 1} < w; x += ${P}) {
+${body.join('\n')}
+}
+for (; x + 1 < w; x += 2) {
+${write(0, 'even')}
+${write(1, 'odd')}
+even += sums[x + ${size}] + sums[x + ${size + 1}] - (sums[x] + sums[x + 1]);
+odd += sums[x + ${size + 1}] + sums[x + ${size + 2}] - (sums[x + 1] + sums[x + 2]);
+}
+if (x < w) {
+${write(0, 'even')}
+}
+};`;
+  });
+}

@@ -3,6 +3,7 @@ import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } 
 import { correlateSeparable } from './convolve';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
+import { boxWindowLoop } from './kernel-loops';
 import { gaussianWeights } from './kernels';
 
 /** Gaussian blur, radius ceil(3σ), weights normalised to sum 1, two 1-D passes. */
@@ -48,6 +49,7 @@ function boxPass(src: Image, size: number, border: BorderMode, dst: Image, compa
   // Three spare zeros at the end: the running sums read up to three entries past the last window.
   const sums = new Float64Array(w + 2 * r + 3);
   const scale = 1 / (size * size);
+  const generated = boxWindowLoop(size, comparison !== null);
   // Column sums for output row 0: rows −r … r.
   for (let t = 0; t < size; t++) {
     const off = rowOffsets[t];
@@ -56,7 +58,8 @@ function boxPass(src: Image, size: number, border: BorderMode, dst: Image, compa
   }
   for (let y = 0; y < h; y++) {
     fillRowBorder(sums, w, r, colTable);
-    if (comparison) windowMask(sums, size, w, scale, data, comparison.c, comparison.flip, o, y * w);
+    if (generated) generated(sums, w, scale, o, y * w, data, comparison?.c ?? 0, comparison?.flip ?? 0);
+    else if (comparison) windowMask(sums, size, w, scale, data, comparison.c, comparison.flip, o, y * w);
     else windowMeans(sums, size, w, scale, o, y * w);
     if (y + 1 === h) break;
     // Slide the column sums down: add row y+r+1, drop row y−r (slideColumns; four windows per

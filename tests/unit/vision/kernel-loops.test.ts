@@ -12,6 +12,8 @@ import { directRowLoop, kernelLoopsEnabled, MOST_GENERATED_TAPS, setKernelLoops,
 import { gaussianWeights, kernelFromMatrix } from '../../../shared/vision/kernels';
 import { laplacianOfGaussian, laplacianOfGaussianSweep } from '../../../shared/vision/laplacian';
 import { medianFilter } from '../../../shared/vision/median';
+import { boxFilter } from '../../../shared/vision/smoothing';
+import { thresholdAdaptiveMean } from '../../../shared/vision/threshold';
 import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { bitsOf, borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
 import { seededRandom } from './images';
@@ -167,4 +169,26 @@ test('the LoG sweep adds its vertical sums in the general loop’s order: 1 + 2�
   expect(bitsOf(generated)).toEqual(bitsOf(general));
   // Row 22 (pattern index 2, the 1): smooth 0, curve 1, so the output is 0 + 1 + 2·2·1 = 5.
   expect(general.data[22 * 3 + 1]).toBe(5);
+});
+
+test('the generated box-filter row gives the general loop’s bits: means and the adaptive-mean mask, windows 1 to 31', () => {
+  fc.assert(
+    fc.property(
+      fc.oneof(imageSize, fc.tuple(fc.integer({ min: 20, max: 90 }), fc.integer({ min: 1, max: 12 }))),
+      imageKind,
+      seed,
+      borderMode,
+      fc.integer({ min: 0, max: 15 }).map((r) => 2 * r + 1),
+      fc.constantFrom(0, 2.5, -4),
+      fc.boolean(),
+      ([w, h], kind, s, border, size, c, invert) => {
+        const image = testImage(w, h, kind, s);
+        const means = generatedAndGeneral(() => boxFilter(image, size, border));
+        expect(bitsOf(means.generated)).toEqual(bitsOf(means.general));
+        const mask = generatedAndGeneral(() => thresholdAdaptiveMean(image, size, c, border, invert));
+        expect(bitsOf(mask.generated)).toEqual(bitsOf(mask.general));
+      },
+    ),
+    { numRuns: 200 },
+  );
 });

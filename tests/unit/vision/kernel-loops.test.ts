@@ -54,6 +54,11 @@ function testImage(width: number, height: number, kind: TestKind, s: number): Im
   return sampleImage(width, height, kind, s);
 }
 
+/** Test images of those kinds at these sizes (width, height). */
+const imagesOf = (sizes: fc.Arbitrary<number[]>) => fc.tuple(sizes, imageKind, seed).map(([[w, h], kind, s]) => testImage(w, h, kind, s));
+/** Any size, or tall enough for the column loops' twelve rows and the kernels' reach. */
+const tallOrAny = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 20, max: 70 })));
+
 /** Weights the generated code writes differently (0, ±1, ±2) among ordinary ones. */
 const weight = fc.oneof(fc.constantFrom(0, 0, 1, -1, 2, -2, -0), fc.integer({ min: -40, max: 40 }).map((v) => v / 8), fc.double({ min: -5, max: 5, noNaN: true }));
 
@@ -75,8 +80,7 @@ test('the generated loops are on where the runtime compiles code (Node does)', (
 
 test('generated direct correlation gives the general loop’s bits: zero taps, ±1, ±2, any size up to 7×7, divisor and offset', () => {
   fc.assert(
-    fc.property(imageSize, imageKind, seed, borderMode, directKernel, fc.integer({ min: 1, max: 9 }), fc.constantFrom(0, -0, 0.5, -3), ([w, h], kind, s, border, matrix, divisor, offset) => {
-      const image = testImage(w, h, kind, s);
+    fc.property(imagesOf(imageSize), borderMode, directKernel, fc.integer({ min: 1, max: 9 }), fc.constantFrom(0, -0, 0.5, -3), (image, border, matrix, divisor, offset) => {
       const kernel = kernelFromMatrix(matrix, divisor, offset);
       const { generated, general } = generatedAndGeneral(() => correlateDirect(image, kernel, border));
       expect(bitsOf(generated)).toEqual(bitsOf(general));
@@ -88,15 +92,12 @@ test('generated direct correlation gives the general loop’s bits: zero taps, �
 test('generated separable passes give the general loops’ bits: symmetric kernels of radius 0 to 12, tall and short images', () => {
   fc.assert(
     fc.property(
-      fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 20, max: 70 }))),
-      imageKind,
-      seed,
+      imagesOf(tallOrAny),
       borderMode,
       fc.integer({ min: 0, max: 12 }).chain(symmetric),
       fc.integer({ min: 0, max: 12 }).chain(symmetric),
       fc.constantFrom(0, 0.25, -2),
-      ([w, h], kind, s, border, column, row, offset) => {
-        const image = testImage(w, h, kind, s);
+      (image, border, column, row, offset) => {
         const { generated, general } = generatedAndGeneral(() => correlateSeparable(image, column, row, border, undefined, offset));
         expect(bitsOf(generated)).toEqual(bitsOf(general));
       },
@@ -108,13 +109,10 @@ test('generated separable passes give the general loops’ bits: symmetric kerne
 test('the Gaussians of the rule format (σ 0.5 to 5) and the Gaussian → Sobel sweep give the general loops’ bits', () => {
   fc.assert(
     fc.property(
-      fc.tuple(fc.integer({ min: 1, max: 45 }), fc.integer({ min: 1, max: 60 })),
-      imageKind,
-      seed,
+      imagesOf(fc.tuple(fc.integer({ min: 1, max: 45 }), fc.integer({ min: 1, max: 60 }))),
       borderMode,
       fc.constantFrom(0.5, 0.8, 1, 1.4, 2, 3, 5),
-      ([w, h], kind, s, border, sigma) => {
-        const image = testImage(w, h, kind, s);
+      (image, border, sigma) => {
         const g = gaussianWeights(sigma);
         const blur = generatedAndGeneral(() => correlateSeparable(image, g, g, border));
         expect(bitsOf(blur.generated)).toEqual(bitsOf(blur.general));
@@ -140,14 +138,11 @@ test('the generated running-histogram median gives the general loop’s values: 
 test('the generated Laplacian-of-Gaussian sweep gives the general loops’ bits: symmetric g and g″ of radius 1 to 9, and the LoG of σ 0.5 to 3', () => {
   fc.assert(
     fc.property(
-      fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 20, max: 60 }))),
-      imageKind,
-      seed,
+      imagesOf(tallOrAny),
       borderMode,
       fc.integer({ min: 1, max: 9 }).chain((r) => fc.tuple(symmetric(r), symmetric(r))),
       fc.constantFrom(0.5, 1, 1.4, 2, 3),
-      ([w, h], kind, s, border, [g, g2], sigma) => {
-        const image = testImage(w, h, kind, s);
+      (image, border, [g, g2], sigma) => {
         const dyadic = generatedAndGeneral(() => laplacianOfGaussianSweep(image, Float64Array.from(g), Float64Array.from(g2), border));
         expect(bitsOf(dyadic.generated)).toEqual(bitsOf(dyadic.general));
         const log = generatedAndGeneral(() => laplacianOfGaussian(image, sigma, border));
@@ -174,15 +169,12 @@ test('the LoG sweep adds its vertical sums in the general loop’s order: 1 + 2�
 test('the generated box-filter row gives the general loop’s bits: means and the adaptive-mean mask, windows 1 to 31', () => {
   fc.assert(
     fc.property(
-      fc.oneof(imageSize, fc.tuple(fc.integer({ min: 20, max: 90 }), fc.integer({ min: 1, max: 12 }))),
-      imageKind,
-      seed,
+      imagesOf(fc.oneof(imageSize, fc.tuple(fc.integer({ min: 20, max: 90 }), fc.integer({ min: 1, max: 12 })))),
       borderMode,
       fc.integer({ min: 0, max: 15 }).map((r) => 2 * r + 1),
       fc.constantFrom(0, 2.5, -4),
       fc.boolean(),
-      ([w, h], kind, s, border, size, c, invert) => {
-        const image = testImage(w, h, kind, s);
+      (image, border, size, c, invert) => {
         const means = generatedAndGeneral(() => boxFilter(image, size, border));
         expect(bitsOf(means.generated)).toEqual(bitsOf(means.general));
         const mask = generatedAndGeneral(() => thresholdAdaptiveMean(image, size, c, border, invert));

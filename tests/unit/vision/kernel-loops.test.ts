@@ -55,7 +55,7 @@ function testImage(width: number, height: number, kind: TestKind, s: number): Im
 }
 
 /** Test images of those kinds at these sizes (width, height). */
-const imagesOf = (sizes: fc.Arbitrary<number[]>) => fc.tuple(sizes, imageKind, seed).map(([[w, h], kind, s]) => testImage(w, h, kind, s));
+const imagesOf = (sizes: fc.Arbitrary<readonly number[]>) => fc.tuple(sizes, imageKind, seed).map(([[w, h], kind, s]) => testImage(w, h, kind, s));
 /** Any size, or tall enough for the column loops' twelve rows and the kernels' reach. */
 const tallOrAny = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 20, max: 70 })));
 

@@ -68,8 +68,9 @@ export const SEPARABLE_ROWS_AT_MOST = Math.max(4, COLUMN_LOOP_ROWS);
 
 /**
  * The plain engine's separable correlation as a sweep down the image: each call of `next` computes
- * the next one, two or four output rows (as float32, the image's own values) into rows that the
- * caller chooses, so that a following step can read them while they are in the cache.
+ * the next one, two, four or (generated loops) COLUMN_LOOP_ROWS output rows, as float32 (the image's
+ * own values), into rows that the caller chooses, so that a following step can read them while they
+ * are in the cache.
  */
 export class SeparableSweep {
   private readonly w: number;

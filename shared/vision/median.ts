@@ -8,7 +8,7 @@
 import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } from './border';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
-import { histogramMedianRowLoop } from './kernel-loops';
+import { histogramMedianRowLoop, type MedianRowLoop } from './kernel-loops';
 import { keysOf, maxKey, minKey, sampleBits, sampleOrder, samplesFromKeys } from './ordered-keys';
 
 const HISTOGRAM_LEVELS = 65536;
@@ -68,10 +68,11 @@ function medianByHistogram(src: Image, size: number, border: BorderMode, o: Floa
   };
   for (let t = 0; t < size - 1; t++) fill(t);
   const hist = new Int32Array(levels);
+  const generated = histogramMedianRowLoop(size);
   for (let y = 0; y < h; y++) {
     fill(y + size - 1);
     for (let j = 0; j < size; j++) rowsAt[j] = ((y + j) % size) * pw;
-    medianRowByHistogram(ring, rowsAt, w, size, hist, o, y * w);
+    medianRowByHistogram(ring, rowsAt, w, size, hist, o, y * w, generated);
   }
 }
 
@@ -83,7 +84,7 @@ function medianByHistogram(src: Image, size: number, border: BorderMode, o: Floa
  * instead of compiling the first photo's long loop on-stack (tests/bench: 29–42 ns/px for the same
  * 5×5 median from one process to the next before).
  */
-function medianRowByHistogram(padded: Int32Array, rowsAt: Int32Array, w: number, size: number, hist: Int32Array, o: Float32Array, base: number): void {
+function medianRowByHistogram(padded: Int32Array, rowsAt: Int32Array, w: number, size: number, hist: Int32Array, o: Float32Array, base: number, generated: MedianRowLoop | null): void {
   const rank = (size * size - 1) >> 1; // 0-based rank of the median among size² values
   hist.fill(0);
   for (let j = 0; j < size; j++) {
@@ -95,7 +96,6 @@ function medianRowByHistogram(padded: Int32Array, rowsAt: Int32Array, w: number,
   let below = 0;
   while (below + hist[m] <= rank) below += hist[m++];
   o[base] = m;
-  const generated = histogramMedianRowLoop(size);
   if (generated) {
     generated(padded, rowsAt, w, hist, o, base, m, below, rank);
     return;
@@ -122,7 +122,7 @@ function warmUpMedianRows(): void {
   const hist = new Int32Array(16);
   const o = new Float32Array(w);
   for (let i = 0; i < 6; i++) {
-    for (const size of [3, 5, 7]) medianRowByHistogram(padded, Int32Array.from({ length: size }, (_, j) => j * (w + size - 1)), w, size, hist, o, 0);
+    for (const size of [3, 5, 7]) medianRowByHistogram(padded, Int32Array.from({ length: size }, (_, j) => j * (w + size - 1)), w, size, hist, o, 0, null);
   }
 }
 

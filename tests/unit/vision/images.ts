@@ -41,3 +41,13 @@ export function maskImage(width: number, height: number, seed = 2, density = 0.3
   }
   return imageFromSamples(width, height, samples);
 }
+
+/**
+ * Samples whose sums cancel: 2⁵³ + 1 rounds to 2⁵³ in double precision, so adding in another order
+ * changes a result by whole units, which the float32 store keeps (every sample is a float32 exactly).
+ */
+export function cancellingImage(width: number, height: number, seed: number): Image {
+  const rand = seededRandom(seed);
+  const values = [2 ** 53, -(2 ** 53), 2 ** 60, -(2 ** 60), 1, -1, 0.75, 3, 0];
+  return imageFromSamples(width, height, Array.from({ length: width * height }, () => values[Math.floor(rand() * values.length)]));
+}

@@ -16,7 +16,7 @@ import { boxFilter } from '../../../shared/vision/smoothing';
 import { thresholdAdaptiveMean } from '../../../shared/vision/threshold';
 import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { bitsOf, borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
-import { seededRandom } from './images';
+import { cancellingImage } from './images';
 
 /** fn with the generated loops, then with the general loops. */
 function generatedAndGeneral(fn: () => Image): { generated: Image; general: Image } {
@@ -27,16 +27,6 @@ function generatedAndGeneral(fn: () => Image): { generated: Image; general: Imag
   } finally {
     setKernelLoops(true);
   }
-}
-
-/**
- * Samples whose sums cancel: 2⁵³ + 1 rounds to 2⁵³ in double precision, so adding in another order
- * changes a result by whole units, which the float32 store keeps (every sample is a float32 exactly).
- */
-function cancellingImage(width: number, height: number, s: number): Image {
-  const rand = seededRandom(s);
-  const values = [2 ** 53, -(2 ** 53), 2 ** 60, -(2 ** 60), 1, -1, 0.75, 3, 0];
-  return imageFromSamples(width, height, Array.from({ length: width * height }, () => values[Math.floor(rand() * values.length)]));
 }
 
 /** cancellingImage's values, one per row: a vertical sum's order then shows through a horizontal pass of any weights. */

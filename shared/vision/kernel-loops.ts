@@ -327,13 +327,25 @@ export function logRowLoop(g: ArrayLike<number>, g2: ArrayLike<number>): LogRowL
  * sums of the even and odd windows, each step adding (b₀ + b₁) − (a₀ + a₁) as the general loop does,
  * written out for 24 outputs per iteration with the window's size as a literal. The output is the
  * mean, or with `masked` flip ^ (src > fround(mean) − c).
+ * With `sliding`, the loop also moves the column sums down for the next row from the values it has
+ * just loaded: sums[i] += data[addShift + i] − data[dropShift + i] (the slide's own operation) for
+ * i < boxSlidUpTo(w), border entries included (fillRowBorder writes those again); the caller
+ * slides the rest.
  */
-export type BoxWindowLoop = (sums: Float64Array, w: number, scale: number, o: Float32Array, base: number, src: Float32Array, c: number, flip: number) => void;
+export type BoxWindowLoop = (
+  sums: Float64Array, w: number, scale: number, o: Float32Array, base: number, src: Float32Array, c: number, flip: number,
+  data: Float32Array, addShift: number, dropShift: number,
+) => void;
+
+/** How many column sums a sliding box window loop moves down: those its 24-window iterations load. */
+export function boxSlidUpTo(w: number): number {
+  return w - (w % PIXELS_PER_ITERATION);
+}
 
 /** The box filter's row loop for this window size, or null where the general loop is to run. */
-export function boxWindowLoop(size: number, masked: boolean): BoxWindowLoop | null {
+export function boxWindowLoop(size: number, masked: boolean, sliding = false): BoxWindowLoop | null {
   if (!enabled) return null;
-  return compiled<BoxWindowLoop>(`box ${size} ${masked}`, () => {
+  return compiled<BoxWindowLoop>(`box ${size} ${masked} ${sliding}`, () => {
     const write = (p: number | string, sum: string) =>
       masked ? `o[base + x + ${p}] = flip ^ +(src[base + x + ${p}] > Math.fround(${sum} * scale) - c);` : `o[base + x + ${p}] = ${sum} * scale;`;
     const P = PIXELS_PER_ITERATION;
@@ -351,7 +363,9 @@ export function boxWindowLoop(size: number, masked: boolean): BoxWindowLoop | nu
       const a0 = at(p), a1 = at(p + 1), a2 = at(p + 2), b0 = at(p + size), b1 = at(p + size + 1), b2 = at(p + size + 2);
       body.push(`even += ${b0} + ${b1} - (${a0} + ${a1});`, `odd += ${b1} + ${b2} - (${a1} + ${a2});`);
     }
-    return `return function boxWindow(sums, w, scale, o, base, src, c, flip) {
+    // Entries x … x+P−1 are loaded by no later iteration: each moves down once it has been read.
+    if (sliding) for (let q = 0; q < P; q++) body.push(`sums[x + ${q}] = ${at(q)} + (data[addShift + x + ${q}] - data[dropShift + x + ${q}]);`);
+    return `return function boxWindow(sums, w, scale, o, base, src, c, flip, data, addShift, dropShift) {
 let even = 0;
 for (let i = 0; i < ${size}; i++) even += sums[i];
 let odd = even + sums[${size}] - sums[0];

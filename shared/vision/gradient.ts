@@ -238,7 +238,7 @@ function sobelXRow(s: Float32Array, du: number, c: number, dd: number, w: number
   o[base + last] = ends[2] - sPrev;
 }
 
-/** sobelXRow for two output rows from one load of the four rows around them (two loads per output instead of three), eight pixels per iteration, then four, then two. */
+/** sobelXRow for two output rows from one load of the four rows around them (two loads per output instead of three), eight pixels per iteration, then two. */
 function sobelXRowPair(s: Float32Array, du: number, c: number, dd: number, de: number, w: number, ends: Float64Array, o: Float32Array, base: number): void {
   let sPrev0 = ends[0];
   let sPrev1 = ends[4];
@@ -294,33 +294,6 @@ function sobelXRowPair(s: Float32Array, du: number, c: number, dd: number, de: n
     sCur0 = a8;
     sPrev1 = b7;
     sCur1 = b8;
-  }
-  for (; x + 3 < last; x += 4, p += 4) {
-    const q = base + x;
-    const u1 = s[p + du], c1 = s[p], d1 = s[p + dd], e1 = s[p + de];
-    const u2 = s[p + 1 + du], c2 = s[p + 1], d2 = s[p + 1 + dd], e2 = s[p + 1 + de];
-    const a1 = u1 + d1 + (c1 + c1);
-    const b1 = c1 + e1 + (d1 + d1);
-    const a2 = u2 + d2 + (c2 + c2);
-    const b2 = c2 + e2 + (d2 + d2);
-    o[q] = a1 - sPrev0;
-    o[q + w] = b1 - sPrev1;
-    o[q + 1] = a2 - sCur0;
-    o[q + 1 + w] = b2 - sCur1;
-    const u3 = s[p + 2 + du], c3 = s[p + 2], d3 = s[p + 2 + dd], e3 = s[p + 2 + de];
-    const u4 = s[p + 3 + du], c4 = s[p + 3], d4 = s[p + 3 + dd], e4 = s[p + 3 + de];
-    const a3 = u3 + d3 + (c3 + c3);
-    const b3 = c3 + e3 + (d3 + d3);
-    const a4 = u4 + d4 + (c4 + c4);
-    const b4 = c4 + e4 + (d4 + d4);
-    o[q + 2] = a3 - a1;
-    o[q + 2 + w] = b3 - b1;
-    o[q + 3] = a4 - a2;
-    o[q + 3 + w] = b4 - b2;
-    sPrev0 = a3;
-    sCur0 = a4;
-    sPrev1 = b3;
-    sCur1 = b4;
   }
   for (; x + 1 < last; x += 2, p += 2) {
     const q = base + x;

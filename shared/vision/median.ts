@@ -128,7 +128,6 @@ function warmUpMedianRows(): void {
   }
 }
 
-warmUpMedianRows();
 
 /**
  * 3×3 median with each column of three sorted once per row (it serves three windows): the window's
@@ -171,22 +170,11 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array,
  */
 function median3Row(a: Int32Array, b: Int32Array, c: Int32Array, w: number, left: number, right: number, out: Int32Array, base: number): void {
   // Column −1, then column 0: (low, middle, high) of each.
-  let l0 = 0, m0 = 0, h0 = 0;
-  if (left !== OUTSIDE) {
-    const u = a[left], v = b[left], t = c[left];
-    const lo = minKey(u, v), hi = maxKey(u, v);
-    l0 = minKey(lo, t);
-    h0 = maxKey(hi, t);
-    m0 = maxKey(lo, minKey(hi, t));
-  }
-  let l1, m1, h1;
-  {
-    const u = a[0], v = b[0], t = c[0];
-    const lo = minKey(u, v), hi = maxKey(u, v);
-    l1 = minKey(lo, t);
-    h1 = maxKey(hi, t);
-    m1 = maxKey(lo, minKey(hi, t));
-  }
+  const sorted = COLUMN;
+  sortColumn(a, b, c, left, sorted);
+  let l0 = sorted[0], m0 = sorted[1], h0 = sorted[2];
+  sortColumn(a, b, c, 0, sorted);
+  let l1 = sorted[0], m1 = sorted[1], h1 = sorted[2];
   let x = 0;
   for (; x + 2 < w; x += 2) {
     const u2 = a[x + 1], v2 = b[x + 1], t2 = c[x + 1];
@@ -216,15 +204,8 @@ function median3Row(a: Int32Array, b: Int32Array, c: Int32Array, w: number, left
   }
   for (; x < w; x++) {
     // Column x+1, or column w from the border.
-    const col = x + 1 < w ? x + 1 : right;
-    let l2 = 0, m2 = 0, h2 = 0;
-    if (col !== OUTSIDE) {
-      const u = a[col], v = b[col], t = c[col];
-      const lo = minKey(u, v), hi = maxKey(u, v);
-      l2 = minKey(lo, t);
-      h2 = maxKey(hi, t);
-      m2 = maxKey(lo, minKey(hi, t));
-    }
+    sortColumn(a, b, c, x + 1 < w ? x + 1 : right, sorted);
+    const l2 = sorted[0], m2 = sorted[1], h2 = sorted[2];
     const maxLow = maxKey(maxKey(l0, l1), l2);
     const minHigh = minKey(minKey(h0, h1), h2);
     const middle = maxKey(minKey(m0, m1), minKey(maxKey(m0, m1), m2));
@@ -236,6 +217,22 @@ function median3Row(a: Int32Array, b: Int32Array, c: Int32Array, w: number, left
     m1 = m2;
     h1 = h2;
   }
+}
+
+/** Scratch for sortColumn's (low, middle, high). */
+const COLUMN = new Int32Array(3);
+
+/** into = (low, middle, high) of column col of the key rows a, b, c; the key 0 three times for OUTSIDE. */
+function sortColumn(a: Int32Array, b: Int32Array, c: Int32Array, col: number, into: Int32Array): void {
+  if (col === OUTSIDE) {
+    into.fill(0);
+    return;
+  }
+  const u = a[col], v = b[col], t = c[col];
+  const lo = minKey(u, v), hi = maxKey(u, v);
+  into[0] = minKey(lo, t);
+  into[1] = maxKey(lo, minKey(hi, t));
+  into[2] = maxKey(hi, t);
 }
 
 function medianBySelection(src: Image, size: number, border: BorderMode, o: Float32Array): void {
@@ -286,3 +283,6 @@ function selectRank(values: Float64Array, n: number, k: number): number {
   }
   return values[k];
 }
+
+// Last, once every constant of the module is initialised.
+warmUpMedianRows();

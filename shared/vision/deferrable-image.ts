@@ -1,5 +1,6 @@
 // The plain engine's workspace image. A mask written by the packed-bit morphology may keep its
-// samples in packed bits (one bit per pixel) until something reads `data`: the edge fraction and the
+// samples in packed bits (one bit per pixel) until something reads `data` (a step about to overwrite
+// the image drops them unread: imageLike in image.ts): the edge fraction and the
 // blobs read the bits themselves, so a run whose last step is such a mask, and whose images stay in
 // the workspace, never writes its float32 samples (20 MB at 5 MP). The SIMD engine's counterpart is
 // wasm/resident-image.ts.

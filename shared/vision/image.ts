@@ -57,8 +57,22 @@ export function maxSampleValue(bitDepth: BitDepth): number {
 
 /** Reuses `out` when it has the right size; otherwise allocates. */
 export function imageLike(src: { width: number; height: number }, out?: Image): Image {
-  if (out && out.width === src.width && out.height === src.height) return out;
+  if (out && out.width === src.width && out.height === src.height) {
+    // The step overwrites every sample of its output: samples a workspace image still holds in
+    // packed bits (or waits to fill) are dropped unwritten, as the SIMD kernels drop them.
+    if (out !== src && holdsDeferredSamples(out)) out.discard();
+    return out;
+  }
   return createImage(src.width, src.height);
+}
+
+/** A workspace image whose samples may wait until first read (deferrable-image.ts, wasm/resident-image.ts). */
+interface DeferringImage extends Image {
+  discard(): void;
+}
+
+function holdsDeferredSamples(image: Image): image is DeferringImage {
+  return typeof (image as Partial<DeferringImage>).discard === 'function';
 }
 
 /**

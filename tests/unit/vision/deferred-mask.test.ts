@@ -7,7 +7,7 @@ import { labelBlobs } from '../../../shared/vision/blobs';
 import { pendingMask } from '../../../shared/vision/deferrable-image';
 import { setEngine, simdKernels, type EngineName } from '../../../shared/vision/engine';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
-import { createImage, type Image } from '../../../shared/vision/image';
+import { createImage, imageLike, type Image } from '../../../shared/vision/image';
 import { morphology } from '../../../shared/vision/morphology';
 import { gaussianBlur } from '../../../shared/vision/smoothing';
 import { isResident } from '../../../shared/vision/wasm/resident-image';
@@ -100,5 +100,26 @@ describe.each<EngineName>(['simd', 'plain'])('%s engine', (engine) => {
     if (heap) expect(heap.blocksInUse).toBe(inUse - 1);
     const reused = gaussianBlur(source, 2, 'reflect', workspace.take(w, h));
     expect(Array.from(reused.data)).toEqual(Array.from(gaussianBlur(createImage(w, h, source.data.slice()), 2, 'reflect').data));
+  });
+
+  test('a step writing into an image that still holds a deferred mask drops the bits unwritten and writes its own samples', () => {
+    const { w, h, source, out, written } = openedInWorkspace(17);
+    expect(deferred(out)).toBe(true);
+    // Every output-taking step of the engine asks imageLike for its output first (image.ts).
+    const raw = isResident(out) ? null : (out as unknown as { samples: Float32Array }).samples;
+    raw?.fill(NaN);
+    expect(imageLike(source, out)).toBe(out);
+    expect(deferred(out)).toBe(false);
+    // Dropped, not written: the plain buffer still holds what was there before (NaN), not the mask.
+    if (raw) expect(raw.every(Number.isNaN)).toBe(true);
+    // A step's output there equals the same step's output in fresh memory, whatever the engine.
+    const opened = morphology(source, 'open', 1, 'reflect', out);
+    const blurred = gaussianBlur(written, 1.5, 'reflect', opened);
+    expect(Array.from(blurred.data)).toEqual(Array.from(gaussianBlur(written, 1.5, 'reflect').data));
+    // The image a step reads is never its own output: imageLike(src, src) keeps src's deferred samples.
+    const again = morphology(source, 'open', 1, 'reflect', out);
+    expect(imageLike(again, again)).toBe(again);
+    expect(deferred(again)).toBe(true);
+    expect(Array.from(again.data)).toEqual(Array.from(written.data));
   });
 });

@@ -4,8 +4,9 @@
 // two at a time (rows y and y+1 from one load of the four rows around them) and the rows next to a
 // border one at a time; images of every height from 1 up take both paths and their seams.
 // Sobel: Gonzalez & Woods, Digital Image Processing, 3rd ed., §3.6.4 (x kernel [−1 0 1; −2 0 2;
-// −1 0 1], smoothing [1 2 1]ᵀ ⊗ difference [−1 0 1]); Laplacian: the same book, §3.6.2.
-// Border positions: plain-reference.ts (OpenCV's border types).
+// −1 0 1], smoothing [1 2 1]ᵀ ⊗ difference [−1 0 1]); Laplacian: the same book, §3.6.2 (sections
+// from memory; the kernels are common practice). Border positions: plain-reference.ts (OpenCV's
+// border types).
 import fc from 'fast-check';
 import type { BorderMode, GradientOutput } from '../../../shared/rules/schema';
 import { gradient } from '../../../shared/vision/gradient';

@@ -25,12 +25,13 @@ export function laplacian(src: Image, neighbours: 4 | 8, border: BorderMode, out
   const rightColumn = colTable[w + 1];
   const zeros = new Float32Array(w);
   const last = w - 1;
+  // A sample of column −1 or w of a row (0 outside under the constant border).
+  const at = (row: number, col: number) => (col === OUTSIDE ? 0 : data[row * w + col]);
   for (let y = 0; y < h; y++) {
     const upOff = rowOffsets[y];
     const downOff = rowOffsets[y + 2];
     if (neighbours === 4 && upOff !== OUTSIDE && y + 1 < h && rowOffsets[y + 3] !== OUTSIDE) {
       // Rows y and y+1 from one load of the four rows around them.
-      const at = (row: number, col: number) => (col === OUTSIDE ? 0 : data[row * w + col]);
       laplacian4RowPair(data, upOff, y * w, rowOffsets[y + 3], w, at(y, leftColumn), at(y, rightColumn), at(y + 1, leftColumn), at(y + 1, rightColumn), o);
       y++;
       continue;

@@ -128,7 +128,6 @@ function warmUpMedianRows(): void {
   }
 }
 
-
 /**
  * 3×3 median with each column of three sorted once per row (it serves three windows): the window's
  * median is the median of the largest of the three lows, the middle of the three middles and the
@@ -136,8 +135,8 @@ function warmUpMedianRows(): void {
  * common practice, from memory). Samples hold no NaN or −0 (see sampleOrder), so they are compared
  * as integer keys that sort as the values do (ordered-keys.ts), with minima and maxima that need no
  * branch (a branch per comparison mispredicts on noisy pixels: four times slower, measured).
- * The columns are sorted as the window reaches them (median3Row, warmed up: 5 MP, one CPU, 13.5 → 11.0 ns/px
- * against sorting a row's columns into arrays first).
+ * The columns are sorted as the window reaches them (median3Row, warmed up: 5 MP, one CPU,
+ * 13.5 → 11.0 ns/px against sorting a row's columns into arrays first).
  */
 function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array, nonNegative: boolean): void {
   const { width: w, height: h, data } = src;

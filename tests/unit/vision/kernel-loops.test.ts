@@ -18,6 +18,12 @@ import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { bitsOf, borderMode, imageSize, onEngine, sampleImage, seed, type SampleKind } from './engines';
 import { cancellingImage } from './images';
 
+/** fn's output with the generated loops has the same float32 bits as with the general loops. */
+function expectSameBits(fn: () => Image): void {
+  const { generated, general } = generatedAndGeneral(fn);
+  expect(bitsOf(generated)).toEqual(bitsOf(general));
+}
+
 /** fn with the generated loops, then with the general loops. */
 function generatedAndGeneral(fn: () => Image): { generated: Image; general: Image } {
   const generated = onEngine('plain', fn);
@@ -72,8 +78,7 @@ test('generated direct correlation gives the general loop’s bits: zero taps, �
   fc.assert(
     fc.property(imagesOf(imageSize), borderMode, directKernel, fc.integer({ min: 1, max: 9 }), fc.constantFrom(0, -0, 0.5, -3), (image, border, matrix, divisor, offset) => {
       const kernel = kernelFromMatrix(matrix, divisor, offset);
-      const { generated, general } = generatedAndGeneral(() => correlateDirect(image, kernel, border));
-      expect(bitsOf(generated)).toEqual(bitsOf(general));
+      expectSameBits(() => correlateDirect(image, kernel, border));
     }),
     { numRuns: 300 },
   );
@@ -88,8 +93,7 @@ test('generated separable passes give the general loops’ bits: symmetric kerne
       fc.integer({ min: 0, max: 12 }).chain(symmetric),
       fc.constantFrom(0, 0.25, -2),
       (image, border, column, row, offset) => {
-        const { generated, general } = generatedAndGeneral(() => correlateSeparable(image, column, row, border, undefined, offset));
-        expect(bitsOf(generated)).toEqual(bitsOf(general));
+        expectSameBits(() => correlateSeparable(image, column, row, border, undefined, offset));
       },
     ),
     { numRuns: 300 },
@@ -104,10 +108,8 @@ test('the Gaussians of the rule format (σ 0.5 to 5) and the Gaussian → Sobel 
       fc.constantFrom(0.5, 0.8, 1, 1.4, 2, 3, 5),
       (image, border, sigma) => {
         const g = gaussianWeights(sigma);
-        const blur = generatedAndGeneral(() => correlateSeparable(image, g, g, border));
-        expect(bitsOf(blur.generated)).toEqual(bitsOf(blur.general));
-        const edges = generatedAndGeneral(() => gaussianGradient(image, sigma, 'sobel', 'magnitude', border));
-        expect(bitsOf(edges.generated)).toEqual(bitsOf(edges.general));
+        expectSameBits(() => correlateSeparable(image, g, g, border));
+        expectSameBits(() => gaussianGradient(image, sigma, 'sobel', 'magnitude', border));
       },
     ),
     { numRuns: 150 },
@@ -118,8 +120,7 @@ test('the generated running-histogram median gives the general loop’s values: 
   fc.assert(
     fc.property(imageSize, fc.constantFrom<SampleKind>('8-bit', '16-bit', 'mask'), seed, borderMode, fc.constantFrom(5, 7, 9, 11), ([w, h], kind, s, border, size) => {
       const image = sampleImage(w, h, kind, s);
-      const { generated, general } = generatedAndGeneral(() => medianFilter(image, size, border));
-      expect(bitsOf(generated)).toEqual(bitsOf(general));
+      expectSameBits(() => medianFilter(image, size, border));
     }),
     { numRuns: 150 },
   );
@@ -133,10 +134,8 @@ test('the generated Laplacian-of-Gaussian sweep gives the general loops’ bits:
       fc.integer({ min: 1, max: 9 }).chain((r) => fc.tuple(symmetric(r), symmetric(r))),
       fc.constantFrom(0.5, 1, 1.4, 2, 3),
       (image, border, [g, g2], sigma) => {
-        const dyadic = generatedAndGeneral(() => laplacianOfGaussianSweep(image, Float64Array.from(g), Float64Array.from(g2), border));
-        expect(bitsOf(dyadic.generated)).toEqual(bitsOf(dyadic.general));
-        const log = generatedAndGeneral(() => laplacianOfGaussian(image, sigma, border));
-        expect(bitsOf(log.generated)).toEqual(bitsOf(log.general));
+        expectSameBits(() => laplacianOfGaussianSweep(image, Float64Array.from(g), Float64Array.from(g2), border));
+        expectSameBits(() => laplacianOfGaussian(image, sigma, border));
       },
     ),
     { numRuns: 200 },
@@ -165,10 +164,8 @@ test('the generated box-filter row gives the general loop’s bits: means and th
       fc.constantFrom(0, 2.5, -4),
       fc.boolean(),
       (image, border, size, c, invert) => {
-        const means = generatedAndGeneral(() => boxFilter(image, size, border));
-        expect(bitsOf(means.generated)).toEqual(bitsOf(means.general));
-        const mask = generatedAndGeneral(() => thresholdAdaptiveMean(image, size, c, border, invert));
-        expect(bitsOf(mask.generated)).toEqual(bitsOf(mask.general));
+        expectSameBits(() => boxFilter(image, size, border));
+        expectSameBits(() => thresholdAdaptiveMean(image, size, c, border, invert));
       },
     ),
     { numRuns: 200 },

@@ -19,12 +19,6 @@ export interface PackedMask {
   readonly words: Int32Array;
 }
 
-/** An all-zero packed mask of this size, for a step that writes its mask in both forms. */
-export function createPackedMask(width: number, height: number): PackedMask {
-  const wordsPerRow = (width + 31) >>> 5;
-  return { width, height, wordsPerRow, words: new Int32Array(wordsPerRow * height) };
-}
-
 /**
  * Packs an image whose every value is 0 or 1; null as soon as another value turns up.
  * Bits past the last column are left 0. Works on the bit patterns: 1.0 is 0x3f800000 (bit 29 set),

@@ -11,8 +11,15 @@ import { sampleBits } from './ordered-keys';
 /** Bit pattern of the float32 value 1 (IEEE 754 binary32). */
 export const FLOAT_ONE_BITS = 0x3f800000;
 
+/** An all-zero packed mask of this size, for a step that writes its mask in both forms. */
+export function createPackedMask(width: number, height: number): PackedMask {
+  const wordsPerRow = (width + 31) >>> 5;
+  return { width, height, wordsPerRow, words: new Int32Array(wordsPerRow * height) };
+}
+
 export class DeferrableImage implements Image {
   private pending: PackedMask | null = null;
+  private own: PackedMask | null = null;
 
   constructor(
     readonly width: number,
@@ -37,6 +44,15 @@ export class DeferrableImage implements Image {
   /** The samples will come from these bits (a mask of this size) when first read. */
   defer(mask: PackedMask): void {
     this.pending = mask;
+  }
+
+  /**
+   * Packed storage of this image's size that stays with the image, for a step that writes its mask
+   * in bits and then defers to them; reused from one run to the next (its words are undefined).
+   */
+  ownPackedMask(): PackedMask {
+    this.own ??= createPackedMask(this.width, this.height);
+    return this.own;
   }
 
   /** Drops deferred samples unwritten (before the image is overwritten or given up). */

@@ -337,51 +337,75 @@ export type BoxWindowLoop = (
   data: Float32Array, addShift: number, dropShift: number,
 ) => void;
 
-/** How many column sums a sliding box window loop moves down: those its 24-window iterations load. */
-export function boxSlidUpTo(w: number): number {
-  return w - (w % PIXELS_PER_ITERATION);
+/**
+ * The same row as a mask in packed bits (binary-morphology.ts, PackedMask): 32 windows per
+ * iteration, one word each, flip applied to the whole word; bits past the last column stay 0.
+ */
+export type BoxBitsLoop = (
+  sums: Float64Array, w: number, scale: number, words: Int32Array, wordBase: number, base: number, src: Float32Array, c: number, flip: number,
+  data: Float32Array, addShift: number, dropShift: number,
+) => void;
+
+/** How many column sums a sliding box window loop moves down: those its full iterations load. */
+export function boxSlidUpTo(w: number, bits = false): number {
+  return w - (w % (bits ? 32 : PIXELS_PER_ITERATION));
 }
 
 /** The box filter's row loop for this window size, or null where the general loop is to run. */
 export function boxWindowLoop(size: number, masked: boolean, sliding = false): BoxWindowLoop | null {
   if (!enabled) return null;
-  return compiled<BoxWindowLoop>(`box ${size} ${masked} ${sliding}`, () => {
-    const write = (p: number | string, sum: string) =>
-      masked ? `o[base + x + ${p}] = flip ^ +(src[base + x + ${p}] > Math.fround(${sum} * scale) - c);` : `o[base + x + ${p}] = ${sum} * scale;`;
-    const P = PIXELS_PER_ITERATION;
-    const body: string[] = [];
-    const loaded = new Set<number>();
-    const at = (q: number) => {
-      if (!loaded.has(q)) {
-        loaded.add(q);
-        body.push(`const s${q} = sums[x + ${q}];`);
-      }
-      return `s${q}`;
-    };
-    for (let p = 0; p < P; p += 2) {
-      body.push(write(p, 'even'), write(p + 1, 'odd'));
-      const a0 = at(p), a1 = at(p + 1), a2 = at(p + 2), b0 = at(p + size), b1 = at(p + size + 1), b2 = at(p + size + 2);
-      body.push(`even += ${b0} + ${b1} - (${a0} + ${a1});`, `odd += ${b1} + ${b2} - (${a1} + ${a2});`);
+  return compiled<BoxWindowLoop>(`box ${size} ${masked} ${sliding}`, () => boxWindowSource(size, masked ? 'mask' : 'mean', sliding));
+}
+
+/** The box threshold's row loop writing packed bits, or null where the float loops are to run. */
+export function boxBitsLoop(size: number, sliding: boolean): BoxBitsLoop | null {
+  if (!enabled) return null;
+  return compiled<BoxBitsLoop>(`box bits ${size} ${sliding}`, () => boxWindowSource(size, 'bits', sliding));
+}
+
+function boxWindowSource(size: number, output: 'mean' | 'mask' | 'bits', sliding: boolean): string {
+  const above = (p: number | string, sum: string) => `+(src[base + x + ${p}] > Math.fround(${sum} * scale) - c)`;
+  const write = (p: number | string, sum: string) =>
+    output === 'bits' ? `word |= ${above(p, sum)} << ${typeof p === 'number' ? p : `(x + ${p} & 31)`};`
+    : output === 'mask' ? `o[base + x + ${p}] = flip ^ ${above(p, sum)};` : `o[base + x + ${p}] = ${sum} * scale;`;
+  const P = output === 'bits' ? 32 : PIXELS_PER_ITERATION;
+  const body: string[] = output === 'bits' ? ['let word = 0;'] : [];
+  const loaded = new Set<number>();
+  const at = (q: number) => {
+    if (!loaded.has(q)) {
+      loaded.add(q);
+      body.push(`const s${q} = sums[x + ${q}];`);
     }
-    // Entries x … x+P−1 are loaded by no later iteration: each moves down once it has been read.
-    if (sliding) for (let q = 0; q < P; q++) body.push(`sums[x + ${q}] = ${at(q)} + (data[addShift + x + ${q}] - data[dropShift + x + ${q}]);`);
-    return `return function boxWindow(sums, w, scale, o, base, src, c, flip, data, addShift, dropShift) {
+    return `s${q}`;
+  };
+  for (let p = 0; p < P; p += 2) {
+    body.push(write(p, 'even'), write(p + 1, 'odd'));
+    const a0 = at(p), a1 = at(p + 1), a2 = at(p + 2), b0 = at(p + size), b1 = at(p + size + 1), b2 = at(p + size + 2);
+    body.push(`even += ${b0} + ${b1} - (${a0} + ${a1});`, `odd += ${b1} + ${b2} - (${a1} + ${a2});`);
+  }
+  if (output === 'bits') body.push('o[wordBase + (x >>> 5)] = word ^ flipWord;');
+  // Entries x … x+P−1 are loaded by no later iteration: each moves down once it has been read.
+  if (sliding) for (let q = 0; q < P; q++) body.push(`sums[x + ${q}] = ${at(q)} + (data[addShift + x + ${q}] - data[dropShift + x + ${q}]);`);
+  const bits = output === 'bits';
+  return `return function boxWindow(sums, w, scale, o, ${bits ? 'wordBase, ' : ''}base, src, c, flip, data, addShift, dropShift) {
 let even = 0;
 for (let i = 0; i < ${size}; i++) even += sums[i];
 let odd = even + sums[${size}] - sums[0];
+${bits ? 'const flipWord = flip ? -1 : 0;' : ''}
 let x = 0;
 for (; x + ${P - 1} < w; x += ${P}) {
 ${body.join('\n')}
 }
+${bits ? 'const tail = x;\nlet word = 0;' : ''}
 for (; x + 1 < w; x += 2) {
-${write(0, 'even')}
-${write(1, 'odd')}
+${write(bits ? '0' : 0, 'even')}
+${write(bits ? '1' : 1, 'odd')}
 even += sums[x + ${size}] + sums[x + ${size + 1}] - (sums[x] + sums[x + 1]);
 odd += sums[x + ${size + 1}] + sums[x + ${size + 2}] - (sums[x + 1] + sums[x + 2]);
 }
 if (x < w) {
-${write(0, 'even')}
+${write(bits ? '0' : 0, 'even')}
 }
+${bits ? `if (tail < w) o[wordBase + (tail >>> 5)] = word ^ (flip ? (1 << (w - tail)) - 1 : 0);` : ''}
 };`;
-  });
 }

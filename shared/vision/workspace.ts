@@ -3,8 +3,8 @@
 // batch (a trial, a worker thread, the preview) keeps a few spare buffers of the last image size.
 // With the SIMD engine the buffers live in its WebAssembly memory, where the kernels work in place.
 // Either engine's buffers may hold a mask in packed bits until it is read (deferrable-image.ts).
-import { createPackedMask, type PackedMask } from './binary-morphology';
-import { DeferrableImage } from './deferrable-image';
+import type { PackedMask } from './binary-morphology';
+import { createPackedMask, DeferrableImage } from './deferrable-image';
 import { simdKernels } from './engine';
 import { createImage, type Image } from './image';
 import { isResident, ResidentImage } from './wasm/resident-image';

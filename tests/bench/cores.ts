@@ -7,7 +7,7 @@ import { spawn, spawnSync } from 'node:child_process';
 import os from 'node:os';
 import path from 'node:path';
 import { setEngine } from '../../shared/vision/engine';
-import { createPackedMask } from '../../shared/vision/binary-morphology';
+import { createPackedMask } from '../../shared/vision/deferrable-image';
 import { channelImage } from '../../shared/vision/image';
 import { morphology } from '../../shared/vision/morphology';
 import { gaussianGradient } from '../../shared/vision/smoothed-gradient';

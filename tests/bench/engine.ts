@@ -18,7 +18,7 @@ import { fftCorrelate as ndarrayFftCorrelate } from './ndarray-fft';
 import { loadKernelLibrary } from '../../server/vision/kernel-library';
 import { POOL_PROCESS_NODE_FLAGS, VisionPool } from '../../server/vision/pool';
 import { validateRuleDocument, type RuleDocument } from '../../shared/rules/schema';
-import { createPackedMask } from '../../shared/vision/binary-morphology';
+import { createPackedMask } from '../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../shared/vision/blobs';
 import { correlate, correlateDirect } from '../../shared/vision/convolve';
 import { setEngine, type EngineName } from '../../shared/vision/engine';

@@ -3,7 +3,7 @@
 // engine (plain TypeScript and WebAssembly SIMD; BENCH_ENGINES=plain or simd for one of them).
 // Run: npx ts-node --transpile-only -P server/tsconfig.json tests/bench/steps.ts [step ...]
 // (node --cpu-prof -r ts-node/register/transpile-only ... gives a profile of the same runs.)
-import { createPackedMask } from '../../shared/vision/binary-morphology';
+import { createPackedMask } from '../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../shared/vision/blobs';
 import { correlate, correlateDirect } from '../../shared/vision/convolve';
 import { setEngine, type EngineName } from '../../shared/vision/engine';

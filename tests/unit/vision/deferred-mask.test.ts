@@ -8,11 +8,13 @@ import { pendingMask } from '../../../shared/vision/deferrable-image';
 import { setEngine, simdKernels, type EngineName } from '../../../shared/vision/engine';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { createImage, imageLike, type Image } from '../../../shared/vision/image';
+import { setKernelLoops } from '../../../shared/vision/kernel-loops';
 import { morphology } from '../../../shared/vision/morphology';
 import { gaussianBlur } from '../../../shared/vision/smoothing';
+import { thresholdAdaptiveMean } from '../../../shared/vision/threshold';
 import { isResident } from '../../../shared/vision/wasm/resident-image';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
-import { seededRandom } from './images';
+import { partImage, seededRandom } from './images';
 
 afterAll(() => setEngine('auto'));
 
@@ -121,5 +123,72 @@ describe.each<EngineName>(['simd', 'plain'])('%s engine', (engine) => {
     expect(imageLike(again, again)).toBe(again);
     expect(deferred(again)).toBe(true);
     expect(Array.from(again.data)).toEqual(Array.from(written.data));
+  });
+});
+
+// The plain adaptive mean writes its mask into a workspace image as packed bits (smoothing.ts,
+// boxBitsLoop); its reference is the same step into an ordinary image, which writes float32 samples
+// and is checked against OpenCV.js in opencv-adaptive.test.ts.
+describe('plain engine: the adaptive mean into a workspace image', () => {
+  beforeAll(() => setEngine('plain'));
+  afterEach(() => setKernelLoops(true));
+
+  /** Photo-like 8-bit samples with a NaN and a −0 (the comparison is false for NaN, whatever the flip). */
+  function awkwardPart(w: number, h: number): Image {
+    const image = partImage(w, h, 255, w * 31 + h);
+    image.data[Math.floor((w * h) / 3)] = NaN;
+    image.data[w * h - 1] = -0;
+    return image;
+  }
+
+  test('waits in packed bits that read back as the float path\'s samples, zero past the last column, for every border, size and flip', () => {
+    for (const [w, h] of [[1, 1], [2, 9], [31, 6], [32, 5], [33, 7], [64, 4], [65, 18], [97, 3]]) {
+      const src = awkwardPart(w, h);
+      for (const border of ['reflect', 'replicate', 'constant'] as const) {
+        for (const size of [3, 5, 15]) {
+          for (const invert of [false, true]) {
+            const workspace = new ImageWorkspace();
+            const out = thresholdAdaptiveMean(src, size, 4.5, border, invert, workspace.take(w, h));
+            const mask = pendingMask(out);
+            expect(mask).not.toBeNull();
+            for (let y = 0; y < h; y++) {
+              const last = mask!.words[y * mask!.wordsPerRow + mask!.wordsPerRow - 1];
+              const used = w - 32 * (mask!.wordsPerRow - 1);
+              if (used < 32) expect(last >>> used).toBe(0);
+            }
+            const reference = thresholdAdaptiveMean(src, size, 4.5, border, invert, createImage(w, h));
+            expect(Array.from(out.data)).toEqual(Array.from(reference.data));
+          }
+        }
+      }
+    }
+  });
+
+  test('the next step reads the bits: an opening and the blobs equal those of the written mask; a rerun into the same image leaves no stale bits', () => {
+    const [w, h] = [77, 45];
+    const src = awkwardPart(w, h);
+    const workspace = new ImageWorkspace();
+    const out = workspace.take(w, h);
+    thresholdAdaptiveMean(src, 7, 2, 'reflect', false, out);
+    const written = thresholdAdaptiveMean(src, 7, 2, 'reflect', false, createImage(w, h));
+    const opened = morphology(out, 'open', 1, 'reflect', workspace.take(w, h));
+    expect(Array.from(opened.data)).toEqual(Array.from(morphology(written, 'open', 1, 'reflect').data));
+    const fromBits = labelBlobs(out);
+    const fromSamples = labelBlobs(written);
+    expect(fromBits.blobs).toEqual(fromSamples.blobs);
+    expect(Array.from(fromBits.labels)).toEqual(Array.from(fromSamples.labels));
+    // The inverted mask into the same image: every bit rewritten.
+    thresholdAdaptiveMean(src, 7, 2, 'reflect', true, out);
+    const inverted = thresholdAdaptiveMean(src, 7, 2, 'reflect', true, createImage(w, h));
+    expect(Array.from(out.data)).toEqual(Array.from(inverted.data));
+  });
+
+  test('without the generated loops the step writes its samples (no packed bits)', () => {
+    setKernelLoops(false);
+    const src = awkwardPart(40, 12);
+    const out = thresholdAdaptiveMean(src, 5, 1, 'replicate', false, new ImageWorkspace().take(40, 12));
+    expect(pendingMask(out)).toBeNull();
+    setKernelLoops(true);
+    expect(Array.from(out.data)).toEqual(Array.from(thresholdAdaptiveMean(src, 5, 1, 'replicate', false, createImage(40, 12)).data));
   });
 });

@@ -2,7 +2,7 @@
 // as the usual patterns (−0) must still count as a mask, and anything else must go the value way.
 import fc from 'fast-check';
 import type { BorderMode, MorphologyOp } from '../../../shared/rules/schema';
-import { createPackedMask } from '../../../shared/vision/binary-morphology';
+import { createPackedMask } from '../../../shared/vision/deferrable-image';
 import { imageFromSamples } from '../../../shared/vision/image';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { thresholdOtsu } from '../../../shared/vision/threshold';

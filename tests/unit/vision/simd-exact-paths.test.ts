@@ -6,7 +6,7 @@
 // random images of odd and degenerate sizes.
 import fc from 'fast-check';
 import type { MorphologyOp } from '../../../shared/rules/schema';
-import { createPackedMask } from '../../../shared/vision/binary-morphology';
+import { createPackedMask } from '../../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../../shared/vision/blobs';
 import { borderIndex, OUTSIDE, type BorderMode } from '../../../shared/vision/border';
 import { correlateDirect } from '../../../shared/vision/convolve';

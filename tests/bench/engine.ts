@@ -420,7 +420,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
       ...onEngines(buffers, ({ input, a }) => thresholdAdaptiveMean(input, 15, 5, 'replicate', false, a)),
       opencv: () => cv.adaptiveThreshold(u8, m4, 1, cv.ADAPTIVE_THRESH_MEAN_C, cv.THRESH_BINARY, 15, -5),
     }),
-    note: 'OpenCV: 8-bit',
+    note: 'OpenCV: 8-bit; plain: mask left in packed bits',
   });
   rows.push({
     step: 'open r=1 (mask)',
@@ -502,7 +502,7 @@ async function benchPipelineThreads(size: SizeResult, engine: EngineName, runs: 
     const { width, height } = workerData;
     const input = at('image').channelImage({ width, height, channels: 1, bitDepth: 8, samples: workerData.samples }, 'luma', ws.take(width, height));
     const [a, b, c] = [ws.take(width, height), ws.take(width, height), ws.take(width, height)];
-    const packed = at('binary-morphology').createPackedMask(width, height);
+    const packed = at('deferrable-image').createPackedMask(width, height);
     const run = () => {
       const range = { min: NaN, max: NaN };
       at('smoothed-gradient').gaussianGradient(input, 1, 'sobel', 'magnitude', 'reflect', b, range, a);

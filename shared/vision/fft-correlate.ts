@@ -146,7 +146,7 @@ export function correlateFft(src: Image, kernel: Kernel, border: BorderMode, dst
     if (second) fillTile(data, w, h, border, im, columns, y1 - ry, x1);
     else im.fill(0);
     forward(re, im, kre, kim);
-    inverse(re, im);
+    inverse(re, im, rx, rx + validCols);
     writeTile(re, 1, out, w, h, ry, rx, validRows, validCols, y0, x0, offset, floor);
     if (second) writeTile(im, -1, out, w, h, ry, rx, validRows, validCols, y1, x1, offset, floor);
   }
@@ -172,27 +172,38 @@ function forward(re: Float64Array, im: Float64Array, kre?: Float64Array, kim?: F
  * The inverse (unscaled) of `forward`, back untransposed, given the spectrum's complex conjugate: the
  * forward transform of it is the conjugate of the inverse transform (conj(F(conj Z)) = F⁻¹(Z)·N²), so
  * the real part is the result and the imaginary part its negative. Its first stage is done by
- * `forward`'s product, its last by `writeTile` as it writes the outputs.
+ * `forward`'s product, its last by `writeTile` as it writes the outputs. The second dimension is
+ * transformed only in the columns writeTile reads (fromColumn … toColumn − 1, the tile's valid
+ * ones: 5 MP, one CPU, 31×31 27.7 → 26.5 ns/px).
  */
-function inverse(re: Float64Array, im: Float64Array): void {
+function inverse(re: Float64Array, im: Float64Array, fromColumn: number, toColumn: number): void {
   columnsInTime(re, im);
   transpose(re);
   transpose(im);
-  columnsInFrequency(re, im);
+  columnsInFrequency(re, im, fromColumn, toColumn);
 }
 
-/** In place: a plain transpose measured as fast as writing the last sweep's results transposed. */
+/**
+ * In place, in blocks of 16×16: a row of the plane is 1 KB, so the 128 lines of one column fall into 4
+ * of the first-level cache's sets, more than their ways hold; a block pair's 32 lines stay.
+ */
 function transpose(plane: Float64Array): void {
-  for (let i = 0; i < N; i++) {
-    for (let j = i + 1; j < N; j++) {
-      const a = i * N + j;
-      const b = j * N + i;
-      const t = plane[a];
-      plane[a] = plane[b];
-      plane[b] = t;
+  for (let bi = 0; bi < N; bi += TRANSPOSE_BLOCK) {
+    for (let bj = bi; bj < N; bj += TRANSPOSE_BLOCK) {
+      for (let i = bi; i < bi + TRANSPOSE_BLOCK; i++) {
+        for (let j = bi === bj ? i + 1 : bj; j < bj + TRANSPOSE_BLOCK; j++) {
+          const a = i * N + j;
+          const b = j * N + i;
+          const t = plane[a];
+          plane[a] = plane[b];
+          plane[b] = t;
+        }
+      }
     }
   }
 }
+
+const TRANSPOSE_BLOCK = 16;
 
 /**
  * The stage of half 1, whose twiddle is 1: rows 2m and 2m+1 become their sum and difference. It is
@@ -260,7 +271,7 @@ function columnsInTime(re: Float64Array, im: Float64Array): void {
  * bit-reversed order out after the last (`adjacentRows`). Here the first six stages, as three sweeps of two
  * (half 2h, then h, for h = 32, 8, 2).
  */
-function columnsInFrequency(re: Float64Array, im: Float64Array): void {
+function columnsInFrequency(re: Float64Array, im: Float64Array, fromColumn = 0, toColumn = N): void {
   for (let h = N >> 2; h >= 2; h >>= 2) {
     const s1 = N / (2 * h);
     const s2 = N / (4 * h);
@@ -273,7 +284,7 @@ function columnsInFrequency(re: Float64Array, im: Float64Array): void {
       const w3r = COS[3 * k * s2], w3i = MINUS_SIN[3 * k * s2];
       for (let start = 0; start < N; start += 4 * h) {
         const p0 = (start + k) * N, p1 = p0 + h * N, p2 = p1 + h * N, p3 = p2 + h * N;
-        for (let x = 0; x < N; x++) {
+        for (let x = fromColumn; x < toColumn; x++) {
           const a0r = re[p0 + x], a0i = im[p0 + x];
           const a1r = re[p1 + x], a1i = im[p1 + x];
           const a2r = re[p2 + x], a2i = im[p2 + x];

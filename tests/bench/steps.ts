@@ -30,6 +30,7 @@ const pixels = width * height;
 const photo = washerPhoto(width, height);
 const k5 = kernelFromMatrix([[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]]);
 const k15 = kernelFromMatrix(Array.from({ length: 15 }, (_, j) => Array.from({ length: 15 }, (_, i) => ((i * 7 + j * 3) % 5) - 2 + (i === j ? 1 : 0))));
+const k31 = kernelFromMatrix(Array.from({ length: 31 }, (_, j) => Array.from({ length: 31 }, (_, i) => ((i * 5 + j * 11) % 7) - 3 + (i === j ? 1 : 0))));
 
 /** The steps on buffers of the engine's own workspace (for SIMD: in its WebAssembly memory, as a rule run has them). */
 function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
@@ -65,6 +66,7 @@ function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
     k5: () => correlateDirect(input, k5, 'reflect', a),
     k15: () => correlate(input, k15, 'reflect', a),
     k15direct: () => correlateDirect(input, k15, 'reflect', a),
+    k31: () => correlate(input, k31, 'reflect', a),
     blobs: () => labelBlobs(mask),
   };
 }

@@ -346,9 +346,12 @@ export type BoxBitsLoop = (
   data: Float32Array, addShift: number, dropShift: number,
 ) => void;
 
+/** Windows per iteration of the bits loop: one packed word. */
+const BITS_PER_WORD = 32;
+
 /** How many column sums a sliding box window loop moves down: those its full iterations load. */
 export function boxSlidUpTo(w: number, bits = false): number {
-  return w - (w % (bits ? 32 : PIXELS_PER_ITERATION));
+  return w - (w % (bits ? BITS_PER_WORD : PIXELS_PER_ITERATION));
 }
 
 /** The box filter's row loop for this window size, or null where the general loop is to run. */
@@ -363,12 +366,14 @@ export function boxBitsLoop(size: number, sliding: boolean): BoxBitsLoop | null 
   return compiled<BoxBitsLoop>(`box bits ${size} ${sliding}`, () => boxWindowSource(size, 'bits', sliding));
 }
 
+/** The source of a box row loop: the means, the mask as float32 samples, or the mask as packed bits. */
 function boxWindowSource(size: number, output: 'mean' | 'mask' | 'bits', sliding: boolean): string {
-  const above = (p: number | string, sum: string) => `+(src[base + x + ${p}] > Math.fround(${sum} * scale) - c)`;
-  const write = (p: number | string, sum: string) =>
-    output === 'bits' ? `word |= ${above(p, sum)} << ${typeof p === 'number' ? p : `(x + ${p} & 31)`};`
+  const above = (p: number, sum: string) => `+(src[base + x + ${p}] > Math.fround(${sum} * scale) - c)`;
+  // In the tail the bit's place in its word follows x; in the full iterations it is p itself.
+  const write = (p: number, sum: string, tail = false) =>
+    output === 'bits' ? `word |= ${above(p, sum)} << ${tail ? `(x + ${p} & 31)` : p};`
     : output === 'mask' ? `o[base + x + ${p}] = flip ^ ${above(p, sum)};` : `o[base + x + ${p}] = ${sum} * scale;`;
-  const P = output === 'bits' ? 32 : PIXELS_PER_ITERATION;
+  const P = output === 'bits' ? BITS_PER_WORD : PIXELS_PER_ITERATION;
   const body: string[] = output === 'bits' ? ['let word = 0;'] : [];
   const loaded = new Set<number>();
   const at = (q: number) => {
@@ -401,13 +406,13 @@ ${body.join('\n')}
 }
 ${bits ? 'const tail = x;\nlet word = 0;' : ''}
 for (; x + 1 < w; x += 2) {
-${write(bits ? '0' : 0, 'even')}
-${write(bits ? '1' : 1, 'odd')}
+${write(0, 'even', true)}
+${write(1, 'odd', true)}
 even += sums[x + ${size}] + sums[x + ${size + 1}] - (sums[x] + sums[x + 1]);
 odd += sums[x + ${size + 1}] + sums[x + ${size + 2}] - (sums[x + 1] + sums[x + 2]);
 }
 if (x < w) {
-${write(bits ? '0' : 0, 'even')}
+${write(0, 'even', true)}
 }
 ${bits ? `if (tail < w) o[wordBase + (tail >>> 5)] = word ^ (flip ? (1 << (w - tail)) - 1 : 0);` : ''}
 };`;

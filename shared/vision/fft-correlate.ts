@@ -147,8 +147,8 @@ export function correlateFft(src: Image, kernel: Kernel, border: BorderMode, dst
     else im.fill(0);
     forward(re, im, kre, kim);
     inverse(re, im, rx, rx + validCols);
-    writeTile(re, 1, out, w, h, ry, rx, validRows, validCols, y0, x0, offset, floor);
-    if (second) writeTile(im, -1, out, w, h, ry, rx, validRows, validCols, y1, x1, offset, floor);
+    writeTile(re, false, out, w, h, ry, rx, validRows, validCols, y0, x0, offset, floor);
+    if (second) writeTile(im, true, out, w, h, ry, rx, validRows, validCols, y1, x1, offset, floor);
   }
 }
 
@@ -380,13 +380,15 @@ function copyTileRow(data: Float32Array, w: number, row: number, columns: Int32A
 
 /**
  * The inverse transform's last stage (half 1; real and imaginary parts apart), done only where a
- * valid output needs it, times sign (−1 for the imaginary part, see `inverse`), and written straight
- * to the output at (y0, x0), plus offset: plane rows 2m and 2m+1 give tile rows r and r + N/2,
- * r = REVERSED[2m]; a tile's valid part is its rows ry … and columns rx …. A sum within floor of 0
- * is written as 0, plus offset, without a branch (outputs near 0 are common, and a branch on them
- * mispredicted: 18 → 23 ns/px at 15×15); v·0 may be −0, and −0 + offset is +0 for offset 0.
+ * valid output needs it, of the real part (`negate` false) or the imaginary part's negative (`negate`
+ * true, see `inverse`: −a − b and b − a are exactly −(a + b) and −(a − b) under rounding to nearest,
+ * so no product by −1), written straight to the output at (y0, x0), plus offset: plane rows 2m and
+ * 2m+1 give tile rows r and r + N/2, r = REVERSED[2m]; a tile's valid part is its rows ry … and
+ * columns rx …. A sum within floor of 0 is written as 0, plus offset, without a branch (outputs near
+ * 0 are common, and a branch on them mispredicted: 18 → 23 ns/px at 15×15); v·0 may be −0, and
+ * −0 + offset is +0 for offset 0.
  */
-function writeTile(plane: Float64Array, sign: number, out: Float32Array, w: number, h: number, ry: number, rx: number, validRows: number, validCols: number, y0: number, x0: number, offset: number, floor: number): void {
+function writeTile(plane: Float64Array, negate: boolean, out: Float32Array, w: number, h: number, ry: number, rx: number, validRows: number, validCols: number, y0: number, x0: number, offset: number, floor: number): void {
   const rowsOut = Math.min(validRows, h - y0);
   const colsOut = Math.min(validCols, w - x0);
   for (let m = 0; m < N; m += 2) {
@@ -396,16 +398,30 @@ function writeTile(plane: Float64Array, sign: number, out: Float32Array, w: numb
     const bottom = top + (N >> 1);
     if (top >= 0 && top < rowsOut) {
       const to = (y0 + top) * w + x0;
-      for (let s = 0; s < colsOut; s++) {
-        const v = plane[a + s] + plane[b + s];
-        out[to + s] = sign * v * +(Math.abs(v) > floor) + offset;
+      if (negate) {
+        for (let s = 0; s < colsOut; s++) {
+          const v = -plane[a + s] - plane[b + s];
+          out[to + s] = v * +(Math.abs(v) > floor) + offset;
+        }
+      } else {
+        for (let s = 0; s < colsOut; s++) {
+          const v = plane[a + s] + plane[b + s];
+          out[to + s] = v * +(Math.abs(v) > floor) + offset;
+        }
       }
     }
     if (bottom >= 0 && bottom < rowsOut) {
       const to = (y0 + bottom) * w + x0;
-      for (let s = 0; s < colsOut; s++) {
-        const v = plane[a + s] - plane[b + s];
-        out[to + s] = sign * v * +(Math.abs(v) > floor) + offset;
+      if (negate) {
+        for (let s = 0; s < colsOut; s++) {
+          const v = plane[b + s] - plane[a + s];
+          out[to + s] = v * +(Math.abs(v) > floor) + offset;
+        }
+      } else {
+        for (let s = 0; s < colsOut; s++) {
+          const v = plane[a + s] - plane[b + s];
+          out[to + s] = v * +(Math.abs(v) > floor) + offset;
+        }
       }
     }
   }

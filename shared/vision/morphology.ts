@@ -241,33 +241,33 @@ function extremeOfKeysInRowPairs(keysIn: Int32Array, w: number, h: number, r: nu
   const run = r === 1 ? 2 : 4;
   for (let y = 0; y < h; y += 2) {
     const k = y >> 1;
-    const shared = r === 1 ? [pair(k)] : r === 2 ? [pair(k), pair(k + 1)] : [pair(k), pair(k + 1), pair(k + 2)];
+    // The shared pairs; fewer than three repeat the last (see rowPairMinima).
+    const p0 = pair(k);
+    const p1 = r > 1 ? pair(k + 1) : p0;
+    const p2 = r > 2 ? pair(k + 2) : p1;
     if (y + 1 === h) {
-      rowPairMinima(shared, input(y), null, null, null, first, null, w, r, flip);
+      rowPairMinima(p0, p1, p2, input(y), null, null, null, first, null, w, r, flip);
       windowMinima(first, w, r, run, colTable, flip, out, y * w);
       break;
     }
     // The pair after this one is needed by the next two rows, or by a last row alone.
     const next = y + 2 < h ? pair(k + r) : null;
-    rowPairMinima(shared, input(y), input(y + 2 * r + 1), next ? input(y + 2 * r + 2) : null, next, first, second, w, r, flip);
+    rowPairMinima(p0, p1, p2, input(y), input(y + 2 * r + 1), next ? input(y + 2 * r + 2) : null, next, first, second, w, r, flip);
     windowMinima(first, w, r, run, colTable, flip, out, y * w);
     windowMinima(second, w, r, run, colTable, flip, out, (y + 1) * w);
   }
 }
 
 /**
- * S = the minimum of the shared pairs; first[pad + x] = min(S, above[x] ^ flip), and with below
+ * S = the minimum of the shared pairs p0, p1, p2; first[pad + x] = min(S, above[x] ^ flip), and with below
  * second[pad + x] = min(S, below[x] ^ flip) and next[x] = min(below[x] ^ flip, after[x] ^ flip).
  * Fewer than three pairs repeat the last: a minimum of a pair with itself measured cheaper than a
  * branch on their count at each pixel.
  */
 function rowPairMinima(
-  shared: Int32Array[], above: Int32Array, below: Int32Array | null, after: Int32Array | null, next: Int32Array | null,
+  p0: Int32Array, p1: Int32Array, p2: Int32Array, above: Int32Array, below: Int32Array | null, after: Int32Array | null, next: Int32Array | null,
   first: Int32Array, second: Int32Array | null, w: number, pad: number, flip: number,
 ): void {
-  const p0 = shared[0];
-  const p1 = shared.length > 1 ? shared[1] : p0;
-  const p2 = shared.length > 2 ? shared[2] : p1;
   if (!below || !second) {
     for (let x = 0; x < w; x++) first[pad + x] = minKey(minKey(minKey(p0[x], p1[x]), p2[x]), above[x] ^ flip);
     return;

@@ -24,6 +24,7 @@ import { medianFilter } from '../../../shared/vision/median';
 import { boxFilter } from '../../../shared/vision/smoothing';
 import { otsuHistogram, thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
 import type { Image } from '../../../shared/vision/image';
+import { firstFloat32Where, float32Above } from '../../../shared/vision/float32';
 import { bitsOf, borderMode, imageSize, onBoth, onEngine, sampleImage, seed, type SampleKind } from './engines';
 import { seededRandom } from './images';
 
@@ -304,6 +305,54 @@ test('Otsu\'s histogram counted in pairs of neighbours (as from 2²¹ pixels), o
     }),
     RUNS,
   );
+});
+
+/**
+ * Values at every bin edge of a range: for k = 1 … 255 the first float32 whose double-precision bin
+ * is k (firstFloat32Where, the plain engine's own search for its cut) and its two neighbours, with the
+ * range's ends, NaN and values between, shuffled.
+ */
+function binEdgeImage(min: number, max: number, s: number): { image: Image; origin: number; scale: number } {
+  const scale = 256 / (max - min);
+  const bin = (v: number) => Math.min(255, Math.trunc((v - min) * scale));
+  const values: number[] = [min, max, NaN];
+  for (let k = 1; k < 256; k++) {
+    const edge = firstFloat32Where(min, max, (v) => bin(v) >= k);
+    values.push(edge, float32Above(edge), -float32Above(-edge));
+  }
+  const rand = seededRandom(s);
+  while (values.length % 16 !== 5) values.push(Math.fround(min + rand() * (max - min)));
+  for (let i = values.length - 1; i > 0; i--) {
+    const j = Math.floor(rand() * (i + 1));
+    [values[i], values[j]] = [values[j], values[i]];
+  }
+  const clamped = values.map((v) => (Number.isNaN(v) ? v : Math.min(max, Math.max(min, v))));
+  return { image: imageFromSamples(clamped.length, 1, clamped), origin: min, scale };
+}
+
+test('Otsu\'s histogram at every bin edge (the SIMD kernel bins in float32 and checks the values near a whole bin): the double-precision bins, for ranges of every kind', () => {
+  // The reference is the rule format's bin min(255, trunc((v − min)·256 / (max − min))) in double
+  // precision (DESIGN.md, "threshold"), as the plain engine computes it. The ranges take the float32
+  // product's cases: origin 0 or not, a power-of-two scale (exact), tiny and huge ranges, and ranges
+  // whose difference or scale is no float32 number (double precision throughout).
+  const ranges: [number, number][] = [
+    [0, Math.fround(356.0207824707031)], [0, 256], [0, 255], [0, 1], [Math.fround(0.25), 100], [-3, 4], [1000, 1001],
+    [Math.fround(1e-30), Math.fround(3e-30)], [0, Math.fround(1e-36)], [-3e38, 3e38], [0, 2 ** -140], [-(2 ** 100), 2 ** 100],
+  ];
+  const simd = onEngine('simd', () => simdKernels()!);
+  ranges.forEach(([min, max], i) => {
+    const { image, origin, scale } = binEdgeImage(min, max, 40 + i);
+    const expected = Array.from(image.data, (v) => (Number.isNaN(v) ? 0 : Math.min(255, Math.trunc((v - origin) * scale)) + 0));
+    const counts = new Array<number>(256).fill(0);
+    expected.forEach((b) => counts[b]++);
+    for (const pairs of [true, false]) {
+      const counted = onEngine('simd', () => simd.histogram(image, origin, scale, true, pairs));
+      const bins = Array.from(new Uint8Array(simd.heap.memory.buffer, counted.bins!, image.data.length));
+      simd.releaseBlock(counted.bins!);
+      expect({ range: [min, max], pairs, bins }).toEqual({ range: [min, max], pairs, bins: expected });
+      expect(Array.from(counted.counts)).toEqual(counts);
+    }
+  });
 });
 
 test('Otsu on a gradient magnitude handed its range by the gradient (the rule runner does this): same mask on both engines', () => {

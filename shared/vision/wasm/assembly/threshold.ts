@@ -62,8 +62,8 @@ export function histogramScratchBytes(pairs: i32): i32 {
 }
 
 /**
- * Counts bin(v) = min(255, trunc((v − origin)·scale)), computed in double precision as the plain
- * engine does (so both put every value in the same bin; NaN goes to bin 0), into counts (256 int32).
+ * Counts bin(v) = min(255, trunc((v − origin)·scale)), in double precision as the plain engine
+ * computes it (both put every value in the same bin; NaN goes to bin 0), into counts (256 int32).
  * When bins ≠ 0 each pixel's bin also goes there as a byte, for `thresholdBinsPacked` (Otsu's chosen
  * bin is at most 254, so a value at the maximum counted in bin 255 gives the same mask). With pairs ≠ 0
  * neighbours are counted in pairs (`countPairs`), else singly.
@@ -81,31 +81,12 @@ export function histogram(src: usize, n: i32, origin: f64, scale: f64, scratch: 
 }
 
 /**
- * `histogram` for the pixels before the last multiple of 8; returns that multiple. Pixel p goes to
+ * `histogram` for the pixels before the last multiple of 16; returns that multiple. Pixel p goes to
  * table p mod 8, so that equal neighbours do not wait on one counter.
  */
 function countSingles(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, counts: usize): i32 {
   memory.fill(tables, 0, SINGLE_TABLES * SINGLE_TABLE_BYTES);
-  const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
-  const top = i32x4.splat(255);
-  // From origin 0 (a gradient magnitude's usual minimum) v − 0 is v for every float32, so the
-  // subtraction goes (about 5 % of the pass).
-  const fromZero = origin == 0;
-  const zero16 = i16x8.splat(0);
-  let p = 0;
-  for (; p + 8 <= n; p += 8) {
-    const a = bins4(src, p, fromZero, vo, vs, top);
-    const b = bins4(src, p + 4, fromZero, vo, vs, top);
-    if (bins != 0) store<i64>(bins + <usize>p, i64x2.extract_lane(i8x16.narrow_i16x8_u(i16x8.narrow_i32x4_u(a, b), zero16), 0));
-    count(tables, i32x4.extract_lane(a, 0));
-    count(tables + SINGLE_TABLE_BYTES, i32x4.extract_lane(a, 1));
-    count(tables + 2 * SINGLE_TABLE_BYTES, i32x4.extract_lane(a, 2));
-    count(tables + 3 * SINGLE_TABLE_BYTES, i32x4.extract_lane(a, 3));
-    count(tables + 4 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 0));
-    count(tables + 5 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 1));
-    count(tables + 6 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 2));
-    count(tables + 7 * SINGLE_TABLE_BYTES, i32x4.extract_lane(b, 3));
-  }
+  const p = countGroups(src, n, origin, scale, tables, bins, false);
   memory.fill(counts, 0, 4 * 256);
   for (let t: usize = 0; t < <usize>SINGLE_TABLES; t++) {
     const table = tables + t * SINGLE_TABLE_BYTES;
@@ -122,28 +103,127 @@ function countSingles(src: usize, n: i32, origin: f64, scale: f64, tables: usize
  */
 function countPairs(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, counts: usize): i32 {
   memory.fill(tables, 0, PAIR_TABLES * PAIR_TABLE_BYTES);
+  const p = countGroups(src, n, origin, scale, tables, bins, true);
+  addPairTables(tables, counts);
+  return p;
+}
+
+/**
+ * The groups of sixteen values counted (in pairs, or singly), their bins kept when bins ≠ 0. The bins
+ * come from t = (v − origin)·scale in float32 where that gives the double-precision bins (see
+ * `countGroupsOn`): from origin 0 with a power-of-two scale (8-bit levels among them) t is exact;
+ * otherwise it is checked; where origin or scale is no float32 number the product could use, every
+ * group goes through double precision.
+ */
+function countGroups(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, pairs: bool): i32 {
+  const o = <f32>origin, s = <f32>scale;
+  const usable = isFinite(s) && s > 0 && <f64>o == origin;
+  const exact = usable && origin == 0 && <f64>s == scale && (reinterpret<u32>(s) & 0x7fffff) == 0;
+  if (pairs) {
+    return exact ? countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, true, true)
+      : countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, false, true);
+  }
+  return exact ? countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, true, false)
+    : countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, false, false);
+}
+
+/** t = (v − origin)·scale is counted in units of 2⁻¹⁴: the bin is the units ÷ 2¹⁴ (see countGroupsOn). */
+const UNIT_SHIFT: i32 = 14;
+/** 2⁹: t + 2⁹ lies in [2⁹, 2¹⁰), where a float32's last bit is worth 2⁻¹⁴. */
+const UNIT_BASE: f32 = 512;
+/** Below this t the bin is 0 however t was rounded; a NaN t (bin 0 in double precision too) becomes it. */
+const SURE_ZERO: f32 = 1.0 / 1024;
+/** Above every t of a value within the range (at most 256 and a rounding): t + UNIT_BASE stays below 2¹⁰. */
+const T_CAP: f32 = 300;
+
+/** Four values' t in units of 2⁻¹⁴ (rounded to the nearest unit), or with `exact` their truncation in units. */
+@inline
+function units4(src: usize, p: i32, fromZero: bool, o: v128, s: v128, sureZero: v128, cap: v128, base: v128, baseBits: v128, exact: bool): v128 {
+  const v = v128.load(at(src, p));
+  let t = f32x4.mul(fromZero ? v : f32x4.sub(v, o), s);
+  t = f32x4.pmin(f32x4.pmax(sureZero, t), cap);
+  if (exact) t = f32x4.floor(t);
+  return i32x4.sub(f32x4.add(t, base), baseBits);
+}
+
+/**
+ * Each group's bins from float32 arithmetic, four values per v128 where double precision takes two.
+ * The float32 t differs from the double-precision t by less than 771·2⁻²⁴ (t ≤ 257; three roundings
+ * of at most 2⁻²⁴ relative, against 2⁻⁵² for double precision), and t + 2⁹ rounds it to units of 2⁻¹⁴
+ * within half a unit more: 1.26 units in all. Where a value's units lie within two of a whole number,
+ * its truncation could differ from the double-precision one, and the group goes through `bins4`
+ * (about 0.03 % of values of random fraction; every group when not `usable`). With `exact` (origin 0,
+ * a power-of-two scale: t is the exact product), t is truncated before it is counted in units.
+ */
+@inline
+function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f32, usable: bool, tables: usize, bins: usize, exact: bool, pairs: bool): i32 {
   const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
   const top = i32x4.splat(255);
+  // From origin 0 (a gradient magnitude's usual minimum) v − 0 is v for every float32, so the
+  // subtraction goes (about 5 % of the pass).
   const fromZero = origin == 0;
+  const o32 = f32x4.splat(o), s32 = f32x4.splat(s);
+  const sureZero = f32x4.splat(SURE_ZERO), cap = f32x4.splat(T_CAP), base = f32x4.splat(UNIT_BASE), baseBits = i32x4.splat(reinterpret<i32>(UNIT_BASE));
+  // A unit u is within two of a whole number when (u + 2) mod 2¹⁴ < 5; a limit of 0 passes every group, 2¹⁵ − 1 none.
+  const fraction = i16x8.splat(<i16>0x3fff), two = i16x8.splat(2);
+  const limit = i16x8.splat(!usable ? <i16>0x7fff : exact ? <i16>0 : <i16>5);
   let p = 0;
   for (; p + 16 <= n; p += 16) {
-    const a = bins4(src, p, fromZero, vo, vs, top);
-    const b = bins4(src, p + 4, fromZero, vo, vs, top);
-    const c = bins4(src, p + 8, fromZero, vo, vs, top);
-    const d = bins4(src, p + 12, fromZero, vo, vs, top);
-    // Bytes b0 … b15; as 16-bit lanes, pair k is b(2k) + 256·b(2k+1).
-    const bytes = i8x16.narrow_i16x8_u(i16x8.narrow_i32x4_u(a, b), i16x8.narrow_i32x4_u(c, d));
+    const ua = units4(src, p, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
+    const ub = units4(src, p + 4, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
+    const uc = units4(src, p + 8, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
+    const ud = units4(src, p + 12, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
+    // The units' low 16 bits, eight to a v128.
+    const lowAB = i8x16.shuffle(ua, ub, 0, 1, 4, 5, 8, 9, 12, 13, 16, 17, 20, 21, 24, 25, 28, 29);
+    const lowCD = i8x16.shuffle(uc, ud, 0, 1, 4, 5, 8, 9, 12, 13, 16, 17, 20, 21, 24, 25, 28, 29);
+    const near = v128.or(
+      i16x8.lt_s(v128.and(i16x8.add(lowAB, two), fraction), limit),
+      i16x8.lt_s(v128.and(i16x8.add(lowCD, two), fraction), limit),
+    );
+    let bytes: v128;
+    if (v128.any_true(near)) {
+      const a = bins4(src, p, fromZero, vo, vs, top);
+      const b = bins4(src, p + 4, fromZero, vo, vs, top);
+      const c = bins4(src, p + 8, fromZero, vo, vs, top);
+      const d = bins4(src, p + 12, fromZero, vo, vs, top);
+      bytes = i8x16.narrow_i16x8_u(i16x8.narrow_i32x4_u(a, b), i16x8.narrow_i32x4_u(c, d));
+    } else {
+      // Bin 256 (t = 256 at the maximum) narrows to 255.
+      bytes = i8x16.narrow_i16x8_u(
+        i16x8.narrow_i32x4_u(i32x4.shr_u(ua, UNIT_SHIFT), i32x4.shr_u(ub, UNIT_SHIFT)),
+        i16x8.narrow_i32x4_u(i32x4.shr_u(uc, UNIT_SHIFT), i32x4.shr_u(ud, UNIT_SHIFT)),
+      );
+    }
     if (bins != 0) v128.store(bins + <usize>p, bytes);
-    count(tables, <i32>i16x8.extract_lane_u(bytes, 0));
-    count(tables + PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 1));
-    count(tables + 2 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 2));
-    count(tables + 3 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 3));
-    count(tables + 4 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 4));
-    count(tables + 5 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 5));
-    count(tables + 6 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 6));
-    count(tables + 7 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 7));
+    if (pairs) {
+      // Bytes b0 … b15; as 16-bit lanes, pair k is b(2k) + 256·b(2k+1).
+      count(tables, <i32>i16x8.extract_lane_u(bytes, 0));
+      count(tables + PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 1));
+      count(tables + 2 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 2));
+      count(tables + 3 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 3));
+      count(tables + 4 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 4));
+      count(tables + 5 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 5));
+      count(tables + 6 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 6));
+      count(tables + 7 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 7));
+    } else {
+      count(tables, <i32>i8x16.extract_lane_u(bytes, 0));
+      count(tables + SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 1));
+      count(tables + 2 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 2));
+      count(tables + 3 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 3));
+      count(tables + 4 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 4));
+      count(tables + 5 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 5));
+      count(tables + 6 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 6));
+      count(tables + 7 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 7));
+      count(tables, <i32>i8x16.extract_lane_u(bytes, 8));
+      count(tables + SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 9));
+      count(tables + 2 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 10));
+      count(tables + 3 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 11));
+      count(tables + 4 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 12));
+      count(tables + 5 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 13));
+      count(tables + 6 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 14));
+      count(tables + 7 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 15));
+    }
   }
-  addPairTables(tables, counts);
   return p;
 }
 

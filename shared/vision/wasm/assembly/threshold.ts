@@ -164,7 +164,8 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
   const fromZero = origin == 0;
   const o32 = f32x4.splat(o), s32 = f32x4.splat(s);
   const sureZero = f32x4.splat(SURE_ZERO), cap = f32x4.splat(T_CAP), base = f32x4.splat(UNIT_BASE), baseBits = i32x4.splat(reinterpret<i32>(UNIT_BASE));
-  // A unit u is within two of a whole number when (u + 2) mod 2¹⁴ < 5; a limit of 0 passes every group, 2¹⁵ − 1 none.
+  // A unit u is within two of a whole number when (u + 2) mod 2¹⁴ < 5; a limit of 0 sends no group to
+  // double precision, 2¹⁵ − 1 every group.
   const fraction = i16x8.splat(<i16>0x3fff), two = i16x8.splat(2);
   const limit = i16x8.splat(!usable ? <i16>0x7fff : exact ? <i16>0 : <i16>5);
   let p = 0;

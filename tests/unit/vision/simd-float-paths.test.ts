@@ -100,6 +100,20 @@ test('Gaussian blur: SIMD within float32 rounding of plain for sigma 0.3 to 4', 
   );
 });
 
+test('Gaussian blur of images wider than the SIMD column pass\'s strips of 512 columns (radius above 3): within float32 rounding of plain', () => {
+  // Widths with whole strips, a part strip and columns past the last whole vector; every strip must
+  // take every sweep of pairs of taps, so a skipped or misplaced one would leave errors of the
+  // samples' size, not of their rounding.
+  const cases: [number, number, number][] = [[1031, 9, 1.5], [2053, 7, 3], [515, 12, 4], [1024, 5, 2.2]];
+  cases.forEach(([w, h, sigma], i) => {
+    const image = sampleImage(w, h, i % 2 === 0 ? '8-bit' : 'signed float', 70 + i);
+    const border = (['reflect', 'replicate', 'constant'] as const)[i % 3];
+    const { plain, simd } = onBoth(() => gaussianBlur(image, sigma, border));
+    const taps = gaussianWeights(sigma).length;
+    expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(2 * taps, largestMagnitude(image.data)));
+  });
+});
+
 test('direct correlation of non-separable kernels up to 9×9 (the 3×3 kernel and the general loop): SIMD within float32 rounding', () => {
   const kernel = fc
     .tuple(fc.constantFrom(1, 3, 5, 9), fc.constantFrom(1, 3, 5, 7))

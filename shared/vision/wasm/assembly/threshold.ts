@@ -198,31 +198,11 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
     if (bins != 0) v128.store(bins + <usize>p, bytes);
     if (pairs) {
       // Bytes b0 … b15; as 16-bit lanes, pair k is b(2k) + 256·b(2k+1).
-      count(tables, <i32>i16x8.extract_lane_u(bytes, 0));
-      count(tables + PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 1));
-      count(tables + 2 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 2));
-      count(tables + 3 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 3));
-      count(tables + 4 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 4));
-      count(tables + 5 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 5));
-      count(tables + 6 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 6));
-      count(tables + 7 * PAIR_TABLE_BYTES, <i32>i16x8.extract_lane_u(bytes, 7));
+      countLanes(tables, PAIR_TABLE_BYTES, bytes);
     } else {
-      count(tables, <i32>i8x16.extract_lane_u(bytes, 0));
-      count(tables + SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 1));
-      count(tables + 2 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 2));
-      count(tables + 3 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 3));
-      count(tables + 4 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 4));
-      count(tables + 5 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 5));
-      count(tables + 6 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 6));
-      count(tables + 7 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 7));
-      count(tables, <i32>i8x16.extract_lane_u(bytes, 8));
-      count(tables + SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 9));
-      count(tables + 2 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 10));
-      count(tables + 3 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 11));
-      count(tables + 4 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 12));
-      count(tables + 5 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 13));
-      count(tables + 6 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 14));
-      count(tables + 7 * SINGLE_TABLE_BYTES, <i32>i8x16.extract_lane_u(bytes, 15));
+      // Pixel k of the sixteen into table k mod 8, its bin widened to a 16-bit lane.
+      countLanes(tables, SINGLE_TABLE_BYTES, i16x8.extend_low_i8x16_u(bytes));
+      countLanes(tables, SINGLE_TABLE_BYTES, i16x8.extend_high_i8x16_u(bytes));
     }
   }
   return p;
@@ -289,6 +269,19 @@ function binsOf(v: v128, origin: v128, scale: v128, top: v128): v128 {
   const low = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v), origin), scale));
   const high = i32x4.trunc_sat_f64x2_s_zero(f64x2.mul(f64x2.sub(f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 0, 1)), origin), scale));
   return i32x4.min_u(v128.shuffle<i32>(low, high, 0, 1, 4, 5), top);
+}
+
+/** Lane k of the eight 16-bit lanes counted in table k (tables `stride` bytes apart); a lane index must be a constant. */
+@inline
+function countLanes(tables: usize, stride: usize, lanes: v128): void {
+  count(tables, <i32>i16x8.extract_lane_u(lanes, 0));
+  count(tables + stride, <i32>i16x8.extract_lane_u(lanes, 1));
+  count(tables + 2 * stride, <i32>i16x8.extract_lane_u(lanes, 2));
+  count(tables + 3 * stride, <i32>i16x8.extract_lane_u(lanes, 3));
+  count(tables + 4 * stride, <i32>i16x8.extract_lane_u(lanes, 4));
+  count(tables + 5 * stride, <i32>i16x8.extract_lane_u(lanes, 5));
+  count(tables + 6 * stride, <i32>i16x8.extract_lane_u(lanes, 6));
+  count(tables + 7 * stride, <i32>i16x8.extract_lane_u(lanes, 7));
 }
 
 @inline

@@ -417,3 +417,36 @@ ${write(0, 'even', true)}
 ${bits ? `if (tail < w) o[wordBase + (tail >>> 5)] = word ^ (flip ? (1 << (w - tail)) - 1 : 0);` : ''}
 };`;
 }
+
+/**
+ * The whole words of one row of non-zero bits: bit i of words[out + k] set when the sample at
+ * bits[row + 32k + i] is not ±0 (bit patterns, as `sampleBits` gives them), for k < full.
+ */
+export type NonZeroWordsLoop = (bits: Int32Array, words: Int32Array, row: number, out: number, full: number) => void;
+
+/**
+ * The non-zero words' row loop, or null where the general loop is to run. The 32 patterns of a word
+ * are loaded once; their OR and AND answer the common words first: none with magnitude bits (all ±0:
+ * word 0) or all one non-zero pattern (a mask's run of ones: every bit). The rest set bit i from the
+ * sign of 0 − (pattern without its sign bit). 5 MP, one CPU, against one bit per step of a loop:
+ * an edge mask 2.2 → 1.4 ns/px, its inverse 2.3 → 1.3, random bits 2.3 → 1.7.
+ */
+export function nonZeroWordsLoop(): NonZeroWordsLoop | null {
+  if (!enabled) return null;
+  return compiled<NonZeroWordsLoop>('non-zero words', () => {
+    const lanes = Array.from({ length: BITS_PER_WORD }, (_, i) => i);
+    return `return function nonZeroWords(bits, words, row, out, full) {
+for (let k = 0; k < full; k++) {
+const x0 = row + (k << 5);
+${lanes.map((i) => `const v${i} = bits[x0 + ${i}];`).join('\n')}
+const any = ${lanes.map((i) => `v${i}`).join(' | ')};
+const all = ${lanes.map((i) => `v${i}`).join(' & ')};
+if ((any & 0x7fffffff) === 0) { words[out + k] = 0; continue; }
+if (any === all) { words[out + k] = -1; continue; }
+let word = 0;
+${lanes.map((i) => `word |= ((0 - (v${i} & 0x7fffffff)) >>> 31) << ${i};`).join('\n')}
+words[out + k] = word;
+}
+};`;
+  });
+}

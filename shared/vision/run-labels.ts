@@ -10,9 +10,13 @@ export function blobsOfRuns(words: Int32Array, width: number, height: number, sp
   return scanRuns(words, width, height, spans, null);
 }
 
-/** 8-connected blobs of the set bits (bit i of word k of row y is pixel (32k + i, y)) inside the spans, and the label of every pixel. */
-export function labelRuns(words: Int32Array, width: number, height: number, spans: RowSpans): BlobLabels {
-  const labels = new Int32Array(width * height);
+/**
+ * 8-connected blobs of the set bits (bit i of word k of row y is pixel (32k + i, y)) inside the spans,
+ * and the label of every pixel: into `reuse` when it has width × height entries (cleared first; a
+ * fresh 20 MB array at 5 MP costs its page faults on every call, 0.7 ns/px measured), else a new array.
+ */
+export function labelRuns(words: Int32Array, width: number, height: number, spans: RowSpans, reuse?: Int32Array): BlobLabels {
+  const labels = reuse && reuse.length === width * height ? reuse.fill(0) : new Int32Array(width * height);
   return { labels, blobs: scanRuns(words, width, height, spans, labels) };
 }
 

@@ -179,6 +179,8 @@ interface Buffers {
   c: Image;
   magnitude: Image;
   mask: Image;
+  /** The blobs' image of labels, reused as OpenCV reuses its output Mat. */
+  labels: Int32Array;
 }
 
 function buffersFor(engine: EngineName, photo: RawPhoto): Buffers {
@@ -187,7 +189,7 @@ function buffersFor(engine: EngineName, photo: RawPhoto): Buffers {
   const take = () => workspace.take(photo.width, photo.height);
   const input = channelImage(photo, 'luma', take());
   const magnitude = gradient(gaussianBlur(input, 1, 'reflect', take()), 'sobel', 'magnitude', 'reflect', take());
-  return { input, a: take(), b: take(), c: take(), magnitude, mask: thresholdOtsu(magnitude, false, take()).mask };
+  return { input, a: take(), b: take(), c: take(), magnitude, mask: thresholdOtsu(magnitude, false, take()).mask, labels: new Int32Array(photo.width * photo.height) };
 }
 
 interface Row {
@@ -461,7 +463,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
   });
   rows.push({
     step: 'blobs, 8-connected',
-    times: inTurn(runs, { ...onEngines(buffers, ({ mask }) => labelBlobs(mask)), opencv: () => cv.connectedComponentsWithStats(mask8, m1, stats, centroids, 8, cv.CV_32S) }),
+    times: inTurn(runs, { ...onEngines(buffers, ({ mask, labels }) => labelBlobs(mask, undefined, labels)), opencv: () => cv.connectedComponentsWithStats(mask8, m1, stats, centroids, 8, cv.CV_32S) }),
   });
 
   [u8, f32, mag32, mask8, m1, m2, m3, m4, stats, centroids, square3, square7, cvKernel5, cvKernel15, cvKernel31].forEach((m) => m.delete());

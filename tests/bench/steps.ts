@@ -40,6 +40,7 @@ function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
   const magnitude = gradient(gaussianBlur(input, 1, 'reflect', a), 'sobel', 'magnitude', 'reflect', take());
   const mask = thresholdOtsu(magnitude, false, take()).mask;
   const packed = createPackedMask(width, height);
+  const labels = new Int32Array(width * height);
   return {
     // As the rule runner runs it when the intermediate outputs are not kept (see engine.ts).
     pipeline: () => {
@@ -67,7 +68,7 @@ function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
     k15: () => correlate(input, k15, 'reflect', a),
     k15direct: () => correlateDirect(input, k15, 'reflect', a),
     k31: () => correlate(input, k31, 'reflect', a),
-    blobs: () => labelBlobs(mask),
+    blobs: () => labelBlobs(mask, undefined, labels),
   };
 }
 

@@ -4,9 +4,11 @@
 // connectedComponentsWithStats numbers them; from memory), with area and bounding box; NaN counts
 // as non-zero and −0 as zero (the comparison v !== 0).
 import fc from 'fast-check';
-import { findBlobs, labelBlobs, type RowSpans } from '../../../shared/vision/blobs';
-import type { Image } from '../../../shared/vision/image';
+import { findBlobs, labelBlobs, wholeImageSpans, type RowSpans } from '../../../shared/vision/blobs';
+import { imageFromSamples, type Image } from '../../../shared/vision/image';
+import { setKernelLoops } from '../../../shared/vision/kernel-loops';
 import { ENGINES, onEngine, sampleImage, seed, type SampleKind } from './engines';
+import { seededRandom } from './images';
 
 function floodFill(image: Image, spans: RowSpans): { labels: number[]; blobs: { area: number; minX: number; minY: number; maxX: number; maxY: number }[] } {
   const { width: w, height: h, data } = image;
@@ -61,5 +63,46 @@ test('plain blob labels, areas and boxes equal a flood fill of the 8-connected n
       for (const engine of ENGINES) expect(onEngine(engine, () => findBlobs(image, spans))).toEqual(expected.blobs);
     }),
     { numRuns: 300 },
+  );
+});
+
+/**
+ * Rows of runs (1–80 pixels) of one value each: whole words of zeros, of ones and of one other pattern
+ * (NaN, a subnormal, −0, negative), which the generated packing loop answers without its bit loop.
+ */
+function runsImage(width: number, height: number, s: number): Image {
+  const rand = seededRandom(s);
+  const values = [0, 0, -0, 1, 1, NaN, 1e-45, -3, 2.5];
+  const samples: number[] = [];
+  while (samples.length < width * height) {
+    const v = values[Math.floor(rand() * values.length)];
+    const run = 1 + Math.floor(rand() * 80);
+    for (let i = 0; i < run && samples.length < width * height; i++) samples.push(v);
+  }
+  return imageFromSamples(width, height, samples);
+}
+
+test('plain blob labels from the generated packing loop and from the general one equal a flood fill, also into a reused array of labels', () => {
+  const wide = fc.tuple(fc.integer({ min: 32, max: 200 }), fc.integer({ min: 1, max: 12 }));
+  fc.assert(
+    fc.property(wide, seed, ([w, h], s) => {
+      const image = runsImage(w, h, s);
+      const spans = wholeImageSpans(w, h);
+      const expected = floodFill(image, spans);
+      const reused = new Int32Array(w * h).fill(-7);
+      const generated = onEngine('plain', () => labelBlobs(image, spans, reused));
+      expect(generated.labels).toBe(reused);
+      expect(Array.from(generated.labels)).toEqual(expected.labels);
+      expect(generated.blobs).toEqual(expected.blobs);
+      setKernelLoops(false);
+      try {
+        const general = onEngine('plain', () => labelBlobs(image, spans));
+        expect(Array.from(general.labels)).toEqual(expected.labels);
+        expect(general.blobs).toEqual(expected.blobs);
+      } finally {
+        setKernelLoops(true);
+      }
+    }),
+    { numRuns: 200 },
   );
 });

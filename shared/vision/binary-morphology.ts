@@ -6,6 +6,7 @@ import type { BorderMode } from './border';
 import { DeferrableImage, FLOAT_ONE_BITS, pendingMask, unpackMask } from './deferrable-image';
 import { simdKernels } from './engine';
 import { imageLike, type Image } from './image';
+import { maskWordsLoop } from './kernel-loops';
 import { sampleBits } from './ordered-keys';
 
 /** Radius the packed path handles: a shift must stay within the neighbouring word. */
@@ -29,10 +30,14 @@ function packMask(src: Image): PackedMask | null {
   const bits = sampleBits(data);
   const wordsPerRow = (w + 31) >>> 5;
   const words = new Int32Array(wordsPerRow * h);
+  const generated = maskWordsLoop(FLOAT_ONE_BITS);
+  const full = w >>> 5;
   for (let y = 0; y < h; y++) {
     const row = y * w;
     const wordRow = y * wordsPerRow;
-    for (let k = 0; k < wordsPerRow; k++) {
+    // The generated loop stops at a word with another pattern; the loop below takes that one and the rest.
+    const from = generated ? generated(bits, words, row, wordRow, 0, full) : 0;
+    for (let k = from; k < wordsPerRow; k++) {
       const x0 = row + (k << 5);
       const n = Math.min(32, w - (k << 5));
       let word = 0;

@@ -450,3 +450,39 @@ words[out + k] = word;
 };`;
   });
 }
+
+/**
+ * The whole words of one row of a 0/1 mask (bit patterns: +0 is 0, 1.0 is 0x3f800000) from word k0
+ * on: bit i of words[out + k] is bit 29 of the pattern at bits[row + 32k + i]. Stops at the first
+ * word holding another pattern (−0 included, which the caller compares as a number) and returns
+ * its k; returns full when every word up to full is done.
+ */
+export type MaskWordsLoop = (bits: Int32Array, words: Int32Array, row: number, out: number, k0: number, full: number) => number;
+
+/**
+ * The 0/1 mask's packing loop, or null where the general loop is to run: the 32 patterns of a word
+ * loaded once, all +0 (word 0) and all 1.0 (every bit) answered from their OR and AND, the rest bit
+ * by bit with the check for other patterns. 5 MP, one CPU: opening r = 1 of an edge mask 4.6 → 1.6 ns/px.
+ */
+export function maskWordsLoop(oneBits: number): MaskWordsLoop | null {
+  if (!enabled) return null;
+  return compiled<MaskWordsLoop>(`mask words ${oneBits}`, () => {
+    const lanes = Array.from({ length: BITS_PER_WORD }, (_, i) => i);
+    return `return function maskWords(bits, words, row, out, k0, full) {
+for (let k = k0; k < full; k++) {
+const x0 = row + (k << 5);
+${lanes.map((i) => `const v${i} = bits[x0 + ${i}];`).join('\n')}
+const any = ${lanes.map((i) => `v${i}`).join(' | ')};
+if (any === 0) { words[out + k] = 0; continue; }
+const all = ${lanes.map((i) => `v${i}`).join(' & ')};
+if (all === ${oneBits} && any === ${oneBits}) { words[out + k] = -1; continue; }
+let word = 0;
+let stray = 0;
+${lanes.map((i) => `const b${i} = (v${i} >>> 29) & 1; word |= b${i} << ${i}; stray |= v${i} ^ (-b${i} & ${oneBits});`).join('\n')}
+if (stray !== 0) return k;
+words[out + k] = word;
+}
+return full;
+};`;
+  });
+}

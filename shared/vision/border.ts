@@ -35,7 +35,7 @@ export function borderTable(n: number, before: number, after: number, mode: Bord
  * Fills the `pad` positions on each side of a row already stored at row[pad … pad+n-1],
  * following `table` (built with borderTable(n, pad, pad, mode)).
  */
-export function fillRowBorder(row: Float32Array | Float64Array, n: number, pad: number, table: Int32Array): void {
+export function fillRowBorder(row: Float32Array | Float64Array | Int32Array, n: number, pad: number, table: Int32Array): void {
   for (let t = 0; t < pad; t++) {
     const left = table[t];
     row[t] = left === OUTSIDE ? 0 : row[pad + left];

@@ -27,24 +27,17 @@ export function medianFilter(src: Image, size: number, border: BorderMode, out?:
     median3BySortedColumns(src, border, dst.data, order === 'non-negative');
     return dst;
   }
-  const levels = integerLevels(src.data);
-  if (levels > 0) medianByHistogram(src, size, border, dst.data, levels);
-  else medianBySelection(src, size, border, dst.data);
+  if (!medianByHistogram(src, size, border, dst.data)) medianBySelection(src, size, border, dst.data);
   return dst;
 }
 
-/** max + 1 when every sample is an integer in 0 … 65535 (the histogram size needed), else 0. */
-function integerLevels(data: Float32Array): number {
-  let max = 0;
-  for (let p = 0; p < data.length; p++) {
-    const v = data[p];
-    if (!(v >= 0 && v < HISTOGRAM_LEVELS) || (v | 0) !== v) return 0;
-    if (v > max) max = v;
-  }
-  return max + 1;
-}
-
-function medianByHistogram(src: Image, size: number, border: BorderMode, o: Float32Array, levels: number): void {
+/**
+ * The running-histogram median of whole numbers in 0 … 65535 (8- and 16-bit photos); false, leaving
+ * the output to be overwritten, as soon as a source row holds another value. The check is made as
+ * each row is converted to integers (a pass of its own over the image before: 5 MP, one CPU, the 5×5
+ * median 49 → 43 ns/px), and the histogram is cleared only up to the largest level met so far.
+ */
+function medianByHistogram(src: Image, size: number, border: BorderMode, o: Float32Array): boolean {
   const { width: w, height: h, data } = src;
   const r = (size - 1) >> 1;
   const pw = w + 2 * r;
@@ -54,26 +47,48 @@ function medianByHistogram(src: Image, size: number, border: BorderMode, o: Floa
   const rowsAt = new Int32Array(size);
   const colTable = borderTable(w, r, r, border);
   const rowTable = borderTable(h, r, r, border);
-  const line = new Float32Array(pw);
-  const fill = (t: number) => {
+  let top = 0;
+  /** Padded row t into its slot; false when the source row holds a value that is not a level. */
+  const fill = (t: number): boolean => {
     const sy = rowTable[t];
     const slot = (t % size) * pw;
     if (sy === OUTSIDE) {
       ring.fill(0, slot, slot + pw);
-      return;
+      return true;
     }
-    line.set(data.subarray(sy * w, sy * w + w), r);
-    fillRowBorder(line, w, r, colTable);
-    ring.set(line, slot);
+    const largest = levelsRow(data, sy * w, w, ring, slot + r);
+    if (largest < 0) return false;
+    if (largest > top) top = largest;
+    fillRowBorder(ring.subarray(slot, slot + pw), w, r, colTable);
+    return true;
   };
-  for (let t = 0; t < size - 1; t++) fill(t);
-  const hist = new Int32Array(levels);
+  for (let t = 0; t < size - 1; t++) if (!fill(t)) return false;
+  const hist = new Int32Array(HISTOGRAM_LEVELS);
   const generated = histogramMedianRowLoop(size);
   for (let y = 0; y < h; y++) {
-    fill(y + size - 1);
+    if (!fill(y + size - 1)) return false;
     for (let j = 0; j < size; j++) rowsAt[j] = ((y + j) % size) * pw;
-    medianRowByHistogram(ring, rowsAt, w, size, hist, o, y * w, generated);
+    medianRowByHistogram(ring, rowsAt, w, size, hist, top + 1, o, y * w, generated);
   }
+  return true;
+}
+
+/**
+ * ring[at + s] = data[from + s] for s < w when every one of them is a whole number in 0 … 65535
+ * (−0 as 0): returns the largest, or −1 as soon as one is not (NaN, a fraction, out of range).
+ */
+function levelsRow(data: Float32Array, from: number, w: number, ring: Int32Array, at: number): number {
+  let largest = 0;
+  let stray = 0;
+  for (let s = 0; s < w; s++) {
+    const v = data[from + s];
+    const level = v | 0;
+    // A fraction, NaN or ±∞ differs from its integer part; a negative or too large level has bits from 16 up.
+    stray |= +(level !== v) | (level >>> 16);
+    largest = largest > level ? largest : level;
+    ring[at + s] = level;
+  }
+  return stray === 0 ? largest : -1;
 }
 
 /**
@@ -84,9 +99,9 @@ function medianByHistogram(src: Image, size: number, border: BorderMode, o: Floa
  * instead of compiling the first photo's long loop on-stack (tests/bench: 29–42 ns/px for the same
  * 5×5 median from one process to the next before).
  */
-function medianRowByHistogram(padded: Int32Array, rowsAt: Int32Array, w: number, size: number, hist: Int32Array, o: Float32Array, base: number, generated: MedianRowLoop | null): void {
+function medianRowByHistogram(padded: Int32Array, rowsAt: Int32Array, w: number, size: number, hist: Int32Array, levels: number, o: Float32Array, base: number, generated: MedianRowLoop | null): void {
   const rank = (size * size - 1) >> 1; // 0-based rank of the median among size² values
-  hist.fill(0);
+  hist.fill(0, 0, levels);
   for (let j = 0; j < size; j++) {
     const row = rowsAt[j];
     for (let i = 0; i < size; i++) hist[padded[row + i]]++;
@@ -123,7 +138,7 @@ function warmUpMedianRows(): void {
   const hist = new Int32Array(16);
   const o = new Float32Array(w);
   for (let i = 0; i < 6; i++) {
-    for (const size of [3, 5, 7]) medianRowByHistogram(padded, Int32Array.from({ length: size }, (_, j) => j * (w + size - 1)), w, size, hist, o, 0, null);
+    for (const size of [3, 5, 7]) medianRowByHistogram(padded, Int32Array.from({ length: size }, (_, j) => j * (w + size - 1)), w, size, hist, 16, o, 0, null);
     median3Row(padded.subarray(0, w), padded.subarray(w, 2 * w), padded.subarray(2 * w, 3 * w), w, 1, OUTSIDE, sampleBits(o), 0);
   }
 }

@@ -22,6 +22,8 @@ export function medianFilter(src: Image, size: number, border: BorderMode, out?:
     dst.data.set(src.data);
     return dst;
   }
+  // Most images are of +0 and above without NaN: tried first, checking each row as it comes in.
+  if (size === 3 && median3OfNonNegative(src, border, dst.data)) return dst;
   const order = size === 3 ? sampleOrder(src.data) : 'unordered';
   if (order !== 'unordered') {
     median3BySortedColumns(src, border, dst.data, order === 'non-negative');
@@ -177,24 +179,67 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array,
 }
 
 /**
+ * median3BySortedColumns for an image whose samples are all +0 and above, without NaN (their bit
+ * patterns are their keys), checking each row as the column sorts first read it instead of a pass of
+ * its own over the image first (`sampleOrder`: 5 MP, one CPU, 14.1–15.1 → 12.3–13.5 ns/px). False as
+ * soon as a row holds another value; the caller then decides the path and overwrites the output.
+ */
+function median3OfNonNegative(src: Image, border: BorderMode, o: Float32Array): boolean {
+  const { width: w, height: h, data } = src;
+  const keys = sampleBits(data);
+  const out = sampleBits(o);
+  // Row 0 is never the row below another; every other row is, for the output row above it.
+  if (outsideNonNegative(keys, 0, w) < 0) return false;
+  const rowOffsets = rowOffsetTable(h, w, 1, 1, border);
+  const colTable = borderTable(w, 1, 1, border);
+  const zeros = new Int32Array(w);
+  const left = colTable[0];
+  const right = colTable[w + 1];
+  for (let y = 0; y < h; y++) {
+    const upOff = rowOffsets[y];
+    const downOff = rowOffsets[y + 2];
+    const up = upOff === OUTSIDE ? zeros : keys.subarray(upOff, upOff + w);
+    const centre = keys.subarray(y * w, y * w + w);
+    const down = downOff === OUTSIDE ? zeros : keys.subarray(downOff, downOff + w);
+    if (median3Row(up, centre, down, w, left, right, out, y * w) < 0) return false;
+  }
+  return true;
+}
+
+/** Negative when a bit pattern of keys[from … from+n−1] is not that of +0 … +∞ (a negative value, −0 or NaN). */
+function outsideNonNegative(keys: Int32Array, from: number, n: number): number {
+  let outside = 0;
+  for (let i = 0; i < n; i++) outside |= patternOutside(keys[from + i]);
+  return outside;
+}
+
+/** (+∞'s pattern − k) | k: the sign bit is set exactly when k is below 0 or above +∞'s pattern (NaN). */
+function patternOutside(k: number): number {
+  return (0x7f800000 - k) | k;
+}
+
+/**
  * One output row of the 3×3 median from the key rows a, b, c (columns −1 and w: `left` and `right`
  * of the border table, key 0 outside). Each column is sorted once, into locals, as the window
  * slides right (no arrays of lows, middles and highs between the sort and the windows); two
  * windows per iteration share their two middle columns' comparisons.
  */
-function median3Row(a: Int32Array, b: Int32Array, c: Int32Array, w: number, left: number, right: number, out: Int32Array, base: number): void {
+function median3Row(a: Int32Array, b: Int32Array, c: Int32Array, w: number, left: number, right: number, out: Int32Array, base: number): number {
   // Column −1, then column 0: (low, middle, high) of each.
   const sorted = COLUMN;
   sortColumn(a, b, c, left, sorted);
   let l0 = sorted[0], m0 = sorted[1], h0 = sorted[2];
   sortColumn(a, b, c, 0, sorted);
   let l1 = sorted[0], m1 = sorted[1], h1 = sorted[2];
+  let outside = patternOutside(c[0]);
   let x = 0;
   for (; x + 2 < w; x += 2) {
     const u2 = a[x + 1], v2 = b[x + 1], t2 = c[x + 1];
+    outside |= patternOutside(t2);
     const lo2 = minKey(u2, v2), hi2 = maxKey(u2, v2);
     const l2 = minKey(lo2, t2), h2 = maxKey(hi2, t2), m2 = maxKey(lo2, minKey(hi2, t2));
     const u3 = a[x + 2], v3 = b[x + 2], t3 = c[x + 2];
+    outside |= patternOutside(t3);
     const lo3 = minKey(u3, v3), hi3 = maxKey(u3, v3);
     const l3 = minKey(lo3, t3), h3 = maxKey(hi3, t3), m3 = maxKey(lo3, minKey(hi3, t3));
     const lowPair = maxKey(l1, l2);
@@ -218,6 +263,7 @@ function median3Row(a: Int32Array, b: Int32Array, c: Int32Array, w: number, left
   }
   for (; x < w; x++) {
     // Column x+1, or column w from the border.
+    if (x + 1 < w) outside |= patternOutside(c[x + 1]);
     sortColumn(a, b, c, x + 1 < w ? x + 1 : right, sorted);
     const l2 = sorted[0], m2 = sorted[1], h2 = sorted[2];
     const maxLow = maxKey(maxKey(l0, l1), l2);
@@ -231,6 +277,7 @@ function median3Row(a: Int32Array, b: Int32Array, c: Int32Array, w: number, left
     m1 = m2;
     h1 = h2;
   }
+  return outside;
 }
 
 /** Scratch for sortColumn's (low, middle, high). */

@@ -76,6 +76,49 @@ test('plain 5×5 and 7×7 medians of whole numbers, and of whole numbers with on
         expect(canonicalBits(out)).toEqual(canonicalBits({ width: w, height: h, data: expected }));
       },
     ),
-    { numRuns: 200 },
+    { numRuns: 400 },
   );
+});
+
+test('plain 3×3 median of non-negative samples with other values from any row on (negative runs, −0, NaN): every window without NaN gives its 5th smallest', () => {
+  // The non-negative path checks each row as its columns are first sorted and hands the image back on
+  // the first row holding another value. Every combination below: one to three rows of negatives of
+  // different sizes make windows whose median is negative, where keys taken for non-negative ones
+  // would order them backwards; the column patterns reach each place the row check reads (the first
+  // column, the two of each pair, the last) on an odd and an even width.
+  const columnPatterns: ((x: number, y: number, w: number) => boolean)[] = [
+    () => true,
+    (x, y) => (x + y) % 3 !== 0,
+    (x) => x % 2 === 0 && x > 0,
+    (x) => x % 2 === 1,
+    (x) => x === 0,
+    (x, _y, w) => x === w - 1,
+  ];
+  const h = 9;
+  let s = 1;
+  for (const w of [17, 18]) {
+    for (const border of ['reflect', 'replicate', 'constant'] as const) {
+      for (const stray of [-1, -0, NaN, 2.5, Infinity]) {
+        for (const rows of [1, 2, 3]) {
+          for (const row of [0, 3, h - rows]) {
+            for (const columns of columnPatterns) {
+              const image = sampleImage(w, h, '8-bit', s++);
+              for (let y = row; y < row + rows; y++) {
+                for (let x = 0; x < w; x++) if (columns(x, y, w)) image.data[y * w + x] = stray === -1 ? -1 - ((x * 7 + y) % 11) / 4 : stray;
+              }
+              const out = onEngine('plain', () => medianFilter(image, 3, border));
+              for (let y = 0; y < h; y++) {
+                for (let x = 0; x < w; x++) {
+                  const values = neighbourhood(image, x, y, 3, border);
+                  if (values.some(Number.isNaN)) continue;
+                  const expected = Math.fround(values.sort((a, b) => a - b)[4]);
+                  if (out.data[y * w + x] !== expected) throw new Error(`${w}×${h} ${border}, ${stray} in rows ${row}…${row + rows - 1}: (${x}, ${y}) gave ${out.data[y * w + x]}, not ${expected}`);
+                }
+              }
+            }
+          }
+        }
+      }
+    }
+  }
 });

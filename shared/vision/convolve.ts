@@ -54,11 +54,13 @@ export function correlateSeparable(
   out?: Image,
   offset = 0,
 ): Image {
+  // −0 as +0, as kernelFromMatrix takes it: a zero sum then comes out +0 whatever its sign.
+  const added = offset + 0;
   const simd = simdKernels();
-  if (simd) return simd.separable(src, column, row, border, out, offset);
+  if (simd) return simd.separable(src, column, row, border, out, added);
   const { width: w } = src;
   const dst = imageLike(src, out === src ? undefined : out);
-  const sweep = new SeparableSweep(src, column, row, border, offset);
+  const sweep = new SeparableSweep(src, column, row, border, added);
   while (sweep.next(dst.data, (y) => y * w) > 0);
   return dst;
 }

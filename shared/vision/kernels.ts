@@ -31,7 +31,9 @@ export function kernelFromMatrix(matrix: readonly (readonly number[])[], divisor
     if (row.length !== cols) throw new RangeError(`kernel row ${j} has ${row.length} values, expected ${cols}`);
     row.forEach((v, i) => (weights[j * cols + i] = v));
   });
-  return { rows, cols, weights, divisor, offset };
+  // An offset of −0 is +0: the loops may differ in the sign of a zero sum (kernel-loops.ts), and
+  // adding +0 makes it +0 in all of them (−0 + −0 would keep one sign and not the other).
+  return { rows, cols, weights, divisor, offset: offset + 0 };
 }
 
 /** The kernel as a matrix of rows (for display and export). */

@@ -171,3 +171,13 @@ test('the generated box-filter row gives the general loop’s bits: means and th
     { numRuns: 200 },
   );
 });
+
+test('an offset of −0 counts as +0: a zero sum whose sign differs between the loops comes out +0 in both', () => {
+  // Found by the property test above: 5e−324·(−1)/2 rounds to −0 in one loop and sums to +0 in the
+  // other; −0 + −0 would keep the one sign and not the other.
+  const image = imageFromSamples(1, 1, [-1]);
+  const kernel = kernelFromMatrix([[0], [5e-324], [0], [0], [0]], 2, -0);
+  expect(Object.is(kernel.offset, 0)).toBe(true);
+  expectSameBits(() => correlateDirect(image, kernel, 'reflect'));
+  expectSameBits(() => correlateSeparable(image, [0, 5e-324, 0], [1], 'reflect', undefined, -0));
+});

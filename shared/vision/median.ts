@@ -161,6 +161,12 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array,
   // Samples of +0 and above sort by their bit patterns; others are compared as keys, converted once
   // here and back at the end (converting in the column sorts did it three times per sample: 8 % slower).
   const keys = keysOf(data, nonNegative ? 'non-negative' : 'ordered');
+  median3Rows(keys, w, h, border, out, false);
+  if (!nonNegative) samplesFromKeys(out);
+}
+
+/** Every output row of the 3×3 median of the key image; with `checked`, false at the first row below an output row that holds a key outside +0 … +∞. */
+function median3Rows(keys: Int32Array, w: number, h: number, border: BorderMode, out: Int32Array, checked: boolean): boolean {
   const rowOffsets = rowOffsetTable(h, w, 1, 1, border);
   const colTable = borderTable(w, 1, 1, border);
   // The key of +0 is 0: rows outside the image under the constant border.
@@ -173,9 +179,10 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array,
     const up = upOff === OUTSIDE ? zeros : keys.subarray(upOff, upOff + w);
     const centre = keys.subarray(y * w, y * w + w);
     const down = downOff === OUTSIDE ? zeros : keys.subarray(downOff, downOff + w);
-    median3Row(up, centre, down, w, left, right, out, y * w);
+    const outside = median3Row(up, centre, down, w, left, right, out, y * w);
+    if (checked && outside < 0) return false;
   }
-  if (!nonNegative) samplesFromKeys(out);
+  return true;
 }
 
 /**
@@ -187,23 +194,9 @@ function median3BySortedColumns(src: Image, border: BorderMode, o: Float32Array,
 function median3OfNonNegative(src: Image, border: BorderMode, o: Float32Array): boolean {
   const { width: w, height: h, data } = src;
   const keys = sampleBits(data);
-  const out = sampleBits(o);
   // Row 0 is never the row below another; every other row is, for the output row above it.
   if (outsideNonNegative(keys, 0, w) < 0) return false;
-  const rowOffsets = rowOffsetTable(h, w, 1, 1, border);
-  const colTable = borderTable(w, 1, 1, border);
-  const zeros = new Int32Array(w);
-  const left = colTable[0];
-  const right = colTable[w + 1];
-  for (let y = 0; y < h; y++) {
-    const upOff = rowOffsets[y];
-    const downOff = rowOffsets[y + 2];
-    const up = upOff === OUTSIDE ? zeros : keys.subarray(upOff, upOff + w);
-    const centre = keys.subarray(y * w, y * w + w);
-    const down = downOff === OUTSIDE ? zeros : keys.subarray(downOff, downOff + w);
-    if (median3Row(up, centre, down, w, left, right, out, y * w) < 0) return false;
-  }
-  return true;
+  return median3Rows(keys, w, h, border, sampleBits(o), true);
 }
 
 /** Negative when a bit pattern of keys[from … from+n−1] is not that of +0 … +∞ (a negative value, −0 or NaN). */

@@ -37,7 +37,7 @@ export function medianFilter(src: Image, size: number, border: BorderMode, out?:
  * The running-histogram median of whole numbers in 0 … 65535 (8- and 16-bit photos); false, leaving
  * the output to be overwritten, as soon as a source row holds another value. The check is made as
  * each row is converted to integers (a pass of its own over the image before: 5 MP, one CPU, the 5×5
- * median 49 → 43 ns/px), and the histogram is cleared only up to the largest level met so far.
+ * median 33.8–34.5 → 31.4–32.3 ns/px), and the histogram is cleared only up to the largest level met so far.
  */
 function medianByHistogram(src: Image, size: number, border: BorderMode, o: Float32Array): boolean {
   const { width: w, height: h, data } = src;

@@ -140,6 +140,12 @@ function countBins(data: Float32Array, origin: number, scale: number, counts: Fl
     partial[s3 + (((data[p + 3] - origin) * scale) | 0)]++;
   }
   for (; p < n; p++) partial[((data[p] - origin) * scale) | 0]++;
+  addPartials(partial, counts);
+}
+
+/** The four partial histograms into counts, bin 256 (a value at the maximum) into bin 255. */
+function addPartials(partial: Int32Array, counts: Float64Array): void {
+  const s1 = PARTIAL_STRIDE, s2 = 2 * PARTIAL_STRIDE, s3 = 3 * PARTIAL_STRIDE;
   for (let bin = 0; bin < PARTIAL_STRIDE; bin++) {
     const total = partial[bin] + partial[s1 + bin] + partial[s2 + bin] + partial[s3 + bin];
     counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += total;
@@ -174,10 +180,7 @@ function countBinsKeeping(data: Float32Array, origin: number, scale: number, cou
     partial[a]++;
     bins[p] = a - (a >>> 8);
   }
-  for (let bin = 0; bin < PARTIAL_STRIDE; bin++) {
-    const total = partial[bin] + partial[s1 + bin] + partial[s2 + bin] + partial[s3 + bin];
-    counts[bin < HISTOGRAM_BINS ? bin : HISTOGRAM_BINS - 1] += total;
-  }
+  addPartials(partial, counts);
 }
 
 /**
@@ -230,15 +233,15 @@ export function thresholdOtsu(
 ): { mask: Image; bin: number; threshold: number } {
   const simd = simdKernels();
   const bits = packed && packed.width === src.width && packed.height === src.height ? packed : null;
-  const maskToo = writeMask || !bits;
-  if (bits && !maskToo) return simd ? otsuPackedOnly(simd, src, invert, bits, out, range) : otsuPackedOnlyPlain(src, invert, bits, out, range);
+  if (bits && !writeMask) return simd ? otsuPackedOnly(simd, src, invert, bits, out, range) : otsuPackedOnlyPlain(src, invert, bits, out, range);
+  // From here on the mask's samples are written (and its bits too when given).
   const hist = simd ? otsuHistogramSimd(simd, src, range) : otsuHistogram(src.data, range);
   const k = hist.flat ? -1 : otsuBin(hist.counts);
   const above = invert ? 0 : 1;
   const below = 1 - above;
   if (k < 0) {
     const dst = imageLike(src, out);
-    if (maskToo) dst.data.fill(below);
+    dst.data.fill(below);
     if (bits) fillPacked(bits, below);
     return { mask: dst, bin: -1, threshold: NaN };
   }
@@ -249,9 +252,9 @@ export function thresholdOtsu(
   // both engines compare each sample with that float32 (a NaN is below every cut, as its bin 0 is).
   const edge = k + 1;
   const first = firstFloat32Where(hist.min, hist.max, (v) => (((v - hist.origin) * hist.binsPerUnit) | 0) >= edge);
-  if (simd) return { mask: simd.thresholdAt(src, first, invert, out, bits ?? undefined, maskToo), bin: k, threshold };
+  if (simd) return { mask: simd.thresholdAt(src, first, invert, out, bits ?? undefined), bin: k, threshold };
   const dst = imageLike(src, out);
-  if (bits) writeAtLeastPacked(src.data, first, invert, maskToo ? dst.data : null, bits);
+  if (bits) writeAtLeastPacked(src.data, first, invert, dst.data, bits);
   else writeAtLeast(src.data, first, invert, dst.data);
   return { mask: dst, bin: k, threshold };
 }
@@ -338,8 +341,8 @@ function writeAtLeast(s: Float32Array, cut: number, invert: boolean, o: Float32A
   for (let p = 0; p < s.length; p++) o[p] = flip ^ +(s[p] >= cut);
 }
 
-/** writeAtLeast (when o is given), setting bit i of each word for the pixel's 1 (bits past the last column stay 0). */
-function writeAtLeastPacked(s: Float32Array, cut: number, invert: boolean, o: Float32Array | null, packed: PackedMask): void {
+/** writeAtLeast, also setting bit i of each word for the pixel's 1 (bits past the last column stay 0); a mask written in bits only takes otsuPackedOnlyPlain. */
+function writeAtLeastPacked(s: Float32Array, cut: number, invert: boolean, o: Float32Array, packed: PackedMask): void {
   const { width: w, height: h, wordsPerRow, words } = packed;
   const flip = invert ? 1 : 0;
   for (let y = 0; y < h; y++) {
@@ -348,33 +351,14 @@ function writeAtLeastPacked(s: Float32Array, cut: number, invert: boolean, o: Fl
       const x0 = row + (word << 5);
       const n = Math.min(32, w - (word << 5));
       let acc = 0;
-      if (o) {
-        for (let i = 0; i < n; i++) {
-          const bit = flip ^ +(s[x0 + i] >= cut);
-          o[x0 + i] = bit;
-          acc |= bit << i;
-        }
-      } else if (n === 32) {
-        acc = wordAtLeast(s, x0, cut);
-        if (flip) acc = ~acc;
-      } else {
-        for (let i = 0; i < n; i++) acc |= (flip ^ +(s[x0 + i] >= cut)) << i;
+      for (let i = 0; i < n; i++) {
+        const bit = flip ^ +(s[x0 + i] >= cut);
+        o[x0 + i] = bit;
+        acc |= bit << i;
       }
       words[y * wordsPerRow + word] = acc;
     }
   }
-}
-
-/** Bit i set where s[x0 + i] ≥ cut, for 32 pixels: four interleaved words of constant shifts (no per-pixel flip or loop). */
-function wordAtLeast(s: Float32Array, x0: number, cut: number): number {
-  let a = 0, b = 0, c = 0, d = 0;
-  for (let i = 0; i < 32; i += 4) {
-    a |= +(s[x0 + i] >= cut) << i;
-    b |= +(s[x0 + i + 1] >= cut) << (i + 1);
-    c |= +(s[x0 + i + 2] >= cut) << (i + 2);
-    d |= +(s[x0 + i + 3] >= cut) << (i + 3);
-  }
-  return a | b | c | d;
 }
 
 /** Every pixel set to `value` (0 or 1) in packed form. */

@@ -62,8 +62,8 @@ export function histogramScratchBytes(pairs: i32): i32 {
 }
 
 /**
- * Counts bin(v) = min(255, trunc((v − origin)·scale)), in double precision as the plain engine
- * computes it (both put every value in the same bin; NaN goes to bin 0), into counts (256 int32).
+ * Counts bin(v) = min(255, trunc((v − origin)·scale)), the plain engine's double-precision bin (from
+ * float32 arithmetic where `countGroups` finds it the same; NaN goes to bin 0), into counts (256 int32).
  * When bins ≠ 0 each pixel's bin also goes there as a byte, for `thresholdBinsPacked` (Otsu's chosen
  * bin is at most 254, so a value at the maximum counted in bin 255 gives the same mask). With pairs ≠ 0
  * neighbours are counted in pairs (`countPairs`), else singly.

@@ -43,6 +43,23 @@ test('colour becomes luma with the BT.601 weights 0.299, 0.587, 0.114 on the RGB
   expect(Array.from(channelImage(photo, 'green').data)).toEqual(rgb.filter((_, i) => i % 3 === 1));
 });
 
+test.each([
+  [3, 16],
+  [4, 8],
+  [4, 16],
+] as const)('%i channels of %i bits become luma with the BT.601 weights too, alpha ignored', async (channels, depth) => {
+  const top = depth === 16 ? 65536 : 256;
+  const samples = Array.from({ length: W * H * channels }, (_, i) => (i * 2741 + 17) % top);
+  const photo = await decodePhoto(encodePng(W, H, channels, depth, samples));
+  expect([photo.channels, photo.bitDepth]).toEqual([channels, depth]);
+  const luma = channelImage(photo, 'luma').data;
+  for (let p = 0; p < W * H; p++) {
+    const s = channels * p;
+    // ITU-R BT.601-7 §2.5.1 weights, applied here independently of the engine.
+    expect(luma[p]).toBe(Math.fround(0.299 * samples[s] + 0.587 * samples[s + 1] + 0.114 * samples[s + 2]));
+  }
+});
+
 test('16-bit colour keeps 16-bit samples', async () => {
   const rgb = Array.from({ length: W * H * 3 }, (_, i) => (i * 2741) % 65536);
   const photo = await decodePhoto(encodePng(W, H, 3, 16, rgb));

@@ -39,7 +39,7 @@ export interface EngineExports {
   histogramScratchBytes(pairs: number): number;
   thresholdBinsPacked(bins: number, w: number, h: number, k: number, invert: number, words: number): void;
   thresholdAt(src: number, dst: number, n: number, cut: number, invert: number): void;
-  thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number, writeMask: number): void;
+  thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number): void;
   extreme(src: number, dst: number, w: number, h: number, r: number, mode: number, takeMax: number, scratch: number): void;
   extremeScratchBytes(w: number, r: number): number;
   packMask(src: number, w: number, h: number, words: number): number;
@@ -363,20 +363,17 @@ export class SimdKernels {
     this.heap.release(address);
   }
 
-  /**
-   * mask = (v ≥ cut) XOR invert, cut a float32; `packed` receives the mask in packed bits as well
-   * (only, with writeMask false: the output image's contents are then left as they were).
-   */
-  thresholdAt(src: Image, cut: number, invert: boolean, out?: Image, packed?: PackedMask, writeMask = true): Image {
+  /** mask = (v ≥ cut) XOR invert, cut a float32; `packed` receives the mask in packed bits as well. */
+  thresholdAt(src: Image, cut: number, invert: boolean, out?: Image, packed?: PackedMask): Image {
     return this.mapImage(src, out, (s, d, scope) => {
       if (!packed) {
         this.wasm.thresholdAt(s, d, src.data.length, cut, invert ? 1 : 0);
         return;
       }
       const words = scope.alloc(4 * packed.words.length);
-      this.wasm.thresholdAtPacked(s, d, src.width, src.height, cut, invert ? 1 : 0, words, writeMask ? 1 : 0);
+      this.wasm.thresholdAtPacked(s, d, src.width, src.height, cut, invert ? 1 : 0, words);
       packed.words.set(this.heap.i32(words, packed.words.length));
-    }, writeMask || !packed);
+    });
   }
 
   /** Minimum (erosion) or maximum (dilation) over the square of side 2r+1, for any values. */

@@ -37,7 +37,6 @@ export function warmUp(kernels: SimdKernels): void {
   // Large photos count in pairs: that path too, on this small image.
   kernels.histogram(b, range.min, 256 / (range.max - range.min), false, true);
   kernels.thresholdAt(b, (range.min + range.max) / 2, false, c, { width: SIDE, height: SIDE, wordsPerRow: SIDE / 32, words: new Int32Array((SIDE / 32) * SIDE) });
-  kernels.thresholdAt(b, (range.min + range.max) / 2, false, c, { width: SIDE, height: SIDE, wordsPerRow: SIDE / 32, words: new Int32Array((SIDE / 32) * SIDE) }, false);
   kernels.thresholdAt(b, (range.min + range.max) / 2, false, c);
   kernels.binaryMorphology(c, 'open', 1, 'reflect', b);
   kernels.box(a, 5, 'reflect', b);

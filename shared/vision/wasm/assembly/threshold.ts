@@ -308,9 +308,9 @@ export function thresholdAt(src: usize, dst: usize, n: i32, cut: f32, invert: i3
 
 /**
  * thresholdAt on a w×h image that also writes the mask in packed bits: bit i of word k of row y is
- * pixel (32k + i, y); bits past the last column are 0. With writeMask 0 only the bits are written.
+ * pixel (32k + i, y); bits past the last column are 0.
  */
-export function thresholdAtPacked(src: usize, dst: usize, w: i32, h: i32, cut: f32, invert: i32, words: usize, writeMask: i32): void {
+export function thresholdAtPacked(src: usize, dst: usize, w: i32, h: i32, cut: f32, invert: i32, words: usize): void {
   const vc = f32x4.splat(cut);
   const one = i32x4.splat(ONE_BITS);
   const flip = i32x4.splat(invert ? -1 : 0);
@@ -321,19 +321,17 @@ export function thresholdAtPacked(src: usize, dst: usize, w: i32, h: i32, cut: f
       const x0 = row + (k << 5);
       const count = min(32, w - (k << 5));
       let word = 0;
-      if (count == 32 && writeMask) {
+      if (count == 32) {
         for (let g = 0; g < 8; g++) {
           const p = x0 + (g << 2);
           const above = v128.xor(f32x4.ge(v128.load(at(src, p)), vc), flip);
           v128.store(at(dst, p), v128.and(above, one));
           word |= i32x4.bitmask(above) << (g << 2);
         }
-      } else if (count == 32) {
-        for (let g = 0; g < 8; g++) word |= i32x4.bitmask(v128.xor(f32x4.ge(v128.load(at(src, x0 + (g << 2))), vc), flip)) << (g << 2);
       } else {
         for (let i = 0; i < count; i++) {
           const bit = (load<f32>(at(src, x0 + i)) >= cut ? 1 : 0) ^ invert;
-          if (writeMask) store<f32>(at(dst, x0 + i), <f32>bit);
+          store<f32>(at(dst, x0 + i), <f32>bit);
           word |= bit << i;
         }
       }

@@ -372,7 +372,7 @@ function boxWindowSource(size: number, output: 'mean' | 'mask' | 'bits', sliding
   // each addition for overflow and widens the result; a truncated one is a bare 32-bit add (5 MP, one
   // CPU: box 5 2.58 → 2.32 ns/px, adaptive mean 15 3.06 → 2.90, the same bits). An index past the
   // array still fails its bounds check.
-  const at = (offset: string, q: number | string) => `(${offset} + ${q}) | 0`;
+  const at = (offset: string, q: number) => `(${offset} + ${q}) | 0`;
   const above = (p: number, sum: string) => `+(src[${at('base + x', p)}] > Math.fround(${sum} * scale) - c)`;
   // In the tail the bit's place in its word follows x; in the full iterations it is p itself.
   const write = (p: number, sum: string, tail = false) =>
@@ -439,11 +439,10 @@ export type NonZeroWordsLoop = (bits: Int32Array, words: Int32Array, row: number
 export function nonZeroWordsLoop(): NonZeroWordsLoop | null {
   if (!enabled) return null;
   return compiled<NonZeroWordsLoop>('non-zero words', () => {
-    const lanes = Array.from({ length: BITS_PER_WORD }, (_, i) => i);
+    const lanes = wordLanes();
     return `return function nonZeroWords(bits, words, row, out, full) {
 for (let k = 0; k < full; k++) {
-const x0 = row + (k << 5);
-${lanes.map((i) => `const v${i} = bits[x0 + ${i}];`).join('\n')}
+${wordLoads(lanes)}
 const any = ${lanes.map((i) => `v${i}`).join(' | ')};
 const all = ${lanes.map((i) => `v${i}`).join(' & ')};
 if ((any & 0x7fffffff) === 0) { words[out + k] = 0; continue; }
@@ -472,11 +471,10 @@ export type MaskWordsLoop = (bits: Int32Array, words: Int32Array, row: number, o
 export function maskWordsLoop(oneBits: number): MaskWordsLoop | null {
   if (!enabled) return null;
   return compiled<MaskWordsLoop>(`mask words ${oneBits}`, () => {
-    const lanes = Array.from({ length: BITS_PER_WORD }, (_, i) => i);
+    const lanes = wordLanes();
     return `return function maskWords(bits, words, row, out, k0, full) {
 for (let k = k0; k < full; k++) {
-const x0 = row + (k << 5);
-${lanes.map((i) => `const v${i} = bits[x0 + ${i}];`).join('\n')}
+${wordLoads(lanes)}
 const any = ${lanes.map((i) => `v${i}`).join(' | ')};
 if (any === 0) { words[out + k] = 0; continue; }
 const all = ${lanes.map((i) => `v${i}`).join(' & ')};
@@ -490,4 +488,14 @@ words[out + k] = word;
 return full;
 };`;
   });
+}
+
+/** The lanes 0 … 31 of a packed word. */
+function wordLanes(): number[] {
+  return Array.from({ length: BITS_PER_WORD }, (_, i) => i);
+}
+
+/** The packing loops' loads of word k's 32 patterns into v0 … v31 (x0 its first sample). */
+function wordLoads(lanes: number[]): string {
+  return [`const x0 = row + (k << 5);`, ...lanes.map((i) => `const v${i} = bits[x0 + ${i}];`)].join('\n');
 }

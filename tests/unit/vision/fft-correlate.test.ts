@@ -51,6 +51,23 @@ test('the FFT in tiles equals the direct correlation within the FFT bound in dou
   );
 });
 
+test('on a wider image, whose inner tiles take no column through the border, the FFT equals the direct correlation within the same bound', () => {
+  // 520 × 300: with a 31×31 kernel the tiles at x = 98, 196 and 294 take no column through the border,
+  // nor with 11×11 the tiles at x = 118, 236 and 354; the image's rows go through it only at the top and bottom.
+  const pattern = (side: number) =>
+    Array.from({ length: side }, (_, j) => Array.from({ length: side }, (_, i) => ((i * 5 + j * 11) % 7) - 3 + (i === j ? 1.25 : 0)));
+  for (const [side, kind, border] of [[31, '8-bit', 'reflect'], [11, '16-bit', 'constant'], [31, 'signed float', 'replicate']] as const) {
+    const image = sampleImage(520, 300, kind, side);
+    const matrix = pattern(side);
+    const k = kernelFromMatrix(matrix, 4, 0.5);
+    const direct = correlateDirect(image, k, border);
+    const fft = createImage(520, 300);
+    correlateFft(image, k, border, fft);
+    const bound = fftFactor * (l1(matrix.flat()) / 4) * Math.SQRT2 * 128 * largestMagnitude(image.data);
+    expect(largestDifference(fft.data, direct.data)).toBeLessThanOrEqual(bound + float32Tolerance(2, largestMagnitude(direct.data) + 0.5));
+  }
+});
+
 test(`correlate takes the FFT from ${PLAIN_FFT_KERNEL_TAPS} weights and the direct path below`, () => {
   const image = sampleImage(150, 140, '8-bit', 11);
   const pattern = (rows: number, cols: number) =>

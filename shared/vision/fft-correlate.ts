@@ -39,8 +39,8 @@ for (let i = 0; i < N; i++) {
  * The four planes a correlation works in (0.5 MB, kept): a tile pair (RE, IM) and the kernel's
  * spectrum (KRE, KIM). Module constants, which the butterflies name instead of taking as arguments
  * (5 MP, one CPU, four rounds of both versions in one process, the same bits: 31×31 18.7–19.1 →
- * 17.1–17.7 ns/px, 15×15 15.3–15.8 → 14.7; the same for the other loops, or sweeps fused around the
- * product and after the fill, measured no faster). Made when the module loads: the same planes made
+ * 17.1–17.7 ns/px, 15×15 15.3–15.8 → 14.7; naming them in the other loops too measured slower, and
+ * sweeps fused around the product and after the fill no faster). Made when the module loads: the same planes made
  * on first use in `let` bindings ran slower than arguments (31×31 19.0–19.7 → 20.1–20.8 ns/px).
  */
 const RE = new Float64Array(AREA);

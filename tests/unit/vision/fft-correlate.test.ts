@@ -63,6 +63,7 @@ test('on a wider image, whose inner tiles take no column through the border, the
     const direct = correlateDirect(image, k, border);
     const fft = createImage(520, 300);
     correlateFft(image, k, border, fft);
+    // The same error bound as above (Higham, §24.1), against the direct sum of the definition.
     const bound = fftFactor * (l1(matrix.flat()) / 4) * Math.SQRT2 * 128 * largestMagnitude(image.data);
     expect(largestDifference(fft.data, direct.data)).toBeLessThanOrEqual(bound + float32Tolerance(2, largestMagnitude(direct.data) + 0.5));
   }

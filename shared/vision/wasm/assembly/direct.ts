@@ -11,7 +11,7 @@ const I16_LIMIT: i32 = 32767;
 
 /** Scratch bytes `correlate2d` needs. */
 export function directScratchBytes(w: i32, rows: i32, cols: i32): i32 {
-  return 48 * rows * cols + 12 * rows + rows * (4 * (w + cols) + 32) + rows * (2 * (w + cols) + 32) + 224;
+  return 48 * rows * cols + 20 * rows + rows * (4 * (w + cols) + 32) + rows * (2 * (w + cols) + 32) + 256;
 }
 
 /**
@@ -51,21 +51,32 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   const slots16 = align16(at(slots, rows));
   const tapLines = align16(at(slots16, rows));
   const whole = align16(at(tapLines, taps));
+  // Per ring line: its source row, and whether its float32 line holds it. A row that goes into 16 bits
+  // straight from the source fills its float32 line only when a window holds a row that did not.
+  const sourceRows = align16(at(whole, rows));
+  const floatReady = align16(at(sourceRows, rows));
   const lineBytes = (<usize>(4 * (w + cols) + 16)) & ~(<usize>15);
   const line16Bytes = (<usize>(2 * (w + cols) + 16)) & ~(<usize>15);
-  const ring = align16(at(whole, rows));
+  const ring = align16(at(floatReady, rows));
   const ring16 = ring + <usize>rows * lineBytes;
   // Lines for source rows −ry … rows−2−ry; each output row adds the next one.
-  for (let t = 0; t < rows - 1; t++) fillLines(src, w, h, t - ry, rx, mode, ring + <usize>t * lineBytes, ring16 + <usize>t * line16Bytes, bound, at(whole, t));
-  for (let y = 0; y < h; y++) {
+  for (let y = 1 - rows; y < h; y++) {
     const t = y + rows - 1;
-    fillLines(src, w, h, t - ry, rx, mode, ring + <usize>(t % rows) * lineBytes, ring16 + <usize>(t % rows) * line16Bytes, bound, at(whole, t % rows));
+    const slot = t % rows;
+    const sy = t - ry;
+    const line = ring + <usize>slot * lineBytes;
+    const isWhole = bound > 0 && toWhole16Line(src, w, h, sy, rx, mode, ring16 + <usize>slot * line16Bytes, bound);
+    if (!isWhole) fillLine(src, w, h, sy, rx, mode, line);
+    store<i32>(at(whole, slot), <i32>isWhole);
+    store<i32>(at(floatReady, slot), <i32>!isWhole);
+    store<i32>(at(sourceRows, slot), sy);
+    if (y < 0) continue;
     let allWhole = bound > 0;
     for (let j = 0; j < rows; j++) {
-      const slot = (y + j) % rows;
-      store<usize>(at(slots, j), ring + <usize>slot * lineBytes);
-      store<usize>(at(slots16, j), ring16 + <usize>slot * line16Bytes);
-      allWhole = allWhole && load<i32>(at(whole, slot)) != 0;
+      const s = (y + j) % rows;
+      store<usize>(at(slots, j), ring + <usize>s * lineBytes);
+      store<usize>(at(slots16, j), ring16 + <usize>s * line16Bytes);
+      allWhole = allWhole && load<i32>(at(whole, s)) != 0;
     }
     const out = at(dst, y * w);
     if (allWhole) {
@@ -73,9 +84,16 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
         const line = load<usize>(at(slots16, load<i32>(at(taps16, 2 * t))));
         store<usize>(at(tapLines, t), line + <usize>load<i32>(at(taps16, 2 * t + 1)));
       }
-      whole16(tapLines, table16, ones, ones + minusOnes, nonzero, slots, table, rows, cols, w, out, scale, offset);
+      whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset);
+      continue;
     }
-    else if (rows == 3 && cols == 3) rows3x3(slots, table, w, out, scale, offset);
+    for (let j = 0; j < rows; j++) {
+      const s = (y + j) % rows;
+      if (load<i32>(at(floatReady, s)) != 0) continue;
+      fillLine(src, w, h, load<i32>(at(sourceRows, s)), rx, mode, ring + <usize>s * lineBytes);
+      store<i32>(at(floatReady, s), 1);
+    }
+    if (rows == 3 && cols == 3) rows3x3(slots, table, w, out, scale, offset);
     else general(slots, table, rows, cols, w, out, scale, offset);
   }
 }
@@ -95,17 +113,31 @@ function wholeSampleBound(weights: usize, taps: i32): i32 {
   return l1 == 0 ? I16_LIMIT : <i32>Math.floor(<f64>I16_LIMIT / l1);
 }
 
-/** fillLine, and with bound > 0 the padded line as 16-bit integers into line16 and whether it may go there (1) at flag. */
-function fillLines(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, line: usize, line16: usize, bound: i32, flag: usize): void {
-  fillLine(src, w, h, sy, rx, mode, line);
-  store<i32>(flag, bound > 0 ? toWhole16(line, line16, w + 2 * rx, bound) : 0);
+/**
+ * Source row sy (border applied) as 16-bit integers into line16[rx … rx+w−1], its border columns
+ * filled; false when a sample is not a whole number of magnitude at most bound (line16 then unused).
+ */
+function toWhole16Line(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, line16: usize, bound: i32): bool {
+  const row = borderIndex(sy, h, mode);
+  if (row == OUTSIDE) {
+    memory.fill(line16, 0, 2 * (w + 2 * rx));
+    return true;
+  }
+  if (!toWhole16(at(src, row * w), line16 + ((<usize>rx) << 1), w, bound)) return false;
+  for (let t = 0; t < rx; t++) {
+    const left = borderIndex(t - rx, w, mode);
+    store<i16>(line16 + ((<usize>t) << 1), left == OUTSIDE ? <i16>0 : load<i16>(line16 + ((<usize>(rx + left)) << 1)));
+    const right = borderIndex(w + t, w, mode);
+    store<i16>(line16 + ((<usize>(rx + w + t)) << 1), right == OUTSIDE ? <i16>0 : load<i16>(line16 + ((<usize>(rx + right)) << 1)));
+  }
+  return true;
 }
 
 /** 1.5·2²³: v + WHOLE_MAGIC rounds v to a whole number, which the low bits of the sum's pattern then hold (|v| < 2²²). */
 const WHOLE_MAGIC: f32 = 12582912;
 
-/** Writes the n samples as 16-bit integers; 1 when every one is a whole number of magnitude at most bound, else 0 (line16 then unused). */
-function toWhole16(line: usize, line16: usize, n: i32, bound: i32): i32 {
+/** Writes the n samples as 16-bit integers; true when every one is a whole number of magnitude at most bound (line16 else unused). */
+function toWhole16(line: usize, line16: usize, n: i32, bound: i32): bool {
   const limit = f32x4.splat(<f32>bound);
   const magic = f32x4.splat(WHOLE_MAGIC);
   const magicBits = i32x4.splat(reinterpret<i32>(WHOLE_MAGIC));
@@ -119,22 +151,22 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32): i32 {
     ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(rb, magic), b), f32x4.le(f32x4.abs(b), limit)));
     v128.store(line16 + ((<usize>p) << 1), i16x8.narrow_i32x4_s(i32x4.sub(ra, magicBits), i32x4.sub(rb, magicBits)));
   }
-  if (!i32x4.all_true(ok)) return 0;
+  if (!i32x4.all_true(ok)) return false;
   for (; p < n; p++) {
     const v = load<f32>(at(line, p));
-    if (!(Mathf.trunc(v) == v && Mathf.abs(v) <= <f32>bound)) return 0;
+    if (!(Mathf.trunc(v) == v && Mathf.abs(v) <= <f32>bound)) return false;
     store<i16>(line16 + ((<usize>p) << 1), <i16>v);
   }
-  return 1;
+  return true;
 }
 
 /**
  * One output row in 16-bit sums, eight pixels per v128: tap t adds weight table16[t] times the 16-bit
  * line from tapLines[t] (already offset to the tap's column); each sum converted to float32, then
- * scaled and offset as the float32 loops do. Pixels past the last eight come from the float32 lines
- * (slots) as scalarPixel: the same exact sums.
+ * scaled and offset as the float32 loops do. Pixels past the last eight add the same products one at
+ * a time in 32-bit integers: the same exact sums.
  */
-function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: usize, scale: f32, offset: f32): void {
+function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32): void {
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
   let x = 0;
   for (; x + 32 <= w; x += 32) {
@@ -180,7 +212,11 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
     for (let t = 0; t < taps; t++) acc = i16x8.add(acc, i16x8.mul(v128.load(table16 + ((<usize>t) << 4)), v128.load(load<usize>(at(tapLines, t)) + o)));
     storeSums(out + ((<usize>x) << 2), acc, vs, vo, 0);
   }
-  for (; x < w; x++) scalarPixel(slots, table, rows, cols, x, out, scale, offset);
+  for (; x < w; x++) {
+    let acc: i32 = 0;
+    for (let t = 0; t < taps; t++) acc += <i32>load<i16>(table16 + ((<usize>t) << 4)) * <i32>load<i16>(load<usize>(at(tapLines, t)) + ((<usize>x) << 1));
+    store<f32>(at(out, x), <f32>acc * scale + offset);
+  }
 }
 
 /** Eight 16-bit sums as float32, times scale plus offset, at q + byteOffset. */

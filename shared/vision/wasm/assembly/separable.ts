@@ -272,17 +272,9 @@ function pairSweep(dst: usize, centre: usize, kc: f32, rows: usize, line: usize,
     // Along a line every sample of the sweep is a constant offset from one of two addresses: the
     // lowest below and the nearest above (ten addresses would not all stay in registers).
     const la = line - ((<usize>(i + pairs - 1)) << 2), lb = line + ((<usize>i) << 2);
-    if (last) {
-      if (pairs == 5) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 5, 1, vo, w);
-      else if (pairs == 4) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 4, 1, vo, w);
-      else if (pairs == 3) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 3, 1, vo, w);
-      else if (pairs == 2) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 2, 1, vo, w);
-      else sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 1, 1, vo, w);
-    } else if (pairs == 5) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 5, 0, vo, w);
-    else if (pairs == 4) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 4, 0, vo, w);
-    else if (pairs == 3) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 3, 0, vo, w);
-    else if (pairs == 2) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 2, 0, vo, w);
-    else sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 1, 0, vo, w);
+    // The first sweep starts from kc·centre; the others from dst itself, with no multiply by 1.
+    if (centre) sweepLine(dst, start, vs, la, lb, k1, k2, k3, k4, k5, pairs, last, true, vo, w);
+    else sweepLine(dst, start, vs, la, lb, k1, k2, k3, k4, k5, pairs, last, false, vo, w);
     return;
   }
   if (pairs == 0) sweepPairs(dst, start, vs, a1, b1, k1, a2, b2, k2, a3, b3, k3, a4, b4, k4, a5, b5, k5, 0, 1, vo, w);
@@ -338,17 +330,37 @@ function sweepPairs(
   }
 }
 
+/** sweepLinePairs with pairs and last as constants in each copy (fromCentre a constant already). */
+@inline
+function sweepLine(
+  dst: usize, start: usize, vs: v128, la: usize, lb: usize,
+  k1: v128, k2: v128, k3: v128, k4: v128, k5: v128,
+  pairs: i32, last: i32, fromCentre: bool, vo: v128, w: i32,
+): void {
+  if (last) {
+    if (pairs == 5) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 5, 1, fromCentre, vo, w);
+    else if (pairs == 4) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 4, 1, fromCentre, vo, w);
+    else if (pairs == 3) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 3, 1, fromCentre, vo, w);
+    else if (pairs == 2) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 2, 1, fromCentre, vo, w);
+    else sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 1, 1, fromCentre, vo, w);
+  } else if (pairs == 5) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 5, 0, fromCentre, vo, w);
+  else if (pairs == 4) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 4, 0, fromCentre, vo, w);
+  else if (pairs == 3) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 3, 0, fromCentre, vo, w);
+  else if (pairs == 2) sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 2, 0, fromCentre, vo, w);
+  else sweepLinePairs(dst, start, vs, la, lb, k1, k2, k3, k4, k5, 1, 0, fromCentre, vo, w);
+}
+
 /** sweepPairs along a padded line: pair n's samples at la + 4·(pairs − n) and lb + 4·(n − 1). */
 @inline
 function sweepLinePairs(
   dst: usize, start: usize, vs: v128, la: usize, lb: usize,
   k1: v128, k2: v128, k3: v128, k4: v128, k5: v128,
-  pairs: i32, last: i32, vo: v128, w: i32,
+  pairs: i32, last: i32, fromCentre: bool, vo: v128, w: i32,
 ): void {
   for (let x = 0; x + 4 <= w; x += 4) {
     const o = (<usize>x) << 2;
     const a = la + o, b = lb + o;
-    let acc = f32x4.mul(vs, v128.load(start + o));
+    let acc = fromCentre ? f32x4.mul(vs, v128.load(start + o)) : v128.load(start + o);
     if (pairs >= 1) acc = f32x4.add(acc, f32x4.mul(k1, f32x4.add(v128.load(a + <usize>(4 * (pairs - 1))), v128.load(b))));
     if (pairs >= 2) acc = f32x4.add(acc, f32x4.mul(k2, f32x4.add(v128.load(a + <usize>(4 * (pairs - 2))), v128.load(b + 4))));
     if (pairs >= 3) acc = f32x4.add(acc, f32x4.mul(k3, f32x4.add(v128.load(a + <usize>(4 * (pairs - 3))), v128.load(b + 8))));
@@ -382,10 +394,14 @@ function verticalSymmetricPairSweeps(rows: usize, k: usize, r: i32, w: i32, line
     const x1 = min(whole, x0 + STRIP);
     for (let i = 1; i <= r; i += per) {
       const pairs = min(per, r - i + 1);
-      const first = i == 1;
-      if (pairs == 3) pairRowsSweep(rows, k, r, i, 3, first, x0, x1, line, next);
-      else if (pairs == 2) pairRowsSweep(rows, k, r, i, 2, first, x0, x1, line, next);
-      else pairRowsSweep(rows, k, r, i, 1, first, x0, x1, line, next);
+      // `first` and `pairs` as constants: each copy of the loop has no branch inside.
+      if (i == 1) {
+        if (pairs == 3) pairRowsSweep(rows, k, r, i, 3, true, x0, x1, line, next);
+        else if (pairs == 2) pairRowsSweep(rows, k, r, i, 2, true, x0, x1, line, next);
+        else pairRowsSweep(rows, k, r, i, 1, true, x0, x1, line, next);
+      } else if (pairs == 3) pairRowsSweep(rows, k, r, i, 3, false, x0, x1, line, next);
+      else if (pairs == 2) pairRowsSweep(rows, k, r, i, 2, false, x0, x1, line, next);
+      else pairRowsSweep(rows, k, r, i, 1, false, x0, x1, line, next);
     }
   }
   // The last columns one row at a time, each from its own 2r+1 rows.

@@ -1,17 +1,19 @@
-// Direct 2-D correlation for kernels that are not rank 1. Each source row is padded once (border
-// filled) into a ring of `rows` lines; every output vector sums rows × cols shifted loads against
-// the kernel's weights, splatted once into a table of v128 (held in locals for 3×3).
+// Direct 2-D correlation for kernels that are not rank 1. Every output vector sums rows × cols shifted
+// loads of the source rows, read in place, against the kernel's weights, splatted once into a table of
+// v128 (held in locals for 3×3); the columns within reach of the left and right edges go one pixel at
+// a time through the border policy. (Copying each row into a padded line first cost a quarter of the
+// 3×3 kernel's time.)
 // Whole-number kernels on whole-number rows (8-bit grey photos, masks) add in 16-bit integers, eight
 // pixels per v128 instead of four: every product and partial sum is then a whole number of at most
 // 32767, which float32 holds exactly too, so both ways give the same sums and the same bits.
-import { align16, at, borderIndex, fillLineBorder, OUTSIDE, rowAddress } from './border';
+import { align16, at, borderIndex, OUTSIDE, rowAddress } from './border';
 
 /** Largest magnitude of a 16-bit sum. */
 const I16_LIMIT: i32 = 32767;
 
 /** Scratch bytes `correlate2d` needs. */
 export function directScratchBytes(w: i32, rows: i32, cols: i32): i32 {
-  return 48 * rows * cols + 20 * rows + rows * (4 * (w + cols) + 32) + rows * (2 * (w + cols) + 32) + 256;
+  return 48 * rows * cols + 12 * rows + 4 * w + rows * (2 * (w + cols) + 32) + 256;
 }
 
 /**
@@ -54,30 +56,21 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   const slots16 = align16(at(slots, rows));
   const tapLines = align16(at(slots16, rows));
   const whole = align16(at(tapLines, taps));
-  // Per ring line: its source row, and whether its float32 line holds it. A row that goes into 16 bits
-  // straight from the source fills its float32 line only when a window holds a row that did not.
-  const sourceRows = align16(at(whole, rows));
-  const floatReady = align16(at(sourceRows, rows));
-  const lineBytes = (<usize>(4 * (w + cols) + 16)) & ~(<usize>15);
+  const zeros = align16(at(whole, rows));
+  memory.fill(zeros, 0, 4 * w);
   const line16Bytes = (<usize>(2 * (w + cols) + 16)) & ~(<usize>15);
-  const ring = align16(at(floatReady, rows));
-  const ring16 = ring + <usize>rows * lineBytes;
-  // Lines for source rows −ry … rows−2−ry; each output row adds the next one.
+  const ring16 = align16(at(zeros, w));
+  // 16-bit lines for source rows −ry … rows−2−ry; each output row adds the next one. Rows that are
+  // not whole numbers within the bound send the windows holding them to the float32 loop, which reads
+  // the source rows in place.
   for (let y = 1 - rows; y < h; y++) {
     const t = y + rows - 1;
     const slot = t % rows;
-    const sy = t - ry;
-    const line = ring + <usize>slot * lineBytes;
-    const isWhole = bound > 0 && toWhole16Line(src, w, h, sy, rx, mode, ring16 + <usize>slot * line16Bytes, bound);
-    if (!isWhole) fillLine(src, w, h, sy, rx, mode, line);
-    store<i32>(at(whole, slot), <i32>isWhole);
-    store<i32>(at(floatReady, slot), <i32>!isWhole);
-    store<i32>(at(sourceRows, slot), sy);
+    store<i32>(at(whole, slot), <i32>(bound > 0 && toWhole16Line(src, w, h, t - ry, rx, mode, ring16 + <usize>slot * line16Bytes, bound)));
     if (y < 0) continue;
     let allWhole = bound > 0;
     for (let j = 0; j < rows; j++) {
       const s = (y + j) % rows;
-      store<usize>(at(slots, j), ring + <usize>s * lineBytes);
       store<usize>(at(slots16, j), ring16 + <usize>s * line16Bytes);
       allWhole = allWhole && load<i32>(at(whole, s)) != 0;
     }
@@ -90,13 +83,8 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
       whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset);
       continue;
     }
-    for (let j = 0; j < rows; j++) {
-      const s = (y + j) % rows;
-      if (load<i32>(at(floatReady, s)) != 0) continue;
-      fillLine(src, w, h, load<i32>(at(sourceRows, s)), rx, mode, ring + <usize>s * lineBytes);
-      store<i32>(at(floatReady, s), 1);
-    }
-    general(slots, table, rows, cols, w, out, scale, offset);
+    for (let j = 0; j < rows; j++) store<usize>(at(slots, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+    general(slots, table, rows, cols, w, out, scale, offset, mode);
   }
 }
 
@@ -145,15 +133,19 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32): bool {
   const magicBits = i32x4.splat(reinterpret<i32>(WHOLE_MAGIC));
   let ok = i32x4.splat(-1);
   let p = 0;
-  for (; p + 8 <= n; p += 8) {
-    const a = v128.load(at(line, p)), b = v128.load(at(line, p + 4));
-    const ra = f32x4.add(a, magic), rb = f32x4.add(b, magic);
-    // Whole: rounding changed nothing (NaN fails); within the bound (±Infinity fails).
-    ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(ra, magic), a), f32x4.le(f32x4.abs(a), limit)));
-    ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(rb, magic), b), f32x4.le(f32x4.abs(b), limit)));
-    v128.store(line16 + ((<usize>p) << 1), i16x8.narrow_i32x4_s(i32x4.sub(ra, magicBits), i32x4.sub(rb, magicBits)));
+  // Checked every 64 samples: a row of fractions (a smoothed image) stops at its first block.
+  while (p + 8 <= n) {
+    const end = min(n & ~7, p + 64);
+    for (; p < end; p += 8) {
+      const a = v128.load(at(line, p)), b = v128.load(at(line, p + 4));
+      const ra = f32x4.add(a, magic), rb = f32x4.add(b, magic);
+      // Whole: rounding changed nothing (NaN fails); within the bound (±Infinity fails).
+      ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(ra, magic), a), f32x4.le(f32x4.abs(a), limit)));
+      ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(rb, magic), b), f32x4.le(f32x4.abs(b), limit)));
+      v128.store(line16 + ((<usize>p) << 1), i16x8.narrow_i32x4_s(i32x4.sub(ra, magicBits), i32x4.sub(rb, magicBits)));
+    }
+    if (!i32x4.all_true(ok)) return false;
   }
-  if (!i32x4.all_true(ok)) return false;
   for (; p < n; p++) {
     const v = load<f32>(at(line, p));
     if (!(Mathf.trunc(v) == v && Mathf.abs(v) <= <f32>bound)) return false;
@@ -230,17 +222,6 @@ function storeSums(q: usize, acc: v128, vs: v128, vo: v128, byteOffset: usize): 
   v128.store(q + byteOffset + 16, f32x4.add(f32x4.mul(high, vs), vo));
 }
 
-/** Source row sy (border applied) into line[rx … rx+w−1], its border columns filled; zeros outside. */
-function fillLine(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, line: usize): void {
-  const row = borderIndex(sy, h, mode);
-  if (row == OUTSIDE) {
-    memory.fill(line, 0, 4 * (w + 2 * rx));
-    return;
-  }
-  memory.copy(at(line, rx), at(src, row * w), 4 * w);
-  fillLineBorder(line, w, rx, mode);
-}
-
 /**
  * A 3×3 kernel straight from the source rows, no padded copies: the vectors of the inner columns
  * (1 … w−2) read their neighbours in place; the first and last columns, and any left over, take theirs
@@ -298,15 +279,22 @@ function sample(row: usize, i: i32): f32 {
   return i == OUTSIDE ? <f32>0 : load<f32>(at(row, i));
 }
 
-function general(slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: usize, scale: f32, offset: f32): void {
+/**
+ * One output row of any kernel in float32 from its source rows in place (rows[j], border applied to
+ * the rows): the inner columns (rx … w−1−rx) as vectors, the others one pixel at a time with their
+ * columns through the border policy.
+ */
+function general(rows_: usize, table: usize, rows: i32, cols: i32, w: i32, out: usize, scale: f32, offset: f32, mode: i32): void {
+  const rx = cols >> 1;
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
-  let x = 0;
+  let x = rx;
   // Eight vectors per pass: each weight is loaded once for 32 pixels, and each sum is a chain of
   // rows·cols dependent additions; eight chains side by side keep the adders busy, where four waited
   // on their chains (2.4 against 2.1–2.3 ns/px at 5×5) and two more so (2.7). The last pixels of a row
   // go four at a time. Each sum keeps its order of additions, so the same bits.
-  for (; x + 32 <= w; x += 32) {
-    const o = (<usize>x) << 2;
+  for (; x + 32 + rx <= w; x += 32) {
+    const o = (<usize>(x - rx)) << 2;
+    const q = out + ((<usize>x) << 2);
     let acc0 = f32x4.splat(0);
     let acc1 = f32x4.splat(0);
     let acc2 = f32x4.splat(0);
@@ -316,7 +304,7 @@ function general(slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: 
     let acc6 = f32x4.splat(0);
     let acc7 = f32x4.splat(0);
     for (let j = 0; j < rows; j++) {
-      const line = load<usize>(at(slots, j)) + o;
+      const line = load<usize>(at(rows_, j)) + o;
       const kj = table + ((<usize>(j * cols)) << 4);
       for (let i = 0; i < cols; i++) {
         const k = v128.load(kj + ((<usize>i) << 4));
@@ -331,33 +319,35 @@ function general(slots: usize, table: usize, rows: i32, cols: i32, w: i32, out: 
         acc7 = f32x4.add(acc7, f32x4.mul(k, v128.load(p, 112)));
       }
     }
-    v128.store(out + o, f32x4.add(f32x4.mul(acc0, vs), vo));
-    v128.store(out + o, f32x4.add(f32x4.mul(acc1, vs), vo), 16);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc2, vs), vo), 32);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc3, vs), vo), 48);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc4, vs), vo), 64);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc5, vs), vo), 80);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc6, vs), vo), 96);
-    v128.store(out + o, f32x4.add(f32x4.mul(acc7, vs), vo), 112);
+    v128.store(q, f32x4.add(f32x4.mul(acc0, vs), vo));
+    v128.store(q, f32x4.add(f32x4.mul(acc1, vs), vo), 16);
+    v128.store(q, f32x4.add(f32x4.mul(acc2, vs), vo), 32);
+    v128.store(q, f32x4.add(f32x4.mul(acc3, vs), vo), 48);
+    v128.store(q, f32x4.add(f32x4.mul(acc4, vs), vo), 64);
+    v128.store(q, f32x4.add(f32x4.mul(acc5, vs), vo), 80);
+    v128.store(q, f32x4.add(f32x4.mul(acc6, vs), vo), 96);
+    v128.store(q, f32x4.add(f32x4.mul(acc7, vs), vo), 112);
   }
-  for (; x + 4 <= w; x += 4) {
-    const o = (<usize>x) << 2;
+  for (; x + 4 + rx <= w; x += 4) {
+    const o = (<usize>(x - rx)) << 2;
     let acc = f32x4.splat(0);
     for (let j = 0; j < rows; j++) {
-      const line = load<usize>(at(slots, j)) + o;
+      const line = load<usize>(at(rows_, j)) + o;
       const kj = table + ((<usize>(j * cols)) << 4);
       for (let i = 0; i < cols; i++) acc = f32x4.add(acc, f32x4.mul(v128.load(kj + ((<usize>i) << 4)), v128.load(at(line, i))));
     }
-    v128.store(out + o, f32x4.add(f32x4.mul(acc, vs), vo));
+    v128.store(out + ((<usize>x) << 2), f32x4.add(f32x4.mul(acc, vs), vo));
   }
-  for (; x < w; x++) scalarPixel(slots, table, rows, cols, x, out, scale, offset);
+  for (let e = 0; e < min(rx, w); e++) scalarPixel(rows_, table, rows, cols, e, w, mode, out, scale, offset);
+  for (; x < w; x++) scalarPixel(rows_, table, rows, cols, x, w, mode, out, scale, offset);
 }
 
-function scalarPixel(slots: usize, table: usize, rows: i32, cols: i32, x: i32, out: usize, scale: f32, offset: f32): void {
+function scalarPixel(rows_: usize, table: usize, rows: i32, cols: i32, x: i32, w: i32, mode: i32, out: usize, scale: f32, offset: f32): void {
+  const rx = cols >> 1;
   let acc: f32 = 0;
   for (let j = 0; j < rows; j++) {
-    const line = load<usize>(at(slots, j));
-    for (let i = 0; i < cols; i++) acc += load<f32>(table + ((<usize>(j * cols + i)) << 4)) * load<f32>(at(line, x + i));
+    const line = load<usize>(at(rows_, j));
+    for (let i = 0; i < cols; i++) acc += load<f32>(table + ((<usize>(j * cols + i)) << 4)) * sample(line, borderIndex(x + i - rx, w, mode));
   }
   store<f32>(at(out, x), acc * scale + offset);
 }

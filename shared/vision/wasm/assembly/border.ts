@@ -29,13 +29,19 @@ export function rowAddress(src: usize, y: i32, h: i32, w: i32, mode: i32, zeros:
   return sy == OUTSIDE ? zeros : at(src, sy * w);
 }
 
-/** Fills `pad` positions on each side of a line whose n samples sit at line[pad … pad+n−1]. */
+/** Fills `pad` positions on each side of a float32 line whose n samples sit at line[pad … pad+n−1]. */
 export function fillLineBorder(line: usize, n: i32, pad: i32, mode: i32): void {
+  fillBorderOf<f32>(line, n, pad, mode);
+}
+
+/** fillLineBorder for a line of T (f32, i16, …). */
+export function fillBorderOf<T>(line: usize, n: i32, pad: i32, mode: i32): void {
+  const size = <usize>sizeof<T>();
   for (let t = 0; t < pad; t++) {
     const left = borderIndex(t - pad, n, mode);
-    store<f32>(at(line, t), left == OUTSIDE ? <f32>0 : load<f32>(at(line, pad + left)));
+    store<T>(line + <usize>t * size, left == OUTSIDE ? <T>0 : load<T>(line + <usize>(pad + left) * size));
     const right = borderIndex(n + t, n, mode);
-    store<f32>(at(line, pad + n + t), right == OUTSIDE ? <f32>0 : load<f32>(at(line, pad + right)));
+    store<T>(line + <usize>(pad + n + t) * size, right == OUTSIDE ? <T>0 : load<T>(line + <usize>(pad + right) * size));
   }
 }
 

@@ -6,7 +6,7 @@
 // Whole-number kernels on whole-number rows (8-bit grey photos, masks) add in 16-bit integers, eight
 // pixels per v128 instead of four: every product and partial sum is then a whole number of at most
 // 32767, which float32 holds exactly too, so both ways give the same sums and the same bits.
-import { align16, at, borderIndex, OUTSIDE, rowAddress } from './border';
+import { align16, at, borderIndex, fillBorderOf, OUTSIDE, rowAddress } from './border';
 
 /** Largest magnitude of a 16-bit sum. */
 const I16_LIMIT: i32 = 32767;
@@ -114,12 +114,7 @@ function toWhole16Line(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, 
     return true;
   }
   if (!toWhole16(at(src, row * w), line16 + ((<usize>rx) << 1), w, bound)) return false;
-  for (let t = 0; t < rx; t++) {
-    const left = borderIndex(t - rx, w, mode);
-    store<i16>(line16 + ((<usize>t) << 1), left == OUTSIDE ? <i16>0 : load<i16>(line16 + ((<usize>(rx + left)) << 1)));
-    const right = borderIndex(w + t, w, mode);
-    store<i16>(line16 + ((<usize>(rx + w + t)) << 1), right == OUTSIDE ? <i16>0 : load<i16>(line16 + ((<usize>(rx + right)) << 1)));
-  }
+  fillBorderOf<i16>(line16, w, rx, mode);
   return true;
 }
 

@@ -1,8 +1,8 @@
 // First-derivative operators (Sobel, Scharr, Prewitt): the x kernel is [a b a]ᵀ ⊗ [−1 0 1], y its
-// transpose. Per row, one vertical pass writes the smoothing s = a·(up + down) + b·centre and the
-// difference t = down − up into two padded lines; then gx = s(x+1) − s(x−1) and
-// gy = a·(t(x−1) + t(x+1)) + b·t(x), four pixels per v128.
-import { align16, at, fillLineBorder, rowAddress } from './border';
+// transpose. Per row, in one pass along it: the smoothing s = a·(up + down) + b·centre and the
+// difference t = down − up of four pixels at a time, kept in registers; then gx = s(x+1) − s(x−1)
+// and gy = a·(t(x−1) + t(x+1)) + b·t(x), the neighbours' lanes taken from the vectors either side.
+import { align16, at, borderIndex, OUTSIDE, rowAddress } from './border';
 import { storeExtremes } from './extremes';
 
 export const GRADIENT_X: i32 = 0;
@@ -11,7 +11,7 @@ export const GRADIENT_MAGNITUDE: i32 = 2;
 
 /** Scratch bytes `gradient` needs. */
 export function gradientScratchBytes(w: i32): i32 {
-  return 12 * w + 192;
+  return 4 * w + 80;
 }
 
 /**
@@ -43,7 +43,7 @@ export function prepareGradientScratch(scratch: usize, w: i32): void {
 /** The smallest and largest magnitude so far: four lanes each, then two float32 for the pixels past the last whole vector. */
 @inline
 function extremesAt(zeros: usize, w: i32): usize {
-  return align16(at(align16(at(align16(at(zeros, w)), w + 4)), w + 4));
+  return align16(at(zeros, w));
 }
 
 /** The magnitude's range over every row so far (NaN left out), as two float32 at range. */
@@ -57,97 +57,117 @@ export function storeRange(scratch: usize, w: i32, range: usize): void {
  * magnitude's running range is kept in the scratch (see prepareGradientScratch).
  */
 export function gradientRow(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, mode: i32, scratch: usize): void {
-  const zeros = align16(scratch);
-  const s = align16(at(zeros, w));
-  const t = align16(at(s, w + 4));
+  // One copy of the pass per output, with no test inside it.
+  if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, mode, scratch);
+  else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, mode, scratch);
+  else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, mode, scratch);
+}
+
+/**
+ * gradientRow with `output` a constant. Writing s and t into padded lines and reading them back took
+ * three stores and eight loads per four pixels; here each vector of s and t is made once, and its
+ * neighbours' lanes come from the vectors before and after it.
+ */
+@inline
+function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, mode: i32, scratch: usize): void {
   const va = f32x4.splat(a), vb = f32x4.splat(b);
-  // The smoothing s serves gx, the difference t serves gy: each line only when its output needs it.
-  if (output == GRADIENT_MAGNITUDE) {
-    let x = 0;
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      const u = v128.load(up + o), d = v128.load(down + o);
-      v128.store(s + o, f32x4.add(f32x4.mul(va, f32x4.add(u, d)), f32x4.mul(vb, v128.load(centre + o))), 4);
-      v128.store(t + o, f32x4.sub(d, u), 4);
-    }
-    for (; x < w; x++) {
-      const o = (<usize>x) << 2;
-      const u = load<f32>(up + o), d = load<f32>(down + o);
-      store<f32>(s + o, a * (u + d) + b * load<f32>(centre + o), 4);
-      store<f32>(t + o, d - u, 4);
-    }
-    fillLineBorder(s, w, 1, mode);
-    fillLineBorder(t, w, 1, mode);
-  } else if (output == GRADIENT_X) {
-    let x = 0;
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      v128.store(s + o, f32x4.add(f32x4.mul(va, f32x4.add(v128.load(up + o), v128.load(down + o))), f32x4.mul(vb, v128.load(centre + o))), 4);
-    }
-    for (; x < w; x++) {
-      const o = (<usize>x) << 2;
-      store<f32>(s + o, a * (load<f32>(up + o) + load<f32>(down + o)) + b * load<f32>(centre + o), 4);
-    }
-    fillLineBorder(s, w, 1, mode);
-  } else {
-    let x = 0;
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      v128.store(t + o, f32x4.sub(v128.load(down + o), v128.load(up + o)), 4);
-    }
-    for (; x < w; x++) {
-      const o = (<usize>x) << 2;
-      store<f32>(t + o, load<f32>(down + o) - load<f32>(up + o), 4);
-    }
-    fillLineBorder(t, w, 1, mode);
-  }
+  const extremes = extremesAt(align16(scratch), w);
+  let lo = v128.load(extremes);
+  let hi = v128.load(extremes, 16);
+  let loScalar = load<f32>(extremes, 32);
+  let hiScalar = load<f32>(extremes, 36);
   let x = 0;
-  if (output == GRADIENT_X) {
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      v128.store(out + o, f32x4.sub(v128.load(s + o, 8), v128.load(s + o)));
+  if (w >= 4) {
+    // Lane 3 of the vectors before x = 0 is the border's s(−1) and t(−1).
+    let sBefore = f32x4.splat(smoothingAt(up, centre, down, -1, w, a, b, mode));
+    let tBefore = f32x4.splat(differenceAt(up, down, -1, w, mode));
+    let s = smoothing4(up, centre, down, 0, va, vb);
+    let t = difference4(up, down, 0);
+    for (; x + 8 <= w; x += 4) {
+      const sAfter = smoothing4(up, centre, down, x + 4, va, vb);
+      const tAfter = difference4(up, down, x + 4);
+      const m = gradient4(sBefore, s, sAfter, tBefore, t, tAfter, va, vb, output);
+      v128.store(at(out, x), m);
+      if (output == GRADIENT_MAGNITUDE) {
+        // pmin(lo, m) is m < lo ? m : lo: a NaN never replaces the extreme found so far.
+        lo = f32x4.pmin(lo, m);
+        hi = f32x4.pmax(hi, m);
+      }
+      sBefore = s;
+      s = sAfter;
+      tBefore = t;
+      t = tAfter;
     }
-    for (; x < w; x++) {
-      const o = (<usize>x) << 2;
-      store<f32>(out + o, load<f32>(s + o, 8) - load<f32>(s + o));
-    }
-  } else if (output == GRADIENT_Y) {
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      v128.store(out + o, f32x4.add(f32x4.mul(va, f32x4.add(v128.load(t + o), v128.load(t + o, 8))), f32x4.mul(vb, v128.load(t + o, 4))));
-    }
-    for (; x < w; x++) {
-      const o = (<usize>x) << 2;
-      store<f32>(out + o, a * (load<f32>(t + o) + load<f32>(t + o, 8)) + b * load<f32>(t + o, 4));
-    }
-  } else {
-    const extremes = extremesAt(zeros, w);
-    let lo = v128.load(extremes);
-    let hi = v128.load(extremes, 16);
-    let loScalar = load<f32>(extremes, 32);
-    let hiScalar = load<f32>(extremes, 36);
-    for (; x + 4 <= w; x += 4) {
-      const o = (<usize>x) << 2;
-      const gx = f32x4.sub(v128.load(s + o, 8), v128.load(s + o));
-      const gy = f32x4.add(f32x4.mul(va, f32x4.add(v128.load(t + o), v128.load(t + o, 8))), f32x4.mul(vb, v128.load(t + o, 4)));
-      const m = f32x4.sqrt(f32x4.add(f32x4.mul(gx, gx), f32x4.mul(gy, gy)));
-      v128.store(out + o, m);
-      // pmin(lo, m) is m < lo ? m : lo: a NaN never replaces the extreme found so far.
+    // The last whole vector: lane 0 after it is s(x + 4), in the row or from the border.
+    const sAfter = f32x4.splat(smoothingAt(up, centre, down, x + 4, w, a, b, mode));
+    const tAfter = f32x4.splat(differenceAt(up, down, x + 4, w, mode));
+    const m = gradient4(sBefore, s, sAfter, tBefore, t, tAfter, va, vb, output);
+    v128.store(at(out, x), m);
+    if (output == GRADIENT_MAGNITUDE) {
       lo = f32x4.pmin(lo, m);
       hi = f32x4.pmax(hi, m);
     }
-    for (; x < w; x++) {
-      const o = (<usize>x) << 2;
-      const gx = load<f32>(s + o, 8) - load<f32>(s + o);
-      const gy = a * (load<f32>(t + o) + load<f32>(t + o, 8)) + b * load<f32>(t + o, 4);
+    x += 4;
+  }
+  for (; x < w; x++) {
+    const sl = smoothingAt(up, centre, down, x - 1, w, a, b, mode), sr = smoothingAt(up, centre, down, x + 1, w, a, b, mode);
+    const tl = differenceAt(up, down, x - 1, w, mode), tc = differenceAt(up, down, x, w, mode), tr = differenceAt(up, down, x + 1, w, mode);
+    const gx = sr - sl;
+    const gy = a * (tl + tr) + b * tc;
+    if (output == GRADIENT_X) store<f32>(at(out, x), gx);
+    else if (output == GRADIENT_Y) store<f32>(at(out, x), gy);
+    else {
       const m = Mathf.sqrt(gx * gx + gy * gy);
-      store<f32>(out + o, m);
+      store<f32>(at(out, x), m);
       if (m < loScalar) loScalar = m;
       if (m > hiScalar) hiScalar = m;
     }
+  }
+  if (output == GRADIENT_MAGNITUDE) {
     v128.store(extremes, lo);
     v128.store(extremes, hi, 16);
     store<f32>(extremes, loScalar, 32);
     store<f32>(extremes, hiScalar, 36);
   }
+}
+
+/** gx, gy or the magnitude of four pixels from s and t of theirs (s, t) and of the four before and after. */
+@inline
+function gradient4(sBefore: v128, s: v128, sAfter: v128, tBefore: v128, t: v128, tAfter: v128, va: v128, vb: v128, output: i32): v128 {
+  // s(x+1 … x+4) and s(x−1 … x+2), and so for t.
+  const gx = output == GRADIENT_Y ? s : f32x4.sub(v128.shuffle<f32>(s, sAfter, 1, 2, 3, 4), v128.shuffle<f32>(sBefore, s, 3, 4, 5, 6));
+  const gy = output == GRADIENT_X ? t : f32x4.add(f32x4.mul(va, f32x4.add(v128.shuffle<f32>(tBefore, t, 3, 4, 5, 6), v128.shuffle<f32>(t, tAfter, 1, 2, 3, 4))), f32x4.mul(vb, t));
+  if (output == GRADIENT_X) return gx;
+  if (output == GRADIENT_Y) return gy;
+  return f32x4.sqrt(f32x4.add(f32x4.mul(gx, gx), f32x4.mul(gy, gy)));
+}
+
+/** s = a·(up + down) + b·centre of pixels x … x+3. */
+@inline
+function smoothing4(up: usize, centre: usize, down: usize, x: i32, va: v128, vb: v128): v128 {
+  const o = (<usize>x) << 2;
+  return f32x4.add(f32x4.mul(va, f32x4.add(v128.load(up + o), v128.load(down + o))), f32x4.mul(vb, v128.load(centre + o)));
+}
+
+/** t = down − up of pixels x … x+3. */
+@inline
+function difference4(up: usize, down: usize, x: i32): v128 {
+  const o = (<usize>x) << 2;
+  return f32x4.sub(v128.load(down + o), v128.load(up + o));
+}
+
+/** s of column x, the border applied (0 outside under the constant border); the same bits as a lane of smoothing4. */
+function smoothingAt(up: usize, centre: usize, down: usize, x: i32, w: i32, a: f32, b: f32, mode: i32): f32 {
+  const i = borderIndex(x, w, mode);
+  if (i == OUTSIDE) return 0;
+  const o = (<usize>i) << 2;
+  return a * (load<f32>(up + o) + load<f32>(down + o)) + b * load<f32>(centre + o);
+}
+
+/** t of column x, the border applied. */
+function differenceAt(up: usize, down: usize, x: i32, w: i32, mode: i32): f32 {
+  const i = borderIndex(x, w, mode);
+  if (i == OUTSIDE) return 0;
+  const o = (<usize>i) << 2;
+  return load<f32>(down + o) - load<f32>(up + o);
 }

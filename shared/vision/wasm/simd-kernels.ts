@@ -80,10 +80,11 @@ const GRADIENT_CODES = { x: 0, y: 1, magnitude: 2 } as const;
 const HISTOGRAM_BINS = 256;
 /**
  * Images from this many pixels have their histogram counted in pairs of neighbours (assembly/threshold.ts).
- * Its tables take about 0.13 ms to clear and add up; on the standard pipeline, counting in pairs took
- * 17 % off at 5 MP and added 6 % at 1.3 MP (measured on one CPU, tests/bench/steps.ts).
+ * Its one table of 256 KB takes a few hundredths of a millisecond to clear and add up; counting a
+ * gradient magnitude in pairs took 0.61 → 0.42 ns/px at 0.3 MP and 0.63 → 0.51 at 320×240, and
+ * added 7 % at 200×150 and 28 % at 160×120 (one CPU, two builds of the module in one process).
  */
-const HISTOGRAM_PAIRS_FROM = 2 ** 21;
+const HISTOGRAM_PAIRS_FROM = 2 ** 16;
 /**
  * Non-separable kernels of at least this many weights go through the FFT in tiles (assembly/fft.ts),
  * unless the image holds a NaN or an infinity: 6.2 against about 13 ns/px direct at 11×11 on 5 MP.

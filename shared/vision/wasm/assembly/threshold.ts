@@ -52,13 +52,22 @@ export function valueRange(src: usize, n: i32, out: usize): void {
 /** Partial histograms of single pixels, filled in turn: 256 bins each, 1028 bytes apart (not a divisor of 4096). */
 const SINGLE_TABLES: i32 = 8;
 const SINGLE_TABLE_BYTES: usize = 4 * 257;
-/** Tables of pair counts, filled in turn: 256 × 256 int32 each. */
-const PAIR_TABLES: i32 = 8;
+/**
+ * The table of pair counts: 256 × 256 int32. One table, not eight (2 MB, twice the second-level
+ * cache): equal pairs one after another cost no more in one table, as each stored count is
+ * forwarded to the next load (shared/vision/README.md, "Otsu").
+ */
 const PAIR_TABLE_BYTES: usize = 4 * 256 * 256;
 
 /** Scratch bytes `histogram` needs, counting in pairs (pairs = 1) or singly. */
 export function histogramScratchBytes(pairs: i32): i32 {
-  return (pairs ? PAIR_TABLES * <i32>PAIR_TABLE_BYTES : SINGLE_TABLES * <i32>SINGLE_TABLE_BYTES) + 16;
+  return tableBytes(pairs) + 16 + 16;
+}
+
+/** Bytes of the tables `histogram` counts in; a spare 16 bytes follow them. */
+@inline
+function tableBytes(pairs: i32): i32 {
+  return pairs ? <i32>PAIR_TABLE_BYTES : SINGLE_TABLES * <i32>SINGLE_TABLE_BYTES;
 }
 
 /**
@@ -70,8 +79,9 @@ export function histogramScratchBytes(pairs: i32): i32 {
  */
 export function histogram(src: usize, n: i32, origin: f64, scale: f64, scratch: usize, bins: usize, counts: usize, pairs: i32): void {
   const tables = align16(scratch);
+  const spot = tables + <usize>tableBytes(pairs);
   const top = i32x4.splat(255);
-  const p = pairs ? countPairs(src, n, origin, scale, tables, bins, counts) : countSingles(src, n, origin, scale, tables, bins, counts);
+  const p = pairs ? countPairs(src, n, origin, scale, tables, spot, bins, counts) : countSingles(src, n, origin, scale, tables, spot, bins, counts);
   for (let q = p; q < n; q++) {
     const scaled = f64x2.splat((<f64>load<f32>(at(src, q)) - origin) * scale);
     const bin = i32x4.extract_lane(i32x4.min_u(i32x4.trunc_sat_f64x2_s_zero(scaled), top), 0);
@@ -84,9 +94,9 @@ export function histogram(src: usize, n: i32, origin: f64, scale: f64, scratch: 
  * `histogram` for the pixels before the last multiple of 16; returns that multiple. Pixel p goes to
  * table p mod 8, so that equal neighbours do not wait on one counter.
  */
-function countSingles(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, counts: usize): i32 {
+function countSingles(src: usize, n: i32, origin: f64, scale: f64, tables: usize, spot: usize, bins: usize, counts: usize): i32 {
   memory.fill(tables, 0, SINGLE_TABLES * SINGLE_TABLE_BYTES);
-  const p = countGroups(src, n, origin, scale, tables, bins, false);
+  const p = countGroups(src, n, origin, scale, tables, spot, bins, false);
   memory.fill(counts, 0, 4 * 256);
   for (let t: usize = 0; t < <usize>SINGLE_TABLES; t++) {
     const table = tables + t * SINGLE_TABLE_BYTES;
@@ -98,13 +108,12 @@ function countSingles(src: usize, n: i32, origin: f64, scale: f64, tables: usize
 /**
  * `histogram` for the pixels before the last multiple of 16, counted in pairs; returns that multiple.
  * Two neighbours' bins, as bytes, are one 16-bit index into a 256 × 256 table, so one increment counts
- * two pixels; pair k of sixteen pixels goes to table k. A table's rows and columns then add up to the
- * bins' counts.
+ * two pixels. The table's rows and columns then add up to the bins' counts.
  */
-function countPairs(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, counts: usize): i32 {
-  memory.fill(tables, 0, PAIR_TABLES * PAIR_TABLE_BYTES);
-  const p = countGroups(src, n, origin, scale, tables, bins, true);
-  addPairTables(tables, counts);
+function countPairs(src: usize, n: i32, origin: f64, scale: f64, tables: usize, spot: usize, bins: usize, counts: usize): i32 {
+  memory.fill(tables, 0, PAIR_TABLE_BYTES);
+  const p = countGroups(src, n, origin, scale, tables, spot, bins, true);
+  addPairTable(tables, counts);
   return p;
 }
 
@@ -115,16 +124,16 @@ function countPairs(src: usize, n: i32, origin: f64, scale: f64, tables: usize, 
  * otherwise it is checked; where origin or scale is no float32 number the product could use, every
  * group goes through double precision.
  */
-function countGroups(src: usize, n: i32, origin: f64, scale: f64, tables: usize, bins: usize, pairs: bool): i32 {
+function countGroups(src: usize, n: i32, origin: f64, scale: f64, tables: usize, spot: usize, bins: usize, pairs: bool): i32 {
   const o = <f32>origin, s = <f32>scale;
   const usable = isFinite(s) && s > 0 && <f64>o == origin;
   const exact = usable && origin == 0 && <f64>s == scale && (reinterpret<u32>(s) & 0x7fffff) == 0;
   if (pairs) {
-    return exact ? countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, true, true)
-      : countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, false, true);
+    return exact ? countGroupsOn(src, n, origin, scale, o, s, usable, tables, spot, bins, true, true)
+      : countGroupsOn(src, n, origin, scale, o, s, usable, tables, spot, bins, false, true);
   }
-  return exact ? countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, true, false)
-    : countGroupsOn(src, n, origin, scale, o, s, usable, tables, bins, false, false);
+  return exact ? countGroupsOn(src, n, origin, scale, o, s, usable, tables, spot, bins, true, false)
+    : countGroupsOn(src, n, origin, scale, o, s, usable, tables, spot, bins, false, false);
 }
 
 /** t = (v − origin)·scale is counted in units of 2⁻¹⁴: the bin is the units ÷ 2¹⁴ (see countGroupsOn). */
@@ -156,7 +165,7 @@ function units4(src: usize, p: i32, fromZero: bool, o: v128, s: v128, sureZero: 
  * a power-of-two scale: t is the exact product), t is truncated before it is counted in units.
  */
 @inline
-function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f32, usable: bool, tables: usize, bins: usize, exact: bool, pairs: bool): i32 {
+function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f32, usable: bool, tables: usize, spot: usize, bins: usize, exact: bool, pairs: bool): i32 {
   const vo = f64x2.splat(origin), vs = f64x2.splat(scale);
   const top = i32x4.splat(255);
   // From origin 0 (a gradient magnitude's usual minimum) v − 0 is v for every float32, so the
@@ -195,34 +204,32 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
         i16x8.narrow_i32x4_u(i32x4.shr_u(uc, UNIT_SHIFT), i32x4.shr_u(ud, UNIT_SHIFT)),
       );
     }
-    if (bins != 0) v128.store(bins + <usize>p, bytes);
-    if (pairs) {
-      // Bytes b0 … b15; as 16-bit lanes, pair k is b(2k) + 256·b(2k+1).
-      countLanes(tables, PAIR_TABLE_BYTES, bytes);
+    // The bytes go to the bins (or to a spare spot) and come back as scalars: a load each, where
+    // taking a lane out of the vector took a move and a zero extension.
+    if (bins != 0) {
+      v128.store(bins + <usize>p, bytes);
+      countStored(tables, bins + <usize>p, pairs);
     } else {
-      // Pixel k of the sixteen into table k mod 8, its bin widened to a 16-bit lane.
-      countLanes(tables, SINGLE_TABLE_BYTES, i16x8.extend_low_i8x16_u(bytes));
-      countLanes(tables, SINGLE_TABLE_BYTES, i16x8.extend_high_i8x16_u(bytes));
+      v128.store(spot, bytes);
+      countStored(tables, spot, pairs);
     }
   }
   return p;
 }
 
-/** counts[i] = pairs with first bin i plus pairs with second bin i, over every table. */
-function addPairTables(tables: usize, counts: usize): void {
+/** counts[i] = pairs with first bin i plus pairs with second bin i. */
+function addPairTable(table: usize, counts: usize): void {
   memory.fill(counts, 0, 4 * 256);
-  for (let t: usize = 0; t < <usize>PAIR_TABLES; t++) {
-    for (let second = 0; second < 256; second++) {
-      const row = tables + t * PAIR_TABLE_BYTES + ((<usize>second) << 10);
-      let sum = i32x4.splat(0);
-      for (let first: usize = 0; first < 1024; first += 16) {
-        const v = v128.load(row + first);
-        sum = i32x4.add(sum, v);
-        v128.store(counts + first, i32x4.add(v128.load(counts + first), v));
-      }
-      const total = i32x4.extract_lane(sum, 0) + i32x4.extract_lane(sum, 1) + i32x4.extract_lane(sum, 2) + i32x4.extract_lane(sum, 3);
-      store<i32>(at(counts, second), load<i32>(at(counts, second)) + total);
+  for (let second = 0; second < 256; second++) {
+    const row = table + ((<usize>second) << 10);
+    let sum = i32x4.splat(0);
+    for (let first: usize = 0; first < 1024; first += 16) {
+      const v = v128.load(row + first);
+      sum = i32x4.add(sum, v);
+      v128.store(counts + first, i32x4.add(v128.load(counts + first), v));
     }
+    const total = i32x4.extract_lane(sum, 0) + i32x4.extract_lane(sum, 1) + i32x4.extract_lane(sum, 2) + i32x4.extract_lane(sum, 3);
+    store<i32>(at(counts, second), load<i32>(at(counts, second)) + total);
   }
 }
 
@@ -271,17 +278,38 @@ function binsOf(v: v128, origin: v128, scale: v128, top: v128): v128 {
   return i32x4.min_u(v128.shuffle<i32>(low, high, 0, 1, 4, 5), top);
 }
 
-/** Lane k of the eight 16-bit lanes counted in table k (tables `stride` bytes apart); a lane index must be a constant. */
+/**
+ * The sixteen bins stored at `at` counted: in pairs, pair k as the 16-bit number b(2k) + 256·b(2k+1)
+ * in the one pair table; singly, byte k in single table k mod 8.
+ */
 @inline
-function countLanes(tables: usize, stride: usize, lanes: v128): void {
-  count(tables, <i32>i16x8.extract_lane_u(lanes, 0));
-  count(tables + stride, <i32>i16x8.extract_lane_u(lanes, 1));
-  count(tables + 2 * stride, <i32>i16x8.extract_lane_u(lanes, 2));
-  count(tables + 3 * stride, <i32>i16x8.extract_lane_u(lanes, 3));
-  count(tables + 4 * stride, <i32>i16x8.extract_lane_u(lanes, 4));
-  count(tables + 5 * stride, <i32>i16x8.extract_lane_u(lanes, 5));
-  count(tables + 6 * stride, <i32>i16x8.extract_lane_u(lanes, 6));
-  count(tables + 7 * stride, <i32>i16x8.extract_lane_u(lanes, 7));
+function countStored(tables: usize, at: usize, pairs: bool): void {
+  if (pairs) {
+    count(tables, <i32>load<u16>(at));
+    count(tables, <i32>load<u16>(at, 2));
+    count(tables, <i32>load<u16>(at, 4));
+    count(tables, <i32>load<u16>(at, 6));
+    count(tables, <i32>load<u16>(at, 8));
+    count(tables, <i32>load<u16>(at, 10));
+    count(tables, <i32>load<u16>(at, 12));
+    count(tables, <i32>load<u16>(at, 14));
+  } else {
+    countBytes(tables, at);
+    countBytes(tables, at + 8);
+  }
+}
+
+/** The eight bytes at `bytes` counted, byte k in single table k. */
+@inline
+function countBytes(tables: usize, bytes: usize): void {
+  count(tables, <i32>load<u8>(bytes));
+  count(tables + SINGLE_TABLE_BYTES, <i32>load<u8>(bytes, 1));
+  count(tables + 2 * SINGLE_TABLE_BYTES, <i32>load<u8>(bytes, 2));
+  count(tables + 3 * SINGLE_TABLE_BYTES, <i32>load<u8>(bytes, 3));
+  count(tables + 4 * SINGLE_TABLE_BYTES, <i32>load<u8>(bytes, 4));
+  count(tables + 5 * SINGLE_TABLE_BYTES, <i32>load<u8>(bytes, 5));
+  count(tables + 6 * SINGLE_TABLE_BYTES, <i32>load<u8>(bytes, 6));
+  count(tables + 7 * SINGLE_TABLE_BYTES, <i32>load<u8>(bytes, 7));
 }
 
 @inline

@@ -50,3 +50,17 @@ export function fillBorderOf<T>(line: usize, n: i32, pad: i32, mode: i32): void 
 export function align16(p: usize): usize {
   return (p + 15) & ~(<usize>15);
 }
+
+/** Where `touchAhead` leaves the words it read, so that its loads are not dropped as unused. */
+const TOUCHED: usize = memory.data(16, 16);
+
+/**
+ * Reads one word of every 64-byte line of `bytes` bytes at `address`, so that a row the next
+ * iterations need is on its way into the cache while the current one is computed (WebAssembly has
+ * no prefetch instruction).
+ */
+export function touchAhead(address: usize, bytes: i32): void {
+  let seen = 0;
+  for (let o = 0; o < bytes; o += 64) seen |= load<i32>(address + <usize>o);
+  store<i32>(TOUCHED, seen);
+}

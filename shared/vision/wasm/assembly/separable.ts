@@ -1,7 +1,7 @@
 // Separable correlation, column ⊗ row, in two 1-D passes per output row: the vertical pass writes one
 // padded line (border filled by the policy), the horizontal pass reads it. Four pixels per v128,
 // float32 arithmetic; symmetric kernels add the mirrored samples first (one multiply per pair).
-import { align16, at, borderIndex, fillLineBorder, OUTSIDE, rowAddress } from './border';
+import { align16, at, touchAhead, borderIndex, fillLineBorder, OUTSIDE, rowAddress } from './border';
 import { convertPhotoRows, finishPhotoRows, photoRingBytes, photoRingRows, startPhotoRows } from './photo-rows';
 
 /** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */
@@ -68,6 +68,12 @@ export function separableRows(src: usize, ring: i32, w: i32, h: i32, y: i32, col
   const line = align16(at(zeros, w));
   const nextLine = align16(at(line, w + rowLen + 4));
   const rowSymmetric = isSymmetric(rowK, rowLen);
+  // The two source rows the call after next reads first, on their way from memory while this call
+  // works: WebAssembly has no prefetch instruction, and these rows' first loads waited on memory.
+  if (ring == 0) {
+    if (y + ry + 4 < h) touchAhead(at(src, (y + ry + 4) * w), 4 * w);
+    if (y + ry + 5 < h) touchAhead(at(src, (y + ry + 5) * w), 4 * w);
+  }
   if (isSymmetric(colK, colLen) && ry >= 1 && y + 1 < h) {
     for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), sourceRow(src, ring, y + j - ry, h, w, mode, zeros));
     if (ry <= 3) verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(nextLine, rx));

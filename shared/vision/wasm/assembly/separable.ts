@@ -68,13 +68,15 @@ export function separableRows(src: usize, ring: i32, w: i32, h: i32, y: i32, col
   const line = align16(at(zeros, w));
   const nextLine = align16(at(line, w + rowLen + 4));
   const rowSymmetric = isSymmetric(rowK, rowLen);
+  const twoRows = isSymmetric(colK, colLen) && ry >= 1 && y + 1 < h;
   // The two source rows the call after next reads first, on their way from memory while this call
   // works: WebAssembly has no prefetch instruction, and these rows' first loads waited on memory.
-  if (ring == 0) {
+  // (Not for one row a call, below: a single stream, which the processor fetches ahead itself.)
+  if (twoRows && ring == 0) {
     if (y + ry + 4 < h) touchAhead(at(src, (y + ry + 4) * w), 4 * w);
     if (y + ry + 5 < h) touchAhead(at(src, (y + ry + 5) * w), 4 * w);
   }
-  if (isSymmetric(colK, colLen) && ry >= 1 && y + 1 < h) {
+  if (twoRows) {
     for (let j = 0; j <= colLen; j++) store<usize>(at(rows, j), sourceRow(src, ring, y + j - ry, h, w, mode, zeros));
     if (ry <= 3) verticalSymmetricPair(rows, colK, ry, w, at(line, rx), at(nextLine, rx));
     else verticalSymmetricPairSweeps(rows, colK, ry, w, at(line, rx), at(nextLine, rx));

@@ -1,7 +1,7 @@
 // Separable correlation, column ⊗ row, in two 1-D passes per output row: the vertical pass writes one
 // padded line (border filled by the policy), the horizontal pass reads it. Four pixels per v128,
 // float32 arithmetic; symmetric kernels add the mirrored samples first (one multiply per pair).
-import { align16, at, touchAhead, borderIndex, fillLineBorder, OUTSIDE, rowAddress } from './border';
+import { align16, at, borderIndex, fillLineBorder, OUTSIDE, rowAddress, touchAhead } from './border';
 import { convertPhotoRows, finishPhotoRows, photoRingBytes, photoRingRows, startPhotoRows } from './photo-rows';
 
 /** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */

@@ -67,9 +67,12 @@ export function RulePage({ id }: { id: string }) {
             </AppText>
           </View>
         ))}
-        {isEngineer && !draft && latest ? (
+        {isEngineer && latest?.state === 'in-review' ? (
+          <AppText style={styles.newDraft}>{`Version ${latest.number} is in review. A rule has one open draft or review at a time: the next draft can start once a supervisor releases it or sends it back.`}</AppText>
+        ) : null}
+        {isEngineer && !draft && latest && latest.state !== 'in-review' ? (
           <View style={styles.newDraft}>
-            <AppText>{latest.state === 'in-review' ? `Version ${latest.number} is in review. You can start the next draft meanwhile.` : 'Released and withdrawn versions stay as they are; changes go into a new draft.'}</AppText>
+            <AppText>Released and withdrawn versions stay as they are; changes go into a new draft.</AppText>
             <Button
               label={`New draft from version ${base.number}`}
               onPress={() => newDraft.mutate({ ruleId: data.id, fromVersionId: base.id })}

@@ -110,6 +110,23 @@ describe.each([
     await screenshot(page, `review-queue-${widthName}`);
   });
 
+  test('the engineer sees the version in review on the rule page, with no new draft on offer (a rule has one open draft or review)', async () => {
+    const engineerBrowser = await launchBrowser(viewport);
+    try {
+      const engineerPage = await engineerBrowser.newPage();
+      const engineerErrors = watchErrors(engineerPage);
+      await signIn(engineerPage, 'engineer');
+      const [row] = await product.db.dataSource.query(`select id from rules where name = $1`, [washer]);
+      await engineerPage.goto(`${product.url}/rules/${row.id}`);
+      await engineerPage.getByText(/^Version 2 is in review\. A rule has one open draft or review at a time/).waitFor();
+      expect(await engineerPage.getByRole('button', { name: /^New draft from version/ }).count()).toBe(0);
+      await screenshot(engineerPage, `rule-in-review-engineer-${widthName}`);
+      expect(engineerErrors).toEqual([]);
+    } finally {
+      await engineerBrowser.close();
+    }
+  });
+
   test('a submitted version shows what changed against the released version side by side, its trial and the author’s note', async () => {
     await page.getByRole('link', { name: `Review ${washer} version 2, submitted by Ines Varga` }).click();
     await page.getByRole('heading', { name: 'What changed' }).waitFor();

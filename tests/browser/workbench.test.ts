@@ -80,7 +80,10 @@ describe('at wide width', () => {
     await submit.getByLabel('Note for the reviewer').fill('Median added against speckle; trial attached.');
     await submit.getByRole('button', { name: 'Submit for review' }).click();
     await page.getByText('◷ v1 In review').waitFor({ timeout: 30_000 });
-    await page.getByRole('button', { name: 'New draft from version 1' }).waitFor();
+    // No editor, and no new draft on offer: the server keeps one open draft or review per rule.
+    await page.getByText(/^Version 1 is in review\. A rule has one open draft or review at a time/).waitFor();
+    expect(await page.getByRole('button', { name: 'Save draft' }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: /^New draft from version/ }).count()).toBe(0);
     await screenshot(page, 'workbench-submitted-wide');
     expect(errors).toEqual([]);
     await page.close();

@@ -69,6 +69,20 @@ async function versionState(versionId: string): Promise<{ state: string; review_
 
 const signIn = (page: Page, username: string, password = DEMO_PASSWORD) => signInAs(page, product.url, username, password);
 
+/** Another person signed in on a device of their own at this width; their page must raise no errors. */
+async function onOwnDevice(viewport: { width: number; height: number }, username: string, use: (page: Page) => Promise<void>): Promise<void> {
+  const browser = await launchBrowser(viewport);
+  try {
+    const page = await browser.newPage();
+    const errors = watchErrors(page);
+    await signIn(page, username);
+    await use(page);
+    expect(errors).toEqual([]);
+  } finally {
+    await browser.close();
+  }
+}
+
 describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
@@ -111,20 +125,13 @@ describe.each([
   });
 
   test('the engineer sees the version in review on the rule page, with no new draft on offer (a rule has one open draft or review)', async () => {
-    const engineerBrowser = await launchBrowser(viewport);
-    try {
-      const engineerPage = await engineerBrowser.newPage();
-      const engineerErrors = watchErrors(engineerPage);
-      await signIn(engineerPage, 'engineer');
+    await onOwnDevice(viewport, 'engineer', async (engineer) => {
       const [row] = await product.db.dataSource.query(`select id from rules where name = $1`, [washer]);
-      await engineerPage.goto(`${product.url}/rules/${row.id}`);
-      await engineerPage.getByText(/^Version 2 is in review\. A rule has one open draft or review at a time/).waitFor();
-      expect(await engineerPage.getByRole('button', { name: /^New draft from version/ }).count()).toBe(0);
-      await screenshot(engineerPage, `rule-in-review-engineer-${widthName}`);
-      expect(engineerErrors).toEqual([]);
-    } finally {
-      await engineerBrowser.close();
-    }
+      await engineer.goto(`${product.url}/rules/${row.id}`);
+      await engineer.getByText(/^Version 2 is in review\. A rule has one open draft or review at a time/).waitFor();
+      expect(await engineer.getByRole('button', { name: /^New draft from version/ }).count()).toBe(0);
+      await screenshot(engineer, `rule-in-review-engineer-${widthName}`);
+    });
   });
 
   test('a submitted version shows what changed against the released version side by side, its trial and the author’s note', async () => {
@@ -224,11 +231,7 @@ describe.each([
   });
 
   test('an operator whose device remembered the withdrawn version is told so and chooses among the released rules', async () => {
-    const operatorBrowser = await launchBrowser(viewport);
-    try {
-      const operator = await operatorBrowser.newPage();
-      const operatorErrors = watchErrors(operator);
-      await signIn(operator, 'operator');
+    await onOwnDevice(viewport, 'operator', async (operator) => {
       // This device last inspected with the gasket rule at its station, before the withdrawal.
       const [station] = await product.db.dataSource.query(`select id from stations where name = $1`, [STATION_OF.gasket]);
       await operator.evaluate(`localStorage.setItem('kernwright.inspect.choice', ${JSON.stringify(JSON.stringify({ stationId: station.id, ruleId: gasketRuleId }))})`);
@@ -245,9 +248,6 @@ describe.each([
       // The washer's station offers the washer rule's newly released version.
       await operator.getByRole('radio', { name: STATION_OF.washer }).click();
       await operator.getByRole('radiogroup', { name: /^Released rules for / }).getByRole('radio', { name: `${washer} · v2` }).waitFor();
-      expect(operatorErrors).toEqual([]);
-    } finally {
-      await operatorBrowser.close();
-    }
+    });
   });
 });

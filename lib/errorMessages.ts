@@ -23,8 +23,12 @@ const NEXT_STEPS: Record<string, string> = {
 
 const GENERIC_NEXT_STEP = 'Try again. If it happens again, tell your administrator what you were doing.';
 
+/** A conflict with the record's state (a version in review, a station not calibrated): no field to change. */
+const STATE_CONFLICT_NEXT_STEP = 'The message says what has to happen first. Reload to see the current state, then try again.';
+
 export function explainError(error: unknown): ErrorExplanation {
   if (error instanceof ApiError) {
+    if (error.code === 'conflict' && error.fieldIssues.length === 0) return { message: error.message, nextStep: STATE_CONFLICT_NEXT_STEP };
     return { message: error.message, nextStep: NEXT_STEPS[error.code] ?? GENERIC_NEXT_STEP };
   }
   return { message: 'Something went wrong in the app.', nextStep: GENERIC_NEXT_STEP };

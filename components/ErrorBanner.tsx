@@ -1,4 +1,5 @@
-import { StyleSheet, View } from 'react-native';
+import { useEffect, useRef } from 'react';
+import { Platform, StyleSheet, View } from 'react-native';
 import { explainError } from '../lib/errorMessages';
 import { colors, radius, space } from '../lib/theme';
 import { AppText } from './AppText';
@@ -15,11 +16,18 @@ interface ErrorBannerProps {
 /** A failure that belongs to no single field: what happened, and what to do next. */
 export function ErrorBanner({ error, message, nextStep, onRetry }: ErrorBannerProps) {
   const explained = explainError(error);
+  const shown = message ?? explained.message;
+  const banner = useRef<View>(null);
+  useEffect(() => {
+    // A banner that appears under a dialog's or a long form's fold, below the button just pressed, is brought into sight.
+    if (Platform.OS !== 'web') return;
+    (banner.current as unknown as { scrollIntoView?: (options: { block: 'nearest' }) => void } | null)?.scrollIntoView?.({ block: 'nearest' });
+  }, [shown]);
   return (
-    <View accessibilityRole="alert" style={styles.banner}>
+    <View ref={banner} accessibilityRole="alert" style={styles.banner}>
       <View style={styles.text}>
         <AppText variant="bodyStrong" tone="danger">
-          {`⚠ ${message ?? explained.message}`}
+          {`⚠ ${shown}`}
         </AppText>
         <AppText>{nextStep ?? explained.nextStep}</AppText>
       </View>

@@ -1,7 +1,7 @@
 // The supervisor's Trends area in a real browser against the real server, at phone and wide width:
 // the p-chart with its control limits and signals (the same as the server's chart), the same numbers
-// as a table, a cause of the Pareto opening exactly its failed inspections, and an alert acknowledged
-// with a note.
+// as a table, a cause of the Pareto opening exactly its failed inspections, a second alert limit for
+// the same rule refused where it can be read, and an alert acknowledged with a note.
 import type { BrowserContext, Page } from 'playwright-core';
 import { UserEntity } from '../../server/components/auth/entities';
 import type { PChart, Pareto } from '../../shared/api/trends';
@@ -104,6 +104,39 @@ describe.each([
     await page.getByText(`${shown} shown, newest first`).waitFor();
     expect(await page.getByRole('link', { name: /^FAIL, / }).count()).toBe(shown);
     await screenshot(page, `trends-cause-records-${name}`);
+  });
+
+  test('a second limit for the same rule and stations is refused in sight, saying what comes first', async () => {
+    await page.goto(`${product.url}/trends?section=alerts`);
+    await page.getByRole('button', { name: 'Add a limit' }).click();
+    const dialog = page.getByRole('dialog', { name: 'Add an alert limit' });
+    await dialog.getByRole('radio', { name: /^Bracket/ }).click();
+    await dialog.getByLabel('Alert above this share failed per day (%)').fill('5');
+    await dialog.getByRole('button', { name: 'Add limit' }).click();
+    const banner = dialog.getByRole('alert').filter({ hasText: 'already has a limit for every station' });
+    await banner.getByText('The message says what has to happen first. Reload to see the current state, then try again.').waitFor();
+    // The banner sits below the fields, under the dialog's fold at both widths: it must be scrolled into sight.
+    const view = page.viewportSize()!;
+    const inSight = async () => {
+      const box = await banner.boundingBox();
+      // Within the window, and not clipped by the dialog's scrolling body (or any other scrolled box around it).
+      const unclipped = await banner.evaluate((el) => {
+        const own = el.getBoundingClientRect();
+        for (let box = el.parentElement; box; box = box.parentElement) {
+          const edge = box.getBoundingClientRect();
+          if (box.scrollHeight > box.clientHeight + 1 && (own.top < edge.top - 1 || own.bottom > edge.bottom + 1)) return false;
+        }
+        return true;
+      });
+      return !!box && box.y >= 0 && box.y + box.height <= view.height && unclipped;
+    };
+    for (let tries = 0; tries < 50 && !(await inSight()); tries++) await page.waitForTimeout(100);
+    expect(await inSight()).toBe(true);
+    await screenshot(page, `trends-limit-refused-${name}`);
+    await dialog.getByRole('button', { name: 'Cancel' }).click();
+    await dialog.waitFor({ state: 'detached' });
+    // The browser logs the refusal itself; nothing else went wrong.
+    expect(errors.splice(0)).toEqual(['Failed to load resource: the server responded with a status of 409 (Conflict)']);
   });
 
   test('acknowledges an alert with a note', async () => {

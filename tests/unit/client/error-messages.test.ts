@@ -16,6 +16,11 @@ describe('explainError', () => {
     expect(nextStep).toMatch(/reload/i);
   });
 
+  it('speaks of the page’s address, not of fields, when the id in the address is malformed', () => {
+    const badLink = new ApiError(400, 'validation_failed', 'id: Not a valid id', [{ path: 'id', message: 'Not a valid id' }]);
+    expect(explainError(badLink)).toEqual({ message: 'This page’s address is not valid.', nextStep: 'Go back to the list and open it from there.' });
+  });
+
   it('keeps the other codes’ next steps and a generic one for what it does not know', () => {
     expect(explainError(new ApiError(422, 'validation_failed', 'Invalid', [{ path: 'sigma', message: 'Too small' }])).nextStep).toBe('Correct the marked fields and try again.');
     expect(explainError(new ApiError(418, 'something_new', 'Odd')).nextStep).toMatch(/^Try again/);

@@ -1,6 +1,7 @@
 // What a screen shows while it waits, when there is nothing to show, and when loading failed.
 import type { ReactNode } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
+import { isWorthRetrying } from '../lib/errorMessages';
 import { colors, space } from '../lib/theme';
 import { AppText } from './AppText';
 import { Card } from './Card';
@@ -37,8 +38,9 @@ export function EmptyState({ title, body, action }: EmptyStateProps) {
   );
 }
 
+/** A failed load; "Try again" only where trying again can help (network and server trouble), not for a refused or malformed request. */
 export function ErrorState({ error, onRetry }: { error: unknown; onRetry?: () => void }) {
-  return <ErrorBanner error={error} onRetry={onRetry} />;
+  return <ErrorBanner error={error} onRetry={isWorthRetrying(error) ? onRetry : undefined} />;
 }
 
 const styles = StyleSheet.create({

@@ -1,7 +1,7 @@
-// The auditor's records: filter the table, open an inspection, check the audit trail (issue 8), at both widths.
+// The auditor's records: filter the table, open an inspection, check the audit trail (issue 8), at both widths; a malformed record link.
 import { UserEntity } from '../../server/components/auth/entities';
 import { DEMO_PASSWORD } from '../../server/seed/demo-users';
-import { launchBrowser, PHONE, screenshot, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
+import { launchBrowser, PHONE, screenshot, signInAs, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
 import { spotPhoto, SPOT_RULE } from '../support/photos';
 
 jest.setTimeout(180_000);
@@ -50,6 +50,26 @@ test.each([
     await page.getByText('Spot area', { exact: true }).first().waitFor();
     await screenshot(page, `record-detail-auditor-${name}`);
     expect(errors).toEqual([]);
+  } finally {
+    await browser.close();
+  }
+});
+
+test.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('a cut or mistyped record link says the address is wrong, with no pointless "Try again" (%s)', async (name, viewport) => {
+  const browser = await launchBrowser(viewport);
+  try {
+    const page = await browser.newPage();
+    const errors = watchErrors(page);
+    await signInAs(page, product.url, 'auditor');
+    await page.goto(`${product.url}/records/not-a-record`);
+    const banner = page.getByRole('alert').filter({ hasText: 'This page’s address is not valid.' });
+    await banner.getByText('Go back to the list and open it from there.').waitFor();
+    expect(await banner.getByRole('button', { name: 'Try again' }).count()).toBe(0);
+    await screenshot(page, `record-bad-address-${name}`);
+    expect(errors).toEqual(['Failed to load resource: the server responded with a status of 400 (Bad Request)']);
   } finally {
     await browser.close();
   }

@@ -1,4 +1,5 @@
 // The auditor's records: filter the table, open an inspection, check the audit trail (issue 8), at both widths; a malformed record link.
+import type { Page } from 'playwright-core';
 import { UserEntity } from '../../server/components/auth/entities';
 import { DEMO_PASSWORD } from '../../server/seed/demo-users';
 import { launchBrowser, PHONE, screenshot, signInAs, startProduct, watchErrors, WIDE, type RunningProduct } from '../support/browser';
@@ -25,19 +26,24 @@ beforeAll(async () => {
 });
 afterAll(() => product?.close());
 
-test.each([
-  ['phone', PHONE],
-  ['wide', WIDE],
-] as const)('an auditor finds the failed inspection, opens it and checks the audit trail (%s)', async (name, viewport) => {
+/** The auditor signed in on a browser of the given size, closed afterwards. */
+async function asAuditor(viewport: typeof PHONE | typeof WIDE, use: (page: Page, errors: string[]) => Promise<void>): Promise<void> {
   const browser = await launchBrowser(viewport);
   try {
     const page = await browser.newPage();
     const errors = watchErrors(page);
-    await page.goto(`${product.url}/sign-in`);
-    await page.getByLabel('User name').fill('auditor');
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.getByRole('navigation', { name: 'Main' }).waitFor();
+    await signInAs(page, product.url, 'auditor');
+    await use(page, errors);
+  } finally {
+    await browser.close();
+  }
+}
+
+test.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('an auditor finds the failed inspection, opens it and checks the audit trail (%s)', (name, viewport) =>
+  asAuditor(viewport, async (page, errors) => {
     await page.goto(`${product.url}/records`);
     await page.getByText('3 shown, newest first').waitFor();
     await page.getByRole('radio', { name: 'FAIL', exact: true }).click();
@@ -50,27 +56,19 @@ test.each([
     await page.getByText('Spot area', { exact: true }).first().waitFor();
     await screenshot(page, `record-detail-auditor-${name}`);
     expect(errors).toEqual([]);
-  } finally {
-    await browser.close();
-  }
-});
+  }),
+);
 
 test.each([
   ['phone', PHONE],
   ['wide', WIDE],
-] as const)('a cut or mistyped record link says the address is wrong, with no pointless "Try again" (%s)', async (name, viewport) => {
-  const browser = await launchBrowser(viewport);
-  try {
-    const page = await browser.newPage();
-    const errors = watchErrors(page);
-    await signInAs(page, product.url, 'auditor');
+] as const)('a cut or mistyped record link says the address is wrong, with no pointless "Try again" (%s)', (name, viewport) =>
+  asAuditor(viewport, async (page, errors) => {
     await page.goto(`${product.url}/records/not-a-record`);
     const banner = page.getByRole('alert').filter({ hasText: 'This page’s address is not valid.' });
     await banner.getByText('Go back to the list and open it from there.').waitFor();
     expect(await banner.getByRole('button', { name: 'Try again' }).count()).toBe(0);
     await screenshot(page, `record-bad-address-${name}`);
     expect(errors).toEqual(['Failed to load resource: the server responded with a status of 400 (Bad Request)']);
-  } finally {
-    await browser.close();
-  }
-});
+  }),
+);

@@ -29,7 +29,8 @@ const STATE_CONFLICT_NEXT_STEP = 'The message says what has to happen first. Rel
 export function explainError(error: unknown): ErrorExplanation {
   if (error instanceof ApiError) {
     if (error.code === 'conflict' && error.fieldIssues.length === 0) return { message: error.message, nextStep: STATE_CONFLICT_NEXT_STEP };
-    // The server refuses a malformed id in the address (a mistyped or cut link), which no form field holds.
+    // A malformed id in the page's address (a mistyped or cut link): the routes' path parameter is `id`
+    // (idParams in server/components/*/routes.ts), a name no request body's field has.
     if (error.code === 'validation_failed' && error.fieldIssues.length > 0 && error.fieldIssues.every((issue) => issue.path === 'id')) {
       return { message: 'This page’s address is not valid.', nextStep: 'Go back to the list and open it from there.' };
     }

@@ -1,6 +1,7 @@
 import { StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '../../lib/theme';
 import type { InspectionMeasurement } from '../../shared/api/inspections';
+import { unitSuffix } from '../../shared/rules/units';
 import { AppText } from '../AppText';
 
 function formatValue(value: number): string {
@@ -10,7 +11,7 @@ function formatValue(value: number): string {
 }
 
 export function describeLimits(min: number | null, max: number | null, unit: string): string {
-  const u = unit ? ` ${unit}` : '';
+  const u = unitSuffix(unit);
   if (min !== null && max !== null) return `${formatValue(min)} to ${formatValue(max)}${u}`;
   if (min !== null) return `at least ${formatValue(min)}${u}`;
   if (max !== null) return `at most ${formatValue(max)}${u}`;
@@ -31,7 +32,7 @@ export function MeasurementList({ measurements }: { measurements: InspectionMeas
             <AppText variant="caption" tone="muted">{`Limits: ${describeLimits(m.limitMin, m.limitMax, m.unit)}`}</AppText>
           </View>
           <View style={styles.value}>
-            <AppText variant="bodyStrong">{`${formatValue(m.value)}${m.unit ? ` ${m.unit}` : ''}`}</AppText>
+            <AppText variant="bodyStrong">{`${formatValue(m.value)}${unitSuffix(m.unit)}`}</AppText>
             <AppText variant="label" tone={m.pass ? 'notice' : 'danger'}>
               {m.pass ? '✓ within' : '✕ outside'}
             </AppText>

@@ -1,6 +1,7 @@
 // Gauge values against their limits: the word and a symbol say within or outside, never colour alone.
 import { StyleSheet, View } from 'react-native';
 import type { Limits } from '../../shared/rules/schema';
+import { unitSuffix } from '../../shared/rules/units';
 import { colors, space } from '../../lib/theme';
 import { formatValue } from '../../hooks/usePreview';
 import { AppText } from '../AppText';
@@ -13,15 +14,13 @@ export interface ShownMeasurement {
   pass: boolean;
 }
 
-const UNIT_TEXT: Record<string, string> = { px: 'px', px2: 'px²', mm: 'mm', mm2: 'mm²' };
-
 /** A gauge value with its unit, as the table shows it. */
 export function valueWithUnit(value: number, unit: string | null): string {
-  return `${formatValue(value)}${unit ? ` ${UNIT_TEXT[unit] ?? unit}` : ''}`;
+  return `${formatValue(value)}${unitSuffix(unit)}`;
 }
 
 export function describeLimits(limits: Limits, unit: string | null): string {
-  const u = unit ? ` ${UNIT_TEXT[unit] ?? unit}` : '';
+  const u = unitSuffix(unit);
   if (limits.min !== undefined && limits.max !== undefined) return `${limits.min} to ${limits.max}${u}`;
   if (limits.max !== undefined) return `at most ${limits.max}${u}`;
   return `at least ${limits.min}${u}`;

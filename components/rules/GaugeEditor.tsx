@@ -1,6 +1,7 @@
 // Gauges: what each measures, where (a region in fractions of the image), in which unit, and its limits.
 import { StyleSheet, View } from 'react-native';
 import { GAUGE_MEASURES, UNITS_OF_MEASURE, type GaugeMeasure, type Region } from '../../shared/rules/schema';
+import { unitSymbol } from '../../shared/rules/units';
 import type { FieldIssue } from '../../shared/api/errors';
 import { colors, radius, space } from '../../lib/theme';
 import { AppText } from '../AppText';
@@ -23,7 +24,6 @@ export const MEASURE_LABELS: Record<GaugeMeasure, string> = {
   max: 'Highest value',
 };
 
-const UNIT_LABELS: Record<string, string> = { px: 'px', px2: 'px²', mm: 'mm', mm2: 'mm²' };
 const FRACTION = { min: 0, max: 1, unit: 'fraction', step: 0.01 };
 const ANY = { min: -1e9, max: 1e9, step: 1 };
 
@@ -103,17 +103,17 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
               </View>
             ) : null}
             {units.length > 0 ? (
-              <ChoiceChips label="Unit" choices={units.map((u) => ({ value: u, label: UNIT_LABELS[u] }))} value={gauge.unit ?? units[0]} onChange={(unit) => change({ unit })} />
+              <ChoiceChips label="Unit" choices={units.map((u) => ({ value: u, label: unitSymbol(u) }))} value={gauge.unit ?? units[0]} onChange={(unit) => change({ unit })} />
             ) : (
               <AppText variant="caption" tone="muted">This measure has no unit.</AppText>
             )}
             {errorOf('unit') ? <AppText tone="danger" variant="caption">{`⚠ ${errorOf('unit')}`}</AppText> : null}
             <View style={styles.row}>
               <View style={styles.half}>
-                <NumberField spec={{ ...ANY, label: 'Lowest allowed', unit: gauge.unit ? UNIT_LABELS[gauge.unit] : '' }} optional value={gauge.limits.min} onChange={(min) => change({ limits: { ...gauge.limits, min } })} error={errorOf('limits.min') ?? errorOf('limits')} />
+                <NumberField spec={{ ...ANY, label: 'Lowest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.min} onChange={(min) => change({ limits: { ...gauge.limits, min } })} error={errorOf('limits.min') ?? errorOf('limits')} />
               </View>
               <View style={styles.half}>
-                <NumberField spec={{ ...ANY, label: 'Highest allowed', unit: gauge.unit ? UNIT_LABELS[gauge.unit] : '' }} optional value={gauge.limits.max} onChange={(max) => change({ limits: { ...gauge.limits, max } })} error={errorOf('limits.max')} />
+                <NumberField spec={{ ...ANY, label: 'Highest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.max} onChange={(max) => change({ limits: { ...gauge.limits, max } })} error={errorOf('limits.max')} />
               </View>
             </View>
             <ChoiceChips

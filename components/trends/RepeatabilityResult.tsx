@@ -1,6 +1,7 @@
 import { ScrollView, StyleSheet, View } from 'react-native';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import type { RepeatabilityStudy } from '../../shared/api/studies';
+import { unitSuffix } from '../../shared/rules/units';
 import { AppText } from '../AppText';
 import { VerdictMark } from '../inspect/VerdictMark';
 
@@ -77,7 +78,7 @@ export function RepeatabilityResult({ study }: { study: RepeatabilityStudy }) {
               ))}
             </View>
             {study.gauges.map((g) => {
-              const unit = g.unit ? ` ${g.unit}` : '';
+              const unit = unitSuffix(g.unit);
               const limits = g.limitMin === null && g.limitMax === null ? '—' : `${g.limitMin === null ? '' : `${number(g.limitMin)} ≤ `}x${g.limitMax === null ? '' : ` ≤ ${number(g.limitMax)}`}`;
               const cells = [g.gauge, String(g.n), `${number(g.mean)}${unit}`, number(g.standardDeviation), number(g.range), limits, g.shareOfTolerance === null ? '—' : `${(g.shareOfTolerance * 100).toFixed(1)} %`];
               return (

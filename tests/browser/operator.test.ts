@@ -81,6 +81,10 @@ describe('the operator at phone width', () => {
     expect(await verdict.getByRole('heading', { level: 2 }).first().textContent()).toMatch(/^(PASS|FAIL|RETAKE)$/);
     await page.getByRole('heading', { name: /Measurements against limits|What was wrong with the photo/ }).waitFor();
     expect(await page.getByText(/A verdict is a decision aid/).count()).toBe(1);
+    // The washer rule's area gauge: its unit as the symbol mm², not the rule document's code mm2.
+    const measured = await page.getByRole('list', { name: 'Measurements against limits' }).innerText();
+    expect(measured).toMatch(/Washer area[\s\S]*\d mm²/);
+    expect(measured).not.toMatch(/mm2/);
     await screenshot(page, 'inspect-verdict-phone');
     expect(await inspectionCount()).toBe(before + 1);
   });

@@ -1,4 +1,5 @@
 // Plain-words explanation of a failed request, with what the person can do next.
+import { ROUTE_ID_PARAM } from '../shared/api/params';
 import { ApiError } from './api';
 
 export interface ErrorExplanation {
@@ -29,9 +30,9 @@ const STATE_CONFLICT_NEXT_STEP = 'The message says what has to happen first. Rel
 export function explainError(error: unknown): ErrorExplanation {
   if (error instanceof ApiError) {
     if (error.code === 'conflict' && error.fieldIssues.length === 0) return { message: error.message, nextStep: STATE_CONFLICT_NEXT_STEP };
-    // A malformed id in the page's address (a mistyped or cut link): the routes' path parameter is `id`
-    // (idParams in server/components/*/routes.ts), a name no request body's field has.
-    if (error.code === 'validation_failed' && error.fieldIssues.length > 0 && error.fieldIssues.every((issue) => issue.path === 'id')) {
+    // A malformed id in the page's address (a mistyped or cut link): every route's path parameter
+    // (idParamsSchema, shared/api/params.ts) has a name no request body's field has.
+    if (error.code === 'validation_failed' && error.fieldIssues.length > 0 && error.fieldIssues.every((issue) => issue.path === ROUTE_ID_PARAM)) {
       return { message: 'This page’s address is not valid.', nextStep: 'Go back to the list and open it from there.' };
     }
     return { message: error.message, nextStep: NEXT_STEPS[error.code] ?? GENERIC_NEXT_STEP };

@@ -1,11 +1,9 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { acknowledgeAlertSchema, alertSubscriptionSchema, createAlertLimitSchema, listAlertsQuerySchema } from '../../../shared/api/alerts';
+import { idParamsSchema } from '../../../shared/api/params';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { AlertsService } from './service';
-
-const idParams = z.object({ id: z.uuid('Not a valid id') });
 
 /** Alerts, their limits and who hears of them: supervisors act on them, auditors may read. */
 export function alertRoutes(alerts: AlertsService): Router {
@@ -24,10 +22,10 @@ export function alertRoutes(alerts: AlertsService): Router {
     res.json(await alerts.setSubscription(req.user!, parse(alertSubscriptionSchema, req.body).subscribed));
   });
   router.get('/alerts/:id', read, async (req, res) => {
-    res.json(await alerts.get(parse(idParams, req.params).id));
+    res.json(await alerts.get(parse(idParamsSchema, req.params).id));
   });
   router.post('/alerts/:id/acknowledge', write, async (req, res) => {
-    res.json(await alerts.acknowledge(req.user!, parse(idParams, req.params).id, parse(acknowledgeAlertSchema, req.body).note));
+    res.json(await alerts.acknowledge(req.user!, parse(idParamsSchema, req.params).id, parse(acknowledgeAlertSchema, req.body).note));
   });
 
   router.get('/alert-limits', read, async (_req, res) => {
@@ -37,7 +35,7 @@ export function alertRoutes(alerts: AlertsService): Router {
     res.status(201).json(await alerts.createLimit(req.user!, parse(createAlertLimitSchema, req.body)));
   });
   router.delete('/alert-limits/:id', write, async (req, res) => {
-    await alerts.deleteLimit(req.user!, parse(idParams, req.params).id);
+    await alerts.deleteLimit(req.user!, parse(idParamsSchema, req.params).id);
     res.status(204).end();
   });
   return router;

@@ -1,11 +1,9 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { listDisputesQuerySchema, resolveDisputeRequestSchema } from '../../../shared/api/inspections';
+import { idParamsSchema } from '../../../shared/api/params';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { InspectionsService } from './service';
-
-const idParams = z.object({ id: z.uuid('Not a valid id') });
 
 /** Disputed verdicts: supervisors judge them; auditors read them. */
 export function disputeRoutes(inspections: InspectionsService): Router {
@@ -16,7 +14,7 @@ export function disputeRoutes(inspections: InspectionsService): Router {
   });
   router.post('/:id/resolve', requireRole('supervisor'), async (req, res) => {
     const body = parse(resolveDisputeRequestSchema, req.body);
-    res.json(await inspections.resolveDispute(req.user!, parse(idParams, req.params).id, body.judgement, body.note));
+    res.json(await inspections.resolveDispute(req.user!, parse(idParamsSchema, req.params).id, body.judgement, body.note));
   });
   return router;
 }

@@ -1,13 +1,11 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { disputeRequestSchema, inspectRequestSchema } from '../../../shared/api/inspections';
+import { idParamsSchema } from '../../../shared/api/params';
 import { AppError } from '../../lib/errors';
 import { photoUpload } from '../../lib/uploads';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { InspectionsService, InspectTimings } from './service';
-
-const idParams = z.object({ id: z.uuid('Not a valid id') });
 
 /** The W3C Server-Timing header (www.w3.org/TR/server-timing): one metric per phase, then each engine step. */
 export function serverTiming(receiveMs: number, timings: InspectTimings): string {
@@ -50,10 +48,10 @@ export function inspectionRoutes(inspections: InspectionsService): Router {
     },
   );
   router.get('/:id', requireRole('operator', 'supervisor', 'auditor'), async (req, res) => {
-    res.json(await inspections.get(parse(idParams, req.params).id));
+    res.json(await inspections.get(parse(idParamsSchema, req.params).id));
   });
   router.post('/:id/dispute', requireRole('operator'), async (req, res) => {
-    res.status(201).json(await inspections.dispute(req.user!, parse(idParams, req.params).id, parse(disputeRequestSchema, req.body).note));
+    res.status(201).json(await inspections.dispute(req.user!, parse(idParamsSchema, req.params).id, parse(disputeRequestSchema, req.body).note));
   });
   return router;
 }

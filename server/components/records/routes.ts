@@ -1,11 +1,9 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { listRecordsQuerySchema, recordFiltersSchema } from '../../../shared/api/records';
+import { idParamsSchema } from '../../../shared/api/params';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { RecordsService } from './service';
-
-const idParams = z.object({ id: z.uuid('Not a valid id') });
 
 /** Records and exports: auditors and supervisors, read-only. */
 export function recordRoutes(records: RecordsService): Router {
@@ -27,12 +25,12 @@ export function recordRoutes(records: RecordsService): Router {
     await records.exportCsv(req.user!, filters, res);
   });
   router.get('/records/inspections/:id/report.pdf', read, async (req, res) => {
-    const { id } = parse(idParams, req.params);
+    const { id } = parse(idParamsSchema, req.params);
     res.set({ 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="inspection-${id}.pdf"` });
     res.send(await records.inspectionPdf(req.user!, id));
   });
   router.get('/records/rule-versions/:id/report.pdf', read, async (req, res) => {
-    const { id } = parse(idParams, req.params);
+    const { id } = parse(idParamsSchema, req.params);
     res.set({ 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="rule-version-${id}.pdf"` });
     res.send(await records.ruleVersionPdf(req.user!, id));
   });

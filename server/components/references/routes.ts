@@ -8,13 +8,13 @@ import {
   listReferenceImagesQuerySchema,
 } from '../../../shared/api/references';
 import { codeSchema } from '../../../shared/api/catalogue';
+import { idParamsSchema } from '../../../shared/api/params';
 import { AppError } from '../../lib/errors';
 import { photoUpload } from '../../lib/uploads';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { ReferencesService } from './service';
 
-const idParams = z.object({ id: z.uuid('Not a valid id') });
 const uploadFields = z.strictObject({
   label: imageLabelSchema.optional(),
   defectKind: codeSchema.optional(),
@@ -34,13 +34,13 @@ export function referenceRoutes(references: ReferencesService): Router {
     res.status(201).json(await references.createSet(req.user!, parse(createReferenceSetRequestSchema, req.body)));
   });
   router.get('/:id', read, async (req, res) => {
-    res.json(await references.getSet(parse(idParams, req.params).id));
+    res.json(await references.getSet(parse(idParamsSchema, req.params).id));
   });
   router.get('/:id/images', read, async (req, res) => {
-    res.json(await references.listImages(parse(idParams, req.params).id, parse(listReferenceImagesQuerySchema, req.query)));
+    res.json(await references.listImages(parse(idParamsSchema, req.params).id, parse(listReferenceImagesQuerySchema, req.query)));
   });
   router.post('/:id/images', write, photoUpload.array('photos'), async (req, res) => {
-    const { id } = parse(idParams, req.params);
+    const { id } = parse(idParamsSchema, req.params);
     const labels = parse(uploadFields, req.body ?? {});
     const files = (req.files as Express.Multer.File[] | undefined) ?? [];
     if (files.length === 0) throw new AppError('validation_failed', 'photos: choose at least one photo', { issues: [{ path: 'photos', message: 'Choose at least one photo' }] });
@@ -49,12 +49,12 @@ export function referenceRoutes(references: ReferencesService): Router {
     res.status(stored > 0 ? 201 : 200).json({ outcomes });
   });
   router.post('/:id/labels', write, async (req, res) => {
-    const { id } = parse(idParams, req.params);
+    const { id } = parse(idParamsSchema, req.params);
     const body = parse(bulkLabelRequestSchema, req.body);
     res.json({ items: await references.relabel(req.user!, body.imageIds, body.change, id) });
   });
   router.patch('/images/:id', write, async (req, res) => {
-    const { id } = parse(idParams, req.params);
+    const { id } = parse(idParamsSchema, req.params);
     const [image] = await references.relabel(req.user!, [id], parse(labelChangeSchema, req.body));
     res.json(image);
   });

@@ -1,11 +1,9 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { calibrationRequestSchema, createLineRequestSchema, createStationRequestSchema, updateStationRequestSchema } from '../../../shared/api/stations';
+import { idParamsSchema } from '../../../shared/api/params';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { StationsService } from './service';
-
-const idParams = z.object({ id: z.uuid('Not a valid id') });
 
 /** Lines and stations: everyone signed in may list them (operators choose one); supervisors and admins manage them. */
 export function stationRoutes(stations: StationsService): Router {
@@ -21,13 +19,13 @@ export function stationRoutes(stations: StationsService): Router {
     res.status(201).json(await stations.createStation(req.user!, parse(createStationRequestSchema, req.body)));
   });
   router.get('/:id', async (req, res) => {
-    res.json((await stations.get(parse(idParams, req.params).id)).dto);
+    res.json((await stations.get(parse(idParamsSchema, req.params).id)).dto);
   });
   router.patch('/:id', manage, async (req, res) => {
-    res.json(await stations.update(req.user!, parse(idParams, req.params).id, parse(updateStationRequestSchema, req.body)));
+    res.json(await stations.update(req.user!, parse(idParamsSchema, req.params).id, parse(updateStationRequestSchema, req.body)));
   });
   router.post('/:id/calibration', manage, async (req, res) => {
-    res.json(await stations.calibrate(req.user!, parse(idParams, req.params).id, parse(calibrationRequestSchema, req.body)));
+    res.json(await stations.calibrate(req.user!, parse(idParamsSchema, req.params).id, parse(calibrationRequestSchema, req.body)));
   });
   return router;
 }

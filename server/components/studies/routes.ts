@@ -1,13 +1,12 @@
 import { Router, type RequestHandler } from 'express';
-import { z } from 'zod';
 import { attributeAgreementQuerySchema, createRepeatabilityStudySchema } from '../../../shared/api/studies';
+import { idParamsSchema } from '../../../shared/api/params';
 import { AppError } from '../../lib/errors';
 import { MAX_FILES_PER_UPLOAD, photoUpload } from '../../lib/uploads';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { StudiesService } from './service';
 
-const idParams = z.object({ id: z.uuid('Not a valid id') });
 const MIN_PHOTOS = 2;
 const photoCount = () =>
   new AppError('validation_failed', `photos: send ${MIN_PHOTOS} to ${MAX_FILES_PER_UPLOAD} photos of the same part`, {
@@ -37,7 +36,7 @@ export function studyRoutes(studies: StudiesService): Router {
     res.json({ items: await studies.listRepeatability() });
   });
   router.get('/repeatability/:id', read, async (req, res) => {
-    res.json(await studies.getRepeatability(parse(idParams, req.params).id));
+    res.json(await studies.getRepeatability(parse(idParamsSchema, req.params).id));
   });
   router.get('/attribute-agreement', read, async (req, res) => {
     res.json(await studies.attributeAgreement(parse(attributeAgreementQuerySchema, req.query)));

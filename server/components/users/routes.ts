@@ -1,11 +1,9 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { createUserRequestSchema, listUsersQuerySchema, updateUserRequestSchema } from '../../../shared/api/users';
+import { idParamsSchema } from '../../../shared/api/params';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
 import type { UsersService } from './service';
-
-const idParams = z.object({ id: z.uuid('Not a user id') });
 
 /** Users and roles: administrators only. */
 export function userRoutes(users: UsersService): Router {
@@ -18,7 +16,7 @@ export function userRoutes(users: UsersService): Router {
     res.status(201).json(await users.create(req.user!, parse(createUserRequestSchema, req.body)));
   });
   router.patch('/:id', async (req, res) => {
-    const { id } = parse(idParams, req.params);
+    const { id } = parse(idParamsSchema, req.params);
     res.json(await users.update(req.user!, id, parse(updateUserRequestSchema, req.body)));
   });
   return router;

@@ -8,29 +8,23 @@ import { StudyCaution } from './StudyCaution';
 interface AgreementViewProps {
   choices: TrendChoices;
   canRun: boolean;
-  phone: boolean;
 }
 
-/** Measurement system analysis of a rule: does it agree with itself, and with a qualified person? */
-export function AgreementView({ choices, canRun, phone }: AgreementViewProps) {
+/**
+ * Measurement system analysis of a rule: does it agree with itself, and with a qualified person?
+ * The two studies stack at every width: a repeatability study's table of spreads needs the whole
+ * width to show its last column, the share of the tolerance, without scrolling.
+ */
+export function AgreementView({ choices, canRun }: AgreementViewProps) {
   return (
     <View style={styles.view}>
       <StudyCaution />
-      <View style={[styles.panels, !phone && styles.sideBySide]}>
-        <View style={!phone ? styles.column : undefined}>
-          <RepeatabilityPanel canRun={canRun} />
-        </View>
-        <View style={!phone ? styles.column : undefined}>
-          <AttributeAgreementPanel choices={choices} />
-        </View>
-      </View>
+      <RepeatabilityPanel canRun={canRun} />
+      <AttributeAgreementPanel choices={choices} />
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   view: { gap: space.lg },
-  panels: { gap: space.lg },
-  sideBySide: { flexDirection: 'row', alignItems: 'flex-start' },
-  column: { flexGrow: 1, flexShrink: 1, flexBasis: 0, minWidth: 0 },
 });

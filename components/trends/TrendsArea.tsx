@@ -44,7 +44,7 @@ export function TrendsArea() {
   else if (choices.data.lines.length === 0)
     body = <EmptyState title="No stations to chart yet" body="Trends appear once stations exist and operators judge parts there. Set up the lines and stations in Stations." />;
   else if (section === 'alerts') body = <AlertsView choices={choices.data} isSupervisor={isSupervisor} phone={phone} openCount={openCount} />;
-  else if (section === 'agreement') body = <AgreementView choices={choices.data} canRun={runsStudies} phone={phone} />;
+  else if (section === 'agreement') body = <AgreementView choices={choices.data} canRun={runsStudies} />;
   else body = <ChartsView values={filters} onChange={setFilters} choices={choices.data} phone={phone} shown={phone ? (section === 'causes' ? 'causes' : 'control-chart') : 'both'} />;
 
   return (

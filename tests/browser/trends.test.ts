@@ -1,8 +1,14 @@
 // The supervisor's Trends area in a real browser against the real server, at phone and wide width:
 // the p-chart with its control limits and signals (the same as the server's chart), the same numbers
 // as a table, a cause of the Pareto opening exactly its failed inspections, a second alert limit for
-// the same rule refused where it can be read, and an alert acknowledged with a note.
+// the same rule refused where it can be read, an alert acknowledged with a note, and a repeatability
+// study of one part run from the browser.
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
+import { generateDataset } from '../../server/demo';
+import { DEMO_FRAME } from '../../server/seed/demo-plant';
 import { UserEntity } from '../../server/components/auth/entities';
 import type { PChart, Pareto } from '../../shared/api/trends';
 import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
@@ -14,6 +20,9 @@ const DAY_MS = 86_400_000;
 let product: RunningProduct;
 let chart: PChart;
 let pareto: Pareto;
+let photoDir: string;
+/** The same good washer photographed three times (three files of one image). */
+const samePartPhotos: string[] = [];
 
 /** The screen's first range: the last 30 whole UTC days up to the end of today. */
 function defaultRange(): { from: string; to: string } {
@@ -32,8 +41,19 @@ beforeAll(async () => {
   const range = defaultRange();
   chart = await product.services.trends.pChart({ ...range, bucket: 'day', runRules: 'western-electric' });
   pareto = await product.services.trends.pareto(range);
+  photoDir = fs.mkdtempSync(path.join(os.tmpdir(), 'kw-study-photos-'));
+  for await (const photo of generateDataset({ count: 1, seed: 43, families: ['washer'], sizes: [DEMO_FRAME], defectShare: 0, retakeShare: 0 })) {
+    for (const n of [1, 2, 3]) {
+      const file = path.join(photoDir, `washer-take-${n}.png`);
+      fs.writeFileSync(file, photo.buffer);
+      samePartPhotos.push(file);
+    }
+  }
 });
-afterAll(() => product?.close());
+afterAll(async () => {
+  await product?.close();
+  if (photoDir) fs.rmSync(photoDir, { recursive: true, force: true });
+});
 
 const signIn = (page: Page) => signInAs(page, product.url, 'supervisor');
 
@@ -158,6 +178,43 @@ describe.each([
     await page.getByRole('radio', { name: 'Acknowledged' }).click();
     await page.getByText(note).waitFor();
     await screenshot(page, `trends-alert-acknowledged-${name}`);
+    expect(errors).toEqual([]);
+  });
+
+  test('runs a repeatability study of one part and reads each gauge\'s spread', async () => {
+    await page.goto(`${product.url}/trends?section=agreement`);
+    await page.getByRole('button', { name: 'New study' }).click();
+    await page.getByRole('radio', { name: 'Washer rim and bore check v1', exact: true }).click();
+    await page.getByRole('radio', { name: 'Lathe 7 exit' }).click();
+    const part = `Washer S/N 4471-${name}`;
+    await page.getByLabel('Part (serial number or tag)').fill(part);
+    await page.getByRole('radio', { name: 'Good', exact: true }).click();
+    const chooser = page.waitForEvent('filechooser');
+    await page.getByRole('button', { name: 'Choose photos' }).click();
+    await (await chooser).setFiles(samePartPhotos);
+    await page.getByText('3 photos chosen: washer-take-1.png, washer-take-2.png, washer-take-3.png').waitFor();
+    await page.getByRole('button', { name: 'Run the study' }).click();
+    await page.getByRole('heading', { name: `Study of “${part}”` }).waitFor({ timeout: 120_000 });
+    // One image three times: the same verdict each time, and no spread at all (s = 0, range = 0).
+    await page.getByText(/^✓ Consistent: every judged photo got the same verdict \((PASS|FAIL)\)\.$/).waitFor();
+    const spread = page.getByRole('table', { name: 'Spread of each gauge over the photos' });
+    const area = spread.getByRole('row').filter({ hasText: 'Washer area' });
+    const cells = await area.getByRole('cell').allInnerTexts();
+    expect(cells.slice(0, 5)).toEqual(['Washer area', '3', expect.stringMatching(/^\d+\.\d mm²$/), '0.000', '0.000']);
+    await spread.scrollIntoViewIfNeeded();
+    if (name === 'wide') {
+      // On a wide screen the whole table shows, down to its last column (the share of the tolerance), with no sideways scrolling.
+      const clipped = await spread.getByRole('columnheader', { name: '% tolerance' }).evaluate((el, windowWidth) => {
+        const own = el.getBoundingClientRect();
+        for (let box = el.parentElement; box; box = box.parentElement) {
+          const edge = box.getBoundingClientRect();
+          if (box.scrollWidth > box.clientWidth + 1 && (own.left < edge.left - 1 || own.right > edge.right + 1)) return true;
+        }
+        return own.right > windowWidth;
+      }, page.viewportSize()!.width);
+      expect(clipped).toBe(false);
+    }
+    await screenshot(page, `trends-repeatability-${name}`);
     expect(errors).toEqual([]);
   });
 });

@@ -45,9 +45,10 @@ export function PChartPlot({ chart, phone, onOpenPoint }: PChartPlotProps) {
 
   // The chart package reads the x-axis labels from its first data set; counted back from the latest subgroup, which shows first.
   const labelOf = (i: number) => ((points.length - 1 - i) % labelEvery === 0 ? axisText(points[i].start, chart.bucket) : '');
-  // Wider than the gap between two points, centred under its point, so a date is not cut short.
+  // Wider than the gap between two points, centred under its point, so a date is not cut short
+  // (maxWidth too: a one-line text on the web is otherwise kept within its parent, the gap's width).
   const axisLabel = (text: string) => () => (
-    <Text numberOfLines={labelLines} style={[styles.axisText, { width: LABEL_ROOM, marginLeft: -(LABEL_ROOM - spacing) / 2 }]}>
+    <Text numberOfLines={labelLines} style={[styles.axisText, { width: LABEL_ROOM, maxWidth: LABEL_ROOM, marginLeft: -(LABEL_ROOM - spacing) / 2 }]}>
       {text}
     </Text>
   );

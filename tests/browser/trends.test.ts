@@ -90,6 +90,26 @@ describe.each([
     }
     await plot.scrollIntoViewIfNeeded();
     await screenshot(page, `trends-chart-${name}`);
+    if (name === 'wide') {
+      // Three subgroups a day put the points closer together than a date is wide: the x axis's dates
+      // must still be whole, not cut to "N…".
+      await page.getByRole('radio', { name: 'Shift', exact: true }).click();
+      const shiftPlot = page.getByRole('img', { name: /^p-chart of \d+ subgroups/ });
+      const daily = `p-chart of ${chart.points.length} subgroups,`;
+      for (let tries = 0; tries < 300 && (await shiftPlot.getAttribute('aria-label'))?.startsWith(daily); tries++) await page.waitForTimeout(100);
+      await shiftPlot.locator('path[stroke-dasharray]').nth(1).waitFor({ state: 'attached' });
+      const labels = await shiftPlot.locator('div').evaluateAll((divs) =>
+        divs
+          .filter((d) => d.children.length === 0 && /^[A-Z][a-z]{2} \d{1,2}\s*\d\d:\d\d$/.test(d.textContent ?? ''))
+          .map((d) => ({ text: d.textContent, cut: d.scrollWidth > d.clientWidth + 1 })),
+      );
+      expect(labels.length).toBeGreaterThan(1);
+      expect(labels.filter((l) => l.cut)).toEqual([]);
+      await shiftPlot.scrollIntoViewIfNeeded();
+      await screenshot(page, 'trends-chart-per-shift-wide');
+      await page.getByRole('radio', { name: 'Day', exact: true }).click();
+      await page.getByRole('img', { name: `p-chart of ${chart.points.length} subgroups`, exact: false }).waitFor();
+    }
   });
 
   test('the table view lists the same number of points', async () => {

@@ -10,12 +10,12 @@ import { UserStatus } from './UserStatus';
 import type { UserRowActions } from './userActions';
 
 const COLUMNS = [
-  { key: 'name', title: 'Name', style: { flex: 2 } },
-  { key: 'roles', title: 'Roles', style: { flex: 2 } },
-  { key: 'email', title: 'E-mail', style: { flex: 2.6 } },
+  { key: 'name', title: 'Name', style: { flex: 1.7 } },
+  { key: 'roles', title: 'Roles', style: { flex: 1.7 } },
+  { key: 'email', title: 'E-mail', style: { flex: 3.3 } },
   { key: 'status', title: 'Status', style: { width: 132 } },
   { key: 'added', title: 'Added', style: { width: 116 } },
-  { key: 'actions', title: 'Actions', style: { width: 184 } },
+  { key: 'actions', title: 'Actions', style: { width: 168 } },
 ] as const;
 type ColumnKey = (typeof COLUMNS)[number]['key'];
 const columnStyle = (key: ColumnKey) => COLUMNS.find((column) => column.key === key)!.style;

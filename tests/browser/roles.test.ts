@@ -123,6 +123,10 @@ test('the administrator’s users table lists the demo people', async () => {
     await signIn(page, 'admin');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Users' }).click();
     for (const name of ['Ines Varga', 'Tomas Reyes', 'Mara Lindqvist', 'Kofi Mensah', 'Priya Nair']) await page.getByText(name).first().waitFor();
+    // On a wide screen the demo people's e-mail addresses show whole, not cut short with an ellipsis.
+    const addresses = await page.getByRole('table', { name: 'Users' }).getByRole('cell').getByText(/@fernwick\.example$/).evaluateAll((texts) => texts.map((t) => ({ text: t.textContent, cut: t.scrollWidth > t.clientWidth + 1 })));
+    expect(addresses).toHaveLength(5);
+    expect(addresses.filter((a) => a.cut)).toEqual([]);
     await screenshot(page, 'users-admin-wide');
   } finally {
     await browser.close();

@@ -42,8 +42,14 @@ export function ReferenceImageGrid({ images, selecting, selected, onPress }: Ref
             </View>
             <AppText variant="caption" numberOfLines={1}>{image.fileName}</AppText>
             <AppText variant="label" numberOfLines={1} tone={image.label === 'defective' ? 'danger' : image.label === 'good' ? 'notice' : image.label === 'retake' ? 'caution' : 'muted'}>
-              {labelText}
+              {LABEL_MARKS[image.label]}
             </AppText>
+            {/* The defect kind on a line of its own: after the label it was cut short in a tile's width. */}
+            {image.defectKind ? (
+              <AppText variant="caption" tone="danger" numberOfLines={2}>
+                {kindName(image.defectKind)}
+              </AppText>
+            ) : null}
           </Pressable>
         );
       })}

@@ -402,7 +402,11 @@ describe('at phone width', () => {
     await screenshot(page, 'references-label-dialog-phone');
     await dialog.getByRole('button', { name: 'Label 3 photos' }).click();
     await page.getByText('✓ Labelled 3 photos.').waitFor();
-    await page.getByRole('button', { name: 'Label lot-24.png, ✕ defective (Chip or notch)' }).waitFor();
+    const tile = page.getByRole('button', { name: 'Label lot-24.png, ✕ defective (Chip or notch)' });
+    await tile.waitFor();
+    // The tile shows the defect kind whole, not cut short after the label.
+    const kind = tile.getByText('Chip or notch', { exact: true });
+    expect(await kind.evaluate((t) => t.scrollWidth <= t.clientWidth + 1 && t.scrollHeight <= t.clientHeight + 1)).toBe(true);
     await page.getByText(/4 photos: 0 good, 3 defective, 0 retake, 1 unlabelled/).waitFor();
     await screenshot(page, 'references-labelled-phone');
 

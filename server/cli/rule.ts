@@ -7,6 +7,7 @@ import { promises as fs } from 'node:fs';
 import path from 'node:path';
 import { validateRuleDocument } from '../../shared/rules/schema';
 import { RuleRunError, runValidatedRule, type RuleRun, type Verdict } from '../../shared/vision/pipeline';
+import { unitSuffix } from '../../shared/rules/units';
 import { PhotoDecodeError, decodePhoto } from '../vision/decode';
 import { displayPng, evidencePng } from '../vision/encode';
 import { KernelLibraryError, loadKernelLibrary } from '../vision/kernel-library';
@@ -150,7 +151,7 @@ async function runCommand(args: string[]): Promise<number> {
   await Promise.all(writes);
   process.stdout.write(`${run.verdict}  ${validation.rule.name}  (${run.ms.toFixed(1)} ms)\n`);
   for (const m of run.measurements) {
-    process.stdout.write(`  ${m.pass ? 'pass' : 'FAIL'}  ${m.name}: ${m.value}${m.unit ? ' ' + m.unit : ''}\n`);
+    process.stdout.write(`  ${m.pass ? 'pass' : 'FAIL'}  ${m.name}: ${m.value}${unitSuffix(m.unit)}\n`);
   }
   for (const problem of run.quality.problems) process.stdout.write(`  retake: ${problem}\n`);
   return EXIT[run.verdict];

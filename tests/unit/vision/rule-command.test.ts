@@ -62,6 +62,8 @@ test('PASS exits 0 and writes result.json, a PNG per step and, with --npy, step-
   expect(doc.verdict).toBe('PASS');
   // 8 x 6 px = 48 px² at 0.1 mm/px = 0.48 mm².
   expect(doc.measurements).toEqual([{ name: 'Block area', value: expect.closeTo(0.48, 10), unit: 'mm2', limits: { max: 1 }, pass: true }]);
+  // result.json keeps the unit's code for scripts; the summary printed for people writes its symbol.
+  expect(result.stdout).toMatch(/pass {2}Block area: 0\.48\d* mm²\n/);
   expect(doc.steps.map((s: { op: string }) => s.op)).toEqual(['gaussian', 'threshold', 'open']);
   expect(Object.keys(doc.quality)).toEqual(expect.arrayContaining(['focus', 'clipped', 'mean']));
   const files = readdirSync(out).sort();

@@ -11,7 +11,7 @@ import { generateDataset } from '../../server/demo';
 import { DEMO_FRAME } from '../../server/seed/demo-plant';
 import { UserEntity } from '../../server/components/auth/entities';
 import type { PChart, Pareto } from '../../shared/api/trends';
-import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
+import { inSight, launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, textsCutShort, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 jest.setTimeout(600_000);
 
@@ -98,13 +98,9 @@ describe.each([
       const daily = `p-chart of ${chart.points.length} subgroups,`;
       for (let tries = 0; tries < 300 && (await shiftPlot.getAttribute('aria-label'))?.startsWith(daily); tries++) await page.waitForTimeout(100);
       await shiftPlot.locator('path[stroke-dasharray]').nth(1).waitFor({ state: 'attached' });
-      const labels = await shiftPlot.locator('div').evaluateAll((divs) =>
-        divs
-          .filter((d) => d.children.length === 0 && /^[A-Z][a-z]{2} \d{1,2}\s*\d\d:\d\d$/.test(d.textContent ?? ''))
-          .map((d) => ({ text: d.textContent, cut: d.scrollWidth > d.clientWidth + 1 })),
-      );
-      expect(labels.length).toBeGreaterThan(1);
-      expect(labels.filter((l) => l.cut)).toEqual([]);
+      const labels = shiftPlot.getByText(/^[A-Z][a-z]{2} \d{1,2}\s*\d\d:\d\d$/);
+      expect(await labels.count()).toBeGreaterThan(1);
+      expect(await textsCutShort(labels)).toEqual([]);
       await shiftPlot.scrollIntoViewIfNeeded();
       await screenshot(page, 'trends-chart-per-shift-wide');
       await page.getByRole('radio', { name: 'Day', exact: true }).click();
@@ -156,22 +152,9 @@ describe.each([
     const banner = dialog.getByRole('alert').filter({ hasText: 'already has a limit for every station' });
     await banner.getByText('The message says what has to happen first. Reload to see the current state, then try again.').waitFor();
     // The banner sits below the fields, under the dialog's fold at both widths: it must be scrolled into sight.
-    const view = page.viewportSize()!;
-    const inSight = async () => {
-      const box = await banner.boundingBox();
-      // Within the window, and not clipped by the dialog's scrolling body (or any other scrolled box around it).
-      const unclipped = await banner.evaluate((el) => {
-        const own = el.getBoundingClientRect();
-        for (let box = el.parentElement; box; box = box.parentElement) {
-          const edge = box.getBoundingClientRect();
-          if (box.scrollHeight > box.clientHeight + 1 && (own.top < edge.top - 1 || own.bottom > edge.bottom + 1)) return false;
-        }
-        return true;
-      });
-      return !!box && box.y >= 0 && box.y + box.height <= view.height && unclipped;
-    };
-    for (let tries = 0; tries < 50 && !(await inSight()); tries++) await page.waitForTimeout(100);
-    expect(await inSight()).toBe(true);
+    // Within the window, and not clipped by the dialog's scrolling body (or any other scrolled box around it).
+    for (let tries = 0; tries < 50 && !(await inSight(banner)); tries++) await page.waitForTimeout(100);
+    expect(await inSight(banner)).toBe(true);
     await screenshot(page, `trends-limit-refused-${name}`);
     await dialog.getByRole('button', { name: 'Cancel' }).click();
     await dialog.waitFor({ state: 'detached' });
@@ -224,15 +207,7 @@ describe.each([
     await spread.scrollIntoViewIfNeeded();
     if (name === 'wide') {
       // On a wide screen the whole table shows, down to its last column (the share of the tolerance), with no sideways scrolling.
-      const clipped = await spread.getByRole('columnheader', { name: '% tolerance' }).evaluate((el, windowWidth) => {
-        const own = el.getBoundingClientRect();
-        for (let box = el.parentElement; box; box = box.parentElement) {
-          const edge = box.getBoundingClientRect();
-          if (box.scrollWidth > box.clientWidth + 1 && (own.left < edge.left - 1 || own.right > edge.right + 1)) return true;
-        }
-        return own.right > windowWidth;
-      }, page.viewportSize()!.width);
-      expect(clipped).toBe(false);
+      expect(await inSight(spread.getByRole('columnheader', { name: '% tolerance' }))).toBe(true);
     }
     await screenshot(page, `trends-repeatability-${name}`);
     expect(errors).toEqual([]);

@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import type { Server } from 'node:http';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { chromium, type BrowserContext, type Locator, type Page } from 'playwright-core';
 import { DEMO_PASSWORD, seedDemoUsers } from '../../server/seed/demo-users';
 import { createTestApp } from './app';
 import type { TestDatabase } from './db';
@@ -70,6 +70,30 @@ export async function launchBrowser(viewport: { width: number; height: number })
 export async function screenshot(page: Page, name: string): Promise<void> {
   fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
   await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`), fullPage: true });
+}
+
+/**
+ * True when the element is wholly inside the window and no box around it that scrolls (a dialog's
+ * body, a table's sideways scroller) hides any part of it.
+ */
+export async function inSight(locator: Locator): Promise<boolean> {
+  const view = locator.page().viewportSize()!;
+  return locator.evaluate((el, windowSize) => {
+    const own = el.getBoundingClientRect();
+    if (own.top < 0 || own.left < 0 || own.bottom > windowSize.height || own.right > windowSize.width) return false;
+    for (let box = el.parentElement; box; box = box.parentElement) {
+      const edge = box.getBoundingClientRect();
+      const hiddenDown = box.scrollHeight > box.clientHeight + 1 && (own.top < edge.top - 1 || own.bottom > edge.bottom + 1);
+      const hiddenAcross = box.scrollWidth > box.clientWidth + 1 && (own.left < edge.left - 1 || own.right > edge.right + 1);
+      if (hiddenDown || hiddenAcross) return false;
+    }
+    return true;
+  }, view);
+}
+
+/** The texts, among the elements `locator` finds, that are cut short in their own box (an ellipsis, a clipped line). */
+export async function textsCutShort(locator: Locator): Promise<string[]> {
+  return locator.evaluateAll((texts) => texts.filter((t) => t.scrollWidth > t.clientWidth + 1 || t.scrollHeight > t.clientHeight + 1).map((t) => t.textContent ?? ''));
 }
 
 /** Collects page errors so a test can assert the page ran cleanly. */

@@ -64,3 +64,8 @@ export function touchAhead(address: usize, bytes: i32): void {
   for (let o = 0; o < bytes; o += 64) seen |= load<i32>(address + <usize>o);
   store<i32>(TOUCHED, seen);
 }
+
+/** Keeps the words a loop read ahead (`seen`, OR-ed together), so that its loads are not dropped as unused. */
+export function keepTouched(seen: i32): void {
+  store<i32>(TOUCHED, seen);
+}

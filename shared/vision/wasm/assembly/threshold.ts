@@ -1,6 +1,6 @@
 // Thresholds and Otsu's histogram. Masks are float32 0 and 1, written without branches:
 // a compare gives all-ones lanes, ANDed with the bit pattern of 1.0.
-import { align16, at } from './border';
+import { align16, at, keepTouched } from './border';
 import { storeExtremes } from './extremes';
 
 const ONE_BITS: i32 = 0x3f800000;
@@ -140,6 +140,12 @@ function countGroups(src: usize, n: i32, origin: f64, scale: f64, tables: usize,
 const UNIT_SHIFT: i32 = 14;
 /** 2⁹: t + 2⁹ lies in [2⁹, 2¹⁰), where a float32's last bit is worth 2⁻¹⁴. */
 const UNIT_BASE: f32 = 512;
+/**
+ * Values ahead of the group whose line the loop reads (8 KB), so that it is on its way from memory:
+ * WebAssembly has no prefetch instruction, and on a machine whose processor did not fetch this
+ * stream ahead across 4 KB pages the groups' first loads waited on memory (shared/vision/README.md, "Otsu").
+ */
+const READ_AHEAD: i32 = 2048;
 /** Below this t the bin is 0 however t was rounded; a NaN t (bin 0 in double precision too) becomes it. */
 const SURE_ZERO: f32 = 1.0 / 1024;
 /** Above every t of a value within the range (at most 256 and a rounding): t + UNIT_BASE stays below 2¹⁰. */
@@ -178,7 +184,9 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
   const fraction = i16x8.splat(<i16>0x3fff), two = i16x8.splat(2);
   const limit = i16x8.splat(!usable ? <i16>0x7fff : exact ? <i16>0 : <i16>5);
   let p = 0;
+  let seen = 0;
   for (; p + 16 <= n; p += 16) {
+    if (p + READ_AHEAD < n) seen |= load<i32>(at(src, p + READ_AHEAD));
     const ua = units4(src, p, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
     const ub = units4(src, p + 4, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
     const uc = units4(src, p + 8, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
@@ -214,6 +222,7 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
       countStored(tables, spot, pairs);
     }
   }
+  keepTouched(seen);
   return p;
 }
 

@@ -41,6 +41,18 @@ export function useDefectKinds() {
   return useQuery({ queryKey: catalogueKeys.defectKinds(), queryFn: ({ signal }) => listDefectKinds(signal), staleTime: 5 * 60_000 });
 }
 
+/** A defect kind's name as the plant's catalogue gives it; its code until the catalogue has loaded. */
+export function useDefectKindName(): (code: string) => string {
+  const defectKinds = useDefectKinds();
+  return (code) => defectKinds.data?.find((k) => k.code === code)?.name ?? code;
+}
+
+/** A reference photo's label in words: "good", "retake", "unlabelled" or "defective (Chip or notch)". */
+export function useLabelWords(): (image: { label: string; defectKind: string | null }) => string {
+  const kindName = useDefectKindName();
+  return (image) => (image.label === 'defective' ? `defective${image.defectKind ? ` (${kindName(image.defectKind)})` : ''}` : image.label);
+}
+
 export function useReferenceSets() {
   return useQuery({ queryKey: referenceSetKeys.lists(), queryFn: ({ signal }) => listReferenceSets(signal) });
 }

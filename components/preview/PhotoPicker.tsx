@@ -2,7 +2,7 @@
 import { Image, Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import type { ReferenceImage } from '../../shared/api/references';
 import { colors, radius, space } from '../../lib/theme';
-import { useReferenceImages, useReferenceSets } from '../../hooks/useReferenceSets';
+import { useDefectKindName, useLabelWords, useReferenceImages, useReferenceSets } from '../../hooks/useReferenceSets';
 import { AppText } from '../AppText';
 import { ChoiceChips } from '../ChoiceChips';
 import { ErrorState, LoadingState } from '../StateViews';
@@ -17,12 +17,10 @@ interface PhotoPickerProps {
   onPhoto: (image: ReferenceImage) => void;
 }
 
-export function labelText(image: { label: string; defectKind: string | null }): string {
-  return image.label === 'defective' ? `defective${image.defectKind ? ` (${image.defectKind})` : ''}` : image.label;
-}
-
 export function PhotoPicker({ partType, setId, imageId, onSet, onPhoto }: PhotoPickerProps) {
   const sets = useReferenceSets();
+  const labelText = useLabelWords();
+  const kindName = useDefectKindName();
   const images = useReferenceImages(setId, { label: null, defectKind: null, limit: PICKER_PAGE, offset: 0 });
   if (sets.isError) return <ErrorState error={sets.error} onRetry={() => void sets.refetch()} />;
   if (!sets.data) return <LoadingState label="Loading reference sets…" />;
@@ -52,7 +50,10 @@ export function PhotoPicker({ partType, setId, imageId, onSet, onPhoto }: PhotoP
                 style={[styles.photo, selected && styles.selected]}
               >
                 <Image source={{ uri: image.thumbnailUrl ?? image.imageUrl }} style={styles.thumb} resizeMode="cover" />
-                <AppText variant="caption" numberOfLines={1}>{selected ? `✓ ${labelText(image)}` : labelText(image)}</AppText>
+                <AppText variant="caption" numberOfLines={1}>{`${selected ? '✓ ' : ''}${image.label}`}</AppText>
+                {image.label === 'defective' && image.defectKind ? (
+                  <AppText variant="caption" tone="muted" numberOfLines={2}>{kindName(image.defectKind)}</AppText>
+                ) : null}
               </Pressable>
             );
           })}

@@ -8,7 +8,7 @@ import { regionSchema, type Region } from '../../shared/rules/schema';
 import { RuleRunError, type RuleRun } from '../../shared/vision/pipeline';
 import { colors, radius, space } from '../../lib/theme';
 import { useKernelLibrary } from '../../hooks/useKernels';
-import { useReferenceImages } from '../../hooks/useReferenceSets';
+import { useLabelWords, useReferenceImages } from '../../hooks/useReferenceSets';
 import { compareWithServer, useLocalPreview, usePhotoSamples, useServerPreview } from '../../hooks/usePreview';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
@@ -17,7 +17,7 @@ import { ErrorBanner } from '../ErrorBanner';
 import { ErrorState, LoadingState } from '../StateViews';
 import { VerdictMark } from '../inspect/VerdictMark';
 import { MeasurementTable, valueWithUnit } from './MeasurementTable';
-import { PICKER_PAGE, PhotoPicker, labelText } from './PhotoPicker';
+import { PICKER_PAGE, PhotoPicker } from './PhotoPicker';
 import { RegionOverlay, type OverlayRegion } from './RegionOverlay';
 import { SamplingNotice } from './SamplingNotice';
 import { StepCanvas } from './StepCanvas';
@@ -66,6 +66,7 @@ function stepOutputs(run: RuleRun) {
 export function PreviewPanel(props: PreviewPanelProps) {
   const { document, changedAt, partType, smallestDefectMm, stations, stationId, onStation, target, onTarget, regions, drawing, onRegionDrawn } = props;
   const kernels = useKernelLibrary();
+  const labelText = useLabelWords();
   const station = stations.find((s) => s.id === stationId) ?? null;
   const setImages = useReferenceImages(target.setId, { label: null, defectKind: null, limit: PICKER_PAGE, offset: 0 });
   const image = setImages.data?.items.find((i) => i.id === target.imageId) ?? null;
@@ -107,7 +108,9 @@ export function PreviewPanel(props: PreviewPanelProps) {
       <SamplingNotice smallestDefectMm={smallestDefectMm} mmPerPx={station?.mmPerPx ?? null} stationName={station ? `${station.lineName} · ${station.name}` : null} />
 
       {!image ? (
-        <AppText tone="muted">Choose a reference photo above to see every step of the rule on it.</AppText>
+        <AppText tone="muted">
+          {target.setId ? 'Choose a reference photo above to see every step of the rule on it.' : 'Choose a reference set above, then one of its photos, to see every step of the rule on it.'}
+        </AppText>
       ) : samples.isError ? (
         <ErrorState error={samples.error} onRetry={() => void samples.refetch()} />
       ) : !samples.data ? (

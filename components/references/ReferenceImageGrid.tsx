@@ -2,7 +2,7 @@
 import { Image, Pressable, StyleSheet, View } from 'react-native';
 import type { ReferenceImage } from '../../shared/api/references';
 import { colors, radius, space } from '../../lib/theme';
-import { useDefectKinds } from '../../hooks/useReferenceSets';
+import { useDefectKindName } from '../../hooks/useReferenceSets';
 import { AppText } from '../AppText';
 
 const LABEL_MARKS: Record<ReferenceImage['label'], string> = { good: '✓ good', defective: '✕ defective', retake: '↻ retake', unlabelled: '? unlabelled' };
@@ -15,9 +15,7 @@ interface ReferenceImageGridProps {
 }
 
 export function ReferenceImageGrid({ images, selecting, selected, onPress }: ReferenceImageGridProps) {
-  // The defect kind's name as the engineer chose it; its code until the list has loaded.
-  const defectKinds = useDefectKinds();
-  const kindName = (code: string) => defectKinds.data?.find((k) => k.code === code)?.name ?? code;
+  const kindName = useDefectKindName();
   return (
     <View style={styles.grid}>
       {images.map((image) => {

@@ -2,14 +2,11 @@
 import { Image, StyleSheet, View } from 'react-native';
 import type { TrialResult } from '../../shared/api/trials';
 import { colors, radius, space } from '../../lib/theme';
+import { useLabelWords } from '../../hooks/useReferenceSets';
 import { useTrialResults } from '../../hooks/useTrials';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { ErrorState, LoadingState } from '../StateViews';
-
-function labelWord(r: TrialResult): string {
-  return r.label === 'defective' ? `defective${r.defectKind ? ` (${r.defectKind})` : ''}` : r.label;
-}
 
 function ResultRow({ result, detail, onOpen }: { result: TrialResult; detail: string; onOpen?: () => void }) {
   return (
@@ -26,6 +23,7 @@ function ResultRow({ result, detail, onOpen }: { result: TrialResult; detail: st
 
 export function MisjudgedPhotos({ trialId, onOpen }: { trialId: string; onOpen: (imageId: string) => void }) {
   const results = useTrialResults(trialId, { outcome: 'misjudged', sort: 'file', limit: 50, offset: 0 });
+  const labelWord = useLabelWords();
   if (results.isError) return <ErrorState error={results.error} onRetry={() => void results.refetch()} />;
   if (!results.data) return <LoadingState label="Loading misjudged photos…" />;
   if (results.data.items.length === 0) return <AppText tone="notice">✓ The rule agreed with every labelled photo.</AppText>;

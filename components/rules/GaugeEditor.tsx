@@ -11,7 +11,7 @@ import { ChoiceChips } from '../ChoiceChips';
 import { TextField } from '../TextField';
 import { NumberField } from './NumberField';
 import type { EditorAction, EditorGauge, EditorStep } from './ruleEditorState';
-import { MASK_MEASURES, outputsMask, STEP_DESCRIPTIONS } from './stepCatalogue';
+import { MASK_MEASURES, outputsMask, STEP_DESCRIPTIONS, stepNames } from './stepCatalogue';
 
 export const MEASURE_LABELS: Record<GaugeMeasure, string> = {
   'edge-fraction': 'Share of mask pixels',
@@ -42,6 +42,7 @@ function defaultRegion(shape: Region['shape']): Region {
 
 export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatch }: GaugeEditorProps) {
   const enabled = steps.filter((s) => s.enabled);
+  const names = stepNames(enabled.map((s) => s.step));
   const addGauge = () => {
     let n = gauges.length + 1;
     while (gauges.some((g) => g.gauge.name === `Gauge ${n}`)) n += 1;
@@ -89,8 +90,8 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
             <ChoiceChips
               label="Measured on"
               choices={[
-                { value: '', label: 'The last step' },
-                ...enabled.slice(0, -1).map((s, i) => ({ value: s.key, label: `Step ${i + 1}: ${STEP_DESCRIPTIONS[s.step.op].title}` })),
+                { value: '', label: enabled.length > 0 ? `The last step (${names[names.length - 1]})` : 'The photo (no steps)' },
+                ...enabled.slice(0, -1).map((s, i) => ({ value: s.key, label: names[i] })),
               ]}
               value={entry.stepKey && enabled.some((s) => s.key === entry.stepKey) ? entry.stepKey : ''}
               onChange={(key) => change({}, key === '' ? null : key)}

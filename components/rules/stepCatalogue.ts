@@ -74,6 +74,15 @@ export function describeStep(step: Step): string {
   }
 }
 
+/**
+ * "Step n: Title" for each step in order; where two steps share a title each also carries its
+ * summary ("Step 2: Kernel, library kernel “gaussian-5”"), so that a choice among them is plain.
+ */
+export function stepNames(steps: readonly Step[]): string[] {
+  const titles = steps.map((s) => STEP_DESCRIPTIONS[s.op].title);
+  return steps.map((s, i) => `Step ${i + 1}: ${titles[i]}${titles.filter((t) => t === titles[i]).length > 1 ? `, ${describeStep(s)}` : ''}`);
+}
+
 /** Measures that count a mask's pixels or its blobs (DESIGN.md: edge fraction and blobs are of a mask's non-zero pixels). */
 export const MASK_MEASURES = ['edge-fraction', 'blob-count', 'largest-blob-area', 'largest-blob-length'] as const;
 

@@ -15,6 +15,8 @@ interface ButtonProps {
   accessibilityLabel?: string;
   accessibilityHint?: string;
   compact?: boolean;
+  /** For a button that shows and hides a part of the screen: whether that part is shown now. */
+  expanded?: boolean;
   style?: StyleProp<ViewStyle>;
   testID?: string;
 }
@@ -35,6 +37,7 @@ export function Button({
   accessibilityLabel,
   accessibilityHint,
   compact = false,
+  expanded,
   style,
   testID,
 }: ButtonProps) {
@@ -45,7 +48,8 @@ export function Button({
       accessibilityRole="button"
       accessibilityLabel={accessibilityLabel ?? label}
       accessibilityHint={accessibilityHint}
-      accessibilityState={{ disabled: inactive, busy }}
+      accessibilityState={{ disabled: inactive, busy, expanded }}
+      aria-expanded={expanded}
       disabled={inactive}
       onPress={onPress}
       testID={testID}

@@ -2,11 +2,12 @@
 // other (below on a phone), trials and submission underneath. Saves through the server, which names
 // every problem by its path; the same schema marks problems here as they are typed.
 import { useCallback, useMemo, useReducer, useState } from 'react';
-import { StyleSheet, View } from 'react-native';
+import { ScrollView, StyleSheet, View, useWindowDimensions } from 'react-native';
 import type { RuleDetail, RuleVersion } from '../../shared/api/rules';
 import type { FieldIssue } from '../../shared/api/errors';
 import { validateRuleDocument, type Region } from '../../shared/rules/schema';
 import { ApiError } from '../../lib/api';
+import { stickyColumnStyle, stickyStyle } from '../../lib/sticky';
 import { colors, radius, space } from '../../lib/theme';
 import { useKernels } from '../../hooks/useKernels';
 import { useLayout } from '../../hooks/useLayout';
@@ -44,6 +45,11 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   const [stationId, setStationId] = useState<string | null>(null);
   const [target, setTarget] = useState<PreviewTarget>({ setId: null, imageId: null });
   const [notice, setNotice] = useState<string | null>(null);
+  // The toolbar stays at the top of the screen; on a wide screen the preview column stays in sight
+  // under it and scrolls on its own, so that the picture follows the step being edited.
+  const [toolbarHeight, setToolbarHeight] = useState(0);
+  const { height: windowHeight } = useWindowDimensions();
+  const previewTop = toolbarHeight + space.md;
 
   const dispatch = useCallback((action: EditorAction) => {
     // The moment of the change, from which the preview's update time is measured.
@@ -133,7 +139,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
 
   return (
     <View style={styles.editor}>
-      <View style={styles.toolbar} role="toolbar" aria-label="Draft">
+      <View style={[styles.toolbar, stickyStyle(0)]} role="toolbar" aria-label="Draft" onLayout={(e) => setToolbarHeight(e.nativeEvent.layout.height)}>
         <AppText variant="bodyStrong" style={styles.grow} role="status" aria-live="polite">
           {unsaved ? `✎ Version ${version.number} (draft) has unsaved changes` : `Version ${version.number} (draft) · saved`}
         </AppText>
@@ -150,7 +156,9 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
       {layout === 'wide' ? (
         <View style={styles.columns}>
           <View style={styles.left}>{editor}</View>
-          <View style={styles.right}>{preview}</View>
+          <View style={[styles.right, stickyColumnStyle(previewTop, windowHeight, space.lg)]}>
+            <ScrollView accessibilityLabel="Live preview column" contentContainerStyle={styles.previewScroll}>{preview}</ScrollView>
+          </View>
         </View>
       ) : (
         <>
@@ -192,4 +200,5 @@ const styles = StyleSheet.create({
   left: { flex: 5, minWidth: 0 },
   right: { flex: 6, minWidth: 0 },
   column: { gap: space.lg },
+  previewScroll: { paddingBottom: space.xs },
 });

@@ -1,4 +1,6 @@
 // The pipeline: steps in order, each with its parameters; add, reorder, duplicate, remove and disable.
+// A saved step shows its one-line summary until it is opened for editing, so that a long pipeline
+// reads as a list on a phone; a step added here, or one with a problem, opens by itself.
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { STEP_OPS } from '../../shared/rules/schema';
@@ -23,9 +25,26 @@ interface PipelineEditorProps {
 
 export function PipelineEditor({ steps, kernels, canSaveKernel, issues, dispatch }: PipelineEditorProps) {
   const [adding, setAdding] = useState<StepOp>('gaussian');
+  const [savedKeys] = useState(() => new Set(steps.map((s) => s.key)));
+  const [chosen, setChosen] = useState<Record<string, boolean>>({});
+  const hasIssues = (key: string) => (issues.get(key) ?? []).length > 0;
+  const isOpen = (entry: EditorStep) => entry.enabled && (hasIssues(entry.key) || (chosen[entry.key] ?? !savedKeys.has(entry.key)));
+  const openable = steps.filter((s) => s.enabled);
+  const allOpen = openable.length > 0 && openable.every(isOpen);
+  const showAll = (open: boolean) => setChosen(Object.fromEntries(openable.map((s) => [s.key, open])));
   let enabledNumber = 0;
   return (
     <View style={styles.list}>
+      {openable.length > 1 ? (
+        <Button
+          label={allOpen ? 'Close every step' : 'Open every step'}
+          compact
+          variant="quiet"
+          expanded={allOpen}
+          style={styles.start}
+          onPress={() => showAll(!allOpen)}
+        />
+      ) : null}
       {steps.length === 0 ? <AppText tone="muted">No steps yet: the gauges would measure the photo itself. Add a step below.</AppText> : null}
       {steps.map((entry, index) => {
         if (entry.enabled) enabledNumber += 1;
@@ -35,6 +54,8 @@ export function PipelineEditor({ steps, kernels, canSaveKernel, issues, dispatch
         const errorOf = (field: string) => stepIssues.find((i) => i.path === field || i.path.startsWith(`${field}[`) || i.path.startsWith(`${field}.`))?.message;
         const unplaced = stepIssues.filter((i) => !['sigma', 'size', 'value', 'c', 'radius', 'divisor', 'offset', 'matrix'].some((f) => i.path === f || i.path.startsWith(`${f}[`)));
         const name = `${number ? `Step ${number}` : 'Disabled step'}: ${description.title}`;
+        const open = isOpen(entry);
+        const held = open && stepIssues.length > 0;
         return (
           <Card key={entry.key} style={[styles.step, !entry.enabled && styles.disabled]} accessibilityLabel={name}>
             <View style={styles.header}>
@@ -45,14 +66,31 @@ export function PipelineEditor({ steps, kernels, canSaveKernel, issues, dispatch
                 </AppText>
               </View>
               <View style={styles.tools}>
+                {entry.enabled ? (
+                  <Button
+                    label={open ? 'Done' : 'Edit'}
+                    compact
+                    variant="quiet"
+                    expanded={open}
+                    disabled={held}
+                    accessibilityLabel={`${open ? 'Done editing' : 'Edit'} ${name}`}
+                    accessibilityHint={held ? 'Stays open while a setting has a problem' : undefined}
+                    onPress={() => setChosen((c) => ({ ...c, [entry.key]: !open }))}
+                  />
+                ) : null}
                 <Button label="↑" compact variant="quiet" accessibilityLabel={`Move ${name} up`} disabled={index === 0} onPress={() => dispatch({ type: 'move-step', key: entry.key, by: -1 })} />
                 <Button label="↓" compact variant="quiet" accessibilityLabel={`Move ${name} down`} disabled={index === steps.length - 1} onPress={() => dispatch({ type: 'move-step', key: entry.key, by: 1 })} />
-                <Button label="Duplicate" compact variant="quiet" accessibilityLabel={`Duplicate ${name}`} onPress={() => dispatch({ type: 'duplicate-step', key: entry.key })} />
-                <Button label={entry.enabled ? 'Disable' : 'Enable'} compact variant="quiet" accessibilityLabel={`${entry.enabled ? 'Disable' : 'Enable'} ${name}`} onPress={() => dispatch({ type: 'toggle-step', key: entry.key })} />
-                <Button label="Remove" compact variant="quiet" accessibilityLabel={`Remove ${name}`} onPress={() => dispatch({ type: 'remove-step', key: entry.key })} />
+                {/* A closed step offers what a list needs (open, reorder); the rest waits behind Edit. */}
+                {open || !entry.enabled ? (
+                  <>
+                    <Button label="Duplicate" compact variant="quiet" accessibilityLabel={`Duplicate ${name}`} onPress={() => dispatch({ type: 'duplicate-step', key: entry.key })} />
+                    <Button label={entry.enabled ? 'Disable' : 'Enable'} compact variant="quiet" accessibilityLabel={`${entry.enabled ? 'Disable' : 'Enable'} ${name}`} onPress={() => dispatch({ type: 'toggle-step', key: entry.key })} />
+                    <Button label="Remove" compact variant="quiet" accessibilityLabel={`Remove ${name}`} onPress={() => dispatch({ type: 'remove-step', key: entry.key })} />
+                  </>
+                ) : null}
               </View>
             </View>
-            {entry.enabled ? (
+            {open ? (
               <StepParameters step={entry.step} kernels={kernels} canSaveKernel={canSaveKernel} errorOf={errorOf} onChange={(step) => dispatch({ type: 'change-step', key: entry.key, step })} />
             ) : null}
             {unplaced.map((issue) => (

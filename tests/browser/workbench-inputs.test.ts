@@ -436,6 +436,10 @@ describe('at phone width', () => {
     const errors = watchErrors(page);
     await signIn(page);
     await page.goto(`${product.url}/rules/${rule.id}`);
+    // A saved step shows its summary until it is opened.
+    await page.getByText('15×15 matrix ÷ 1').waitFor();
+    expect(await page.getByLabel('Weights, 15 rows by 15 columns').count()).toBe(0);
+    await page.getByRole('button', { name: 'Edit Step 2: Kernel' }).click();
     const grid = page.getByLabel('Weights, 15 rows by 15 columns');
     await grid.waitFor();
     for (const size of ['Rows', 'Columns']) expect(await page.getByRole('radiogroup', { name: size }).getByRole('radio', { name: '15' }).getAttribute('aria-checked')).toBe('true');

@@ -1,9 +1,10 @@
 // The engineer's workbench in a real browser against the real server: build a rule from scratch,
 // see the live preview's verdict on a reference photo (and the server agreeing), run a trial, read
-// its figures and submit the draft for review at wide width; the rules list, a rule page and a trial's
-// figures on a phone.
+// its figures and submit the draft for review at wide width, the preview staying beside the step
+// being edited; the rules list, a rule page, its pipeline as a list of steps and a trial's figures on
+// a phone.
 import type { BrowserContext, Page } from 'playwright-core';
-import { launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
+import { inSight, launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 jest.setTimeout(600_000);
 
@@ -17,6 +18,25 @@ beforeAll(async () => {
 afterAll(() => product?.close());
 
 const signIn = (page: Page, username: string) => signInAs(page, product.url, username);
+
+/**
+ * The demo bracket rule's page for the engineer, in a browser of its own (a test before may have left
+ * someone signed in); the caller closes `own`.
+ */
+async function demoRuleInOwnBrowser(viewport: { width: number; height: number }): Promise<{ own: BrowserContext; page: Page; errors: string[] }> {
+  const own = await launchBrowser(viewport);
+  try {
+    const page = await own.newPage();
+    const errors = watchErrors(page);
+    await signIn(page, 'engineer');
+    await page.goto(`${product.url}/rules`);
+    await page.getByRole('link', { name: 'Open rule Bracket hole and edge check' }).click();
+    return { own, page, errors };
+  } catch (e) {
+    await own.close();
+    throw e;
+  }
+}
 
 describe('at wide width', () => {
   let browser: BrowserContext;
@@ -45,7 +65,7 @@ describe('at wide width', () => {
     await page.getByRole('radio', { name: 'Median' }).click();
     await page.getByRole('button', { name: 'Add Median' }).click();
     await page.getByLabel('Size (px)').fill('5');
-    await page.getByText('Step 5: Median').waitFor();
+    await page.getByText('Step 5: Median', { exact: true }).waitFor();
     await page.getByRole('button', { name: 'Add a gauge' }).click();
     await page.getByLabel('Gauge name').nth(1).fill('Largest mark');
     await page.getByLabel('Highest allowed (px²)').fill('400000');
@@ -88,6 +108,29 @@ describe('at wide width', () => {
     expect(errors).toEqual([]);
     await page.close();
   });
+  test('the live preview stays in sight beside the gauge being edited, and so does the draft’s Save', async () => {
+    const { own, page, errors } = await demoRuleInOwnBrowser(WIDE);
+    try {
+      await page.getByRole('radio', { name: /reference photos/ }).first().click();
+      await page.getByRole('radio', { name: /^Photo / }).first().click();
+      await page.getByRole('radio', { name: /Press 3 exit/ }).first().click();
+      const verdict = page.getByRole('heading', { name: /^Preview verdict: (PASS|FAIL|RETAKE)$/ });
+      await verdict.waitFor({ timeout: 60_000 });
+      // The photos' tiles name each defect kind as the plant's catalogue does, not by its code.
+      expect(await page.getByRole('radio', { name: /^Photo .*, defective \([A-Z][a-z ]+\)$/ }).count()).toBeGreaterThan(0);
+      expect(await page.getByRole('radio', { name: /, defective \([a-z]+(-[a-z]+)+\)$/ }).count()).toBe(0);
+      // Far down the editor: the last gauge's region choice, below every step and the other gauges.
+      const region = page.getByRole('radiogroup', { name: 'Region' }).last();
+      await region.scrollIntoViewIfNeeded();
+      expect(await inSight(region)).toBe(true);
+      expect(await inSight(verdict)).toBe(true);
+      expect(await inSight(page.getByRole('button', { name: 'Save draft' }))).toBe(true);
+      await screenshot(page, 'workbench-preview-beside-gauges-wide');
+      expect(errors).toEqual([]);
+    } finally {
+      await own.close();
+    }
+  });
 });
 
 describe('at phone width', () => {
@@ -116,14 +159,38 @@ describe('at phone width', () => {
     await page.close();
   });
 
+  test('a saved pipeline reads as a list of steps on a phone: each opens for editing, and Save stays in sight', async () => {
+    const { own, page, errors } = await demoRuleInOwnBrowser(PHONE);
+    try {
+      // The demo draft's second step is a library kernel: its summary shows, its settings wait.
+      await page.getByText('library kernel “gaussian-5”').first().waitFor();
+      const edit = page.getByRole('button', { name: 'Edit Step 2: Kernel' });
+      expect(await edit.getAttribute('aria-expanded')).toBe('false');
+      expect(await page.getByRole('radiogroup', { name: 'Kernel', exact: true }).count()).toBe(0);
+      await edit.click();
+      const done = page.getByRole('button', { name: 'Done editing Step 2: Kernel' });
+      expect(await done.getAttribute('aria-expanded')).toBe('true');
+      expect(await page.getByRole('radiogroup', { name: 'Kernel', exact: true }).count()).toBe(1);
+      expect(await page.getByRole('radio', { name: 'gaussian-5', exact: true }).getAttribute('aria-checked')).toBe('true');
+      // Two kernel steps: a gauge's choice of step names each by its kernel as well.
+      await page.getByRole('radio', { name: 'Step 3: Kernel, library kernel “sharpen”' }).first().waitFor();
+      // Choosing another kernel marks the draft changed; Save is still in sight down the page.
+      await page.getByRole('radio', { name: 'gaussian-7', exact: true }).click();
+      const adder = page.getByText('Add a step', { exact: true });
+      await adder.scrollIntoViewIfNeeded();
+      await page.getByText(/has unsaved changes/).waitFor();
+      expect(await inSight(page.getByRole('button', { name: 'Save draft' }))).toBe(true);
+      await screenshot(page, 'workbench-pipeline-list-phone');
+      await done.click();
+      expect(await page.getByRole('radiogroup', { name: 'Kernel', exact: true }).count()).toBe(0);
+      expect(errors).toEqual([]);
+    } finally {
+      await own.close();
+    }
+  });
+
   test('a trial of the demo draft runs on a phone and its confusion table fits the screen', async () => {
-    // A browser of its own: the test before left the engineer signed in.
-    const own = await launchBrowser(PHONE);
-    const page = await own.newPage();
-    const errors = watchErrors(page);
-    await signIn(page, 'engineer');
-    await page.goto(`${product.url}/rules`);
-    await page.getByRole('link', { name: 'Open rule Bracket hole and edge check' }).click();
+    const { own, page, errors } = await demoRuleInOwnBrowser(PHONE);
     await page.getByText('Live preview').waitFor();
     // Its gauges are in mm: a calibrated station chosen in the preview gives the trial its scale.
     await page.getByRole('radio', { name: /reference photos/ }).first().click();

@@ -140,7 +140,7 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
           {mmPerPx !== null ? (
             <>
               <AppText variant="heading">{formatScale(mmPerPx)}</AppText>
-              <AppText>{`Quantisation uncertainty of one pixel, s/√12 = ±${Number(pixelQuantisationUncertaintyMm(mmPerPx).toPrecision(3))} mm`}</AppText>
+              <AppText>{`Standard uncertainty from one pixel’s quantisation, u = s/√12 = ${Number(pixelQuantisationUncertaintyMm(mmPerPx).toPrecision(3))} mm`}</AppText>
               <AppText variant="caption" tone="muted">{`${referenceLengthMm} mm over ${distancePx} px. One pixel is ${Number(mmPerPx.toPrecision(4))} mm wide here.`}</AppText>
             </>
           ) : (

@@ -12,7 +12,7 @@ export function CalibrationSummary({ station }: { station: Station }) {
   return (
     <>
       <AppText variant="bodyStrong">
-        {`${formatScale(station.mmPerPx)} · quantisation ±${Number((station.quantisationUncertaintyMm ?? 0).toPrecision(3))} mm`}
+        {`${formatScale(station.mmPerPx)} · quantisation u = ${Number((station.quantisationUncertaintyMm ?? 0).toPrecision(3))} mm`}
       </AppText>
       <AppText variant="caption" tone="muted">
         {station.calibratedAt ? `Calibrated by ${station.calibratedBy ?? 'unknown'} on ${formatDate(station.calibratedAt)}` : 'Calibration date not recorded'}

@@ -23,8 +23,10 @@ const BLOCK_MM = 10;
 // REFERENCES.md §8 (calibration basics, worked example): 10.00 mm over 400.0 px is 0.025 mm/px.
 const EXPECTED_SCALE = '0.025 mm/px';
 // One pixel's quantisation, s/√12 (GUM JCGM 100:2008 §F.2.2.1, rectangular distribution; from memory):
-// 0.025 / 3.4641 = 0.0072169 mm, shown to three significant figures.
-const EXPECTED_UNCERTAINTY = '±0.00722 mm';
+// 0.025 / 3.4641 = 0.0072169 mm, shown to three significant figures, written "u = …" and not "±…": the
+// GUM keeps ± for an interval of stated coverage (JCGM 100:2008 §7.2.2; from memory).
+const EXPECTED_UNCERTAINTY_MM = '0.00722 mm';
+const EXPECTED_UNCERTAINTY = `u = ${EXPECTED_UNCERTAINTY_MM}`;
 
 let product: RunningProduct;
 let photoFile: string;
@@ -110,9 +112,9 @@ describe.each([
     await tapPhotoAt(page, BLOCK.right - 6, 452);
     await page.getByText(/^✓ A and B moved onto the edges nearest your taps/).waitFor();
     expect(await page.getByLabel('Distance between the two edges (px)').inputValue()).toBe('400.0');
-    const result = page.getByRole('status').filter({ hasText: 'Quantisation uncertainty' });
+    const result = page.getByRole('status').filter({ hasText: 'Standard uncertainty from one pixel’s quantisation' });
     await result.getByText(EXPECTED_SCALE, { exact: true }).waitFor();
-    await result.getByText(`Quantisation uncertainty of one pixel, s/√12 = ${EXPECTED_UNCERTAINTY}`).waitFor();
+    await result.getByText(`Standard uncertainty from one pixel’s quantisation, u = s/√12 = ${EXPECTED_UNCERTAINTY_MM}`).waitFor();
     await result.scrollIntoViewIfNeeded();
     await screenshot(page, `stations-calibration-marked-${widthName}`);
 

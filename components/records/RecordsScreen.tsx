@@ -13,6 +13,8 @@ import { Button } from '../Button';
 import { Card } from '../Card';
 import { ChoiceChips } from '../ChoiceChips';
 import { VerdictMark } from '../inspect/VerdictMark';
+import { FilterPanel } from '../FilterPanel';
+import { describeRecordFilters } from './recordFilterSummary';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
@@ -158,7 +160,10 @@ function RecordsList({ params }: { params: LinkParams }) {
         </>
       }
     >
-      <Card style={styles.filters}>
+      <FilterPanel
+        foldable={phone}
+        summary={describeRecordFilters({ verdict, stationName: stations.find((s) => s.value === stationId)?.label ?? null, disputed, from, to })}
+      >
         <ChoiceChips<Verdict | null>
           label="Verdict"
           value={verdict}
@@ -176,8 +181,9 @@ function RecordsList({ params }: { params: LinkParams }) {
           <TextField label="From (YYYY-MM-DD, UTC)" value={from} onChangeText={typeDate(setFrom)} placeholder="2026-11-01" autoCapitalize="none" />
           <TextField label="To (inclusive)" value={to} onChangeText={typeDate(setTo)} placeholder="2026-11-30" autoCapitalize="none" />
         </View>
-        {hasLinked ? <LinkedFiltersNote linked={linked} lineName={lines.data?.find((l) => l.id === linked.lineId)?.name} onClear={() => setLinked({})} /> : null}
-      </Card>
+      </FilterPanel>
+      {/* Outside the panel, so that a folded panel on a phone still says what the link narrowed. */}
+      {hasLinked ? <LinkedFiltersNote linked={linked} lineName={lines.data?.find((l) => l.id === linked.lineId)?.name} onClear={() => setLinked({})} /> : null}
 
       {pages.isPending ? (
         <LoadingState label="Loading inspections…" />
@@ -201,7 +207,6 @@ function RecordsList({ params }: { params: LinkParams }) {
 }
 
 const styles = StyleSheet.create({
-  filters: { gap: space.md },
   dates: { flexDirection: 'row', gap: space.md },
   datesPhone: { flexDirection: 'column' },
   list: { gap: space.xs },

@@ -7,17 +7,20 @@ import { findArea } from '../../lib/navigation';
 import { formatDate, formatPercent } from '../../lib/format';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import { useDebouncedValue } from '../../hooks/useDebouncedValue';
+import { useLayout } from '../../hooks/useLayout';
 import { usePartTypes } from '../../hooks/useReferenceSets';
 import { useRuleList } from '../../hooks/useRules';
 import { useSession } from '../../hooks/useSession';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { ChoiceChips } from '../ChoiceChips';
+import { FilterPanel } from '../FilterPanel';
 import { Pagination } from '../Pagination';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
 import { CreateRuleDialog } from './CreateRuleDialog';
+import { describeRuleFilters } from './ruleFilterSummary';
 import { STATE_WORDS, VersionState } from './VersionState';
 
 const PAGE_SIZE = 20;
@@ -50,6 +53,7 @@ function RuleRow({ rule, partTypeName }: { rule: RuleSummary; partTypeName: stri
 export function RulesList() {
   const { user } = useSession();
   const router = useRouter();
+  const phone = useLayout() === 'phone';
   const partTypes = usePartTypes();
   const [search, setSearch] = useState('');
   const [state, setState] = useState<RuleVersionState | null>(null);
@@ -69,8 +73,8 @@ export function RulesList() {
       subtitle="Inspection rules: a pipeline of image steps, then gauges with limits; versioned from draft to released."
       actions={isEngineer ? <Button label="New rule" onPress={() => setCreating(true)} /> : undefined}
     >
-      <View style={styles.filters}>
-        <TextField label="Search rules" placeholder="Name" value={search} onChangeText={(t) => { setSearch(t); setOffset(0); }} autoCorrect={false} />
+      <TextField label="Search rules" placeholder="Name" value={search} onChangeText={(t) => { setSearch(t); setOffset(0); }} autoCorrect={false} />
+      <FilterPanel summary={describeRuleFilters({ mine, state, partType }, (s) => STATE_WORDS[s].word, nameOf)} foldable={phone}>
         <ChoiceChips
           label="Owner"
           choices={[{ value: false, label: 'Everyone’s rules' }, { value: true, label: 'Rules I created or edited' }]}
@@ -86,7 +90,7 @@ export function RulesList() {
         {partTypes.data ? (
           <ChoiceChips label="Part type" choices={[{ value: null, label: 'Any' }, ...partTypes.data.map((p) => ({ value: p.code, label: p.name }))]} value={partType} onChange={(v) => { setPartType(v); setOffset(0); }} />
         ) : null}
-      </View>
+      </FilterPanel>
       {list.isError && !list.data ? (
         <ErrorState error={list.error} onRetry={() => void list.refetch()} />
       ) : !list.data ? (
@@ -111,7 +115,6 @@ export function RulesList() {
 }
 
 const styles = StyleSheet.create({
-  filters: { gap: space.md, padding: space.lg, borderRadius: radius.lg, backgroundColor: colors.surfaceSunken },
   results: { gap: space.sm },
   stale: { opacity: 0.6 },
   row: {

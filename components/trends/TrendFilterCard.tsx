@@ -1,12 +1,9 @@
-import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { usePartTypes } from '../../hooks/useReferenceSets';
 import { space } from '../../lib/theme';
 import type { RunRuleSet, TrendBucket, TrendChoices } from '../../shared/api/trends';
-import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { Card } from '../Card';
 import { ChoiceChips } from '../ChoiceChips';
+import { FilterPanel } from '../FilterPanel';
 import { TextField } from '../TextField';
 import { StationChoice } from './StationChoice';
 import { describeTrendFilters, type TrendFilterValues } from './trendFilters';
@@ -22,25 +19,14 @@ interface TrendFilterCardProps {
 
 /** Range, subgroup, run rules, and which rule, line, station and part type the charts cover. */
 export function TrendFilterCard({ value, onChange, choices, foldable }: TrendFilterCardProps) {
-  const [open, setOpen] = useState(!foldable);
   const set = <K extends keyof TrendFilterValues>(key: K, v: TrendFilterValues[K]) => onChange({ ...value, [key]: v });
   const line = choices.lines.find((l) => l.id === value.lineId);
   const problem = rangeProblem(value.range);
   const partTypes = usePartTypes();
   const partTypeName = (code: string) => partTypes.data?.find((t) => t.code === code)?.name ?? code;
 
-  if (foldable && !open) {
-    return (
-      <Card style={styles.folded}>
-        <AppText variant="caption" tone="muted" style={styles.summary}>
-          {describeTrendFilters(value, choices, partTypeName)}
-        </AppText>
-        <Button label="Change filters" variant="secondary" compact onPress={() => setOpen(true)} accessibilityHint="Shows the range, subgroup and filter choices" />
-      </Card>
-    );
-  }
   return (
-    <Card style={styles.card}>
+    <FilterPanel summary={describeTrendFilters(value, choices, partTypeName)} foldable={foldable}>
       <View style={styles.groups}>
         <View style={styles.group}>
           <ChoiceChips<RangePreset>
@@ -93,15 +79,11 @@ export function TrendFilterCard({ value, onChange, choices, foldable }: TrendFil
           <TextField label="Last day (inclusive)" value={value.range.customTo} onChangeText={(t) => set('range', { ...value.range, customTo: t.trim() })} placeholder="2026-11-30" autoCapitalize="none" error={value.range.customFrom && value.range.customTo ? problem ?? undefined : undefined} />
         </View>
       ) : null}
-      {foldable ? <Button label="Done" variant="secondary" onPress={() => setOpen(false)} accessibilityHint="Folds the filters into one line" /> : null}
-    </Card>
+    </FilterPanel>
   );
 }
 
 const styles = StyleSheet.create({
-  card: { gap: space.md },
-  folded: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
-  summary: { flexGrow: 1, flexShrink: 1, flexBasis: 200 },
   dates: { flexDirection: 'row', gap: space.md },
   datesStacked: { flexDirection: 'column' },
   groups: { flexDirection: 'row', flexWrap: 'wrap', columnGap: space.xl, rowGap: space.md },

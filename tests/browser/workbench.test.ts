@@ -147,6 +147,10 @@ describe('at phone width', () => {
     await page.goto(`${product.url}/rules`);
     const link = page.getByRole('link', { name: 'Open rule Bracket hole and edge check' });
     await link.waitFor();
+    // The search stays; the other filters fold into one line that says what is chosen.
+    await page.getByLabel('Search rules').waitFor();
+    await page.getByText('Everyone’s rules · latest version in any state · every part type').waitFor();
+    expect(await page.getByRole('radiogroup', { name: 'Owner' }).count()).toBe(0);
     await screenshot(page, 'workbench-rules-phone');
     const box = await link.boundingBox();
     expect(box!.width).toBeLessThanOrEqual(PHONE.width);

@@ -1,0 +1,20 @@
+// The records list's filters in words, for the line they fold into on a phone.
+
+export interface RecordFilterChoice {
+  verdict: 'PASS' | 'FAIL' | 'RETAKE' | null;
+  stationName: string | null;
+  disputed: boolean | null;
+  /** Typed days, YYYY-MM-DD, or '' for open. */
+  from: string;
+  to: string;
+}
+
+/** "FAIL only · Press 3 exit · disputed or not · 2026-11-01 to 2026-11-30". */
+export function describeRecordFilters(choice: RecordFilterChoice): string {
+  return [
+    choice.verdict ? `${choice.verdict} only` : 'Every verdict',
+    choice.stationName ?? 'all stations',
+    choice.disputed === null ? 'disputed or not' : choice.disputed ? 'disputed only' : 'not disputed',
+    choice.from || choice.to ? `${choice.from || '…'} to ${choice.to || '…'}` : 'any day',
+  ].join(' · ');
+}

@@ -67,7 +67,6 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   }, [document]);
   const { byKey, general } = issuesByKey(state, [...localIssues, ...serverIssues]);
   const stations = (lines.data ?? []).flatMap((l) => l.stations);
-  const station = stations.find((s) => s.id === stationId) ?? null;
 
   const drawingGauge = state.gauges.find((g) => g.key === drawingKey);
   const drawing = drawingGauge?.gauge.region ? { key: drawingGauge.key, shape: drawingGauge.gauge.region.shape, index: state.gauges.indexOf(drawingGauge) } : null;
@@ -171,8 +170,9 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
         <TrialPanel
           version={version}
           partType={rule.partType}
+          stations={stations}
           stationId={stationId}
-          stationName={station ? `${station.lineName} · ${station.name}` : null}
+          onStation={setStationId}
           unsaved={unsaved}
           gauges={state.gauges}
           onPickLimit={(gaugeName, bound, value) => dispatch({ type: 'set-limit', gaugeName, bound, value })}

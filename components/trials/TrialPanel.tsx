@@ -3,6 +3,7 @@
 import { useEffect, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { RuleVersion } from '../../shared/api/rules';
+import type { Station } from '../../shared/api/stations';
 import type { Trial } from '../../shared/api/trials';
 import { colors, radius, space } from '../../lib/theme';
 import { useReferenceSets } from '../../hooks/useReferenceSets';
@@ -21,8 +22,10 @@ import { MisjudgedPhotos, SlowestPhotos } from './TrialImages';
 interface TrialPanelProps {
   version: RuleVersion;
   partType: string;
+  /** The plant's stations: a calibrated one gives gauges in mm their scale (shared with the preview). */
+  stations: Station[];
   stationId: string | null;
-  stationName: string | null;
+  onStation: (id: string | null) => void;
   /** The editor holds changes the saved version does not have yet. */
   unsaved: boolean;
   gauges: EditorGauge[];
@@ -47,7 +50,7 @@ function ProgressBar({ done, total, label }: { done: number; total: number; labe
   );
 }
 
-export function TrialPanel({ version, partType, stationId, stationName, unsaved, gauges, onPickLimit, onOpenInPreview, onSubmitted }: TrialPanelProps) {
+export function TrialPanel({ version, partType, stations, stationId, onStation, unsaved, gauges, onPickLimit, onOpenInPreview, onSubmitted }: TrialPanelProps) {
   const sets = useReferenceSets();
   const trials = useTrialsOfVersion(version.id);
   const start = useStartTrial();
@@ -72,6 +75,8 @@ export function TrialPanel({ version, partType, stationId, stationName, unsaved,
   const done = trial.data?.state === 'done' ? trial.data : undefined;
   const sweep = useLimitSweep(done?.id ?? null, gaugeName, bound);
   const needsMm = gauges.some((g) => g.gauge.unit === 'mm' || g.gauge.unit === 'mm2');
+  const calibrated = stations.filter((st) => st.active && st.mmPerPx);
+  const station = stations.find((st) => st.id === stationId) ?? null;
 
   const foreseenRefusal = unsaved
     ? 'The editor has changes that are not saved; the saved version is what goes to review.'
@@ -99,15 +104,23 @@ export function TrialPanel({ version, partType, stationId, stationName, unsaved,
       ) : (
         <ChoiceChips label="Reference set for the trial" choices={offered.map((s) => ({ value: s.id, label: `${s.name} (${s.counts.good} good, ${s.counts.defective} defective)` }))} value={chosenSet ?? ''} onChange={setSetId} />
       )}
+      {needsMm ? (
+        <ChoiceChips<string | null>
+          label="Station whose calibration turns px into mm"
+          choices={calibrated.map((st) => ({ value: st.id, label: `${st.lineName} · ${st.name}` }))}
+          value={stationId}
+          onChange={onStation}
+        />
+      ) : null}
       <AppText variant="caption" tone="muted">
-        {stationName ? `Gauges in mm use the calibration of ${stationName} (chosen in the preview).` : needsMm ? 'A gauge is in mm: choose a calibrated station in the preview first.' : 'No station chosen: gauges report pixels.'}
+        {station?.mmPerPx ? `Gauges in mm use ${station.mmPerPx.toPrecision(3)} mm/px, the calibration of ${station.lineName} · ${station.name} (the preview uses it too).` : needsMm ? 'A gauge is in mm: choose a calibrated station above.' : 'Every gauge is in pixels: no station is needed.'}
       </AppText>
       <View style={styles.actions}>
         <Button
           label={running ? 'Trial running…' : 'Run trial'}
           onPress={run}
           busy={start.isPending}
-          disabled={running || unsaved || !chosenSet || (needsMm && !stationId)}
+          disabled={running || unsaved || !chosenSet || (needsMm && !station?.mmPerPx)}
           accessibilityHint="Runs the saved draft on every photo of the reference set, in the background"
         />
         <Button label="Submit for review" variant="secondary" onPress={() => setSubmitting(true)} disabled={running} />

@@ -196,12 +196,17 @@ describe('at phone width', () => {
   test('a trial of the demo draft runs on a phone and its confusion table fits the screen', async () => {
     const { own, page, errors } = await demoRuleInOwnBrowser(PHONE);
     await page.getByText('Live preview').waitFor();
-    // Its gauges are in mm: a calibrated station chosen in the preview gives the trial its scale.
     await page.getByRole('radio', { name: /reference photos/ }).first().click();
     await page.getByRole('radio', { name: /^Photo / }).first().click();
-    await page.getByRole('radio', { name: /Press 3 exit/ }).first().click();
+    // Its gauges are in mm: the trial needs a calibrated station, chosen beside it; the preview uses the same one.
+    const run = page.getByRole('button', { name: 'Run trial' });
+    expect(await run.getAttribute('aria-disabled')).toBe('true');
+    await page.getByRole('radiogroup', { name: 'Station whose calibration turns px into mm' }).getByRole('radio', { name: /Press 3 exit/ }).click();
+    await page.getByText(/^Gauges in mm use 0\.156 mm\/px, the calibration of Line 1 — stamping · Press 3 exit/).waitFor();
+    const previewStation = page.getByRole('radiogroup', { name: 'Station (its calibration turns px into mm)' }).getByRole('radio', { name: /Press 3 exit/ });
+    expect(await previewStation.getAttribute('aria-checked')).toBe('true');
     await page.getByRole('heading', { name: /^Preview verdict: (PASS|FAIL|RETAKE)$/ }).waitFor({ timeout: 60_000 });
-    await page.getByRole('button', { name: 'Run trial' }).click();
+    await run.click();
     // The trial is a queued job; on a loaded machine it may wait for a worker before it runs.
     await page.getByText(/Waiting to start|Running|good parts failed\): /).first().waitFor({ timeout: 60_000 });
     const table = page.getByRole('table', { name: 'Confusion table: labels against verdicts' });

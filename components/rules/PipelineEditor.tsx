@@ -14,6 +14,8 @@ import { ChoiceChips } from '../ChoiceChips';
 import type { EditorAction, EditorStep } from './ruleEditorState';
 import { describeStep, STEP_DESCRIPTIONS, type StepOp } from './stepCatalogue';
 import { StepParameters } from './StepParameters';
+import { EditToggle, OpenAllButton } from './CardToggles';
+import { useOpenCards } from './useOpenCards';
 
 interface PipelineEditorProps {
   steps: EditorStep[];
@@ -25,26 +27,14 @@ interface PipelineEditorProps {
 
 export function PipelineEditor({ steps, kernels, canSaveKernel, issues, dispatch }: PipelineEditorProps) {
   const [adding, setAdding] = useState<StepOp>('gaussian');
-  const [savedKeys] = useState(() => new Set(steps.map((s) => s.key)));
-  const [chosen, setChosen] = useState<Record<string, boolean>>({});
+  const cards = useOpenCards(steps.map((s) => s.key));
   const hasIssues = (key: string) => (issues.get(key) ?? []).length > 0;
-  const isOpen = (entry: EditorStep) => entry.enabled && (hasIssues(entry.key) || (chosen[entry.key] ?? !savedKeys.has(entry.key)));
+  const isOpen = (entry: EditorStep) => entry.enabled && cards.isOpen(entry.key, hasIssues(entry.key));
   const openable = steps.filter((s) => s.enabled);
-  const allOpen = openable.length > 0 && openable.every(isOpen);
-  const showAll = (open: boolean) => setChosen(Object.fromEntries(openable.map((s) => [s.key, open])));
   let enabledNumber = 0;
   return (
     <View style={styles.list}>
-      {openable.length > 1 ? (
-        <Button
-          label={allOpen ? 'Close every step' : 'Open every step'}
-          compact
-          variant="quiet"
-          expanded={allOpen}
-          style={styles.start}
-          onPress={() => showAll(!allOpen)}
-        />
-      ) : null}
+      <OpenAllButton noun="step" count={openable.length} allOpen={openable.every(isOpen)} onPress={(open) => cards.setAll(openable.map((s) => s.key), open)} />
       {steps.length === 0 ? <AppText tone="muted">No steps yet: the gauges would measure the photo itself. Add a step below.</AppText> : null}
       {steps.map((entry, index) => {
         if (entry.enabled) enabledNumber += 1;
@@ -66,18 +56,7 @@ export function PipelineEditor({ steps, kernels, canSaveKernel, issues, dispatch
                 </AppText>
               </View>
               <View style={styles.tools}>
-                {entry.enabled ? (
-                  <Button
-                    label={open ? 'Done' : 'Edit'}
-                    compact
-                    variant="quiet"
-                    expanded={open}
-                    disabled={held}
-                    accessibilityLabel={`${open ? 'Done editing' : 'Edit'} ${name}`}
-                    accessibilityHint={held ? 'Stays open while a setting has a problem' : undefined}
-                    onPress={() => setChosen((c) => ({ ...c, [entry.key]: !open }))}
-                  />
-                ) : null}
+                {entry.enabled ? <EditToggle name={name} open={open} held={held} onPress={(next) => cards.setOpen(entry.key, next)} /> : null}
                 <Button label="↑" compact variant="quiet" accessibilityLabel={`Move ${name} up`} disabled={index === 0} onPress={() => dispatch({ type: 'move-step', key: entry.key, by: -1 })} />
                 <Button label="↓" compact variant="quiet" accessibilityLabel={`Move ${name} down`} disabled={index === steps.length - 1} onPress={() => dispatch({ type: 'move-step', key: entry.key, by: 1 })} />
                 {/* A closed step offers what a list needs (open, reorder); the rest waits behind Edit. */}

@@ -136,11 +136,14 @@ function expectNear(actual: number, expected: number, onePixel: number): void {
 }
 
 /**
- * Chooses the region's shape, which sets its default region (the middle of the photo), and waits
+ * Opens the gauge and chooses the region's shape, which sets its default region (the middle of the photo), and waits
  * for the preview of it (`shownValue`): the new verdict above the photo can move the photo, so the
  * points of a drag are found after it.
  */
 async function chooseShape(page: Page, shape: 'Rectangle' | 'Circle', shownValue: string): Promise<void> {
+  // The saved gauge shows its summary until it is opened (once; it stays open).
+  const edit = page.getByRole('button', { name: `Edit Gauge 1, ${GAUGE}` });
+  if ((await edit.count()) > 0) await edit.click();
   await page.getByRole('radio', { name: shape }).click();
   await expectShownValue(page, shownValue);
 }

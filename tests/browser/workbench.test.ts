@@ -67,7 +67,8 @@ describe('at wide width', () => {
     await page.getByLabel('Size (px)').fill('5');
     await page.getByText('Step 5: Median', { exact: true }).waitFor();
     await page.getByRole('button', { name: 'Add a gauge' }).click();
-    await page.getByLabel('Gauge name').nth(1).fill('Largest mark');
+    // The new gauge opens for editing; the saved one shows its summary.
+    await page.getByLabel('Gauge name').last().fill('Largest mark');
     await page.getByLabel('Highest allowed (px²)').fill('400000');
     await page.getByText(/has unsaved changes/).waitFor();
     await page.getByRole('button', { name: 'Save draft' }).click();
@@ -120,6 +121,7 @@ describe('at wide width', () => {
       expect(await page.getByRole('radio', { name: /^Photo .*, defective \([A-Z][a-z ]+\)$/ }).count()).toBeGreaterThan(0);
       expect(await page.getByRole('radio', { name: /, defective \([a-z]+(-[a-z]+)+\)$/ }).count()).toBe(0);
       // Far down the editor: the last gauge's region choice, below every step and the other gauges.
+      await page.getByRole('button', { name: /^Edit Gauge \d+, / }).last().click();
       const region = page.getByRole('radiogroup', { name: 'Region' }).last();
       await region.scrollIntoViewIfNeeded();
       expect(await inSight(region)).toBe(true);
@@ -176,6 +178,9 @@ describe('at phone width', () => {
       expect(await done.getAttribute('aria-expanded')).toBe('true');
       expect(await page.getByRole('radiogroup', { name: 'Kernel', exact: true }).count()).toBe(1);
       expect(await page.getByRole('radio', { name: 'gaussian-5', exact: true }).getAttribute('aria-checked')).toBe('true');
+      // A saved gauge says what it measures, where and within what limits until it is opened.
+      await page.getByText(/^Largest blob area on Step 4: Threshold · \d+(\.\d+)? to \d+(\.\d+)? mm² · whole photo$/).waitFor();
+      await page.getByRole('button', { name: 'Edit Gauge 1, Plate area' }).click();
       // Two kernel steps: a gauge's choice of step names each by its kernel as well.
       await page.getByRole('radio', { name: 'Step 3: Kernel, library kernel “sharpen”' }).first().waitFor();
       // Choosing another kernel marks the draft changed; Save is still in sight down the page.

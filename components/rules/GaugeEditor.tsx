@@ -86,7 +86,7 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
         };
         const open = isOpen(entry);
         const held = open && (gaugeIssues.length > 0 || drawingKey === entry.key);
-        const measuredName = chosen >= 0 && chosen < enabled.length - 1 ? names[chosen] : enabled.length > 0 ? 'the last step' : 'the photo';
+        const measuredName = chosen >= 0 && chosen < enabled.length - 1 ? names[chosen] : enabled.length > 0 ? `the last step (${names[names.length - 1]})` : 'the photo';
         return (
           <Card key={entry.key} style={styles.gauge} accessibilityLabel={label}>
             <View style={styles.header}>

@@ -180,6 +180,7 @@ describe('at phone width', () => {
       expect(await page.getByRole('radio', { name: 'gaussian-5', exact: true }).getAttribute('aria-checked')).toBe('true');
       // A saved gauge says what it measures, where and within what limits until it is opened.
       await page.getByText(/^Largest blob area on Step 4: Threshold · \d+(\.\d+)? to \d+(\.\d+)? mm² · whole photo$/).waitFor();
+      await page.getByText(/^Highest value on the last step \(Step 5: Laplacian of Gaussian\) · at most /).waitFor();
       await page.getByRole('button', { name: 'Edit Gauge 1, Plate area' }).click();
       // Two kernel steps: a gauge's choice of step names each by its kernel as well.
       await page.getByRole('radio', { name: 'Step 3: Kernel, library kernel “sharpen”' }).first().waitFor();

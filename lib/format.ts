@@ -16,3 +16,8 @@ export function describePage(offset: number, shown: number, total: number): stri
 export function formatPercent(share: number | null | undefined, digits = 1): string {
   return share === null || share === undefined || Number.isNaN(share) ? '—' : `${(share * 100).toFixed(digits)} %`;
 }
+
+/** A station as the screens name it: "Line 1 — stamping · Press 3 exit". */
+export function stationTitle(station: { lineName: string; name: string }): string {
+  return `${station.lineName} · ${station.name}`;
+}

@@ -6,6 +6,7 @@ import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import type { Station } from '../../shared/api/stations';
 import { regionSchema, type Region } from '../../shared/rules/schema';
 import { RuleRunError, type RuleRun } from '../../shared/vision/pipeline';
+import { stationTitle } from '../../lib/format';
 import { colors, radius, space } from '../../lib/theme';
 import { useKernelLibrary } from '../../hooks/useKernels';
 import { useLabelWords, useReferenceImages } from '../../hooks/useReferenceSets';
@@ -101,11 +102,11 @@ export function PreviewPanel(props: PreviewPanelProps) {
       />
       <ChoiceChips
         label="Station (its calibration turns px into mm)"
-        choices={[{ value: '', label: 'None' }, ...stations.filter((s) => s.active).map((s) => ({ value: s.id, label: `${s.lineName} · ${s.name}${s.mmPerPx ? '' : ' (not calibrated)'}` }))]}
+        choices={[{ value: '', label: 'None' }, ...stations.filter((s) => s.active).map((s) => ({ value: s.id, label: `${stationTitle(s)}${s.mmPerPx ? '' : ' (not calibrated)'}` }))]}
         value={stationId ?? ''}
         onChange={(id) => onStation(id === '' ? null : id)}
       />
-      <SamplingNotice smallestDefectMm={smallestDefectMm} mmPerPx={station?.mmPerPx ?? null} stationName={station ? `${station.lineName} · ${station.name}` : null} />
+      <SamplingNotice smallestDefectMm={smallestDefectMm} mmPerPx={station?.mmPerPx ?? null} stationName={station ? stationTitle(station) : null} />
 
       {!image ? (
         <AppText tone="muted">

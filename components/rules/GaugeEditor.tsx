@@ -55,6 +55,8 @@ function defaultRegion(shape: Region['shape']): Region {
 export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatch }: GaugeEditorProps) {
   const enabled = steps.filter((s) => s.enabled);
   const names = stepNames(enabled.map((s) => s.step));
+  // What a gauge measures when no earlier step is chosen: the last step's output, or the photo.
+  const lastStep = enabled.length > 0 ? `last step (${names[names.length - 1]})` : null;
   const cards = useOpenCards(gauges.map((g) => g.key));
   const isOpen = (entry: EditorGauge) => cards.isOpen(entry.key, (issues.get(entry.key) ?? []).length > 0 || drawingKey === entry.key);
   const addGauge = () => {
@@ -86,7 +88,7 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
         };
         const open = isOpen(entry);
         const held = open && (gaugeIssues.length > 0 || drawingKey === entry.key);
-        const measuredName = chosen >= 0 && chosen < enabled.length - 1 ? names[chosen] : enabled.length > 0 ? `the last step (${names[names.length - 1]})` : 'the photo';
+        const measuredName = chosen >= 0 && chosen < enabled.length - 1 ? names[chosen] : lastStep ? `the ${lastStep}` : 'the photo';
         return (
           <Card key={entry.key} style={styles.gauge} accessibilityLabel={label}>
             <View style={styles.header}>
@@ -114,7 +116,7 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
                 <ChoiceChips
                   label="Measured on"
                   choices={[
-                    { value: '', label: enabled.length > 0 ? `The last step (${names[names.length - 1]})` : 'The photo (no steps)' },
+                    { value: '', label: lastStep ? `The ${lastStep}` : 'The photo (no steps)' },
                     ...enabled.slice(0, -1).map((s, i) => ({ value: s.key, label: names[i] })),
                   ]}
                   value={entry.stepKey && enabled.some((s) => s.key === entry.stepKey) ? entry.stepKey : ''}

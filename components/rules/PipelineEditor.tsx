@@ -45,7 +45,7 @@ export function PipelineEditor({ steps, kernels, canSaveKernel, issues, dispatch
         const unplaced = stepIssues.filter((i) => !['sigma', 'size', 'value', 'c', 'radius', 'divisor', 'offset', 'matrix'].some((f) => i.path === f || i.path.startsWith(`${f}[`)));
         const name = `${number ? `Step ${number}` : 'Disabled step'}: ${description.title}`;
         const open = isOpen(entry);
-        const held = open && stepIssues.length > 0;
+        const held = open && hasIssues(entry.key);
         return (
           <Card key={entry.key} style={[styles.step, !entry.enabled && styles.disabled]} accessibilityLabel={name}>
             <View style={styles.header}>

@@ -5,6 +5,7 @@ import { StyleSheet, View } from 'react-native';
 import type { RuleVersion } from '../../shared/api/rules';
 import type { Station } from '../../shared/api/stations';
 import type { Trial } from '../../shared/api/trials';
+import { stationTitle } from '../../lib/format';
 import { colors, radius, space } from '../../lib/theme';
 import { useReferenceSets } from '../../hooks/useReferenceSets';
 import { isTrialRunning, useLimitSweep, useStartTrial, useTrial, useTrialsOfVersion } from '../../hooks/useTrials';
@@ -107,13 +108,13 @@ export function TrialPanel({ version, partType, stations, stationId, onStation, 
       {needsMm ? (
         <ChoiceChips<string | null>
           label="Station whose calibration turns px into mm"
-          choices={calibrated.map((st) => ({ value: st.id, label: `${st.lineName} · ${st.name}` }))}
+          choices={calibrated.map((st) => ({ value: st.id, label: stationTitle(st) }))}
           value={stationId}
           onChange={onStation}
         />
       ) : null}
       <AppText variant="caption" tone="muted">
-        {station?.mmPerPx ? `Gauges in mm use ${station.mmPerPx.toPrecision(3)} mm/px, the calibration of ${station.lineName} · ${station.name} (the preview uses it too).` : needsMm ? 'A gauge is in mm: choose a calibrated station above.' : 'Every gauge is in pixels: no station is needed.'}
+        {station?.mmPerPx ? `Gauges in mm use ${station.mmPerPx.toPrecision(3)} mm/px, the calibration of ${stationTitle(station)} (the preview uses it too).` : needsMm ? 'A gauge is in mm: choose a calibrated station above.' : 'Every gauge is in pixels: no station is needed.'}
       </AppText>
       <View style={styles.actions}>
         <Button

@@ -272,6 +272,8 @@ test('Otsu on large images, which the SIMD engine counts in pairs (from 2¹⁶ p
     return imageFromSamples(w, h, Array.from({ length: w * h }, () => (rand() < 0.01 ? NaN : Math.floor(rand() ** 4 * 300) / 7)));
   };
   const cases: [number, number, () => Image][] = [
+    // Most groups of sixteen below bin 16 (counted as quads), the others with a value above.
+    [1451, 1447, () => lowBins(1451, 1447, 17)],
     // 2 099 601 pixels: one past the last group of sixteen.
     [1449, 1449, () => skewed(1449, 1449, 11)],
     [2048, 1024, () => sampleImage(2048, 1024, 'signed float', 12)],
@@ -309,6 +311,50 @@ test('Otsu\'s histogram counted in pairs of neighbours (as from 2¹⁶ pixels), 
     RUNS,
   );
 });
+
+test('Otsu\'s histogram counted in quads (groups of sixteen whose bins are all below 16, as most of a gradient magnitude\'s): the plain engine\'s counts', () => {
+  // The SIMD kernel counts such a group as four quads of 4-bit bins and any other group in pairs;
+  // the reference is the plain engine's histogram, one pixel at a time.
+  fc.assert(
+    fc.property(imageSize, seed, fc.constantFrom(0, 0.002, 0.05), fc.boolean(), ([w, h], s, highShare, keepBins) => {
+      const image = lowBins(w, h, s, highShare);
+      const hist = onEngine('plain', () => otsuHistogram(image.data));
+      fc.pre(!hist.flat);
+      const simd = simdKernels()!;
+      const paired = onEngine('simd', () => simd.histogram(image, hist.origin, hist.binsPerUnit, keepBins, true));
+      expect(Array.from(paired.counts)).toEqual(Array.from(hist.counts));
+      if (keepBins) {
+        const bins = Array.from(new Uint8Array(simd.heap.memory.buffer, paired.bins!, image.data.length));
+        simd.releaseBlock(paired.bins!);
+        const expected = Array.from(image.data, (v) => (Number.isNaN(v) ? 0 : Math.min(255, Math.trunc((v - hist.origin) * hist.binsPerUnit))));
+        expect(bins).toEqual(expected);
+      }
+    }),
+    RUNS,
+  );
+});
+
+/**
+ * Samples from 0 to 300 (both present) whose bins (300/256 wide) are mostly below 16: values in
+ * bins 0–15, at the edges of bins 15 and 16 and either side of them, and a share `highShare` of
+ * values anywhere up to 300 and NaN.
+ */
+function lowBins(w: number, h: number, s: number, highShare = 0.004): Image {
+  const rand = seededRandom(s);
+  const unit = 300 / 256;
+  const edge16 = 16 * unit;
+  const near = [edge16, float32Above(edge16), -float32Above(-edge16), 15 * unit, 0];
+  const values = Array.from({ length: w * h }, () => {
+    const r = rand();
+    if (r < highShare / 4) return NaN;
+    if (r < highShare) return rand() * 300;
+    if (r < highShare + 0.01) return near[Math.floor(rand() * near.length)];
+    return Math.fround(rand() * 16 * unit);
+  });
+  values[0] = 0;
+  values[values.length - 1] = 300;
+  return imageFromSamples(w, h, values);
+}
 
 /**
  * Values at every bin edge of a range: for k = 1 … 255 the first float32 whose double-precision bin

@@ -58,16 +58,22 @@ const SINGLE_TABLE_BYTES: usize = 4 * 257;
  * forwarded to the next load (shared/vision/README.md, "Otsu").
  */
 const PAIR_TABLE_BYTES: usize = 4 * 256 * 256;
+/**
+ * The table of quad counts, after the pair table: 65,536 int32. A group of sixteen whose bins are all
+ * below 16 (most of a gradient magnitude's groups) is counted as four quads, four bins of four bits
+ * each one 16-bit index, so that one increment counts four pixels (shared/vision/README.md, "Otsu").
+ */
+const QUAD_TABLE_BYTES: usize = 4 * 65536;
 
 /** Scratch bytes `histogram` needs, counting in pairs (pairs = 1) or singly. */
 export function histogramScratchBytes(pairs: i32): i32 {
-  return tableBytes(pairs) + 16 + 16;
+  return tableBytes(pairs) + 32 + 16;
 }
 
-/** Bytes of the tables `histogram` counts in; a spare 16 bytes follow them. */
+/** Bytes of the tables `histogram` counts in; a spare 32 bytes follow them. */
 @inline
 function tableBytes(pairs: i32): i32 {
-  return pairs ? <i32>PAIR_TABLE_BYTES : SINGLE_TABLES * <i32>SINGLE_TABLE_BYTES;
+  return pairs ? <i32>(PAIR_TABLE_BYTES + QUAD_TABLE_BYTES) : SINGLE_TABLES * <i32>SINGLE_TABLE_BYTES;
 }
 
 /**
@@ -111,9 +117,10 @@ function countSingles(src: usize, n: i32, origin: f64, scale: f64, tables: usize
  * two pixels. The table's rows and columns then add up to the bins' counts.
  */
 function countPairs(src: usize, n: i32, origin: f64, scale: f64, tables: usize, spot: usize, bins: usize, counts: usize): i32 {
-  memory.fill(tables, 0, PAIR_TABLE_BYTES);
+  memory.fill(tables, 0, PAIR_TABLE_BYTES + QUAD_TABLE_BYTES);
   const p = countGroups(src, n, origin, scale, tables, spot, bins, true);
   addPairTable(tables, counts);
+  addQuadTable(tables + PAIR_TABLE_BYTES, counts);
   return p;
 }
 
@@ -183,6 +190,8 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
   // double precision, 2¹⁵ − 1 every group.
   const fraction = i16x8.splat(<i16>0x3fff), two = i16x8.splat(2);
   const limit = i16x8.splat(!usable ? <i16>0x7fff : exact ? <i16>0 : <i16>5);
+  // Bins of 16 and above: their group is counted in pairs, the others in quads.
+  const high = i8x16.splat(<i8>0xf0);
   let p = 0;
   let seen = 0;
   for (; p + 16 <= n; p += 16) {
@@ -214,32 +223,74 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
     }
     // The bytes go to the bins (or to a spare spot) and come back as scalars: a load each, where
     // taking a lane out of the vector took a move and a zero extension.
-    if (bins != 0) {
-      v128.store(bins + <usize>p, bytes);
-      countStored(tables, bins + <usize>p, pairs);
-    } else {
-      v128.store(spot, bytes);
-      countStored(tables, spot, pairs);
-    }
+    const stored = bins != 0 ? bins + <usize>p : spot;
+    v128.store(stored, bytes);
+    if (pairs && !v128.any_true(v128.and(bytes, high))) countQuads(tables + PAIR_TABLE_BYTES, spot + 16, bytes);
+    else countStored(tables, stored, pairs);
   }
   keepTouched(seen);
   return p;
 }
 
+/**
+ * Sixteen bins below 16 counted as four quads: quad j, bins b(4j) … b(4j+3), as the 16-bit number
+ * b(4j) + 16·b(4j+1) + 256·b(4j+2) + 4096·b(4j+3), its four nibbles made two bytes at a time in the
+ * 16-bit lanes (byte b(2m) + 16·b(2m+1)), stored at `spot` and read back as scalars.
+ */
+@inline
+function countQuads(quads: usize, spot: usize, bytes: v128): void {
+  const nibblePairs = v128.and(v128.or(bytes, i16x8.shr_u(bytes, 4)), i16x8.splat(0xff));
+  v128.store(spot, i8x16.narrow_i16x8_u(nibblePairs, nibblePairs));
+  count(quads, <i32>load<u16>(spot));
+  count(quads, <i32>load<u16>(spot, 2));
+  count(quads, <i32>load<u16>(spot, 4));
+  count(quads, <i32>load<u16>(spot, 6));
+}
+
+/**
+ * counts[i] += each quad's count once for each of its four bins that is i. Row `high` of 256 quads
+ * shares its last two nibbles (high mod 16, high ÷ 16); the first two (nibble pair q: q mod 16, q ÷ 16)
+ * are summed over the rows first.
+ */
+function addQuadTable(quads: usize, counts: usize): void {
+  const pairs = QUAD_SUMS;
+  memory.fill(pairs, 0, 4 * 256);
+  for (let high = 0; high < 256; high++) {
+    const total = addRow(quads + ((<usize>high) << 10), pairs);
+    addCount(counts, high & 15, total);
+    addCount(counts, high >> 4, total);
+  }
+  for (let q = 0; q < 256; q++) {
+    const c = load<i32>(at(pairs, q));
+    addCount(counts, q & 15, c);
+    addCount(counts, q >> 4, c);
+  }
+}
+
+/** Where `addQuadTable` sums the quads' first two nibbles. */
+const QUAD_SUMS: usize = memory.data(4 * 256, 16);
+
+@inline
+function addCount(counts: usize, bin: i32, c: i32): void {
+  const address = at(counts, bin);
+  store<i32>(address, load<i32>(address) + c);
+}
+
 /** counts[i] = pairs with first bin i plus pairs with second bin i. */
 function addPairTable(table: usize, counts: usize): void {
   memory.fill(counts, 0, 4 * 256);
-  for (let second = 0; second < 256; second++) {
-    const row = table + ((<usize>second) << 10);
-    let sum = i32x4.splat(0);
-    for (let first: usize = 0; first < 1024; first += 16) {
-      const v = v128.load(row + first);
-      sum = i32x4.add(sum, v);
-      v128.store(counts + first, i32x4.add(v128.load(counts + first), v));
-    }
-    const total = i32x4.extract_lane(sum, 0) + i32x4.extract_lane(sum, 1) + i32x4.extract_lane(sum, 2) + i32x4.extract_lane(sum, 3);
-    store<i32>(at(counts, second), load<i32>(at(counts, second)) + total);
+  for (let second = 0; second < 256; second++) addCount(counts, second, addRow(table + ((<usize>second) << 10), counts));
+}
+
+/** Adds a table row of 256 int32 into `into` (256 int32) element by element; returns the row's sum. */
+function addRow(row: usize, into: usize): i32 {
+  let sum = i32x4.splat(0);
+  for (let i: usize = 0; i < 1024; i += 16) {
+    const v = v128.load(row + i);
+    sum = i32x4.add(sum, v);
+    v128.store(into + i, i32x4.add(v128.load(into + i), v));
   }
+  return i32x4.extract_lane(sum, 0) + i32x4.extract_lane(sum, 1) + i32x4.extract_lane(sum, 2) + i32x4.extract_lane(sum, 3);
 }
 
 /**

@@ -166,6 +166,32 @@ test('Sobel, Scharr and Prewitt x, y and magnitude: SIMD within float32 rounding
   );
 });
 
+test('Sobel on the SIMD engine, inside the image: the float32 evaluation of its definition in the kernel\'s order, bit for bit', () => {
+  // s = (up + down) + 2·centre down the column, t = down − up; gx = s(x+1) − s(x−1),
+  // gy = (t(x−1) + t(x+1)) + 2·t(x), magnitude √(gx² + gy²): every operation rounded to float32
+  // (a double square root of a float32 rounded to float32 is the float32 square root).
+  const f = Math.fround;
+  fc.assert(
+    fc.property(imageSize, sampleKind, seed, fc.constantFrom('x', 'y', 'magnitude' as const), ([w, h], kind, s, output) => {
+      fc.pre(w >= 3 && h >= 3);
+      const image = sampleImage(w, h, kind, s);
+      const at = (x: number, y: number) => image.data[y * w + x];
+      const sm = (x: number, y: number) => f(f(at(x, y - 1) + at(x, y + 1)) + f(2 * at(x, y)));
+      const df = (x: number, y: number) => f(at(x, y + 1) - at(x, y - 1));
+      const simd = onEngine('simd', () => gradient(image, 'sobel', output, 'reflect'));
+      for (let y = 1; y < h - 1; y++) {
+        for (let x = 1; x < w - 1; x++) {
+          const gx = f(sm(x + 1, y) - sm(x - 1, y));
+          const gy = f(f(df(x - 1, y) + df(x + 1, y)) + f(2 * df(x, y)));
+          const expected = output === 'x' ? gx : output === 'y' ? gy : f(Math.sqrt(f(f(gx * gx) + f(gy * gy))));
+          if (!Object.is(simd.data[y * w + x], expected)) expect({ x, y, value: simd.data[y * w + x] }).toEqual({ x, y, value: expected });
+        }
+      }
+    }),
+    RUNS,
+  );
+});
+
 test('Gaussian and gradient in one sweep: the same bits and magnitude range as the two SIMD steps in turn (radius 1 to 12, every border)', () => {
   fc.assert(
     fc.property(

@@ -57,19 +57,25 @@ export function storeRange(scratch: usize, w: i32, range: usize): void {
  * magnitude's running range is kept in the scratch (see prepareGradientScratch).
  */
 export function gradientRow(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, mode: i32, scratch: usize): void {
-  // One copy of the pass per output, with no test inside it.
-  if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, mode, scratch);
-  else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, mode, scratch);
-  else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, mode, scratch);
+  // One copy of the pass per output and for Sobel's weights, with no test inside it.
+  if (a == 1 && b == 2) {
+    if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, true, mode, scratch);
+    else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, true, mode, scratch);
+    else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, true, mode, scratch);
+  } else if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, false, mode, scratch);
+  else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, false, mode, scratch);
+  else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, false, mode, scratch);
 }
 
 /**
  * gradientRow with `output` a constant. Writing s and t into padded lines and reading them back took
  * three stores and eight loads per four pixels; here each vector of s and t is made once, and its
- * neighbours' lanes come from the vectors before and after it.
+ * neighbours' lanes come from the vectors before and after it. With `sobel` (a = 1, b = 2) the
+ * weights are additions: 1·v is v and 2·v is v + v exactly, so the same bits without the two
+ * weights' registers or their products.
  */
 @inline
-function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, mode: i32, scratch: usize): void {
+function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, sobel: bool, mode: i32, scratch: usize): void {
   const va = f32x4.splat(a), vb = f32x4.splat(b);
   const extremes = extremesAt(align16(scratch), w);
   let lo = v128.load(extremes);
@@ -81,12 +87,12 @@ function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f
     // Lane 3 of the vectors before x = 0 is the border's s(−1) and t(−1).
     let sBefore = f32x4.splat(smoothingAt(up, centre, down, -1, w, a, b, mode));
     let tBefore = f32x4.splat(differenceAt(up, down, -1, w, mode));
-    let s = smoothing4(up, centre, down, 0, va, vb);
+    let s = smoothing4(up, centre, down, 0, va, vb, sobel);
     let t = difference4(up, down, 0);
     for (; x + 8 <= w; x += 4) {
-      const sAfter = smoothing4(up, centre, down, x + 4, va, vb);
+      const sAfter = smoothing4(up, centre, down, x + 4, va, vb, sobel);
       const tAfter = difference4(up, down, x + 4);
-      const m = gradient4(sBefore, s, sAfter, tBefore, t, tAfter, va, vb, output);
+      const m = gradient4(sBefore, s, sAfter, tBefore, t, tAfter, va, vb, output, sobel);
       v128.store(at(out, x), m);
       if (output == GRADIENT_MAGNITUDE) {
         // pmin(lo, m) is m < lo ? m : lo: a NaN never replaces the extreme found so far.
@@ -101,7 +107,7 @@ function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f
     // The last whole vector: lane 0 after it is s(x + 4), in the row or from the border.
     const sAfter = f32x4.splat(smoothingAt(up, centre, down, x + 4, w, a, b, mode));
     const tAfter = f32x4.splat(differenceAt(up, down, x + 4, w, mode));
-    const m = gradient4(sBefore, s, sAfter, tBefore, t, tAfter, va, vb, output);
+    const m = gradient4(sBefore, s, sAfter, tBefore, t, tAfter, va, vb, output, sobel);
     v128.store(at(out, x), m);
     if (output == GRADIENT_MAGNITUDE) {
       lo = f32x4.pmin(lo, m);
@@ -133,20 +139,23 @@ function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f
 
 /** gx, gy or the magnitude of four pixels from s and t of theirs (s, t) and of the four before and after. */
 @inline
-function gradient4(sBefore: v128, s: v128, sAfter: v128, tBefore: v128, t: v128, tAfter: v128, va: v128, vb: v128, output: i32): v128 {
+function gradient4(sBefore: v128, s: v128, sAfter: v128, tBefore: v128, t: v128, tAfter: v128, va: v128, vb: v128, output: i32, sobel: bool): v128 {
   // s(x+1 … x+4) and s(x−1 … x+2), and so for t.
   const gx = output == GRADIENT_Y ? s : f32x4.sub(v128.shuffle<f32>(s, sAfter, 1, 2, 3, 4), v128.shuffle<f32>(sBefore, s, 3, 4, 5, 6));
-  const gy = output == GRADIENT_X ? t : f32x4.add(f32x4.mul(va, f32x4.add(v128.shuffle<f32>(tBefore, t, 3, 4, 5, 6), v128.shuffle<f32>(t, tAfter, 1, 2, 3, 4))), f32x4.mul(vb, t));
+  const sides = f32x4.add(v128.shuffle<f32>(tBefore, t, 3, 4, 5, 6), v128.shuffle<f32>(t, tAfter, 1, 2, 3, 4));
+  const gy = output == GRADIENT_X ? t : sobel ? f32x4.add(sides, f32x4.add(t, t)) : f32x4.add(f32x4.mul(va, sides), f32x4.mul(vb, t));
   if (output == GRADIENT_X) return gx;
   if (output == GRADIENT_Y) return gy;
   return f32x4.sqrt(f32x4.add(f32x4.mul(gx, gx), f32x4.mul(gy, gy)));
 }
 
-/** s = a·(up + down) + b·centre of pixels x … x+3. */
+/** s = a·(up + down) + b·centre of pixels x … x+3 (with `sobel`, a = 1 and b = 2: additions only). */
 @inline
-function smoothing4(up: usize, centre: usize, down: usize, x: i32, va: v128, vb: v128): v128 {
+function smoothing4(up: usize, centre: usize, down: usize, x: i32, va: v128, vb: v128, sobel: bool): v128 {
   const o = (<usize>x) << 2;
-  return f32x4.add(f32x4.mul(va, f32x4.add(v128.load(up + o), v128.load(down + o))), f32x4.mul(vb, v128.load(centre + o)));
+  const sides = f32x4.add(v128.load(up + o), v128.load(down + o));
+  const c = v128.load(centre + o);
+  return sobel ? f32x4.add(sides, f32x4.add(c, c)) : f32x4.add(f32x4.mul(va, sides), f32x4.mul(vb, c));
 }
 
 /** t = down − up of pixels x … x+3. */

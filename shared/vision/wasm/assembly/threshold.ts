@@ -148,9 +148,10 @@ const UNIT_SHIFT: i32 = 14;
 /** 2⁹: t + 2⁹ lies in [2⁹, 2¹⁰), where a float32's last bit is worth 2⁻¹⁴. */
 const UNIT_BASE: f32 = 512;
 /**
- * Values ahead of the group whose line the loop reads (8 KB), so that it is on its way from memory:
- * WebAssembly has no prefetch instruction, and on a machine whose processor did not fetch this
- * stream ahead across 4 KB pages the groups' first loads waited on memory (shared/vision/README.md, "Otsu").
+ * Values ahead of the group whose line the loop reads (8 KB, below it: the loop runs backwards), so
+ * that it is on its way from memory: WebAssembly has no prefetch instruction, and on a machine whose
+ * processor did not fetch this stream ahead across 4 KB pages the groups' first loads waited on
+ * memory (shared/vision/README.md, "Otsu").
  */
 const READ_AHEAD: i32 = 2048;
 /** Below this t the bin is 0 however t was rounded; a NaN t (bin 0 in double precision too) becomes it. */
@@ -192,10 +193,12 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
   const limit = i16x8.splat(!usable ? <i16>0x7fff : exact ? <i16>0 : <i16>5);
   // Bins of 16 and above: their group is counted in pairs, the others in quads.
   const high = i8x16.splat(<i8>0xf0);
-  let p = 0;
+  // From the last group back to the first: the image was most often written just before from its
+  // first row to its last (a gradient), so its last rows are the likeliest to be still in the caches.
+  const end = (n >> 4) << 4;
   let seen = 0;
-  for (; p + 16 <= n; p += 16) {
-    if (p + READ_AHEAD < n) seen |= load<i32>(at(src, p + READ_AHEAD));
+  for (let p = end - 16; p >= 0; p -= 16) {
+    if (p >= READ_AHEAD) seen |= load<i32>(at(src, p - READ_AHEAD));
     const ua = units4(src, p, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
     const ub = units4(src, p + 4, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
     const uc = units4(src, p + 8, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
@@ -229,7 +232,7 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
     else countStored(tables, stored, pairs);
   }
   keepTouched(seen);
-  return p;
+  return end;
 }
 
 /**

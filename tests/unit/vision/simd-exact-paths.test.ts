@@ -313,8 +313,10 @@ test('Otsu\'s histogram counted in pairs of neighbours (as from 2¹⁶ pixels), 
 });
 
 test('Otsu\'s histogram counted in quads (groups of sixteen whose bins are all below 16, as most of a gradient magnitude\'s): the plain engine\'s counts', () => {
-  // The SIMD kernel counts such a group as four quads of 4-bit bins and any other group in pairs;
-  // the reference is the plain engine's histogram, one pixel at a time.
+  // The SIMD kernel counts such a group as four quads of 4-bit bins and any other group in pairs.
+  // The references: the plain engine's histogram, one pixel at a time (otsu-histogram.test.ts holds
+  // its bins to the rule format's binning, DESIGN.md "threshold"), and that binning written out here
+  // for the stored bins.
   fc.assert(
     fc.property(imageSize, seed, fc.constantFrom(0, 0.002, 0.05), fc.boolean(), ([w, h], s, highShare, keepBins) => {
       const image = lowBins(w, h, s, highShare);

@@ -167,9 +167,12 @@ test('Sobel, Scharr and Prewitt x, y and magnitude: SIMD within float32 rounding
 });
 
 test('Sobel on the SIMD engine, inside the image: the float32 evaluation of its definition in the kernel\'s order, bit for bit', () => {
+  // Sobel's 3×3 operator as [1 2 1]ᵀ smoothing times [−1 0 1] difference (the kernel OpenCV's Sobel
+  // documentation gives, which opencv-reference.test.ts checks the engine against; common practice):
   // s = (up + down) + 2·centre down the column, t = down − up; gx = s(x+1) − s(x−1),
-  // gy = (t(x−1) + t(x+1)) + 2·t(x), magnitude √(gx² + gy²): every operation rounded to float32
-  // (a double square root of a float32 rounded to float32 is the float32 square root).
+  // gy = (t(x−1) + t(x+1)) + 2·t(x), magnitude √(gx² + gy²), every operation rounded to float32.
+  // A double square root of a float32, rounded to float32, is the float32 square root (double
+  // rounding is innocuous when the wider format has at least 2p + 2 bits: Figueroa 1995, from memory).
   const f = Math.fround;
   fc.assert(
     fc.property(imageSize, sampleKind, seed, fc.constantFrom('x', 'y', 'magnitude' as const), ([w, h], kind, s, output) => {

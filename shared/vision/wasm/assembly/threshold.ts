@@ -377,8 +377,7 @@ function countBytes(tables: usize, bytes: usize): void {
 
 @inline
 function count(table: usize, bin: i32): void {
-  const address = at(table, bin);
-  store<i32>(address, load<i32>(address) + 1);
+  addCount(table, bin, 1);
 }
 
 /** dst = 1 where v ≥ cut, else 0 (swapped when invert is 1); NaN is below every cut. */

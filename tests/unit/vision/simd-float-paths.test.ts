@@ -48,6 +48,39 @@ test('symmetric separable kernels (the unrolled radii 1–3 and the general loop
   );
 });
 
+test('a long symmetric column (radius 4 to 9, rows filtered first into a ring) with any row: short, long or not symmetric, with an offset, within float32 rounding of plain', () => {
+  // The row kernel's three ways through the SIMD kernel: a symmetric radius of 4 to 9 read in place
+  // but for its ends, and any other row through a padded copy; widths across both ends' copies.
+  const halfColumn = fc.integer({ min: 5, max: 10 }).chain((n) => weights(n));
+  const row = fc.oneof(
+    fc.integer({ min: 1, max: 13 }).chain((n) => weights(n)).map((half) => [...half.slice(1).reverse(), ...half]),
+    oddLength.chain(weights),
+  );
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 20, max: 90 }), fc.integer({ min: 1, max: 30 })));
+  fc.assert(
+    fc.property(size, sampleKind, seed, borderMode, halfColumn, row, weight, ([w, h], kind, s, border, half, rowWeights, offset) => {
+      const column = [...half.slice(1).reverse(), ...half];
+      const image = sampleImage(w, h, kind, s);
+      const { plain, simd } = onBoth(() => correlateSeparable(image, column, rowWeights, border, undefined, offset));
+      const magnitude = l1(column) * l1(rowWeights) * largestMagnitude(image.data) + Math.abs(offset);
+      expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(column.length + rowWeights.length, magnitude));
+    }),
+    RUNS,
+  );
+});
+
+test('Gaussian blur of images wider than the ring of filtered rows takes (4096): the columns-first way, within float32 rounding of plain', () => {
+  // 4096 wide still goes through the ring; 4099 and 4101 go the columns-first way.
+  const cases: [number, number, number][] = [[4096, 3, 3], [4099, 5, 3], [4101, 4, 1.5]];
+  cases.forEach(([w, h, sigma], i) => {
+    const image = sampleImage(w, h, i % 2 === 0 ? 'signed float' : '16-bit', 90 + i);
+    const border = (['reflect', 'replicate', 'constant'] as const)[i % 3];
+    const { plain, simd } = onBoth(() => gaussianBlur(image, sigma, border));
+    const taps = gaussianWeights(sigma).length;
+    expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(2 * taps, largestMagnitude(image.data)));
+  });
+});
+
 test('non-separable kernels from 11×11 go through the FFT in 128×128 tiles: SIMD within the float32 FFT bound of plain', () => {
   // Higham, Accuracy and Stability of Numerical Algorithms (2nd ed.), §24.1: a radix-2 FFT of m points
   // computed in floating point has a 2-norm relative error of at most log₂(m)·η/(1 − log₂(m)·η),

@@ -3,13 +3,15 @@
 // float32 arithmetic; symmetric kernels add the mirrored samples first (one multiply per pair).
 import { align16, at, borderIndex, fillLineBorder, OUTSIDE, rowAddress, touchAhead } from './border';
 import { convertPhotoRows, finishPhotoRows, photoRingBytes, photoRingRows, startPhotoRows } from './photo-rows';
+import { separableLongRows, separableLongScratchBytes, takesLong } from './separable-long';
 
 /** Scratch bytes `separable` and `laplacianOfGaussian` need for a w-wide image. */
 export function separableScratchBytes(w: i32, colLen: i32, rowLen: i32): i32 {
-  return 4 * (colLen + 1) + 4 * w + 8 * (w + rowLen) + 8 * (w + rowLen + 4) + 160;
+  const rows = 4 * (colLen + 1) + 4 * w + 8 * (w + rowLen) + 8 * (w + rowLen + 4) + 160;
+  return takesLong(w, colLen, true) ? max(rows, separableLongScratchBytes(w, colLen, rowLen)) : rows;
 }
 
-function isSymmetric(k: usize, n: i32): bool {
+export function isSymmetric(k: usize, n: i32): bool {
   for (let a = 0, b = n - 1; a < b; a++, b--) if (load<f32>(at(k, a)) != load<f32>(at(k, b))) return false;
   return true;
 }
@@ -67,6 +69,7 @@ export function separableRows(src: usize, ring: i32, w: i32, h: i32, y: i32, col
   const zeros = align16(at(rows, colLen));
   const line = align16(at(zeros, w));
   const nextLine = align16(at(line, w + rowLen + 4));
+  if (takesLong(w, colLen, isSymmetric(colK, colLen))) return separableLongRows(src, ring, w, h, y, colK, colLen, rowK, rowLen, mode, offset, scratch, out, next);
   const rowSymmetric = isSymmetric(rowK, rowLen);
   const twoRows = isSymmetric(colK, colLen) && ry >= 1 && y + 1 < h;
   // The two source rows the call after next reads first, on their way from memory while this call
@@ -262,7 +265,7 @@ const SWEEP_PAIRS: i32 = 5;
  * σ = 3 at 5 MP, one CPU, the same bits: rows 1.21 → 1.10 ns/px, columns 1.25 → 1.19, both passes
  * 2.15 → 1.98. For σ = 1 (radius 3, its own loops) it was no faster, so those keep their splats.
  */
-const SWEEP_WEIGHTS: usize = memory.data(96, 16);
+export const SWEEP_WEIGHTS: usize = memory.data(96, 16);
 
 /**
  * For the whole vectors of a row: dst[x] = (centre ≠ 0 ? kc·centre[x] : dst[x]) + Σ k[r+j]·(a_j[x] + b_j[x])
@@ -568,6 +571,12 @@ function horizontalSymmetric(line: usize, k: usize, r: i32, w: i32, out: usize, 
       store<f32>(at(out, x), acc + offset);
     }
   }
+}
+
+/** out[x] = Σᵢ k[i]·line[x+i] + offset for any row of n taps (line padded by n >> 1 on each side). */
+export function horizontalAny(line: usize, k: usize, n: i32, w: i32, out: usize, offset: f32): void {
+  if (isSymmetric(k, n)) horizontalSymmetric(line, k, n >> 1, w, out, offset);
+  else horizontalGeneral(line, k, n, w, out, offset);
 }
 
 /** Any row: out[x] = Σᵢ k[i]·line[x+i] + offset. */

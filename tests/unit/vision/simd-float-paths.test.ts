@@ -35,7 +35,7 @@ test('separable correlation: SIMD within float32 rounding of plain, any column a
   );
 });
 
-test('symmetric separable kernels (the unrolled radii 1–3 and the general loop) agree within float32 rounding', () => {
+test('symmetric separable kernels (radius 1 columns first, 2 and more through the ring of filtered rows) agree within float32 rounding', () => {
   fc.assert(
     fc.property(imageSize, sampleKind, seed, borderMode, fc.integer({ min: 0, max: 6 }).chain((r) => weights(r + 1)), ([w, h], kind, s, border, half) => {
       const symmetric = [...half.slice(1).reverse(), ...half];
@@ -48,10 +48,10 @@ test('symmetric separable kernels (the unrolled radii 1–3 and the general loop
   );
 });
 
-test('a long symmetric column (radius 4 to 9, rows filtered first into a ring) with any row: short, long or not symmetric, with an offset, within float32 rounding of plain', () => {
-  // The row kernel's three ways through the SIMD kernel: a symmetric radius of 4 to 9 read in place
-  // but for its ends, and any other row through a padded copy; widths across both ends' copies.
-  const halfColumn = fc.integer({ min: 5, max: 10 }).chain((n) => weights(n));
+test('a symmetric column of radius 2 or more (rows filtered first into a ring) with any row: short, long or not symmetric, with an offset, within float32 rounding of plain', () => {
+  // The row kernel's ways through the SIMD kernel: a symmetric radius of 1 to 9 read in place but
+  // for its ends, and any other row through a padded copy; widths across both ends' copies.
+  const halfColumn = fc.integer({ min: 3, max: 10 }).chain((n) => weights(n));
   const row = fc.oneof(
     fc.integer({ min: 1, max: 13 }).chain((n) => weights(n)).map((half) => [...half.slice(1).reverse(), ...half]),
     oddLength.chain(weights),
@@ -70,8 +70,9 @@ test('a long symmetric column (radius 4 to 9, rows filtered first into a ring) w
 });
 
 test('Gaussian blur of images wider than the ring of filtered rows takes (4096): the columns-first way, within float32 rounding of plain', () => {
-  // 4096 wide still goes through the ring; 4099 and 4101 go the columns-first way.
-  const cases: [number, number, number][] = [[4096, 3, 3], [4099, 5, 3], [4101, 4, 1.5]];
+  // 4096 wide still goes through the ring; wider images go the columns-first way, whose radii 1, 2
+  // and 3 (σ 0.3, 0.6 and 1) have loops of their own and longer columns sweeps of pairs.
+  const cases: [number, number, number][] = [[4096, 3, 3], [4099, 5, 3], [4101, 4, 1.5], [4097, 6, 1], [4103, 5, 0.6], [4098, 4, 0.3]];
   cases.forEach(([w, h, sigma], i) => {
     const image = sampleImage(w, h, i % 2 === 0 ? 'signed float' : '16-bit', 90 + i);
     const border = (['reflect', 'replicate', 'constant'] as const)[i % 3];
@@ -79,6 +80,20 @@ test('Gaussian blur of images wider than the ring of filtered rows takes (4096):
     const taps = gaussianWeights(sigma).length;
     expect(largestDifference(simd.data, plain.data)).toBeLessThanOrEqual(float32Tolerance(2 * taps, largestMagnitude(image.data)));
   });
+});
+
+test('Gaussian and gradient in one sweep on an image wider than the ring takes: the same bits and range as the two SIMD steps in turn', () => {
+  const image = sampleImage(4099, 7, 'signed float', 97);
+  for (const sigma of [1, 2.5]) {
+    const stepRange = { min: NaN, max: NaN };
+    const sweptRange = { min: NaN, max: NaN };
+    const { steps, swept } = onEngine('simd', () => ({
+      steps: gradient(gaussianBlur(image, sigma, 'reflect'), 'sobel', 'magnitude', 'reflect', undefined, stepRange),
+      swept: gaussianGradient(image, sigma, 'sobel', 'magnitude', 'reflect', undefined, sweptRange),
+    }));
+    expect(bitsOf(swept)).toEqual(bitsOf(steps));
+    expect(sweptRange).toEqual(stepRange);
+  }
 });
 
 test('non-separable kernels from 11×11 go through the FFT in 128×128 tiles: SIMD within the float32 FFT bound of plain', () => {

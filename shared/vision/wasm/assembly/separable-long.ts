@@ -1,4 +1,4 @@
-// Separable correlation with a long symmetric column (radius above 3: Gaussians from σ ≈ 1.2), rows
+// Separable correlation with a symmetric column of radius 2 or more (Gaussians from σ ≈ 0.4), rows
 // first: each source row is filtered along the row once, into a ring of rows a constant stride apart,
 // and the column pass reads that ring. With the stride a constant, every sample of a column sweep is
 // a constant offset from one of two addresses, where rows of the image itself (stride w) each took an
@@ -22,9 +22,9 @@ const RING_SWEEP_PAIRS: i32 = 3;
 /** Columns a strip takes through all its sweeps before the next, so that the partial sums stay in the first-level cache. */
 const STRIP: i32 = 512;
 
-/** Whether `separableLongRows` takes a column of colLen taps on a w-wide image. */
+/** Whether `separableLongRows` takes a column of colLen taps on a w-wide image (radius 1 was no faster there). */
 export function takesLong(w: i32, colLen: i32, colSymmetric: bool): bool {
-  return colSymmetric && colLen > 7 && w <= LONG_MAX_WIDTH;
+  return colSymmetric && colLen >= 5 && w <= LONG_MAX_WIDTH;
 }
 
 /** Scratch bytes of `separableLongRows`: its state, a padded line, a spare output row and the ring (each row twice). */
@@ -34,7 +34,7 @@ export function separableLongScratchBytes(w: i32, colLen: i32, rowLen: i32): i32
 
 /**
  * Output row y into out and row y + 1 (when there is one) into next, as `separableRows`, for a symmetric
- * column of radius r > 3 and w ≤ LONG_MAX_WIDTH; returns the rows written. Calls go down the image two
+ * column of radius r ≥ 2 and w ≤ LONG_MAX_WIDTH; returns the rows written. Calls go down the image two
  * rows at a time from y = 0. Source row k, filtered along the row, sits in ring slots (k + r) mod R and
  * that + R (R = 2r + 2 rows, those two output rows share), so that the rows of any two output rows are
  * consecutive slots. With `ring` > 0, src holds source row k in slot k mod ring (as `separableRows`).
@@ -58,14 +58,14 @@ export function separableLongRows(src: usize, ring: i32, w: i32, h: i32, y: i32,
   return y + 1 < h ? 2 : 1;
 }
 
-/** Most pairs of taps a row filtered in one sweep may have (a copy of the sweep for each radius from 4). */
+/** Most pairs of taps a row filtered in one sweep may have (a copy of the sweep for each radius from 1). */
 const ROW_SWEEP_PAIRS: i32 = 9;
 /** The row's splatted weights, centre first, on their way into registers (see SWEEP_WEIGHTS). */
 const ROW_WEIGHTS: usize = memory.data(16 * (ROW_SWEEP_PAIRS + 1), 16);
 
 /**
  * Source row k (border applied; of a ring of `ring` rows when ring > 0) filtered along the row into
- * `out` and `twin`; an outside row is zeros. A symmetric row of radius 4 … ROW_SWEEP_PAIRS is read in
+ * `out` and `twin`; an outside row is zeros. A symmetric row of radius 1 … ROW_SWEEP_PAIRS is read in
  * place but for its ends, which go into `line` with the border around them; other rows go into `line` whole.
  */
 function filterRow(src: usize, ring: i32, w: i32, h: i32, k: i32, rowK: usize, rowLen: i32, rx: i32, mode: i32, line: usize, out: usize, twin: usize): void {
@@ -76,7 +76,7 @@ function filterRow(src: usize, ring: i32, w: i32, h: i32, k: i32, rowK: usize, r
     return;
   }
   const row = at(src, (ring > 0 ? sy % ring : sy) * w);
-  if (rx < 4 || rx > ROW_SWEEP_PAIRS || !isSymmetric(rowK, rowLen)) {
+  if (rx < 1 || rx > ROW_SWEEP_PAIRS || !isSymmetric(rowK, rowLen)) {
     memory.copy(at(line, rx), row, 4 * w);
     fillLineBorder(line, w, rx, mode);
     horizontalAny(line, rowK, rowLen, w, out, 0);
@@ -109,7 +109,10 @@ function filterRow(src: usize, ring: i32, w: i32, h: i32, k: i32, rowK: usize, r
 
 /** `rowSweepOf` with its radius a constant in each copy. */
 function rowSweep(rx: i32, base: usize, ahead: usize, x0: i32, x1: i32, out: usize, twin: usize): void {
-  if (rx == 4) rowSweep4(base, ahead, x0, x1, out, twin);
+  if (rx == 1) rowSweep1(base, ahead, x0, x1, out, twin);
+  else if (rx == 2) rowSweep2(base, ahead, x0, x1, out, twin);
+  else if (rx == 3) rowSweep3(base, ahead, x0, x1, out, twin);
+  else if (rx == 4) rowSweep4(base, ahead, x0, x1, out, twin);
   else if (rx == 5) rowSweep5(base, ahead, x0, x1, out, twin);
   else if (rx == 6) rowSweep6(base, ahead, x0, x1, out, twin);
   else if (rx == 7) rowSweep7(base, ahead, x0, x1, out, twin);
@@ -118,6 +121,15 @@ function rowSweep(rx: i32, base: usize, ahead: usize, x0: i32, x1: i32, out: usi
 }
 
 // One function per radius: the optimiser folds each copy's sample offsets to constants.
+function rowSweep1(base: usize, ahead: usize, x0: i32, x1: i32, out: usize, twin: usize): void {
+  rowSweepOf(1, base, ahead, x0, x1, out, twin);
+}
+function rowSweep2(base: usize, ahead: usize, x0: i32, x1: i32, out: usize, twin: usize): void {
+  rowSweepOf(2, base, ahead, x0, x1, out, twin);
+}
+function rowSweep3(base: usize, ahead: usize, x0: i32, x1: i32, out: usize, twin: usize): void {
+  rowSweepOf(3, base, ahead, x0, x1, out, twin);
+}
 function rowSweep4(base: usize, ahead: usize, x0: i32, x1: i32, out: usize, twin: usize): void {
   rowSweepOf(4, base, ahead, x0, x1, out, twin);
 }
@@ -177,7 +189,7 @@ function rowWeight(j: i32): v128 {
  */
 @inline
 function rowSweepOf(r: i32, base: usize, ahead: usize, x0: i32, x1: i32, out: usize, twin: usize): void {
-  const kc = rowWeight(0), k1 = rowWeight(1), k2 = rowWeight(2), k3 = rowWeight(3), k4 = rowWeight(4);
+  const kc = rowWeight(0), k1 = rowWeight(1), k2 = r >= 2 ? rowWeight(2) : kc, k3 = r >= 3 ? rowWeight(3) : kc, k4 = r >= 4 ? rowWeight(4) : kc;
   const k5 = r >= 5 ? rowWeight(5) : kc, k6 = r >= 6 ? rowWeight(6) : kc, k7 = r >= 7 ? rowWeight(7) : kc;
   const k8 = r >= 8 ? rowWeight(8) : kc, k9 = r >= 9 ? rowWeight(9) : kc;
   let seen = 0;
@@ -192,15 +204,15 @@ function rowSweepOf(r: i32, base: usize, ahead: usize, x0: i32, x1: i32, out: us
       a = f32x4.add(a, f32x4.mul(k1, f32x4.add(sampleAt(p, r - 1), sampleAt(p, r + 1))));
       b = f32x4.add(b, f32x4.mul(k1, f32x4.add(sampleAt(p, r + 4 - 1), sampleAt(p, r + 4 + 1))));
     }
-    {
+    if (r >= 2) {
       a = f32x4.add(a, f32x4.mul(k2, f32x4.add(sampleAt(p, r - 2), sampleAt(p, r + 2))));
       b = f32x4.add(b, f32x4.mul(k2, f32x4.add(sampleAt(p, r + 4 - 2), sampleAt(p, r + 4 + 2))));
     }
-    {
+    if (r >= 3) {
       a = f32x4.add(a, f32x4.mul(k3, f32x4.add(sampleAt(p, r - 3), sampleAt(p, r + 3))));
       b = f32x4.add(b, f32x4.mul(k3, f32x4.add(sampleAt(p, r + 4 - 3), sampleAt(p, r + 4 + 3))));
     }
-    {
+    if (r >= 4) {
       a = f32x4.add(a, f32x4.mul(k4, f32x4.add(sampleAt(p, r - 4), sampleAt(p, r + 4))));
       b = f32x4.add(b, f32x4.mul(k4, f32x4.add(sampleAt(p, r + 4 - 4), sampleAt(p, r + 4 + 4))));
     }
@@ -235,9 +247,9 @@ function rowSweepOf(r: i32, base: usize, ahead: usize, x0: i32, x1: i32, out: us
     seen |= load<i32>(ahead + o);
     let acc = f32x4.mul(kc, sampleAt(p, r));
     acc = f32x4.add(acc, f32x4.mul(k1, f32x4.add(sampleAt(p, r - 1), sampleAt(p, r + 1))));
-    acc = f32x4.add(acc, f32x4.mul(k2, f32x4.add(sampleAt(p, r - 2), sampleAt(p, r + 2))));
-    acc = f32x4.add(acc, f32x4.mul(k3, f32x4.add(sampleAt(p, r - 3), sampleAt(p, r + 3))));
-    acc = f32x4.add(acc, f32x4.mul(k4, f32x4.add(sampleAt(p, r - 4), sampleAt(p, r + 4))));
+    if (r >= 2) acc = f32x4.add(acc, f32x4.mul(k2, f32x4.add(sampleAt(p, r - 2), sampleAt(p, r + 2))));
+    if (r >= 3) acc = f32x4.add(acc, f32x4.mul(k3, f32x4.add(sampleAt(p, r - 3), sampleAt(p, r + 3))));
+    if (r >= 4) acc = f32x4.add(acc, f32x4.mul(k4, f32x4.add(sampleAt(p, r - 4), sampleAt(p, r + 4))));
     if (r >= 5) acc = f32x4.add(acc, f32x4.mul(k5, f32x4.add(sampleAt(p, r - 5), sampleAt(p, r + 5))));
     if (r >= 6) acc = f32x4.add(acc, f32x4.mul(k6, f32x4.add(sampleAt(p, r - 6), sampleAt(p, r + 6))));
     if (r >= 7) acc = f32x4.add(acc, f32x4.mul(k7, f32x4.add(sampleAt(p, r - 7), sampleAt(p, r + 7))));

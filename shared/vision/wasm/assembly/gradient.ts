@@ -2,7 +2,7 @@
 // transpose. Per row, in one pass along it: the smoothing s = a·(up + down) + b·centre and the
 // difference t = down − up of four pixels at a time, kept in registers; then gx = s(x+1) − s(x−1)
 // and gy = a·(t(x−1) + t(x+1)) + b·t(x), the neighbours' lanes taken from the vectors either side.
-import { align16, at, borderIndex, OUTSIDE, rowAddress } from './border';
+import { align16, at, borderIndex, keepTouched, OUTSIDE, rowAddress } from './border';
 import { storeExtremes } from './extremes';
 
 export const GRADIENT_X: i32 = 0;
@@ -24,7 +24,7 @@ export function gradient(src: usize, dst: usize, w: i32, h: i32, a: f32, b: f32,
   for (let y = 0; y < h; y++) {
     const up = rowAddress(src, y - 1, h, w, mode, zeros);
     const down = rowAddress(src, y + 1, h, w, mode, zeros);
-    gradientRow(up, at(src, y * w), down, at(dst, y * w), w, a, b, output, mode, scratch);
+    gradientRow(up, at(src, y * w), down, at(dst, y * w), w, a, b, output, mode, scratch, at(dst, (y + 2 < h ? y + 2 : y) * w));
   }
   if (range != 0) storeRange(scratch, w, range);
 }
@@ -54,17 +54,21 @@ export function storeRange(scratch: usize, w: i32, range: usize): void {
 
 /**
  * One output row from the rows above (up), at (centre) and below (down) it, each w samples; the
- * magnitude's running range is kept in the scratch (see prepareGradientScratch).
+ * magnitude's running range is kept in the scratch (see prepareGradientScratch). On the way the row
+ * reads a word of every 16 bytes of `ahead` (w samples): the output row two below, so that its
+ * stores find it in the cache two calls later (WebAssembly has no prefetch), or `out` at the end.
+ * The Gaussian-and-gradient sweep at 5 MP, two builds in turn: 1.84–1.92 → 1.53–1.68 ns/px with the
+ * caches emptied between runs, 1.54–1.55 → 1.18–1.29 without.
  */
-export function gradientRow(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, mode: i32, scratch: usize): void {
+export function gradientRow(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, mode: i32, scratch: usize, ahead: usize): void {
   // One copy of the pass per output and for Sobel's weights, with no test inside it.
   if (a == 1 && b == 2) {
-    if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, true, mode, scratch);
-    else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, true, mode, scratch);
-    else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, true, mode, scratch);
-  } else if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, false, mode, scratch);
-  else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, false, mode, scratch);
-  else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, false, mode, scratch);
+    if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, true, mode, scratch, ahead);
+    else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, true, mode, scratch, ahead);
+    else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, true, mode, scratch, ahead);
+  } else if (output == GRADIENT_MAGNITUDE) rowPass(up, centre, down, out, w, a, b, GRADIENT_MAGNITUDE, false, mode, scratch, ahead);
+  else if (output == GRADIENT_X) rowPass(up, centre, down, out, w, a, b, GRADIENT_X, false, mode, scratch, ahead);
+  else rowPass(up, centre, down, out, w, a, b, GRADIENT_Y, false, mode, scratch, ahead);
 }
 
 /**
@@ -75,7 +79,7 @@ export function gradientRow(up: usize, centre: usize, down: usize, out: usize, w
  * weights' registers or their products.
  */
 @inline
-function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, sobel: bool, mode: i32, scratch: usize): void {
+function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f32, b: f32, output: i32, sobel: bool, mode: i32, scratch: usize, ahead: usize): void {
   const va = f32x4.splat(a), vb = f32x4.splat(b);
   const extremes = extremesAt(align16(scratch), w);
   let lo = v128.load(extremes);
@@ -89,7 +93,9 @@ function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f
     let tBefore = f32x4.splat(differenceAt(up, down, -1, w, mode));
     let s = smoothing4(up, centre, down, 0, va, vb, sobel);
     let t = difference4(up, down, 0);
+    let seen = 0;
     for (; x + 8 <= w; x += 4) {
+      seen |= load<i32>(at(ahead, x));
       const sAfter = smoothing4(up, centre, down, x + 4, va, vb, sobel);
       const tAfter = difference4(up, down, x + 4);
       const m = gradient4(sBefore, s, sAfter, tBefore, t, tAfter, va, vb, output, sobel);
@@ -104,6 +110,7 @@ function rowPass(up: usize, centre: usize, down: usize, out: usize, w: i32, a: f
       tBefore = t;
       t = tAfter;
     }
+    keepTouched(seen);
     // The last whole vector: lane 0 after it is s(x + 4), in the row or from the border.
     const sAfter = f32x4.splat(smoothingAt(up, centre, down, x + 4, w, a, b, mode));
     const tAfter = f32x4.splat(differenceAt(up, down, x + 4, w, mode));

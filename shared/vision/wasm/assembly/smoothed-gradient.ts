@@ -64,7 +64,7 @@ function sweep(src: usize, bytes: usize, channels: i32, kr: i32, kg: i32, kb: i3
     }
     const up = smoothedRow(ring, slot, y - 1, h, mode, zeros);
     const down = smoothedRow(ring, slot, y + 1, h, mode, zeros);
-    gradientRow(up, ring + <usize>(y % RING) * slot, down, at(dst, y * w), w, a, b, output, mode, gradients);
+    gradientRow(up, ring + <usize>(y % RING) * slot, down, at(dst, y * w), w, a, b, output, mode, gradients, at(dst, (y + 2 < h ? y + 2 : y) * w));
   }
   if (range != 0) storeRange(gradients, w, range);
   if (bytes != 0) finishPhotoRows(quality, source, sourceRing, w, h);

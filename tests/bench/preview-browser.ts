@@ -120,6 +120,8 @@ async function measure(url: string, ruleId: string, withoutWebAssembly: boolean,
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByRole('navigation', { name: 'Main' }).waitFor();
     await page.goto(`${url}/rules/${ruleId}`);
+    // The editor shows each step closed; its fields come with "Edit".
+    await page.getByRole('button', { name: /^Edit Step \d+: Gaussian smoothing$/ }).click({ timeout: 60_000 });
     await page.getByLabel('Sigma (px)').waitFor({ timeout: 60_000 });
     await page.getByRole('radio', { name: new RegExp(SET_NAME) }).first().click();
     for (const photo of PHOTOS) {

@@ -51,6 +51,8 @@ test('symmetric separable kernels (radius 1 columns first, 2 and more through th
 test('a symmetric column of radius 2 or more (rows filtered first into a ring) with any row: short, long or not symmetric, with an offset, within float32 rounding of plain', () => {
   // The row kernel's ways through the SIMD kernel: a symmetric radius of 1 to 9 read in place but
   // for its ends, and any other row through a padded copy; widths across both ends' copies.
+  // Reference: the plain engine (double precision, rounded once; held to OpenCV's filters in
+  // opencv-reference.test.ts); the bound is float32Tolerance's γₙ (Higham §3.1, from memory).
   const halfColumn = fc.integer({ min: 3, max: 10 }).chain((n) => weights(n));
   const row = fc.oneof(
     fc.integer({ min: 1, max: 13 }).chain((n) => weights(n)).map((half) => [...half.slice(1).reverse(), ...half]),
@@ -71,7 +73,8 @@ test('a symmetric column of radius 2 or more (rows filtered first into a ring) w
 
 test('Gaussian blur of images wider than the ring of filtered rows takes (4096): the columns-first way, within float32 rounding of plain', () => {
   // 4096 wide still goes through the ring; wider images go the columns-first way, whose radii 1, 2
-  // and 3 (σ 0.3, 0.6 and 1) have loops of their own and longer columns sweeps of pairs.
+  // and 3 (σ 0.3, 0.6 and 1) have loops of their own, and longer columns go in sweeps of pairs.
+  // Reference and bound as in the test above: the plain engine, float32Tolerance.
   const cases: [number, number, number][] = [[4096, 3, 3], [4099, 5, 3], [4101, 4, 1.5], [4097, 6, 1], [4103, 5, 0.6], [4098, 4, 0.3]];
   cases.forEach(([w, h, sigma], i) => {
     const image = sampleImage(w, h, i % 2 === 0 ? 'signed float' : '16-bit', 90 + i);

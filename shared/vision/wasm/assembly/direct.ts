@@ -6,7 +6,7 @@
 // Whole-number kernels on whole-number rows (8-bit grey photos, masks) add in 16-bit integers, eight
 // pixels per v128 instead of four: every product and partial sum is then a whole number of at most
 // 32767, which float32 holds exactly too, so both ways give the same sums and the same bits.
-import { align16, at, borderIndex, fillBorderOf, OUTSIDE, rowAddress } from './border';
+import { align16, at, borderIndex, fillBorderOf, keepTouched, OUTSIDE, rowAddress } from './border';
 
 /** Largest magnitude of a 16-bit sum. */
 const I16_LIMIT: i32 = 32767;
@@ -66,7 +66,10 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   for (let y = 1 - rows; y < h; y++) {
     const t = y + rows - 1;
     const slot = t % rows;
-    store<i32>(at(whole, slot), <i32>(bound > 0 && toWhole16Line(src, w, h, t - ry, rx, mode, ring16 + <usize>slot * line16Bytes, bound)));
+    // The source row three below is read on the way, so that it is in the cache when its turn comes
+    // (WebAssembly has no prefetch; see touchAhead).
+    const ahead = at(src, min(max(t - ry + 3, 0), h - 1) * w);
+    store<i32>(at(whole, slot), <i32>(bound > 0 && toWhole16Line(src, w, h, t - ry, rx, mode, ring16 + <usize>slot * line16Bytes, bound, ahead)));
     if (y < 0) continue;
     let allWhole = bound > 0;
     for (let j = 0; j < rows; j++) {
@@ -106,14 +109,15 @@ function wholeSampleBound(weights: usize, taps: i32): i32 {
 /**
  * Source row sy (border applied) as 16-bit integers into line16[rx … rx+w−1], its border columns
  * filled; false when a sample is not a whole number of magnitude at most bound (line16 then unused).
+ * `ahead`: a row of w samples to read on the way (toWhole16).
  */
-function toWhole16Line(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, line16: usize, bound: i32): bool {
+function toWhole16Line(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, line16: usize, bound: i32, ahead: usize): bool {
   const row = borderIndex(sy, h, mode);
   if (row == OUTSIDE) {
     memory.fill(line16, 0, 2 * (w + 2 * rx));
     return true;
   }
-  if (!toWhole16(at(src, row * w), line16 + ((<usize>rx) << 1), w, bound)) return false;
+  if (!toWhole16(at(src, row * w), line16 + ((<usize>rx) << 1), w, bound, ahead)) return false;
   fillBorderOf<i16>(line16, w, rx, mode);
   return true;
 }
@@ -121,8 +125,9 @@ function toWhole16Line(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, 
 /** 1.5·2²³: v + WHOLE_MAGIC rounds v to a whole number, which the low bits of the sum's pattern then hold (|v| < 2²²). */
 const WHOLE_MAGIC: f32 = 12582912;
 
-/** Writes the n samples as 16-bit integers; true when every one is a whole number of magnitude at most bound (line16 else unused). */
-function toWhole16(line: usize, line16: usize, n: i32, bound: i32): bool {
+/** Writes the n samples as 16-bit integers; true when every one is a whole number of magnitude at most bound (line16 else unused). Reads a word of every 32 bytes of `ahead` (n samples). */
+function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize): bool {
+  let seen = 0;
   const limit = f32x4.splat(<f32>bound);
   const magic = f32x4.splat(WHOLE_MAGIC);
   const magicBits = i32x4.splat(reinterpret<i32>(WHOLE_MAGIC));
@@ -133,6 +138,7 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32): bool {
     const end = min(n & ~7, p + 64);
     for (; p < end; p += 8) {
       const a = v128.load(at(line, p)), b = v128.load(at(line, p + 4));
+      seen |= load<i32>(at(ahead, p));
       const ra = f32x4.add(a, magic), rb = f32x4.add(b, magic);
       // Whole: rounding changed nothing (NaN fails); within the bound (±Infinity fails).
       ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(ra, magic), a), f32x4.le(f32x4.abs(a), limit)));
@@ -141,6 +147,7 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32): bool {
     }
     if (!i32x4.all_true(ok)) return false;
   }
+  keepTouched(seen);
   for (; p < n; p++) {
     const v = load<f32>(at(line, p));
     if (!(Mathf.trunc(v) == v && Mathf.abs(v) <= <f32>bound)) return false;
@@ -157,6 +164,8 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32): bool {
  */
 function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32): void {
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
+  // x·1 + 0 is x for every whole number a sum can be (never −0).
+  const unit = scale == 1 && offset == 0;
   let x = 0;
   for (; x + 32 <= w; x += 32) {
     const o = (<usize>x) << 1;
@@ -165,6 +174,16 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
     let acc2 = i16x8.splat(0);
     let acc3 = i16x8.splat(0);
     let t = 0;
+    // Two taps a step, which halves the loop's own instructions per tap. Two lines of weight 1 are
+    // added together first: 16-bit sums wrap, so any order gives the same sum when it fits.
+    for (; t + 2 <= ones; t += 2) {
+      const p = load<usize>(at(tapLines, t)) + o;
+      const p2 = load<usize>(at(tapLines, t + 1)) + o;
+      acc0 = i16x8.add(acc0, i16x8.add(v128.load(p), v128.load(p2)));
+      acc1 = i16x8.add(acc1, i16x8.add(v128.load(p + 16), v128.load(p2 + 16)));
+      acc2 = i16x8.add(acc2, i16x8.add(v128.load(p + 32), v128.load(p2 + 32)));
+      acc3 = i16x8.add(acc3, i16x8.add(v128.load(p + 48), v128.load(p2 + 48)));
+    }
     for (; t < ones; t++) {
       const p = load<usize>(at(tapLines, t)) + o;
       acc0 = i16x8.add(acc0, v128.load(p));
@@ -179,6 +198,20 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
       acc2 = i16x8.sub(acc2, v128.load(p + 32));
       acc3 = i16x8.sub(acc3, v128.load(p + 48));
     }
+    for (; t + 2 <= taps; t += 2) {
+      const k = v128.load(table16 + ((<usize>t) << 4));
+      const p = load<usize>(at(tapLines, t)) + o;
+      const k2 = v128.load(table16 + ((<usize>t) << 4) + 16);
+      const p2 = load<usize>(at(tapLines, t + 1)) + o;
+      acc0 = i16x8.add(acc0, i16x8.mul(k, v128.load(p)));
+      acc1 = i16x8.add(acc1, i16x8.mul(k, v128.load(p + 16)));
+      acc2 = i16x8.add(acc2, i16x8.mul(k, v128.load(p + 32)));
+      acc3 = i16x8.add(acc3, i16x8.mul(k, v128.load(p + 48)));
+      acc0 = i16x8.add(acc0, i16x8.mul(k2, v128.load(p2)));
+      acc1 = i16x8.add(acc1, i16x8.mul(k2, v128.load(p2 + 16)));
+      acc2 = i16x8.add(acc2, i16x8.mul(k2, v128.load(p2 + 32)));
+      acc3 = i16x8.add(acc3, i16x8.mul(k2, v128.load(p2 + 48)));
+    }
     for (; t < taps; t++) {
       const k = v128.load(table16 + ((<usize>t) << 4));
       const p = load<usize>(at(tapLines, t)) + o;
@@ -190,16 +223,16 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
       acc3 = i16x8.add(acc3, i16x8.mul(k, v128.load(p + 48)));
     }
     const q = out + ((<usize>x) << 2);
-    storeSums(q, acc0, vs, vo, 0);
-    storeSums(q, acc1, vs, vo, 32);
-    storeSums(q, acc2, vs, vo, 64);
-    storeSums(q, acc3, vs, vo, 96);
+    storeSums(q, acc0, vs, vo, unit, 0);
+    storeSums(q, acc1, vs, vo, unit, 32);
+    storeSums(q, acc2, vs, vo, unit, 64);
+    storeSums(q, acc3, vs, vo, unit, 96);
   }
   for (; x + 8 <= w; x += 8) {
     const o = (<usize>x) << 1;
     let acc = i16x8.splat(0);
     for (let t = 0; t < taps; t++) acc = i16x8.add(acc, i16x8.mul(v128.load(table16 + ((<usize>t) << 4)), v128.load(load<usize>(at(tapLines, t)) + o)));
-    storeSums(out + ((<usize>x) << 2), acc, vs, vo, 0);
+    storeSums(out + ((<usize>x) << 2), acc, vs, vo, unit, 0);
   }
   for (; x < w; x++) {
     let acc: i32 = 0;
@@ -208,11 +241,16 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
   }
 }
 
-/** Eight 16-bit sums as float32, times scale plus offset, at q + byteOffset. */
+/** Eight 16-bit sums as float32, times scale plus offset (with `unit`, scale 1 and offset 0: as they are), at q + byteOffset. */
 @inline
-function storeSums(q: usize, acc: v128, vs: v128, vo: v128, byteOffset: usize): void {
+function storeSums(q: usize, acc: v128, vs: v128, vo: v128, unit: bool, byteOffset: usize): void {
   const low = f32x4.convert_i32x4_s(i32x4.extend_low_i16x8_s(acc));
   const high = f32x4.convert_i32x4_s(i32x4.extend_high_i16x8_s(acc));
+  if (unit) {
+    v128.store(q + byteOffset, low);
+    v128.store(q + byteOffset + 16, high);
+    return;
+  }
   v128.store(q + byteOffset, f32x4.add(f32x4.mul(low, vs), vo));
   v128.store(q + byteOffset + 16, f32x4.add(f32x4.mul(high, vs), vo));
 }

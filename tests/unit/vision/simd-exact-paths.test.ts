@@ -243,6 +243,32 @@ test('direct correlation of whole-number kernels (zero and ±1 weights among the
   );
 });
 
+test('direct correlation at the edge of 16-bit sums: a lone weight of ±1 (any sample up to 32767 could add in 16 bits) on samples around 32767, beyond 2²² and infinite: the float32 sums bit for bit', () => {
+  // Values a 16-bit conversion saturates (32768 and up), the largest it keeps, and values that
+  // rounding by 1.5·2²³ does not keep: each row that holds one must go through float32.
+  const specials = [32766, 32767, 32768, 32769, 40000, 65535, -32767, -32768, -32769, 2 ** 22 + 2, 2 ** 23, 2 ** 24, -(2 ** 24), Infinity, -Infinity];
+  const w = 70;
+  const h = 6;
+  for (const weight of [1, -1]) {
+    for (const special of specials) {
+      const image = createImage(w, h);
+      for (let i = 0; i < w * h; i++) image.data[i] = (i * 37) % 200;
+      // One special value in row 2 at a column of the 32-pixel loop, one in row 4 in the 8-pixel loop.
+      image.data[2 * w + 17] = special;
+      image.data[4 * w + 66] = special;
+      const k = kernelFromMatrix([
+        [0, 0, 0, 0, 0],
+        [0, 0, 0, 0, 0],
+        [0, 0, weight, 0, 0],
+        [0, 0, 0, 0, 0],
+        [0, 0, 0, 0, 0],
+      ]);
+      const simd = onEngine('simd', () => correlateDirect(image, k, 'reflect'));
+      expect(bitsOf(simd)).toEqual(Array.from(new Uint32Array(float32DirectSums(image, k, 'reflect').buffer)));
+    }
+  }
+});
+
 test('Otsu: the same bin, threshold and mask bits on 8-bit, 16-bit, float and awkward images, with and without a known range and packed bits', () => {
   fc.assert(
     fc.property(imageSize, anyKind, seed, fc.boolean(), fc.boolean(), ([w, h], kind, s, invert, knownRange) => {

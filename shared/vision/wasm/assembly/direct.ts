@@ -122,15 +122,18 @@ function toWhole16Line(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, 
   return true;
 }
 
-/** 1.5·2²³: v + WHOLE_MAGIC rounds v to a whole number, which the low bits of the sum's pattern then hold (|v| < 2²²). */
-const WHOLE_MAGIC: f32 = 12582912;
+/** 1.5·2²³ in four lanes: v + WHOLE_MAGIC rounds v to a whole number, which the low bits of the sum's pattern then hold (|v| < 2²²). */
+const WHOLE_MAGIC_LANES: usize = memory.data<f32>([12582912, 12582912, 12582912, 12582912], 16);
 
 /** Writes the n samples as 16-bit integers; true when every one is a whole number of magnitude at most bound (line16 else unused). Reads a word of every 32 bytes of `ahead` (n samples). */
 function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize): bool {
   let seen = 0;
-  const limit = f32x4.splat(<f32>bound);
-  const magic = f32x4.splat(WHOLE_MAGIC);
-  const magicBits = i32x4.splat(reinterpret<i32>(WHOLE_MAGIC));
+  // From memory: V8 makes a constant vector again wherever the loop uses it.
+  const magic = v128.load(WHOLE_MAGIC_LANES);
+  // The bound checked on the 16-bit values, which saturate: one below their largest, so that a
+  // saturated value never passes.
+  const top = min(bound, I16_LIMIT - 1);
+  const high = i16x8.splat(<i16>top), low = i16x8.splat(<i16>-top);
   let ok = i32x4.splat(-1);
   let p = 0;
   // Checked every 64 samples: a row of fractions (a smoothed image) stops at its first block.
@@ -140,12 +143,16 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize)
       const a = v128.load(at(line, p)), b = v128.load(at(line, p + 4));
       seen |= load<i32>(at(ahead, p));
       const ra = f32x4.add(a, magic), rb = f32x4.add(b, magic);
-      // Whole: rounding changed nothing (NaN fails); within the bound (±Infinity fails).
-      ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(ra, magic), a), f32x4.le(f32x4.abs(a), limit)));
-      ok = v128.and(ok, v128.and(f32x4.eq(f32x4.sub(rb, magic), b), f32x4.le(f32x4.abs(b), limit)));
-      v128.store(line16 + ((<usize>p) << 1), i16x8.narrow_i32x4_s(i32x4.sub(ra, magicBits), i32x4.sub(rb, magicBits)));
+      // Whole: rounding changed nothing (NaN fails). The magic's bits taken from the sum's leave the
+      // whole number (|v| < 2²²; larger values, infinities among them, saturate).
+      const whole = v128.and(f32x4.eq(f32x4.sub(ra, magic), a), f32x4.eq(f32x4.sub(rb, magic), b));
+      const values = i16x8.narrow_i32x4_s(i32x4.sub(ra, magic), i32x4.sub(rb, magic));
+      const outside = v128.or(i16x8.gt_s(values, high), i16x8.lt_s(values, low));
+      ok = v128.and(ok, v128.andnot(whole, outside));
+      v128.store(line16 + ((<usize>p) << 1), values);
     }
-    if (!i32x4.all_true(ok)) return false;
+    // A failed check clears a 16-bit lane (the bound) or two (not whole).
+    if (!i16x8.all_true(ok)) return false;
   }
   keepTouched(seen);
   for (; p < n; p++) {

@@ -13,7 +13,7 @@ const I16_LIMIT: i32 = 32767;
 
 /** Scratch bytes `correlate2d` needs. */
 export function directScratchBytes(w: i32, rows: i32, cols: i32): i32 {
-  return 48 * rows * cols + 12 * rows + 4 * w + rows * (2 * (w + cols) + 32) + 256;
+  return 48 * rows * cols + 12 * rows + 4 * w + (rows + 1) * (2 * (w + cols) + 32) + 256;
 }
 
 /**
@@ -55,40 +55,70 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   const slots = align16(at(taps16, 2 * taps));
   const slots16 = align16(at(slots, rows));
   const tapLines = align16(at(slots16, rows));
+  // A ring of rows + 1 16-bit lines (see below), and whether each holds whole numbers.
+  const ring = rows + 1;
   const whole = align16(at(tapLines, taps));
-  const zeros = align16(at(whole, rows));
+  const zeros = align16(at(whole, ring));
   memory.fill(zeros, 0, 4 * w);
   const line16Bytes = (<usize>(2 * (w + cols) + 16)) & ~(<usize>15);
   const ring16 = align16(at(zeros, w));
-  // 16-bit lines for source rows −ry … rows−2−ry; each output row adds the next one. Rows that are
-  // not whole numbers within the bound send the windows holding them to the float32 loop, which reads
-  // the source rows in place.
-  for (let y = 1 - rows; y < h; y++) {
-    const t = y + rows - 1;
-    const slot = t % rows;
-    // The source row three below is read on the way, so that it is in the cache when its turn comes
-    // (WebAssembly has no prefetch; see touchAhead).
-    const ahead = at(src, min(max(t - ry + 3, 0), h - 1) * w);
-    store<i32>(at(whole, slot), <i32>(bound > 0 && toWhole16Line(src, w, h, t - ry, rx, mode, ring16 + <usize>slot * line16Bytes, bound, ahead)));
-    if (y < 0) continue;
+  // The ring's lines: those of source rows y − ry … y + ry, which output row y reads, and the next
+  // one, converted while row y is summed (its source samples then arrive from memory while the sums
+  // keep the processor busy). Rows that are not whole numbers within the bound send the windows
+  // holding them to the float32 loop, which reads the source rows in place.
+  for (let t = 0; t < rows; t++) {
+    const line = ringLine(ring16, t, ring, line16Bytes);
+    store<i32>(at(whole, t % ring), <i32>(bound > 0 && toWhole16Line(src, w, h, t - ry, rx, mode, line, bound, rowBelow(src, t - ry + 3, w, h))));
+  }
+  for (let y = 0; y < h; y++) {
     let allWhole = bound > 0;
     for (let j = 0; j < rows; j++) {
-      const s = (y + j) % rows;
-      store<usize>(at(slots16, j), ring16 + <usize>s * line16Bytes);
-      allWhole = allWhole && load<i32>(at(whole, s)) != 0;
+      store<usize>(at(slots16, j), ringLine(ring16, y + j, ring, line16Bytes));
+      allWhole = allWhole && load<i32>(at(whole, (y + j) % ring)) != 0;
     }
     const out = at(dst, y * w);
+    const next = y + rows;
+    const nextRow = borderIndex(next - ry, h, mode);
+    // The next line is converted inside whole16 when it is a source row, else afterwards.
+    const during = bound > 0 && allWhole && y + 1 < h && nextRow != OUTSIDE;
     if (allWhole) {
       for (let t = 0; t < nonzero; t++) {
         const line = load<usize>(at(slots16, load<i32>(at(taps16, 2 * t))));
         store<usize>(at(tapLines, t), line + <usize>load<i32>(at(taps16, 2 * t + 1)));
       }
-      whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset);
-      continue;
+      const convert = during ? at(src, nextRow * w) : 0;
+      const line16 = ringLine(ring16, next, ring, line16Bytes) + ((<usize>rx) << 1);
+      const done = whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset, convert, line16, bound);
+      if (during) {
+        const ok = done >= 0 && toWhole16(convert + ((<usize>done) << 2), line16 + ((<usize>done) << 1), w - done, bound, convert);
+        if (ok) fillBorderOf<i16>(ringLine(ring16, next, ring, line16Bytes), w, rx, mode);
+        store<i32>(at(whole, next % ring), <i32>ok);
+        continue;
+      }
+    } else {
+      for (let j = 0; j < rows; j++) store<usize>(at(slots, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
+      general(slots, table, rows, cols, w, out, scale, offset, mode);
     }
-    for (let j = 0; j < rows; j++) store<usize>(at(slots, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
-    general(slots, table, rows, cols, w, out, scale, offset, mode);
+    if (y + 1 < h) {
+      const line = ringLine(ring16, next, ring, line16Bytes);
+      store<i32>(at(whole, next % ring), <i32>(bound > 0 && toWhole16Line(src, w, h, next - ry, rx, mode, line, bound, rowBelow(src, next - ry + 3, w, h))));
+    }
   }
+}
+
+/**
+ * Source row sy clamped to the image: a row read on the way so that it is in the cache when its turn
+ * comes (WebAssembly has no prefetch; see touchAhead).
+ */
+@inline
+function rowBelow(src: usize, sy: i32, w: i32, h: i32): usize {
+  return at(src, min(max(sy, 0), h - 1) * w);
+}
+
+/** The ring's line for row t (lines lineBytes apart, `ring` of them). */
+@inline
+function ringLine(ring16: usize, t: i32, ring: i32, lineBytes: usize): usize {
+  return ring16 + <usize>(t % ring) * lineBytes;
 }
 
 /**
@@ -128,28 +158,16 @@ const WHOLE_MAGIC_LANES: usize = memory.data<f32>([12582912, 12582912, 12582912,
 /** Writes the n samples as 16-bit integers; true when every one is a whole number of magnitude at most bound (line16 else unused). Reads a word of every 32 bytes of `ahead` (n samples). */
 function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize): bool {
   let seen = 0;
-  // From memory: V8 makes a constant vector again wherever the loop uses it.
   const magic = v128.load(WHOLE_MAGIC_LANES);
-  // The bound checked on the 16-bit values, which saturate: one below their largest, so that a
-  // saturated value never passes.
-  const top = min(bound, I16_LIMIT - 1);
-  const high = i16x8.splat(<i16>top), low = i16x8.splat(<i16>-top);
+  const high = wholeHigh(bound), low = i16x8.neg(high);
   let ok = i32x4.splat(-1);
   let p = 0;
   // Checked every 64 samples: a row of fractions (a smoothed image) stops at its first block.
   while (p + 8 <= n) {
     const end = min(n & ~7, p + 64);
     for (; p < end; p += 8) {
-      const a = v128.load(at(line, p)), b = v128.load(at(line, p + 4));
       seen |= load<i32>(at(ahead, p));
-      const ra = f32x4.add(a, magic), rb = f32x4.add(b, magic);
-      // Whole: rounding changed nothing (NaN fails). The magic's bits taken from the sum's leave the
-      // whole number (|v| < 2²²; larger values, infinities among them, saturate).
-      const whole = v128.and(f32x4.eq(f32x4.sub(ra, magic), a), f32x4.eq(f32x4.sub(rb, magic), b));
-      const values = i16x8.narrow_i32x4_s(i32x4.sub(ra, magic), i32x4.sub(rb, magic));
-      const outside = v128.or(i16x8.gt_s(values, high), i16x8.lt_s(values, low));
-      ok = v128.and(ok, v128.andnot(whole, outside));
-      v128.store(line16 + ((<usize>p) << 1), values);
+      ok = wholeBlock(line, line16, p, magic, high, low, ok);
     }
     // A failed check clears a 16-bit lane (the bound) or two (not whole).
     if (!i16x8.all_true(ok)) return false;
@@ -167,10 +185,15 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize)
  * One output row in 16-bit sums, eight pixels per v128: tap t adds weight table16[t] times the 16-bit
  * line from tapLines[t] (already offset to the tap's column); each sum converted to float32, then
  * scaled and offset as the float32 loops do. Pixels past the last eight add the same products one at
- * a time in 32-bit integers: the same exact sums.
+ * a time in 32-bit integers: the same exact sums. When `convert` is a source row (else 0), its samples
+ * go to line16 as 16-bit integers alongside, 32 for each 32 pixels summed (as toWhole16, within
+ * `bound`); returns how many it converted, or −1 when one of them was not a whole number within it.
  */
-function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32): void {
+function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32): i32 {
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
+  const magic = v128.load(WHOLE_MAGIC_LANES);
+  const high = wholeHigh(bound), low = i16x8.neg(high);
+  let ok = i32x4.splat(-1);
   // x·1 + 0 is x for every whole number a sum can be (never −0).
   const unit = scale == 1 && offset == 0;
   let x = 0;
@@ -229,12 +252,19 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
       acc2 = i16x8.add(acc2, i16x8.mul(k, v128.load(p + 32)));
       acc3 = i16x8.add(acc3, i16x8.mul(k, v128.load(p + 48)));
     }
+    if (convert != 0) {
+      ok = wholeBlock(convert, line16, x, magic, high, low, ok);
+      ok = wholeBlock(convert, line16, x + 8, magic, high, low, ok);
+      ok = wholeBlock(convert, line16, x + 16, magic, high, low, ok);
+      ok = wholeBlock(convert, line16, x + 24, magic, high, low, ok);
+    }
     const q = out + ((<usize>x) << 2);
     storeSums(q, acc0, vs, vo, unit, 0);
     storeSums(q, acc1, vs, vo, unit, 32);
     storeSums(q, acc2, vs, vo, unit, 64);
     storeSums(q, acc3, vs, vo, unit, 96);
   }
+  const converted = x;
   for (; x + 8 <= w; x += 8) {
     const o = (<usize>x) << 1;
     let acc = i16x8.splat(0);
@@ -246,6 +276,34 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
     for (let t = 0; t < taps; t++) acc += <i32>load<i16>(table16 + ((<usize>t) << 4)) * <i32>load<i16>(load<usize>(at(tapLines, t)) + ((<usize>x) << 1));
     store<f32>(at(out, x), <f32>acc * scale + offset);
   }
+  return i16x8.all_true(ok) ? converted : -1;
+}
+
+/**
+ * The bound as the largest 16-bit value a whole number may have in eight lanes: one below the lanes'
+ * largest, so that a saturated value never passes.
+ */
+@inline
+function wholeHigh(bound: i32): v128 {
+  return i16x8.splat(<i16>min(bound, I16_LIMIT - 1));
+}
+
+/**
+ * Samples x … x+7 of a source row as 16-bit integers at line16 (the same offsets); returns `ok` with a
+ * 16-bit lane cleared for a sample outside low … high and two for one that is not a whole number.
+ * The rounding constant comes from memory (WHOLE_MAGIC_LANES): V8 makes a constant vector again
+ * wherever a loop uses it.
+ */
+@inline
+function wholeBlock(line: usize, line16: usize, x: i32, magic: v128, high: v128, low: v128, ok: v128): v128 {
+  const a = v128.load(at(line, x)), b = v128.load(at(line, x + 4));
+  const ra = f32x4.add(a, magic), rb = f32x4.add(b, magic);
+  // Whole: rounding changed nothing (NaN fails). The magic's bits taken from the sum's leave the whole
+  // number (|v| < 2²²; larger values, infinities among them, saturate).
+  const whole = v128.and(f32x4.eq(f32x4.sub(ra, magic), a), f32x4.eq(f32x4.sub(rb, magic), b));
+  const values = i16x8.narrow_i32x4_s(i32x4.sub(ra, magic), i32x4.sub(rb, magic));
+  v128.store(line16 + ((<usize>x) << 1), values);
+  return v128.and(ok, v128.andnot(whole, v128.or(i16x8.gt_s(values, high), i16x8.lt_s(values, low))));
 }
 
 /** Eight 16-bit sums as float32, times scale plus offset (with `unit`, scale 1 and offset 0: as they are), at q + byteOffset. */

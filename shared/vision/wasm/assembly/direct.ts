@@ -25,14 +25,10 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   const taps = rows * cols;
   const table = align16(scratch);
   for (let t = 0; t < taps; t++) v128.store(table + ((<usize>t) << 4), f32x4.splat(load<f32>(at(weights, t))));
-  if (rows == 3 && cols == 3) {
-    correlate3x3(src, dst, w, h, mode, table, scale, offset, align16(table + ((<usize>taps) << 4)));
-    return;
-  }
-  // The 16-bit weights, and the largest |sample| for which 16-bit sums cannot overflow (0: no 16-bit
-  // path).
-  const table16 = table + ((<usize>taps) << 4);
+  // The largest |sample| for which 16-bit sums cannot overflow (0: no 16-bit path).
   const bound = wholeSampleBound(weights, taps);
+  // The 16-bit weights.
+  const table16 = table + ((<usize>taps) << 4);
   // The 16-bit sums skip zero weights: only the nonzero taps go into table16, each with its
   // source (row j, byte offset 2i in its line) at taps16; adding a zero product changes no sum.
   const taps16 = table16 + ((<usize>taps) << 4);
@@ -62,6 +58,13 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   memory.fill(zeros, 0, 4 * w);
   const line16Bytes = (<usize>(2 * (w + cols) + 16)) & ~(<usize>15);
   const ring16 = align16(at(zeros, w));
+  // A 3×3 kernel goes through 16-bit sums only when the first source row is of whole numbers within
+  // the bound (the ring's first line holds it meanwhile): an image of fractions (a smoothed one)
+  // would try every row and then take the float32 loop anyway.
+  if (rows == 3 && cols == 3 && (bound == 0 || h == 0 || !toWhole16(src, ring16, w, bound, src))) {
+    correlate3x3(src, dst, w, h, mode, table, scale, offset, zeros);
+    return;
+  }
   // The ring's lines: those of source rows y − ry … y + ry, which output row y reads, and the next
   // one, converted while row y is summed (its source samples then arrive from memory while the sums
   // keep the processor busy). Rows that are not whole numbers within the bound send the windows
@@ -97,7 +100,8 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
       }
     } else {
       for (let j = 0; j < rows; j++) store<usize>(at(slots, j), rowAddress(src, y + j - ry, h, w, mode, zeros));
-      general(slots, table, rows, cols, w, out, scale, offset, mode);
+      if (rows == 3 && cols == 3) row3x3(load<usize>(slots), load<usize>(slots, sizeof<usize>()), load<usize>(slots, 2 * sizeof<usize>()), out, w, mode, table, scale, offset);
+      else general(slots, table, rows, cols, w, out, scale, offset, mode);
     }
     if (y + 1 < h) {
       const line = ringLine(ring16, next, ring, line16Bytes);
@@ -321,39 +325,44 @@ function storeSums(q: usize, acc: v128, vs: v128, vo: v128, unit: bool, byteOffs
 }
 
 /**
- * A 3×3 kernel straight from the source rows, no padded copies: the vectors of the inner columns
- * (1 … w−2) read their neighbours in place; the first and last columns, and any left over, take theirs
- * through the border policy one pixel at a time, adding in the vectors' order. It keeps its float32
- * loop with the weights in registers: 16-bit sums (their rows converted) cost more than they saved
- * (the 4-neighbour Laplacian at 5 MP 0.63 → 0.89 ns/px). `zeros` holds w zeros after the call begins.
+ * A 3×3 kernel in float32 straight from the source rows, no padded copies (see row3x3). `zeros` holds
+ * w zeros after the call begins.
  */
 function correlate3x3(src: usize, dst: usize, w: i32, h: i32, mode: i32, table: usize, scale: f32, offset: f32, zeros: usize): void {
   memory.fill(zeros, 0, 4 * w);
+  for (let y = 0; y < h; y++) {
+    row3x3(rowAddress(src, y - 1, h, w, mode, zeros), at(src, y * w), rowAddress(src, y + 1, h, w, mode, zeros), at(dst, y * w), w, mode, table, scale, offset);
+  }
+}
+
+/**
+ * One output row of a 3×3 kernel in float32 from source rows a, b, c (the border applied to the rows):
+ * the vectors of the inner columns (1 … w−2) read their neighbours in place; the first and last
+ * columns, and any left over, take theirs through the border policy one pixel at a time, adding in
+ * the vectors' order. The weights are held in registers.
+ */
+function row3x3(a: usize, b: usize, c: usize, out: usize, w: i32, mode: i32, table: usize, scale: f32, offset: f32): void {
   const k0 = v128.load(table), k1 = v128.load(table, 16), k2 = v128.load(table, 32);
   const k3 = v128.load(table, 48), k4 = v128.load(table, 64), k5 = v128.load(table, 80);
   const k6 = v128.load(table, 96), k7 = v128.load(table, 112), k8 = v128.load(table, 128);
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
-  for (let y = 0; y < h; y++) {
-    const a = rowAddress(src, y - 1, h, w, mode, zeros), b = at(src, y * w), c = rowAddress(src, y + 1, h, w, mode, zeros);
-    const out = at(dst, y * w);
-    let x = 1;
-    for (; x + 5 <= w; x += 4) {
-      // Columns x−1 … x+4 of each row: the loads start one sample to the left of the outputs.
-      const o = (<usize>(x - 1)) << 2;
-      let acc = f32x4.mul(k0, v128.load(a + o));
-      acc = f32x4.add(acc, f32x4.mul(k1, v128.load(a + o, 4)));
-      acc = f32x4.add(acc, f32x4.mul(k2, v128.load(a + o, 8)));
-      acc = f32x4.add(acc, f32x4.mul(k3, v128.load(b + o)));
-      acc = f32x4.add(acc, f32x4.mul(k4, v128.load(b + o, 4)));
-      acc = f32x4.add(acc, f32x4.mul(k5, v128.load(b + o, 8)));
-      acc = f32x4.add(acc, f32x4.mul(k6, v128.load(c + o)));
-      acc = f32x4.add(acc, f32x4.mul(k7, v128.load(c + o, 4)));
-      acc = f32x4.add(acc, f32x4.mul(k8, v128.load(c + o, 8)));
-      v128.store(out + ((<usize>x) << 2), f32x4.add(f32x4.mul(acc, vs), vo));
-    }
-    pixel3x3(a, b, c, table, 0, w, mode, out, scale, offset);
-    for (; x < w; x++) pixel3x3(a, b, c, table, x, w, mode, out, scale, offset);
+  let x = 1;
+  for (; x + 5 <= w; x += 4) {
+    // Columns x−1 … x+4 of each row: the loads start one sample to the left of the outputs.
+    const o = (<usize>(x - 1)) << 2;
+    let acc = f32x4.mul(k0, v128.load(a + o));
+    acc = f32x4.add(acc, f32x4.mul(k1, v128.load(a + o, 4)));
+    acc = f32x4.add(acc, f32x4.mul(k2, v128.load(a + o, 8)));
+    acc = f32x4.add(acc, f32x4.mul(k3, v128.load(b + o)));
+    acc = f32x4.add(acc, f32x4.mul(k4, v128.load(b + o, 4)));
+    acc = f32x4.add(acc, f32x4.mul(k5, v128.load(b + o, 8)));
+    acc = f32x4.add(acc, f32x4.mul(k6, v128.load(c + o)));
+    acc = f32x4.add(acc, f32x4.mul(k7, v128.load(c + o, 4)));
+    acc = f32x4.add(acc, f32x4.mul(k8, v128.load(c + o, 8)));
+    v128.store(out + ((<usize>x) << 2), f32x4.add(f32x4.mul(acc, vs), vo));
   }
+  pixel3x3(a, b, c, table, 0, w, mode, out, scale, offset);
+  for (; x < w; x++) pixel3x3(a, b, c, table, x, w, mode, out, scale, offset);
 }
 
 /** Output x of a 3×3 kernel from rows a, b, c, its columns x−1 and x+1 through the border policy. */

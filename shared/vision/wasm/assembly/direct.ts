@@ -5,7 +5,9 @@
 // 3×3 kernel's time.)
 // Whole-number kernels on whole-number rows (8-bit grey photos, masks) add in 16-bit integers, eight
 // pixels per v128 instead of four: every product and partial sum is then a whole number of at most
-// 32767, which float32 holds exactly too, so both ways give the same sums and the same bits.
+// 32767, which float32 holds exactly too, so both ways give the same sums and the same bits. The rows
+// go into 16 bits one ahead, while the row before them is summed; 3×3 kernels take this path when the
+// image's first row is of whole numbers.
 import { align16, at, borderIndex, fillBorderOf, keepTouched, OUTSIDE, rowAddress } from './border';
 
 /** Largest magnitude of a 16-bit sum. */

@@ -248,7 +248,7 @@ export class SimdKernels {
     out: Image,
     range?: ValueRange,
   ): QualitySums | null {
-    return this.fromPhoto(samples, channels, weights, out, true, (src, k, quality, dst, scope) => {
+    return this.fromPhoto(samples, channels, weights, out, (src, k, quality, dst, scope) => {
       const col = scope.f32(column);
       const rw = scope.f32(row);
       const rangeAddress = range ? scope.alloc(8) : 0;
@@ -261,7 +261,7 @@ export class SimdKernels {
 
   /** As photoQualityAndSmoothedGradient, with `separable` (column ⊗ row + offset) of the input image. */
   photoQualityAndSeparable(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, column: ArrayLike<number>, row: ArrayLike<number>, border: BorderMode, offset: number, out: Image): QualitySums | null {
-    return this.fromPhoto(samples, channels, weights, out, true, (src, k, quality, dst, scope) => {
+    return this.fromPhoto(samples, channels, weights, out, (src, k, quality, dst, scope) => {
       const col = scope.f32(column);
       const rw = scope.f32(row);
       const scratch = scope.alloc(this.wasm.separableBytesScratchBytes(out.width, column.length, row.length));
@@ -269,16 +269,12 @@ export class SimdKernels {
     });
   }
 
-  /**
-   * Copies the photo's bytes in and runs `kernel` from them into `out`; its `quality` is where the
-   * sums go, 0 for a grey photo when `greySums` (they are then summed from the bytes first).
-   */
+  /** Copies the photo's bytes in and runs `kernel` from them into `out`; its `quality` is where the sums go. */
   private fromPhoto(
     samples: Uint8Array,
     channels: 1 | 3 | 4,
     weights: LumaWeights,
     out: Image,
-    greySums: boolean,
     kernel: (src: number, thousandths: number[], quality: number, dst: number, scope: CallScope) => void,
   ): QualitySums | null {
     const thousandths = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
@@ -289,11 +285,9 @@ export class SimdKernels {
       const src = scope.alloc(samples.length);
       new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
       const sums = scope.alloc(32);
-      const greyFirst = greySums && channels === 1;
-      if (greyFirst) this.wasm.grey8Quality(src, out.width, out.height, 0, sums);
       const resident = this.owns(out);
       const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
-      kernel(src, thousandths, greyFirst ? 0 : sums, dst, scope);
+      kernel(src, thousandths, sums, dst, scope);
       if (!resident) out.data.set(this.heap.f32(dst, pixels));
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
       return { sum, clipped, lapSum, lapSquares };
@@ -532,7 +526,7 @@ export class SimdKernels {
    */
   photoWithQualitySums(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, out: Image): QualitySums | null {
     const { width: w, height: h } = out;
-    return this.fromPhoto(samples, channels, weights, out, false, (src, k, sums, dst, scope) => {
+    return this.fromPhoto(samples, channels, weights, out, (src, k, sums, dst, scope) => {
       if (channels === 1) this.wasm.grey8Quality(src, w, h, dst, sums);
       else this.wasm.lumaRgb8Quality(src, channels, w, h, dst, k[0], k[1], k[2], 255, sums, scope.alloc(this.wasm.wideRingBytes(w)));
     });

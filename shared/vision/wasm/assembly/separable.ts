@@ -37,12 +37,12 @@ export function separableBytes(src: usize, channels: i32, kr: i32, kg: i32, kb: 
   const source = align16(scratch + <usize>separableScratchBytes(w, colLen, rowLen));
   const reach = colLen >> 1;
   let converted = 0;
-  startPhotoRows(quality);
+  startPhotoRows(quality, channels);
   for (let y = 0; y < h; ) {
     converted = convertPhotoRows(src, channels, kr, kg, kb, quality, source, ring, w, h, converted, min(h, y + 2 + reach));
     y += separableRows(source, ring, w, h, y, colK, colLen, rowK, rowLen, mode, offset, scratch, at(dst, y * w), at(dst, (y + 1) * w));
   }
-  finishPhotoRows(quality, source, ring, w, h);
+  finishPhotoRows(src, channels, quality, source, ring, w, h);
 }
 
 /** Scratch bytes `separableBytes` needs: those of `separable` and its ring of source rows. */

@@ -51,7 +51,7 @@ function sweep(src: usize, bytes: usize, channels: i32, kr: i32, kg: i32, kb: i3
   const source = bytes != 0 ? align16(scratch + <usize>smoothedGradientScratchBytes(w, colLen, rowLen)) : src;
   const reach = colLen >> 1;
   let converted = 0;
-  startPhotoRows(quality);
+  startPhotoRows(quality, channels);
   // Smoothed rows 0 … ready−1 exist; row k sits in slot k mod RING.
   let ready = 0;
   for (let y = 0; y < h; y++) {
@@ -67,7 +67,7 @@ function sweep(src: usize, bytes: usize, channels: i32, kr: i32, kg: i32, kb: i3
     gradientRow(up, ring + <usize>(y % RING) * slot, down, at(dst, y * w), w, a, b, output, mode, gradients, at(dst, (y + 2 < h ? y + 2 : y) * w));
   }
   if (range != 0) storeRange(gradients, w, range);
-  if (bytes != 0) finishPhotoRows(quality, source, sourceRing, w, h);
+  if (bytes != 0) finishPhotoRows(bytes, channels, quality, source, sourceRing, w, h);
 }
 
 /** The ring slot of smoothed row y (border applied: rows −1 and h map to rows 0, 1, h−2 or h−1), or the zeros row. */

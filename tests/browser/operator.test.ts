@@ -79,6 +79,17 @@ describe('the operator at phone width', () => {
     const verdict = page.getByTestId('verdict');
     await verdict.waitFor({ timeout: 60_000 });
     expect(await verdict.getByRole('heading', { level: 2 }).first().textContent()).toMatch(/^(PASS|FAIL|RETAKE)$/);
+    // The longest verdict word stays on one line beside the mark at phone width (56 px broke RETAKE in two).
+    const oneLine = await verdict.getByRole('heading', { level: 2 }).first().evaluate((el) => {
+      const shown = el.textContent;
+      el.textContent = 'I';
+      const oneLineHeight = el.getBoundingClientRect().height;
+      el.textContent = 'RETAKE';
+      const height = el.getBoundingClientRect().height;
+      el.textContent = shown;
+      return height < 1.5 * oneLineHeight;
+    });
+    expect(oneLine).toBe(true);
     await page.getByRole('heading', { name: /Measurements against limits|What was wrong with the photo/ }).waitFor();
     expect(await page.getByText(/A verdict is a decision aid/).count()).toBe(1);
     // The washer rule's area gauge: its unit as the symbol mm², not the rule document's code mm2.

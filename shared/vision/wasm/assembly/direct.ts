@@ -326,12 +326,8 @@ function storeSums(q: usize, acc: v128, vs: v128, vo: v128, unit: bool, byteOffs
   v128.store(q + byteOffset + 16, f32x4.add(f32x4.mul(high, vs), vo));
 }
 
-/**
- * A 3×3 kernel in float32 straight from the source rows, no padded copies (see row3x3). `zeros` holds
- * w zeros after the call begins.
- */
+/** A 3×3 kernel in float32 straight from the source rows, no padded copies (see row3x3); `zeros` holds w zeros. */
 function correlate3x3(src: usize, dst: usize, w: i32, h: i32, mode: i32, table: usize, scale: f32, offset: f32, zeros: usize): void {
-  memory.fill(zeros, 0, 4 * w);
   for (let y = 0; y < h; y++) {
     row3x3(rowAddress(src, y - 1, h, w, mode, zeros), at(src, y * w), rowAddress(src, y + 1, h, w, mode, zeros), at(dst, y * w), w, mode, table, scale, offset);
   }

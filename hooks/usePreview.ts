@@ -9,6 +9,7 @@ import { prepareEngine, type EngineName } from '../shared/vision/engine';
 import { ImageWorkspace } from '../shared/vision/workspace';
 import { releaseRun, remeasureRun, RuleRunError, runRule, type KernelLibrary, type RuleRun } from '../shared/vision/pipeline';
 import { fetchPhotoSamples, runServerPreview, type PhotoSamples } from '../lib/api';
+import { formatGaugeValue } from '../lib/format';
 import { previewPauseMs } from './previewPause';
 
 /** One frame: "Updating…" is on screen before the run takes the main thread. */
@@ -172,19 +173,13 @@ export function compareWithServer(run: RuleRun, server: PreviewResult): ServerCo
       agrees = false;
       lines.push(`${m.name}: the server did not measure it`);
     } else if (close(m.value, other.value)) {
-      lines.push(`${m.name}: both ${formatValue(m.value)}`);
+      lines.push(`${m.name}: both ${formatGaugeValue(m.value)}`);
     } else {
       agrees = false;
-      lines.push(`${m.name}: browser ${formatValue(m.value)}, server ${formatValue(other.value)}`);
+      lines.push(`${m.name}: browser ${formatGaugeValue(m.value)}, server ${formatGaugeValue(other.value)}`);
     }
   }
   return { agrees, lines };
-}
-
-export function formatValue(value: number): string {
-  if (Number.isInteger(value)) return String(value);
-  const magnitude = Math.abs(value);
-  return magnitude >= 100 ? value.toFixed(1) : magnitude >= 1 ? value.toFixed(3) : value.toPrecision(3);
 }
 
 export function useServerPreview() {

@@ -1,4 +1,6 @@
-// Dates and counts as people on the line read them.
+// Dates, counts and gauge values as people on the line read them.
+import { unitSuffix } from '../shared/rules/units';
+
 const dateFormat = new Intl.DateTimeFormat(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
 
 export function formatDate(iso: string): string {
@@ -20,4 +22,26 @@ export function formatPercent(share: number | null | undefined, digits = 1): str
 /** A station as the screens name it: "Line 1 — stamping · Press 3 exit". */
 export function stationTitle(station: { lineName: string; name: string }): string {
   return `${station.lineName} · ${station.name}`;
+}
+
+/**
+ * A gauge's value as every screen shows it (preview, trial, verdict, record): whole numbers as they
+ * are, one decimal from 100, three from 1, three significant digits below 1, and powers of ten where
+ * fixed decimals would hide the value (below 0.001, from a million).
+ */
+export function formatGaugeValue(value: number): string {
+  if (!Number.isFinite(value) || Number.isInteger(value)) return String(value);
+  const magnitude = Math.abs(value);
+  if (magnitude < 0.001 || magnitude >= 1e6) return value.toExponential(2);
+  return magnitude >= 100 ? value.toFixed(1) : magnitude >= 1 ? value.toFixed(3) : value.toPrecision(3);
+}
+
+/** A gauge's limits in words, as the engineer entered them: "479.1 to 480.2 mm²", "at most 0.5", "no limit". */
+export function describeLimits(min: number | null | undefined, max: number | null | undefined, unit: string | null | undefined): string {
+  const u = unitSuffix(unit);
+  const has = (n: number | null | undefined): n is number => n !== null && n !== undefined;
+  if (has(min) && has(max)) return `${min} to ${max}${u}`;
+  if (has(min)) return `at least ${min}${u}`;
+  if (has(max)) return `at most ${max}${u}`;
+  return 'no limit';
 }

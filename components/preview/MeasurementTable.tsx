@@ -3,7 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import type { Limits } from '../../shared/rules/schema';
 import { unitSuffix } from '../../shared/rules/units';
 import { colors, space } from '../../lib/theme';
-import { formatValue } from '../../hooks/usePreview';
+import { describeLimits, formatGaugeValue } from '../../lib/format';
 import { AppText } from '../AppText';
 
 export interface ShownMeasurement {
@@ -16,14 +16,7 @@ export interface ShownMeasurement {
 
 /** A gauge value with its unit, as the table shows it. */
 export function valueWithUnit(value: number, unit: string | null): string {
-  return `${formatValue(value)}${unitSuffix(unit)}`;
-}
-
-export function describeLimits(limits: Limits, unit: string | null): string {
-  const u = unitSuffix(unit);
-  if (limits.min !== undefined && limits.max !== undefined) return `${limits.min} to ${limits.max}${u}`;
-  if (limits.max !== undefined) return `at most ${limits.max}${u}`;
-  return `at least ${limits.min}${u}`;
+  return `${formatGaugeValue(value)}${unitSuffix(unit)}`;
 }
 
 export function MeasurementTable({ measurements }: { measurements: ShownMeasurement[] }) {
@@ -34,7 +27,7 @@ export function MeasurementTable({ measurements }: { measurements: ShownMeasurem
         <View role="row" key={m.name} style={styles.row}>
           <AppText role="cell" variant="bodyStrong" style={styles.name}>{m.name}</AppText>
           <AppText role="cell" style={styles.value}>{valueWithUnit(m.value, m.unit)}</AppText>
-          <AppText role="cell" tone="muted" style={styles.limits}>{describeLimits(m.limits, m.unit)}</AppText>
+          <AppText role="cell" tone="muted" style={styles.limits}>{describeLimits(m.limits.min, m.limits.max, m.unit)}</AppText>
           <AppText role="cell" variant="label" tone={m.pass ? 'notice' : 'danger'} style={styles.outcome}>
             {m.pass ? '✓ within limits' : '✕ outside limits'}
           </AppText>

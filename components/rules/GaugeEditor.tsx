@@ -12,7 +12,7 @@ import { TextField } from '../TextField';
 import { NumberField } from './NumberField';
 import type { EditorAction, EditorGauge, EditorStep } from './ruleEditorState';
 import { MASK_MEASURES, outputsMask, STEP_DESCRIPTIONS, stepNames } from './stepCatalogue';
-import { describeLimits } from '../preview/MeasurementTable';
+import { describeLimits } from '../../lib/format';
 import { EditToggle, OpenAllButton } from './CardToggles';
 import { useOpenCards } from './useOpenCards';
 
@@ -44,7 +44,7 @@ const REGION_WORDS: Record<Region['shape'] | 'whole', string> = { whole: 'whole 
 /** "Largest blob area on Step 4: Threshold · 1716.8 to 1730 mm² · whole photo": a closed gauge's line. */
 function gaugeSummary(gauge: EditorGauge['gauge'], measuredName: string): string {
   const { min, max } = gauge.limits;
-  const limits = min === undefined && max === undefined ? 'no limits yet' : describeLimits(gauge.limits, gauge.unit ?? null);
+  const limits = min === undefined && max === undefined ? 'no limits yet' : describeLimits(min, max, gauge.unit);
   return `${MEASURE_LABELS[gauge.measure]} on ${measuredName} · ${limits} · ${REGION_WORDS[gauge.region?.shape ?? 'whole']}`;
 }
 

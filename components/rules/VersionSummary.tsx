@@ -3,7 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import type { Gauge, Step } from '../../shared/rules/schema';
 import { space } from '../../lib/theme';
 import { AppText } from '../AppText';
-import { describeLimits } from '../preview/MeasurementTable';
+import { describeLimits } from '../../lib/format';
 import { MEASURE_LABELS } from './GaugeEditor';
 import { describeStep, STEP_DESCRIPTIONS } from './stepCatalogue';
 
@@ -17,7 +17,7 @@ export function VersionSummary({ document }: { document: unknown }) {
       ))}
       <AppText variant="label">Gauges</AppText>
       {(doc.gauges ?? []).map((g) => (
-        <AppText key={g.name}>{`${g.name}: ${MEASURE_LABELS[g.measure]}, ${describeLimits(g.limits, g.unit ?? null)}${g.region ? `, in a ${g.region.shape === 'rect' ? 'rectangle' : 'circle'}` : ''}`}</AppText>
+        <AppText key={g.name}>{`${g.name}: ${MEASURE_LABELS[g.measure]}, ${describeLimits(g.limits.min, g.limits.max, g.unit)}${g.region ? `, in a ${g.region.shape === 'rect' ? 'rectangle' : 'circle'}` : ''}`}</AppText>
       ))}
     </View>
   );

@@ -3,7 +3,7 @@
 import { StyleSheet, View, Pressable } from 'react-native';
 import type { Sweep } from '../../shared/api/trials';
 import { colors, radius, space } from '../../lib/theme';
-import { formatValue } from '../../hooks/usePreview';
+import { formatGaugeValue } from '../../lib/format';
 import { AppText } from '../AppText';
 
 interface LimitSweepPlotProps {
@@ -39,7 +39,7 @@ export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProp
               <Pressable
                 key={p.limit}
                 accessibilityRole="button"
-                accessibilityLabel={`Limit ${formatValue(p.limit)}: false reject rate ${pct(p.falseRejectRate)}, escape rate ${pct(p.escapeRate)}${isCurrent ? ', the trial’s limit' : ''}`}
+                accessibilityLabel={`Limit ${formatGaugeValue(p.limit)}: false reject rate ${pct(p.falseRejectRate)}, escape rate ${pct(p.escapeRate)}${isCurrent ? ', the trial’s limit' : ''}`}
                 onPress={() => onPick(p.limit)}
                 hitSlop={8}
                 style={[
@@ -55,18 +55,18 @@ export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProp
       </View>
       <AppText variant="caption" tone="muted" style={styles.xLabel}>Escape rate →  (0 to 100 % on both axes)</AppText>
       <AppText variant="caption">
-        {`◎ ringed: the trial’s limit ${current === null ? '(none)' : formatValue(current)}${draftLimit !== undefined && draftLimit !== current ? ` · ■ square: the draft’s limit ${formatValue(draftLimit)}` : ''}. Press a dot to use its limit in the draft.`}
+        {`◎ ringed: the trial’s limit ${current === null ? '(none)' : formatGaugeValue(current)}${draftLimit !== undefined && draftLimit !== current ? ` · ■ square: the draft’s limit ${formatGaugeValue(draftLimit)}` : ''}. Press a dot to use its limit in the draft.`}
       </AppText>
       <View style={styles.list} accessibilityLabel="Limits and their rates">
         {points.slice(0, 60).map((p) => (
           <Pressable
             key={p.limit}
             accessibilityRole="button"
-            accessibilityLabel={`Use limit ${formatValue(p.limit)}`}
+            accessibilityLabel={`Use limit ${formatGaugeValue(p.limit)}`}
             onPress={() => onPick(p.limit)}
             style={({ pressed }) => [styles.option, pressed && styles.optionPressed, p.limit === draftLimit && styles.optionChosen]}
           >
-            <AppText variant="caption">{`${p.limit === draftLimit ? '✓ ' : ''}${formatValue(p.limit)} → rejects ${pct(p.falseRejectRate)}, escapes ${pct(p.escapeRate)}`}</AppText>
+            <AppText variant="caption">{`${p.limit === draftLimit ? '✓ ' : ''}${formatGaugeValue(p.limit)} → rejects ${pct(p.falseRejectRate)}, escapes ${pct(p.escapeRate)}`}</AppText>
           </Pressable>
         ))}
       </View>

@@ -45,3 +45,25 @@ export function describeLimits(min: number | null | undefined, max: number | nul
   if (has(max)) return `at most ${max}${u}`;
   return 'no limit';
 }
+
+/**
+ * `text` in at most `lines` lines of `perLine` characters, joined by line breaks: words kept whole
+ * where they fit, a word longer than a line cut, and "…" at the end when the text does not fit.
+ */
+export function fitLines(text: string, perLine: number, lines: number): string {
+  const out: string[] = [];
+  let rest = text.trim();
+  while (rest.length > 0 && out.length < lines) {
+    if (rest.length <= perLine) {
+      out.push(rest);
+      rest = '';
+    } else {
+      const space = rest.lastIndexOf(' ', perLine);
+      const cut = space > 0 ? space : perLine;
+      out.push(rest.slice(0, cut).trimEnd());
+      rest = rest.slice(cut).trimStart();
+    }
+  }
+  if (rest.length > 0 && out.length > 0) out[out.length - 1] = `${out[out.length - 1].slice(0, Math.max(1, perLine - 1))}…`;
+  return out.join('\n');
+}

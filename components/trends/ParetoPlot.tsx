@@ -3,6 +3,7 @@
 import { useState } from 'react';
 import { StyleSheet, View, type LayoutChangeEvent } from 'react-native';
 import { BarChart, type barDataItem, type lineDataItem } from 'react-native-gifted-charts';
+import { fitLines } from '../../lib/format';
 import { colors, fonts } from '../../lib/theme';
 import type { Pareto } from '../../shared/api/trends';
 import { CHART_LOOK } from './chartLook';
@@ -21,10 +22,9 @@ function sectionsFor(total: number): number {
   return [4, 5, 3, 2].find((n) => total % n === 0) ?? 4;
 }
 
-function shorten(text: string, room: number): string {
-  const chars = Math.max(4, Math.floor(room / 7));
-  return text.length <= chars ? text : `${text.slice(0, chars - 1)}…`;
-}
+/** Lines a bar's cause may take below it; longer names end in "…" (the list below the chart has them whole). */
+const LABEL_LINES = 2;
+const LABEL_LINE_HEIGHT = 14;
 
 export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
   const [width, setWidth] = useState(0);
@@ -39,7 +39,8 @@ export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
 
   const barData: barDataItem[] = bars.map((bar) => ({
     value: bar.count,
-    label: shorten(bar.cause, barWidth + spacing),
+    // About 7 px a character at 11 px.
+    label: fitLines(bar.cause, Math.max(4, Math.floor((barWidth + spacing) / 7)), LABEL_LINES),
     frontColor: CHART_LOOK.share.colour,
     onPress: () => onOpenCause(bar.cause),
   }));
@@ -67,6 +68,8 @@ export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
           yAxisTextStyle={styles.axisText}
           xAxisLabelTextStyle={[styles.axisText, { width: barWidth + spacing }]}
           labelWidth={barWidth + spacing}
+          xAxisTextNumberOfLines={LABEL_LINES}
+          xAxisLabelsHeight={LABEL_LINES * LABEL_LINE_HEIGHT}
           xAxisColor={CHART_LOOK.axis}
           yAxisColor={CHART_LOOK.axis}
           rulesColor={CHART_LOOK.rules}
@@ -84,6 +87,6 @@ export function ParetoPlot({ pareto, phone, onOpenCause }: ParetoPlotProps) {
 }
 
 const styles = StyleSheet.create({
-  frame: { width: '100%', minHeight: HEIGHT + 48, backgroundColor: colors.surface },
-  axisText: { fontFamily: fonts.regular, fontSize: 11, color: colors.inkMuted, textAlign: 'center' },
+  frame: { width: '100%', minHeight: HEIGHT + 34 + LABEL_LINES * LABEL_LINE_HEIGHT, backgroundColor: colors.surface },
+  axisText: { fontFamily: fonts.regular, fontSize: 11, lineHeight: LABEL_LINE_HEIGHT, color: colors.inkMuted, textAlign: 'center' },
 });

@@ -1,6 +1,7 @@
 // A gauge's value and limits as every screen writes them (lib/format.ts): the preview, the trial's
-// limit sweep, the operator's verdict and the engineer's rule summary share these two functions.
-import { describeLimits, formatGaugeValue } from '../../../lib/format';
+// limit sweep, the operator's verdict and the engineer's rule summary share these two functions;
+// a chart's bar labels are fitted to the room below their bar.
+import { describeLimits, fitLines, formatGaugeValue } from '../../../lib/format';
 
 describe('formatGaugeValue', () => {
   it('keeps whole numbers whole and gives decimals by size', () => {
@@ -32,5 +33,25 @@ describe('describeLimits', () => {
 
   it('says so when a gauge has no limit (a record from a measuring-only gauge)', () => {
     expect(describeLimits(null, null, 'mm')).toBe('no limit');
+  });
+});
+
+describe('fitLines', () => {
+  it('keeps a name that fits on one line as it is', () => {
+    expect(fitLines('Washer area', 12, 2)).toBe('Washer area');
+  });
+
+  it('breaks between words before it cuts one', () => {
+    expect(fitLines('Undersized hole', 11, 2)).toBe('Undersized\nhole');
+    expect(fitLines('Bracket hole diameter', 12, 2)).toBe('Bracket hole\ndiameter');
+  });
+
+  it('ends with "…" when the name needs more lines than it has', () => {
+    expect(fitLines('Gasket bead width out of range', 10, 2)).toBe('Gasket\nbead widt…');
+    expect(fitLines('Circularity', 6, 1)).toBe('Circu…');
+  });
+
+  it('cuts a word longer than a line', () => {
+    expect(fitLines('Eccentricity', 8, 2)).toBe('Eccentri\ncity');
   });
 });

@@ -138,7 +138,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
 
   return (
     <View style={styles.editor}>
-      <View style={[styles.toolbar, stickyStyle(0)]} role="toolbar" aria-label="Draft" onLayout={(e) => setToolbarHeight(e.nativeEvent.layout.height)}>
+      <View style={[styles.toolbar, layout === 'wide' ? null : styles.toolbarPhone, stickyStyle(0)]} role="toolbar" aria-label="Draft" onLayout={(e) => setToolbarHeight(e.nativeEvent.layout.height)}>
         <AppText variant="bodyStrong" style={styles.grow} role="status" aria-live="polite">
           {unsaved ? `✎ Version ${version.number} (draft) has unsaved changes` : `Version ${version.number} (draft) · saved`}
         </AppText>
@@ -195,6 +195,8 @@ const styles = StyleSheet.create({
     borderRadius: radius.lg,
     backgroundColor: colors.surfaceSunken,
   },
+  // On a phone the bar that stays on screen keeps to the Save button's height and a little.
+  toolbarPhone: { paddingVertical: space.xs, gap: space.sm },
   grow: { flexGrow: 1, flexShrink: 1, flexBasis: 200 },
   columns: { flexDirection: 'row', gap: space.lg, alignItems: 'flex-start' },
   left: { flex: 5, minWidth: 0 },

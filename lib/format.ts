@@ -1,6 +1,4 @@
 // Dates, counts and gauge values as people on the line read them.
-import { unitSuffix } from '../shared/rules/units';
-
 const dateFormat = new Intl.DateTimeFormat(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
 
 export function formatDate(iso: string): string {
@@ -34,16 +32,6 @@ export function formatGaugeValue(value: number): string {
   const magnitude = Math.abs(value);
   if (magnitude < 0.001 || magnitude >= 1e6) return value.toExponential(2);
   return magnitude >= 100 ? value.toFixed(1) : magnitude >= 1 ? value.toFixed(3) : value.toPrecision(3);
-}
-
-/** A gauge's limits in words, as the engineer entered them: "479.1 to 480.2 mm²", "at most 0.5", "no limit". */
-export function describeLimits(min: number | null | undefined, max: number | null | undefined, unit: string | null | undefined): string {
-  const u = unitSuffix(unit);
-  const has = (n: number | null | undefined): n is number => n !== null && n !== undefined;
-  if (has(min) && has(max)) return `${min} to ${max}${u}`;
-  if (has(min)) return `at least ${min}${u}`;
-  if (has(max)) return `at most ${max}${u}`;
-  return 'no limit';
 }
 
 /**

@@ -1,8 +1,8 @@
 import { StyleSheet, View } from 'react-native';
-import { describeLimits, formatGaugeValue } from '../../lib/format';
+import { formatGaugeValue } from '../../lib/format';
 import { colors, radius, space } from '../../lib/theme';
 import type { InspectionMeasurement } from '../../shared/api/inspections';
-import { unitSuffix } from '../../shared/rules/units';
+import { describeLimits, unitSuffix } from '../../shared/rules/units';
 import { AppText } from '../AppText';
 
 /** Each gauge's value against its limits, with "within" or "outside" in words. */

@@ -1,9 +1,9 @@
 // Gauge values against their limits: the word and a symbol say within or outside, never colour alone.
 import { StyleSheet, View } from 'react-native';
 import type { Limits } from '../../shared/rules/schema';
-import { unitSuffix } from '../../shared/rules/units';
+import { describeLimits, unitSuffix } from '../../shared/rules/units';
 import { colors, space } from '../../lib/theme';
-import { describeLimits, formatGaugeValue } from '../../lib/format';
+import { formatGaugeValue } from '../../lib/format';
 import { AppText } from '../AppText';
 
 export interface ShownMeasurement {

@@ -1,7 +1,7 @@
 // Gauges: what each measures, where (a region in fractions of the image), in which unit, and its limits.
 import { StyleSheet, View } from 'react-native';
 import { GAUGE_MEASURES, UNITS_OF_MEASURE, type GaugeMeasure, type Region } from '../../shared/rules/schema';
-import { unitSymbol } from '../../shared/rules/units';
+import { describeLimits, unitSymbol } from '../../shared/rules/units';
 import type { FieldIssue } from '../../shared/api/errors';
 import { colors, radius, space } from '../../lib/theme';
 import { AppText } from '../AppText';
@@ -12,7 +12,6 @@ import { TextField } from '../TextField';
 import { NumberField } from './NumberField';
 import type { EditorAction, EditorGauge, EditorStep } from './ruleEditorState';
 import { MASK_MEASURES, outputsMask, STEP_DESCRIPTIONS, stepNames } from './stepCatalogue';
-import { describeLimits } from '../../lib/format';
 import { EditToggle, OpenAllButton } from './CardToggles';
 import { useOpenCards } from './useOpenCards';
 

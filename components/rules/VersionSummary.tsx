@@ -3,7 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import type { Gauge, Step } from '../../shared/rules/schema';
 import { space } from '../../lib/theme';
 import { AppText } from '../AppText';
-import { describeLimits } from '../../lib/format';
+import { describeLimits } from '../../shared/rules/units';
 import { MEASURE_LABELS } from './GaugeEditor';
 import { describeStep, STEP_DESCRIPTIONS } from './stepCatalogue';
 

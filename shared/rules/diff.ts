@@ -1,6 +1,7 @@
 // What changed between two rule documents, row by row: the reviewer's side-by-side view (released against
 // in review) and the rule history (each version against the one before). Works on the JSON itself, so any
 // document the API returns can be compared; plain TypeScript, so the app and the server share it.
+import { describeLimits } from './units';
 
 export type ChangeKind = 'same' | 'changed' | 'added' | 'removed';
 
@@ -82,6 +83,17 @@ export function alignSteps(before: readonly string[], after: readonly string[]):
 
 const GAUGE_FIELDS = ['measure', 'step', 'region', 'unit', 'limits'] as const;
 
+/** The quality gate's settings under the names the rule editor gives them. */
+const QUALITY_LABELS: Record<string, string> = { minFocus: 'lowest focus', maxClipped: 'largest clipped share', minMean: 'lowest mean brightness' };
+
+/** A gauge field as a reviewer reads it: limits in words ("at most 0.07"; the unit has its own row), the rest as describeValue. */
+function describeGaugeField(gauge: Json, field: (typeof GAUGE_FIELDS)[number]): string {
+  if (field !== 'limits' || gauge.limits === undefined) return describeValue(gauge[field]);
+  const { min, max } = asObject(gauge.limits);
+  const number = (v: unknown) => (typeof v === 'number' ? v : null);
+  return describeLimits(number(min), number(max), null);
+}
+
 /** Rows for every setting, step and gauge field of either document; `before` may be absent (a first version). */
 export function diffRuleDocuments(beforeDocument: unknown | null, afterDocument: unknown): DiffRow[] {
   const before = beforeDocument === null ? null : asObject(beforeDocument);
@@ -92,8 +104,8 @@ export function diffRuleDocuments(beforeDocument: unknown | null, afterDocument:
   rows.push(row('Settings', 'Name', text(before, (d) => d.name), text(after, (d) => d.name)));
   rows.push(row('Settings', 'Input channel', text(before, (d) => asObject(d.input).channel), text(after, (d) => asObject(d.input).channel)));
   rows.push(row('Settings', 'Border', text(before, (d) => d.border ?? 'reflect'), text(after, (d) => d.border ?? 'reflect')));
-  for (const field of ['minFocus', 'maxClipped', 'minMean']) {
-    rows.push(row('Settings', `Quality gate ${field}`, text(before, (d) => asObject(d.quality)[field]), text(after, (d) => asObject(d.quality)[field])));
+  for (const field of Object.keys(QUALITY_LABELS)) {
+    rows.push(row('Settings', `Quality gate: ${QUALITY_LABELS[field]}`, text(before, (d) => asObject(d.quality)[field]), text(after, (d) => asObject(d.quality)[field])));
   }
 
   const stepsBefore = (before === null ? [] : asArray(before.steps)).map(describeStep);
@@ -110,13 +122,13 @@ export function diffRuleDocuments(beforeDocument: unknown | null, afterDocument:
     const b = gaugesBefore.get(name) ?? null;
     const a = gaugesAfter.get(name) ?? null;
     if (!a || !b) {
-      const whole = (g: Json | null) => (g === null ? null : GAUGE_FIELDS.filter((f) => g[f] !== undefined).map((f) => `${f}: ${describeValue(g[f])}`).join('; '));
+      const whole = (g: Json | null) => (g === null ? null : GAUGE_FIELDS.filter((f) => g[f] !== undefined).map((f) => `${f}: ${describeGaugeField(g, f)}`).join('; '));
       rows.push(row('Gauges', name, whole(b), whole(a)));
       continue;
     }
     for (const field of GAUGE_FIELDS) {
       if (a[field] === undefined && b[field] === undefined) continue;
-      rows.push(row('Gauges', `${name} · ${field}`, describeValue(b[field]), describeValue(a[field])));
+      rows.push(row('Gauges', `${name} · ${field}`, describeGaugeField(b, field), describeGaugeField(a, field)));
     }
   }
   return rows;

@@ -1,4 +1,4 @@
-// A gauge's unit as people read it. Rule documents and exports keep the ASCII codes of GAUGE_UNITS
+// A gauge's unit and limits as people read them. Rule documents and exports keep the ASCII codes of GAUGE_UNITS
 // (px2, mm2); screens and reports write the symbols (px², mm²).
 import type { GaugeUnit } from './schema';
 
@@ -14,4 +14,14 @@ export function unitSymbol(unit: string | null | undefined): string {
 export function unitSuffix(unit: string | null | undefined): string {
   const symbol = unitSymbol(unit);
   return symbol ? ` ${symbol}` : '';
+}
+
+/** A gauge's limits in words, as the engineer entered them: "479.1 to 480.2 mm²", "at most 0.5", "no limit". */
+export function describeLimits(min: number | null | undefined, max: number | null | undefined, unit: string | null | undefined): string {
+  const u = unitSuffix(unit);
+  const has = (n: number | null | undefined): n is number => n !== null && n !== undefined;
+  if (has(min) && has(max)) return `${min} to ${max}${u}`;
+  if (has(min)) return `at least ${min}${u}`;
+  if (has(max)) return `at most ${max}${u}`;
+  return 'no limit';
 }

@@ -145,8 +145,8 @@ test('the inspection report carries the verdict, measurements, rule version and 
   const text = pdfText(res.body as Buffer);
   expect(text).toMatch(/Verdict: FAIL \(Spot area\)/);
   // The unit as its symbol (px²), not the document's code (px2).
-  expect(text).toMatch(/Spot area\s+64 px²\s+max 20\s+OUTSIDE LIMITS/);
-  expect(text).toMatch(/Spot count, "bright", per part\s+1 —\s+max 3\s+within limits/);
+  expect(text).toMatch(/Spot area\s+64 px²\s+at most 20\s+OUTSIDE LIMITS/);
+  expect(text).toMatch(/Spot count, "bright", per part\s+1 —\s+at most 3\s+within limits/);
   // Every page names the record and who printed it, so a page on its own still says what it belongs to.
   expect(text).toMatch(new RegExp(`Inspection ${failedId} · printed 20\\d\\d-.* by Test kofi\\s+page 1 of 2`));
   expect(text).toMatch(/page 2 of 2/);
@@ -163,7 +163,7 @@ test('the rule version report lists steps, gauges with limits and signatures', a
   });
   const text = pdfText(res.body as Buffer);
   expect(text).toMatch(/1\. threshold — method fixed, value 200/);
-  expect(text).toMatch(/Spot area: largest-blob-area in px² — max 20/);
+  expect(text).toMatch(/Spot area: largest-blob-area in px² — at most 20/);
   expect(text).toMatch(/Test mara — Approved for production/);
 });
 

@@ -152,7 +152,7 @@ test('a version shows only what differs from the version before; the first has n
   expect(v2.changes!.fromNumber).toBe(1);
   expect(v2.changes!.rows).toEqual([
     { section: 'Steps', label: 'Step 3', before: null, after: 'open: radius 1', change: 'added' },
-    { section: 'Gauges', label: 'Tear area · limits', before: 'max 500', after: 'max 350', change: 'changed' },
+    { section: 'Gauges', label: 'Tear area · limits', before: 'at most 500', after: 'at most 350', change: 'changed' },
   ]);
 });
 

@@ -140,8 +140,8 @@ describe.each([
     // The in-review washer rule tightens two limits (server/seed/rules: 0.0715 → 0.07 and −0.078 → −0.077).
     await page.getByText('2 differences from the released version.').waitFor();
     const notch = page.getByRole('row', { name: /^Notch response · limits/ });
-    const released = notch.getByRole('cell', { name: /max 0\.0715/ });
-    const proposed = notch.getByRole('cell', { name: /max 0\.07$/ });
+    const released = notch.getByRole('cell', { name: /at most 0\.0715/ });
+    const proposed = notch.getByRole('cell', { name: /at most 0\.07$/ });
     const [before, after] = [await released.boundingBox(), await proposed.boundingBox()];
     // Side by side: the two versions' values share a line, the released one on the left.
     expect(Math.abs(before!.y - after!.y)).toBeLessThan(2);

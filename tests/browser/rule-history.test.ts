@@ -72,8 +72,8 @@ test.each([
     const changes = page.getByRole('list', { name: 'Changes from version 1 to version 2' });
     await changes.getByText('Steps · Step 1').waitFor();
     await changes.getByText('Version 2: median: size 3').waitFor();
-    await changes.getByText('Version 1: max 20').waitFor();
-    await changes.getByText('Version 2: max 12').waitFor();
+    await changes.getByText('Version 1: at most 20').waitFor();
+    await changes.getByText('Version 2: at most 12').waitFor();
     expect(await changes.getByText('+ added').count()).toBe(1);
     const signatures = page.getByRole('list', { name: 'Signatures' });
     await signatures.getByText('Mara Lindqvist').first().waitFor();

@@ -5,7 +5,7 @@ import type { RuleVersion } from '../../../shared/api/rules';
 import { SIGNATURE_MEANING_LABELS } from '../../../shared/api/rules';
 import type { Trial } from '../../../shared/api/trials';
 import { describeValue } from '../../../shared/rules/diff';
-import { unitSymbol } from '../../../shared/rules/units';
+import { describeLimits, unitSymbol } from '../../../shared/rules/units';
 import type { RuleDocument } from '../../../shared/rules/schema';
 import type { KernelLibrary } from '../../../shared/vision/pipeline';
 
@@ -197,7 +197,7 @@ export async function inspectionReport(inspection: Inspection, version: RuleVers
           m.gauge,
           number(m.value),
           unitSymbol(m.unit) || '—',
-          [m.limitMin !== null ? `min ${m.limitMin}` : '', m.limitMax !== null ? `max ${m.limitMax}` : ''].filter(Boolean).join(', ') || 'none',
+          describeLimits(m.limitMin, m.limitMax, null),
           m.pass ? 'within limits' : 'OUTSIDE LIMITS',
         ],
         strong: !m.pass,
@@ -273,8 +273,7 @@ export async function ruleVersionReport(version: RuleVersion, trial: Trial | nul
   });
   heading(doc, 'Gauges and limits');
   for (const g of rule.gauges) {
-    const limits = [g.limits?.min !== undefined ? `min ${g.limits.min}` : '', g.limits?.max !== undefined ? `max ${g.limits.max}` : ''].filter(Boolean).join(', ');
-    doc.text(`${g.name}: ${g.measure}${g.step ? ` of step ${g.step}` : ''}${g.unit ? ` in ${unitSymbol(g.unit)}` : ''} — ${limits || 'no limits'}`, MARGIN);
+    doc.text(`${g.name}: ${g.measure}${g.step ? ` of step ${g.step}` : ''}${g.unit ? ` in ${unitSymbol(g.unit)}` : ''} — ${describeLimits(g.limits?.min, g.limits?.max, null)}`, MARGIN);
     note(doc, `    region: ${g.region ? describeValue(g.region) : 'the whole photo'} (fractions of the photo’s width and height)`);
   }
   heading(doc, 'Trial');

@@ -1,7 +1,6 @@
-// A gauge's value and limits as every screen writes them (lib/format.ts): the preview, the trial's
-// limit sweep, the operator's verdict and the engineer's rule summary share these two functions;
-// a chart's bar labels are fitted to the room below their bar.
-import { describeLimits, fitLines, formatGaugeValue } from '../../../lib/format';
+// A gauge's value as every screen writes it (lib/format.ts): the preview, the trial's limit sweep
+// and the operator's verdict share it; a chart's bar labels are fitted to the room below their bar.
+import { fitLines, formatGaugeValue } from '../../../lib/format';
 
 describe('formatGaugeValue', () => {
   it('keeps whole numbers whole and gives decimals by size', () => {
@@ -21,18 +20,6 @@ describe('formatGaugeValue', () => {
   it('names what is not a number rather than printing a figure', () => {
     expect(formatGaugeValue(Number.NaN)).toBe('NaN');
     expect(formatGaugeValue(Number.POSITIVE_INFINITY)).toBe('Infinity');
-  });
-});
-
-describe('describeLimits', () => {
-  it('writes the limits as entered, with the unit', () => {
-    expect(describeLimits(479.1, 480.2, 'mm2')).toBe('479.1 to 480.2 mm²');
-    expect(describeLimits(0.5, undefined, null)).toBe('at least 0.5');
-    expect(describeLimits(null, 0.5, 'px')).toBe('at most 0.5 px');
-  });
-
-  it('says so when a gauge has no limit (a record from a measuring-only gauge)', () => {
-    expect(describeLimits(null, null, 'mm')).toBe('no limit');
   });
 });
 

@@ -69,3 +69,14 @@ test('identical pipelines pair every step with itself', () => {
     }),
   );
 });
+
+test('limits read as the other screens write them, and the quality gate under the editor’s names', () => {
+  const before = { ...rule([GAUSSIAN, OTSU]), quality: { minFocus: 10 } };
+  const after = { ...rule([GAUSSIAN, OTSU], 350), quality: { minFocus: 12 } };
+  after.gauges = [{ ...after.gauges[0], limits: { min: 20, max: 350 } } as (typeof after.gauges)[number]];
+  const rows = diffRuleDocuments(before, after);
+  expect(rows.find((r) => r.label === 'Edge area · limits')).toMatchObject({ before: 'at most 500', after: '20 to 350', change: 'changed' });
+  expect(rows.find((r) => r.label === 'Quality gate: lowest focus')).toMatchObject({ before: '10', after: '12', change: 'changed' });
+  const added = diffRuleDocuments(null, after).find((r) => r.label === 'Edge area');
+  expect(added?.after).toBe('measure: largest-blob-area; unit: px2; limits: 20 to 350');
+});

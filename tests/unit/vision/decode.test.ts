@@ -76,6 +76,21 @@ test.each(['jpeg', 'webp', 'tiff'] as const)('%s files are read', async (format)
   if (format !== 'jpeg') expect(channelImage(photo, 'luma').data[W * H - 1]).toBeCloseTo((W * H - 1) * 5, 3);
 });
 
+test.each([
+  ['8-bit colour', 3, 8],
+  ['16-bit grey', 1, 16],
+] as const)('%s samples are a buffer of their own that moves to a worker thread uncopied', async (_label, channels, depth) => {
+  const photo = await decodePhoto(encodePng(W, H, channels, depth, Array.from({ length: W * H * channels }, (_, i) => i % 200)));
+  const { samples } = photo;
+  expect([samples.byteOffset, samples.byteLength]).toEqual([0, samples.buffer.byteLength]);
+  // Moving a buffer detaches it here; memory the decoder allocated outside V8 would be cloned instead.
+  const { port1, port2 } = new MessageChannel();
+  port1.postMessage(samples, [samples.buffer as ArrayBuffer]);
+  port1.close();
+  port2.close();
+  expect(samples.byteLength).toBe(0);
+});
+
 test('a photo over the pixel limit is refused with too_many_pixels (HTTP 413) before decoding', async () => {
   const e = await refusal(encodePng(W, H, 1, 8, Array(W * H).fill(0)), W * H - 1);
   expect([e.code, e.status]).toEqual(['too_many_pixels', 413]);

@@ -73,8 +73,8 @@ export async function decodePhoto(input: Uint8Array, options: DecodeOptions = {}
       .toBuffer({ resolveWithObject: true });
     const channels = info.channels as 1 | 2 | 3 | 4;
     // Copied out of sharp's buffer, whose memory V8 cannot move to another thread: handed to the
-    // worker pool, it was cloned instead (two copies on the main thread, 7 ms for a 5 MP colour
-    // photo here), where a buffer of our own moves for nothing.
+    // worker pool, it was cloned instead (a copy on each side, 7 ms for a 5 MP colour photo here),
+    // where a buffer of our own moves for nothing.
     const samples = sixteenBit
       ? new Uint16Array(data.buffer, data.byteOffset, data.byteLength / 2).slice()
       : new Uint8Array(data.buffer, data.byteOffset, data.byteLength).slice();

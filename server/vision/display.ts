@@ -23,25 +23,22 @@ export function displaySamples(image: Image, kind: OutputKind, bitDepth: BitDept
     if (v < min) min = v;
     if (v > max) max = v;
   }
-  let scale: number;
-  let shift: number;
-  if (kind === 'signed' || kind === 'direction') {
-    const reach = kind === 'direction' ? 180 : Math.max(Math.abs(min), Math.abs(max));
-    scale = reach > 0 ? 127 / reach : 0;
-    shift = GREY;
-  } else {
-    const top = maxSampleValue(bitDepth);
-    if (min >= 0 && max <= top) {
-      scale = 255 / top;
-      shift = 0;
-    } else {
-      scale = max > min ? 255 / (max - min) : 0;
-      shift = -min * scale;
-    }
-  }
+  const { scale, shift } = displayScale(min, max, kind, bitDepth);
   for (let p = 0; p < src.length; p++) {
     const v = Math.round(src[p] * scale + shift);
     out[p] = v < 0 ? 0 : v > 255 ? 255 : v;
   }
   return out;
+}
+
+/** The sample → display byte mapping v·scale + shift of displaySamples, from the samples' smallest and largest value (NaN left out). */
+export function displayScale(min: number, max: number, kind: OutputKind, bitDepth: BitDepth = 8): { scale: number; shift: number } {
+  if (kind === 'signed' || kind === 'direction') {
+    const reach = kind === 'direction' ? 180 : Math.max(Math.abs(min), Math.abs(max));
+    return { scale: reach > 0 ? 127 / reach : 0, shift: GREY };
+  }
+  const top = maxSampleValue(bitDepth);
+  if (min >= 0 && max <= top) return { scale: 255 / top, shift: 0 };
+  const scale = max > min ? 255 / (max - min) : 0;
+  return { scale, shift: -min * scale };
 }

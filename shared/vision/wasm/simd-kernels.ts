@@ -58,6 +58,8 @@ export interface EngineExports {
   wideRingBytes(w: number): number;
   grey8Quality(src: number, w: number, h: number, dst: number, out: number): void;
   box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
+  shrinkMeans(src: number, w: number, h: number, factor: number, dst: number, range: number): void;
+  greyRgb(src: number, n: number, scale: number, shift: number, dst: number): void;
   boxScratchBytes(w: number, size: number): number;
   median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
   medianScratchBytes(w: number, size: number): number;
@@ -469,6 +471,26 @@ export class SimdKernels {
       const [min, max] = this.heap.f32(out + 8, 2);
       const sq = squares ? this.wasm.regionSquares(s, image.width, image.height, starts, ends, sum / count) : NaN;
       return { sum, min, max, squares: sq };
+    });
+  }
+
+  /**
+   * The image shrunk by a whole factor (each pixel its block's float32 mean, the sums in double
+   * precision row by row) as 8-bit grey RGB, each mean mapped by display(smallest, largest mean) to
+   * round(v·scale + shift) clamped to 0…255: server/vision/evidence.ts's plain loops, to the byte.
+   */
+  shrinkToGreyRgb(image: Image, factor: number, display: (min: number, max: number) => { scale: number; shift: number }): { width: number; height: number; rgb: Uint8Array } {
+    const width = Math.ceil(image.width / factor);
+    const height = Math.ceil(image.height / factor);
+    return this.read(image, (s, scope) => {
+      const means = scope.alloc(4 * width * height);
+      const range = scope.alloc(16);
+      this.wasm.shrinkMeans(s, image.width, image.height, factor, means, range);
+      const [min, max] = new Float64Array(this.heap.memory.buffer, range, 2);
+      const { scale, shift } = display(min, max);
+      const rgb = scope.alloc(3 * width * height);
+      this.wasm.greyRgb(means, width * height, scale, shift, rgb);
+      return { width, height, rgb: new Uint8Array(this.heap.memory.buffer, rgb, 3 * width * height).slice() };
     });
   }
 

@@ -77,6 +77,8 @@ export function greyBackground(input: Image, factor: number, bitDepth: BitDepth)
 
 /** The first pixel in the region holding its largest (or smallest) value; -1 for an empty region. */
 function extremeAt(image: Image, spans: RowSpans, which: 'max' | 'min'): number {
+  const simd = simdKernels();
+  if (simd) return simd.firstExtreme(image, spans.start, spans.end, which);
   const { width: w, data } = image;
   const sign = which === 'max' ? 1 : -1;
   let best = -Infinity;
@@ -151,16 +153,29 @@ function outlineBlobs(mask: Image, spans: RowSpans, largestOnly: boolean, paint:
   blobs.forEach((b, i) => {
     if (largest === 0 || b.area > blobs[largest - 1].area) largest = i + 1;
   });
-  const wanted = (label: number) => label !== 0 && (!largestOnly || label === largest);
-  for (let y = 0; y < h; y++) {
-    for (let x = 0; x < w; x++) {
-      const p = y * w + x;
-      const label = labels[p];
-      if (!wanted(label)) continue;
-      const edge =
-        x === 0 || y === 0 || x === w - 1 || y === h - 1 ||
-        labels[p - 1] !== label || labels[p + 1] !== label || labels[p - w] !== label || labels[p + w] !== label;
-      if (edge) paint(p);
+  const outline = (label: number, x0: number, y0: number, x1: number, y1: number) => {
+    for (let y = y0; y <= y1; y++) {
+      for (let x = x0; x <= x1; x++) {
+        const p = y * w + x;
+        const at = labels[p];
+        if (at === 0 || (label !== 0 && at !== label) || (largestOnly && at !== largest)) continue;
+        const edge =
+          x === 0 || y === 0 || x === w - 1 || y === h - 1 ||
+          labels[p - 1] !== at || labels[p + 1] !== at || labels[p - w] !== at || labels[p + w] !== at;
+        if (edge) paint(p);
+      }
     }
+  };
+  // Each wanted blob within its bounding box (a 5 MP mask's blobs cover a small part of it), or the
+  // whole image once when the boxes together are larger.
+  const chosen = largestOnly ? (largest > 0 ? [largest] : []) : blobs.map((_, i) => i + 1);
+  const boxArea = chosen.reduce((sum, label) => {
+    const b = blobs[label - 1];
+    return sum + (b.maxX - b.minX + 1) * (b.maxY - b.minY + 1);
+  }, 0);
+  if (boxArea > w * h) return outline(0, 0, 0, w - 1, h - 1);
+  for (const label of chosen) {
+    const { minX, maxX, minY, maxY } = blobs[label - 1];
+    outline(label, minX, minY, maxX, maxY);
   }
 }

@@ -60,6 +60,7 @@ export interface EngineExports {
   box(src: number, dst: number, w: number, h: number, size: number, mode: number, compare: number, c: number, flip: number, scratch: number): void;
   shrinkMeans(src: number, w: number, h: number, factor: number, dst: number, range: number): void;
   greyRgb(src: number, n: number, scale: number, shift: number, dst: number): void;
+  firstExtreme(src: number, w: number, h: number, starts: number, ends: number, takeMax: number): number;
   boxScratchBytes(w: number, size: number): number;
   median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
   medianScratchBytes(w: number, size: number): number;
@@ -491,6 +492,17 @@ export class SimdKernels {
       const rgb = scope.alloc(3 * width * height);
       this.wasm.greyRgb(means, width * height, scale, shift, rgb);
       return { width, height, rgb: new Uint8Array(this.heap.memory.buffer, rgb, 3 * width * height).slice() };
+    });
+  }
+
+  /** The first pixel (raster order) in columns start[y] … end[y]−1 of each row y holding the largest or smallest value, NaN left out; −1 when none. */
+  firstExtreme(image: Image, start: Int32Array, end: Int32Array, which: 'max' | 'min'): number {
+    return this.read(image, (s, scope) => {
+      const starts = scope.alloc(4 * image.height);
+      const ends = scope.alloc(4 * image.height);
+      this.heap.i32(starts, image.height).set(start);
+      this.heap.i32(ends, image.height).set(end);
+      return this.wasm.firstExtreme(s, image.width, image.height, starts, ends, which === 'max' ? 1 : 0);
     });
   }
 

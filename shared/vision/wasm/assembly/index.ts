@@ -14,7 +14,7 @@ export { lumaRgb8 } from './channels';
 export { lumaRgb8Quality, grey8Quality } from './input-quality';
 export { box, boxScratchBytes } from './box';
 export { median, medianScratchBytes } from './median';
-export { shrinkMeans, greyRgb } from './shrink';
+export { shrinkMeans, greyRgb, firstExtreme } from './evidence';
 export { medianHistogram, medianHistogramScratchBytes } from './median-histogram';
 
 /** First address the JavaScript side may use: static data ends below it. */

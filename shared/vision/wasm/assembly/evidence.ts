@@ -1,5 +1,6 @@
-// The evidence image's grey background (server/vision/evidence.ts): an image shrunk by a whole
-// factor and turned into display bytes, the same bytes as that file's plain loops give.
+// The evidence image of a FAIL (server/vision/evidence.ts): its grey background, an image shrunk by a
+// whole factor and turned into display bytes, and the pixel a failing min or max gauge rings; the
+// same results as that file's plain loops give.
 import { at } from './border';
 
 /**
@@ -48,4 +49,29 @@ export function greyRgb(src: usize, n: i32, scale: f64, shift: f64, dst: usize):
     store<u8>(q, <u8>byte, 1);
     store<u8>(q, <u8>byte, 2);
   }
+}
+
+/**
+ * The first pixel, in raster order over columns starts[y] … ends[y]−1 of each row y, holding the
+ * largest value (takeMax ≠ 0) or the smallest; NaN never counts, and −1 when no value beats ∓∞.
+ */
+export function firstExtreme(src: usize, w: i32, h: i32, starts: usize, ends: usize, takeMax: i32): i32 {
+  return takeMax != 0 ? firstBeyond(src, w, h, starts, ends, true) : firstBeyond(src, w, h, starts, ends, false);
+}
+
+@inline
+function firstBeyond(src: usize, w: i32, h: i32, starts: usize, ends: usize, above: bool): i32 {
+  let best: f32 = above ? -Infinity : Infinity;
+  let found = -1;
+  for (let y = 0; y < h; y++) {
+    const end = y * w + load<i32>(at(ends, y));
+    for (let p = y * w + load<i32>(at(starts, y)); p < end; p++) {
+      const v = load<f32>(at(src, p));
+      if (above ? v > best : v < best) {
+        best = v;
+        found = p;
+      }
+    }
+  }
+  return found;
 }

@@ -49,8 +49,6 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.nonZeroWords(c);
   kernels.countNonZero(c, new Int32Array(SIDE), new Int32Array(SIDE).fill(SIDE));
   kernels.qualitySums(a, 255);
-  // A FAIL's evidence background (server/vision/evidence.ts).
-  kernels.shrinkToGreyRgb(a, 2, () => ({ scale: 1, shift: 0 }));
   kernels.lumaRgb8(new Uint8Array(3 * SIDE * SIDE).fill(99), 3, BT601_WEIGHTS, b);
   kernels.lumaRgb8(new Uint8Array(4 * SIDE * SIDE).fill(99), 4, BT601_WEIGHTS, b);
   const bytes = Uint8Array.from({ length: 3 * SIDE * SIDE }, (_, p) => (p * 7919) % 251);

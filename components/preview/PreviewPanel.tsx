@@ -160,7 +160,7 @@ export function PreviewPanel(props: PreviewPanelProps) {
                 style={[styles.thumb, o.index === shownIndex && styles.thumbSelected]}
               >
                 <StepCanvas image={o.image} kind={o.kind} maxSide={160} label={`${o.title} output`} />
-                <AppText variant="caption" numberOfLines={1}>{`${o.index === shownIndex ? '▸ ' : ''}${o.title}`}</AppText>
+                <AppText variant="caption" numberOfLines={2}>{`${o.index === shownIndex ? '▸ ' : ''}${o.title}`}</AppText>
                 {o.ms !== null ? <AppText variant="caption" tone="muted">{`${o.ms.toFixed(1)} ms`}</AppText> : null}
               </Pressable>
             ))}

@@ -102,8 +102,10 @@ export function editorReducer(state: EditorState, action: EditorAction): EditorS
   switch (action.type) {
     case 'reset':
       return action.state;
-    case 'add-step':
-      return { ...state, steps: [...state.steps, { key: newKey('step'), enabled: true, step: action.step }] };
+    case 'add-step': {
+      const pinned = pinGaugesOnLastStep(state);
+      return { ...pinned, steps: [...pinned.steps, { key: newKey('step'), enabled: true, step: action.step }] };
+    }
     case 'change-step':
       return { ...state, steps: state.steps.map((s) => (s.key === action.key ? { ...s, step: action.step } : s)) };
     case 'move-step': {
@@ -118,7 +120,8 @@ export function editorReducer(state: EditorState, action: EditorAction): EditorS
       const at = state.steps.findIndex((s) => s.key === action.key);
       if (at < 0) return state;
       const copy: EditorStep = { ...state.steps[at], key: newKey('step'), step: structuredClone(state.steps[at].step) };
-      return { ...state, steps: [...state.steps.slice(0, at + 1), copy, ...state.steps.slice(at + 1)] };
+      const pinned = at === state.steps.length - 1 ? pinGaugesOnLastStep(state) : state;
+      return { ...pinned, steps: [...state.steps.slice(0, at + 1), copy, ...state.steps.slice(at + 1)] };
     }
     case 'remove-step':
       return {
@@ -148,6 +151,18 @@ export function editorReducer(state: EditorState, action: EditorAction): EditorS
         ),
       };
   }
+}
+
+/**
+ * Gauges on "the last step" pinned to the step that is last now, before a step is added after it:
+ * a new step at the end must not silently change what a gauge measures (a blob area would read a
+ * grey image). The engineer can choose "the last step" again.
+ */
+function pinGaugesOnLastStep(state: EditorState): EditorState {
+  const enabled = state.steps.filter((s) => s.enabled);
+  const last = enabled[enabled.length - 1];
+  if (!last || !state.gauges.some((g) => g.stepKey === null)) return state;
+  return { ...state, gauges: state.gauges.map((g) => (g.stepKey === null ? { ...g, stepKey: last.key } : g)) };
 }
 
 /**

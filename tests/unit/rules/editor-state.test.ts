@@ -95,3 +95,26 @@ test('problems reported by path land on the step or gauge they name, counting en
   expect(byKey.get(withFirstDisabled.gauges[1].key)).toEqual([{ path: 'limits.max', message: 'Must be above min' }]);
   expect(general).toEqual([{ path: 'name', message: 'Enter a name' }]);
 });
+
+test('adding or duplicating a step at the end keeps gauges on the step that was last', () => {
+  const state = editorStateFrom(DOCUMENT);
+  const added = editorReducer(state, { type: 'add-step', step: { op: 'median', size: 3 } });
+  const document = valid(added) as { gauges: { name: string; step?: number }[]; steps: unknown[] };
+  expect(document.steps).toHaveLength(STANDARD_STEPS.length + 1);
+  // "Slot area" measured the last step (no step): it now names that step explicitly.
+  expect(document.gauges.find((g) => g.name === 'Slot area')?.step).toBe(STANDARD_STEPS.length);
+  expect(document.gauges.find((g) => g.name === 'Edge share')?.step).toBe(3);
+
+  const lastKey = state.steps[state.steps.length - 1].key;
+  const duplicated = valid(editorReducer(state, { type: 'duplicate-step', key: lastKey })) as { gauges: { name: string; step?: number }[] };
+  expect(duplicated.gauges.find((g) => g.name === 'Slot area')?.step).toBe(STANDARD_STEPS.length);
+
+  // Duplicating an earlier step changes nothing for a gauge on the last step.
+  const early = valid(editorReducer(state, { type: 'duplicate-step', key: state.steps[0].key })) as { gauges: { name: string; step?: number }[] };
+  expect(early.gauges.find((g) => g.name === 'Slot area')?.step).toBeUndefined();
+
+  // With no steps yet a gauge measures the photo, and a first step is what it measures after.
+  const empty = editorStateFrom({ ...DOCUMENT, steps: [], gauges: [{ name: 'Mean', measure: 'mean', limits: { max: 200 } }] });
+  const first = valid(editorReducer(empty, { type: 'add-step', step: { op: 'median', size: 3 } })) as { gauges: { step?: number }[] };
+  expect(first.gauges[0].step).toBeUndefined();
+});

@@ -55,6 +55,8 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
     // The moment of the change, from which the preview's update time is measured.
     setChangedAt(performance.now());
     setNotice(null);
+    // The server's refusal described the document as it was sent; the editor's own checks cover the edited one.
+    setServerIssues([]);
     dispatchRaw(action);
   }, []);
 

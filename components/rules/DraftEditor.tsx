@@ -37,6 +37,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   const kernels = useKernels();
   const lines = useLines();
   const save = useSaveDraft();
+  const resetSave = save.reset;
   const [state, dispatchRaw] = useReducer(editorReducer, version.document, editorStateFrom);
   const [baseline, setBaseline] = useState(() => canonicalJson(documentFrom(editorStateFrom(version.document))));
   const [changedAt, setChangedAt] = useState(0);
@@ -57,8 +58,9 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
     setNotice(null);
     // The server's refusal described the document as it was sent; the editor's own checks cover the edited one.
     setServerIssues([]);
+    resetSave();
     dispatchRaw(action);
-  }, []);
+  }, [resetSave]);
 
   const document = useMemo(() => documentFrom(state), [state]);
   const documentText = canonicalJson(document);

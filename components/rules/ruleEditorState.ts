@@ -120,7 +120,9 @@ export function editorReducer(state: EditorState, action: EditorAction): EditorS
       const at = state.steps.findIndex((s) => s.key === action.key);
       if (at < 0) return state;
       const copy: EditorStep = { ...state.steps[at], key: newKey('step'), step: structuredClone(state.steps[at].step) };
-      const pinned = at === state.steps.length - 1 ? pinGaugesOnLastStep(state) : state;
+      // An enabled copy with no enabled step after it becomes the last step.
+      const becomesLast = copy.enabled && !state.steps.slice(at + 1).some((s) => s.enabled);
+      const pinned = becomesLast ? pinGaugesOnLastStep(state) : state;
       return { ...pinned, steps: [...state.steps.slice(0, at + 1), copy, ...state.steps.slice(at + 1)] };
     }
     case 'remove-step':

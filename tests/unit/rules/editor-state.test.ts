@@ -109,6 +109,11 @@ test('adding or duplicating a step at the end keeps gauges on the step that was 
   const duplicated = valid(editorReducer(state, { type: 'duplicate-step', key: lastKey })) as { gauges: { name: string; step?: number }[] };
   expect(duplicated.gauges.find((g) => g.name === 'Slot area')?.step).toBe(STANDARD_STEPS.length);
 
+  // The last enabled step duplicated while a disabled step follows it: the copy becomes the last step.
+  const withDisabledEnd: EditorState = { ...state, steps: [...state.steps, { key: 'off', enabled: false, step: { op: 'median', size: 3 } }] };
+  const beforeDisabled = valid(editorReducer(withDisabledEnd, { type: 'duplicate-step', key: lastKey })) as { gauges: { name: string; step?: number }[] };
+  expect(beforeDisabled.gauges.find((g) => g.name === 'Slot area')?.step).toBe(STANDARD_STEPS.length);
+
   // Duplicating an earlier step changes nothing for a gauge on the last step.
   const early = valid(editorReducer(state, { type: 'duplicate-step', key: state.steps[0].key })) as { gauges: { name: string; step?: number }[] };
   expect(early.gauges.find((g) => g.name === 'Slot area')?.step).toBeUndefined();

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { View } from 'react-native';
+import { Platform, View } from 'react-native';
 import { Slot } from 'expo-router';
 import { useFonts } from 'expo-font';
 import { QueryClientProvider } from '@tanstack/react-query';
@@ -7,8 +7,12 @@ import { IBMPlexSans_400Regular } from '@expo-google-fonts/ibm-plex-sans/400Regu
 import { IBMPlexSans_500Medium } from '@expo-google-fonts/ibm-plex-sans/500Medium';
 import { IBMPlexSans_600SemiBold } from '@expo-google-fonts/ibm-plex-sans/600SemiBold';
 import { SessionProvider } from '../hooks/useSession';
+import { installHistoryGuard } from '../lib/historyGuard';
 import { createQueryClient } from '../lib/queryClient';
 import { colors } from '../lib/theme';
+
+// Before the router adds its own listener (lib/historyGuard.ts).
+if (Platform.OS === 'web') installHistoryGuard();
 
 export default function RootLayout() {
   const [queryClient] = useState(createQueryClient);

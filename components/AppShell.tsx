@@ -3,6 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import type { User } from '../shared/api/auth';
 import { useLayout } from '../hooks/useLayout';
 import { colors } from '../lib/theme';
+import { LeaveGuardDialog } from './LeaveGuardDialog';
 import { NavRail } from './NavRail';
 import { TabBar } from './TabBar';
 
@@ -14,6 +15,7 @@ export function AppShell({ user, children }: { user: User; children: ReactNode }
       <View style={[styles.root, styles.row]}>
         <NavRail user={user} />
         <View style={styles.main}>{children}</View>
+        <LeaveGuardDialog />
       </View>
     );
   }
@@ -21,6 +23,7 @@ export function AppShell({ user, children }: { user: User; children: ReactNode }
     <View style={styles.root}>
       <View style={styles.main}>{children}</View>
       <TabBar user={user} />
+      <LeaveGuardDialog />
     </View>
   );
 }

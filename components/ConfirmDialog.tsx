@@ -9,6 +9,8 @@ interface ConfirmDialogProps {
   /** What will happen, in full, so the person knows what they are agreeing to. */
   message: string;
   confirmLabel: string;
+  /** Default "Cancel"; name what staying means when that is clearer ("Keep editing"). */
+  cancelLabel?: string;
   destructive?: boolean;
   busy?: boolean;
   error?: unknown;
@@ -21,6 +23,7 @@ export function ConfirmDialog({
   title,
   message,
   confirmLabel,
+  cancelLabel = 'Cancel',
   destructive = false,
   busy = false,
   error,
@@ -34,7 +37,7 @@ export function ConfirmDialog({
       onClose={onCancel}
       actions={
         <>
-          <Button label="Cancel" variant="secondary" onPress={onCancel} disabled={busy} />
+          <Button label={cancelLabel} variant="secondary" onPress={onCancel} disabled={busy} />
           <Button label={confirmLabel} variant={destructive ? 'danger' : 'primary'} onPress={onConfirm} busy={busy} />
         </>
       }

@@ -1,7 +1,8 @@
 // Navigation on a wide screen: a rail on the left with every area the person may use.
 import { Pressable, StyleSheet, View } from 'react-native';
-import { Link, usePathname } from 'expo-router';
+import { Link, router, usePathname } from 'expo-router';
 import type { User } from '../shared/api/auth';
+import { guardLinkPress } from '../lib/leaveGuard';
 import { areaForPath, areasForRoles } from '../lib/navigation';
 import { colors, minTouchTarget, radius, space } from '../lib/theme';
 import { AppText } from './AppText';
@@ -21,7 +22,7 @@ export function NavRail({ user }: { user: User }) {
           const selected = area.key === current?.key;
           return (
             // Link's asChild hands the style straight to the web element: one plain object, no array or function.
-            <Link key={area.key} href={area.href} asChild>
+            <Link key={area.key} href={area.href} asChild onPress={(e) => guardLinkPress(e, () => router.navigate(area.href))}>
               <Pressable
                 accessibilityRole="link"
                 accessibilityLabel={area.title}

@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { useSession } from '../hooks/useSession';
+import { requestLeave } from '../lib/leaveGuard';
 import { Button, type ButtonVariant } from './Button';
 
 export function SignOutButton({ variant = 'secondary' }: { variant?: ButtonVariant }) {
@@ -11,10 +12,12 @@ export function SignOutButton({ variant = 'secondary' }: { variant?: ButtonVaria
       variant={variant}
       busy={busy}
       compact
-      onPress={() => {
-        setBusy(true);
-        void signOut();
-      }}
+      onPress={() =>
+        requestLeave(() => {
+          setBusy(true);
+          void signOut();
+        })
+      }
     />
   );
 }

@@ -2,9 +2,10 @@
 // own; the rest, the signed-in person and Sign out sit behind the last tab, "Menu".
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
-import { Link, usePathname } from 'expo-router';
+import { Link, router, usePathname } from 'expo-router';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import type { User } from '../shared/api/auth';
+import { guardLinkPress } from '../lib/leaveGuard';
 import { areaForPath, areasForRoles, type Area } from '../lib/navigation';
 import { colors, fonts, minTouchTarget, radius, space } from '../lib/theme';
 import { AppText } from './AppText';
@@ -21,7 +22,7 @@ function TabMarker({ selected }: { selected: boolean }) {
 
 function AreaTab({ area, selected }: { area: Area; selected: boolean }) {
   return (
-    <Link href={area.href} asChild>
+    <Link href={area.href} asChild onPress={(e) => guardLinkPress(e, () => router.navigate(area.href))}>
       <Pressable
         accessibilityRole="link"
         accessibilityLabel={area.title}
@@ -70,12 +71,19 @@ export function TabBar({ user }: { user: User }) {
             {overflow.map((area) => {
               const selected = area.key === current?.key;
               return (
-                <Link key={area.key} href={area.href} asChild>
+                <Link
+                  key={area.key}
+                  href={area.href}
+                  asChild
+                  onPress={(e) => {
+                    setMenuOpen(false);
+                    guardLinkPress(e, () => router.navigate(area.href));
+                  }}
+                >
                   <Pressable
                     accessibilityRole="link"
                     accessibilityLabel={area.title}
                     aria-current={selected ? 'page' : undefined}
-                    onPress={() => setMenuOpen(false)}
                     style={StyleSheet.flatten([styles.menuItem, selected && styles.menuItemSelected])}
                   >
                     <AppText variant={selected ? 'bodyStrong' : 'body'}>{area.title}</AppText>

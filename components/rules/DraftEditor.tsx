@@ -11,6 +11,7 @@ import { stickyColumnStyle, stickyStyle } from '../../lib/sticky';
 import { colors, radius, space } from '../../lib/theme';
 import { useKernels } from '../../hooks/useKernels';
 import { useLayout } from '../../hooks/useLayout';
+import { useLeaveGuard } from '../../hooks/useLeaveGuard';
 import { useSaveDraft } from '../../hooks/useRules';
 import { useLines } from '../../hooks/useStations';
 import { AppText } from '../AppText';
@@ -65,6 +66,7 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   const document = useMemo(() => documentFrom(state), [state]);
   const documentText = canonicalJson(document);
   const unsaved = documentText !== baseline;
+  useLeaveGuard(unsaved && canEdit ? `Version ${version.number} (draft) has changes that are not saved.` : null);
   const localIssues = useMemo(() => {
     const result = validateRuleDocument(document);
     return result.ok ? [] : result.issues;
@@ -147,12 +149,15 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
           {unsaved ? `✎ Version ${version.number} (draft) has unsaved changes` : `Version ${version.number} (draft) · saved`}
         </AppText>
         <Button label="Save draft" onPress={saveDraft} busy={save.isPending} disabled={!unsaved || !canEdit} accessibilityHint="Stores the draft on the server" />
+        {serverIssues.length > 0 ? (
+          // In the bar that stays on screen: on a phone the Save button is pressed far below the top of the page.
+          <AppText tone="danger" variant="bodyStrong" accessibilityRole="alert" style={styles.refusal}>
+            {`⚠ Not saved: the server found ${serverIssues.length === 1 ? '1 problem' : `${serverIssues.length} problems`}, marked ⚠ beside the fields below.`}
+          </AppText>
+        ) : null}
       </View>
       {notice ? <AppText tone="notice" role="status">{`✓ ${notice}`}</AppText> : null}
       {save.error && serverIssues.length === 0 ? <ErrorBanner error={save.error} /> : null}
-      {serverIssues.length > 0 ? (
-        <AppText tone="danger" accessibilityRole="alert">{`⚠ The server refused the draft: ${serverIssues.length} problem(s), marked beside the steps and gauges below.`}</AppText>
-      ) : null}
       {general.filter((i) => !i.path.startsWith('quality') && i.path !== 'name').map((issue) => (
         <AppText key={`${issue.path}-${issue.message}`} tone="danger">{`⚠ ${issue.path}: ${issue.message}`}</AppText>
       ))}
@@ -202,6 +207,7 @@ const styles = StyleSheet.create({
   // On a phone the bar that stays on screen keeps to the Save button's height and a little.
   toolbarPhone: { paddingVertical: space.xs, gap: space.sm },
   grow: { flexGrow: 1, flexShrink: 1, flexBasis: 200 },
+  refusal: { flexBasis: '100%' },
   columns: { flexDirection: 'row', gap: space.lg, alignItems: 'flex-start' },
   left: { flex: 5, minWidth: 0 },
   right: { flex: 6, minWidth: 0 },

@@ -2,6 +2,7 @@
 import { StyleSheet, View } from 'react-native';
 import { useRouter } from 'expo-router';
 import { formatDate } from '../../lib/format';
+import { requestLeave } from '../../lib/leaveGuard';
 import { space } from '../../lib/theme';
 import { usePartTypes } from '../../hooks/useReferenceSets';
 import { useRule, useStartNewDraft } from '../../hooks/useRules';
@@ -52,8 +53,8 @@ export function RulePage({ id }: { id: string }) {
       subtitle={`${partTypeName}${data.smallestDefectMm !== null ? ` · smallest defect to catch ${data.smallestDefectMm} mm` : ''} · created by ${data.createdBy.name}`}
       actions={
         <>
-          <Button label="History" variant="secondary" accessibilityLabel={`History of ${data.name}: versions, signatures, trials and changes`} onPress={() => router.push(`/rules/${data.id}/history`)} />
-          <Button label="All rules" variant="secondary" onPress={() => router.push('/rules')} />
+          <Button label="History" variant="secondary" accessibilityLabel={`History of ${data.name}: versions, signatures, trials and changes`} onPress={() => requestLeave(() => router.push(`/rules/${data.id}/history`))} />
+          <Button label="All rules" variant="secondary" onPress={() => requestLeave(() => router.push('/rules'))} />
         </>
       }
     >

@@ -199,6 +199,60 @@ describe('at phone width', () => {
     }
   });
 
+  test('leaving a draft with unsaved changes asks first, and a refused save says so where Save is', async () => {
+    const { own, page, errors } = await demoRuleInOwnBrowser(PHONE);
+    try {
+      await page.getByText(/\(draft\) · saved/).waitFor();
+      const ruleUrl = page.url();
+      const leave = page.getByRole('dialog', { name: 'Leave without saving?' });
+      await page.getByRole('radio', { name: 'Median' }).click();
+      await page.getByRole('button', { name: 'Add Median' }).click();
+      const unsaved = page.getByText(/has unsaved changes/);
+      await unsaved.waitFor();
+
+      // A tab asks; staying keeps the page and the change.
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Home' }).click();
+      await leave.getByText(/^Version \d+ \(draft\) has changes that are not saved\. If you leave now, they are lost\.$/).waitFor();
+      await leave.getByRole('button', { name: 'Keep editing' }).click();
+      await leave.waitFor({ state: 'hidden' });
+      expect(page.url()).toBe(ruleUrl);
+      expect(await unsaved.isVisible()).toBe(true);
+
+      // The browser's back button is held too: the address and the page stay until the answer.
+      await page.evaluate('window.history.back()');
+      await leave.waitFor();
+      expect(page.url()).toBe(ruleUrl);
+      await leave.getByRole('button', { name: 'Keep editing' }).click();
+      await leave.waitFor({ state: 'hidden' });
+      expect(await unsaved.isVisible()).toBe(true);
+
+      // Leaving on purpose drops the change: the draft opens again as it was saved.
+      await page.getByRole('button', { name: 'All rules' }).click();
+      await leave.getByRole('button', { name: 'Leave without saving' }).click();
+      await page.getByRole('link', { name: 'Open rule Bracket hole and edge check' }).click();
+      await page.getByText(/\(draft\) · saved/).waitFor();
+      expect(await page.getByText('Step 6: Median', { exact: true }).count()).toBe(0);
+
+      // A value the server refuses, saved from far down the page: the refusal shows in the bar that stays on screen.
+      await page.getByRole('button', { name: /^Edit Step 5/ }).click();
+      const sigma = page.getByLabel(/sigma/i).last();
+      await sigma.fill('-1');
+      await page.getByText('Add a step', { exact: true }).scrollIntoViewIfNeeded();
+      await page.getByRole('button', { name: 'Save draft' }).click();
+      const refusal = page.getByText('⚠ Not saved: the server found 1 problem, marked ⚠ beside the fields below.');
+      await refusal.waitFor();
+      expect(await inSight(refusal)).toBe(true);
+      await screenshot(page, 'workbench-refused-save-phone');
+      // Correcting the field clears it.
+      await sigma.fill('2');
+      await refusal.waitFor({ state: 'hidden' });
+      // The refused save is the browser's one logged failure.
+      expect(errors).toEqual(['Failed to load resource: the server responded with a status of 400 (Bad Request)']);
+    } finally {
+      await own.close();
+    }
+  });
+
   test('a trial of the demo draft runs on a phone and its confusion table fits the screen', async () => {
     const { own, page, errors } = await demoRuleInOwnBrowser(PHONE);
     await page.getByText('Live preview').waitFor();

@@ -1,6 +1,7 @@
 // Gauges: what each measures, where (a region in fractions of the image), in which unit, and its limits.
 import { StyleSheet, View } from 'react-native';
 import { GAUGE_MEASURES, UNITS_OF_MEASURE, type GaugeMeasure, type Region } from '../../shared/rules/schema';
+import { limitProblems, screenLimitMessage, type LimitBound } from '../../shared/rules/limits';
 import { describeLimits, unitSymbol } from '../../shared/rules/units';
 import type { FieldIssue } from '../../shared/api/errors';
 import { colors, radius, space } from '../../lib/theme';
@@ -73,6 +74,12 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
         const errorOf = (field: string) => gaugeIssues.find((i) => i.path === field || i.path.startsWith(`${field}.`))?.message;
         const change = (next: Partial<EditorGauge['gauge']>, stepKey = entry.stepKey) => dispatch({ type: 'change-gauge', key: entry.key, gauge: { ...gauge, ...next }, stepKey });
         const units = UNITS_OF_MEASURE[gauge.measure];
+        // The schema's limit checks (shared/rules/limits.ts) in the fields' own words; "none set" shows on Lowest.
+        const problems = limitProblems(gauge.measure, gauge.limits);
+        const limitError = (bound: LimitBound) => {
+          const own = problems.find((p) => p.bound === bound || (p.bound === null && bound === 'min'));
+          return own ? screenLimitMessage(own, MEASURE_LABELS[gauge.measure]) : errorOf(`limits.${bound}`);
+        };
         // The steps up to the measured one (all of them for "the last step", or a step no longer enabled).
         const chosen = entry.stepKey ? enabled.findIndex((s) => s.key === entry.stepKey) : -1;
         const measuredSteps = chosen >= 0 ? enabled.slice(0, chosen + 1) : enabled;
@@ -136,10 +143,10 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
                 {errorOf('unit') ? <AppText tone="danger" variant="caption">{`⚠ ${errorOf('unit')}`}</AppText> : null}
                 <View style={styles.row}>
                   <View style={styles.half}>
-                    <NumberField spec={{ ...ANY, label: 'Lowest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.min} onChange={(min) => change({ limits: { ...gauge.limits, min } })} error={errorOf('limits.min') ?? errorOf('limits')} />
+                    <NumberField spec={{ ...ANY, label: 'Lowest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.min} onChange={(min) => change({ limits: { ...gauge.limits, min } })} error={limitError('min')} />
                   </View>
                   <View style={styles.half}>
-                    <NumberField spec={{ ...ANY, label: 'Highest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.max} onChange={(max) => change({ limits: { ...gauge.limits, max } })} error={errorOf('limits.max')} />
+                    <NumberField spec={{ ...ANY, label: 'Highest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.max} onChange={(max) => change({ limits: { ...gauge.limits, max } })} error={limitError('max')} />
                   </View>
                 </View>
                 <ChoiceChips

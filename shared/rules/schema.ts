@@ -3,6 +3,7 @@
 // "Rule file format, version 1"). Every object is strict: an unknown field is refused and named.
 import { z } from 'zod';
 import { formatIssuePath, zodIssues, type FieldIssue } from '../api/errors';
+import { documentLimitMessage, limitProblems } from './limits';
 
 export const RULE_FORMAT = 'kernwright-rule/1';
 
@@ -220,15 +221,8 @@ export const UNITS_OF_MEASURE: Record<GaugeMeasure, readonly GaugeUnit[]> = {
   max: [],
 };
 
-export const limitsSchema = z
-  .strictObject({ min: finite().optional(), max: finite().optional() })
-  .superRefine((l, ctx) => {
-    if (l.min === undefined && l.max === undefined) {
-      ctx.addIssue({ code: 'custom', path: [], message: 'limits need "min", "max" or both' });
-    } else if (l.min !== undefined && l.max !== undefined && l.min > l.max) {
-      ctx.addIssue({ code: 'custom', path: ['min'], message: 'min must not exceed max' });
-    }
-  });
+/** Limits on their own; what the gauge's measure allows is checked with the gauge (limits.ts). */
+export const limitsSchema = z.strictObject({ min: finite().optional(), max: finite().optional() });
 
 export const gaugeSchema = z
   .strictObject({
@@ -240,6 +234,9 @@ export const gaugeSchema = z
     limits: limitsSchema,
   })
   .superRefine((g, ctx) => {
+    for (const problem of limitProblems(g.measure, g.limits)) {
+      ctx.addIssue({ code: 'custom', path: problem.bound ? ['limits', problem.bound] : ['limits'], message: documentLimitMessage(problem, g.measure) });
+    }
     const allowed = UNITS_OF_MEASURE[g.measure];
     if (g.unit !== undefined && !allowed.includes(g.unit)) {
       ctx.addIssue({

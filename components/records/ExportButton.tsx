@@ -14,10 +14,12 @@ interface ExportButtonProps {
   fallbackName: string;
   /** For CSV exports: the server sends the number of inspections first, so progress can be shown. */
   countHeader?: string;
+  /** Why the export cannot run now (the button is disabled and says so beside it). */
+  unavailable?: string;
 }
 
 /** Downloads an export with progress (bytes, and inspections when the server says how many). */
-export function ExportButton({ label, path, query = {}, fallbackName, countHeader }: ExportButtonProps) {
+export function ExportButton({ label, path, query = {}, fallbackName, countHeader, unavailable }: ExportButtonProps) {
   const [progress, setProgress] = useState<string | null>(null);
   const [error, setError] = useState<unknown>(null);
   const run = async () => {
@@ -36,8 +38,13 @@ export function ExportButton({ label, path, query = {}, fallbackName, countHeade
     }
   };
   return (
-    <View style={styles.column}>
-      <Button label={progress ? 'Exporting…' : label} variant="secondary" compact busy={progress !== null} onPress={run} />
+    <View style={[styles.column, unavailable ? styles.columnWithReason : null]}>
+      <Button label={progress ? 'Exporting…' : label} variant="secondary" compact busy={progress !== null} disabled={!!unavailable} accessibilityHint={unavailable} onPress={run} />
+      {unavailable ? (
+        <AppText variant="caption" tone="muted" style={styles.unavailable}>
+          {unavailable}
+        </AppText>
+      ) : null}
       {progress ? (
         <View accessibilityRole="progressbar" accessibilityLabel={`${label}: ${progress}`} style={styles.progress}>
           <AppText variant="caption" tone="muted">
@@ -52,5 +59,8 @@ export function ExportButton({ label, path, query = {}, fallbackName, countHeade
 
 const styles = StyleSheet.create({
   column: { gap: space.xs },
+  // The reason below a disabled button wraps under it instead of widening it.
+  columnWithReason: { alignItems: 'flex-start' },
+  unavailable: { maxWidth: 260 },
   progress: { paddingVertical: space.xs, paddingHorizontal: space.sm, borderRadius: radius.sm, backgroundColor: colors.surfaceSunken },
 });

@@ -19,18 +19,11 @@ import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
 import { AuditTrailCard } from './AuditTrailCard';
+import { dayAfterIso, dayStartIso, rangeProblem, readDay } from './dateFilter';
 import { ExportButton } from './ExportButton';
 
 type Verdict = NonNullable<RecordFilterValues['verdict']>;
 
-/** YYYY-MM-DD typed by a person → the start of that day in UTC, or undefined while incomplete. */
-function dayStart(text: string): string | undefined {
-  return /^\d{4}-\d{2}-\d{2}$/.test(text) && !Number.isNaN(Date.parse(text)) ? `${text}T00:00:00Z` : undefined;
-}
-function dayAfter(text: string): string | undefined {
-  const start = dayStart(text);
-  return start ? new Date(Date.parse(start) + 86_400_000).toISOString() : undefined;
-}
 
 /** Filters a link brings in the address (a chart point, a cause, an alert): /records?from=…&cause=…. */
 type LinkParams = Partial<Record<'from' | 'to' | 'lineId' | 'stationId' | 'ruleId' | 'verdict' | 'partType' | 'cause', string>>;
@@ -124,19 +117,25 @@ function RecordsList({ params }: { params: LinkParams }) {
   const [from, setFrom] = useState(initial.from);
   const [to, setTo] = useState(initial.to);
   const [linked, setLinked] = useState<LinkedFilters>(initial.linked);
+  // A field the person has left reports a part-typed date as well.
+  const [leftField, setLeftField] = useState({ from: false, to: false });
+  const fromDay = readDay(from, leftField.from);
+  const toDay = readDay(to, leftField.to);
+  const datesProblem = rangeProblem(fromDay.day, toDay.day);
+  const datesUnusable = !!(fromDay.problem || toDay.problem || datesProblem);
   const filters: RecordFilterValues = useMemo(
     () => ({
       verdict: verdict ?? undefined,
       stationId: stationId ?? undefined,
       disputed: disputed === null ? undefined : disputed ? 'true' : 'false',
-      from: linked.from ?? dayStart(from),
-      to: linked.to ?? dayAfter(to),
+      from: linked.from ?? (fromDay.day ? dayStartIso(fromDay.day) : undefined),
+      to: linked.to ?? (toDay.day ? dayAfterIso(toDay.day) : undefined),
       lineId: linked.lineId,
       ruleId: linked.ruleId,
       partType: linked.partType,
       cause: linked.cause,
     }),
-    [verdict, stationId, disputed, from, to, linked],
+    [verdict, stationId, disputed, fromDay.day, toDay.day, linked],
   );
   const hasLinked = Object.values(linked).some(Boolean);
   // Typing a date replaces the exact bounds a link brought.
@@ -156,7 +155,14 @@ function RecordsList({ params }: { params: LinkParams }) {
       actions={
         <>
           <Button label="Rule history" variant="secondary" compact accessibilityLabel="Rule history: every rule’s versions, signatures and changes" onPress={() => router.push('/records/rule-history')} />
-          <ExportButton label="Export CSV" path="/api/records/inspections.csv" query={exportQuery} fallbackName="inspections.csv" countHeader="X-Inspection-Count" />
+          <ExportButton
+            label="Export CSV"
+            path="/api/records/inspections.csv"
+            query={exportQuery}
+            fallbackName="inspections.csv"
+            countHeader="X-Inspection-Count"
+            unavailable={datesUnusable ? 'Correct the dates in the filters first: the export holds what the list shows.' : undefined}
+          />
         </>
       }
     >
@@ -178,14 +184,36 @@ function RecordsList({ params }: { params: LinkParams }) {
         {stations.length > 0 ? <ChoiceChips<string | null> label="Station" value={stationId} onChange={setStationId} choices={[{ value: null, label: 'All' }, ...stations]} /> : null}
         <ChoiceChips<boolean | null> label="Disputed" value={disputed} onChange={setDisputed} choices={[{ value: null, label: 'Either' }, { value: true, label: 'Disputed' }, { value: false, label: 'Not disputed' }]} />
         <View style={[styles.dates, phone && styles.datesPhone]}>
-          <TextField label="From (YYYY-MM-DD, UTC)" value={from} onChangeText={typeDate(setFrom)} placeholder="2026-11-01" autoCapitalize="none" />
-          <TextField label="To (inclusive)" value={to} onChangeText={typeDate(setTo)} placeholder="2026-11-30" autoCapitalize="none" />
+          <View style={phone ? null : styles.dateField}>
+            <TextField
+              label="From (YYYY-MM-DD, UTC)"
+              value={from}
+              onChangeText={typeDate(setFrom)}
+              onBlur={() => setLeftField((f) => ({ ...f, from: true }))}
+              error={fromDay.problem ?? undefined}
+              placeholder="2026-11-01"
+              autoCapitalize="none"
+            />
+          </View>
+          <View style={phone ? null : styles.dateField}>
+            <TextField
+              label="To (inclusive)"
+              value={to}
+              onChangeText={typeDate(setTo)}
+              onBlur={() => setLeftField((f) => ({ ...f, to: true }))}
+              error={toDay.problem ?? datesProblem ?? undefined}
+              placeholder="2026-11-30"
+              autoCapitalize="none"
+            />
+          </View>
         </View>
       </FilterPanel>
       {/* Outside the panel, so that a folded panel on a phone still says what the link narrowed. */}
       {hasLinked ? <LinkedFiltersNote linked={linked} lineName={lines.data?.find((l) => l.id === linked.lineId)?.name} onClear={() => setLinked({})} /> : null}
 
-      {pages.isPending ? (
+      {datesUnusable ? (
+        <EmptyState title="Check the dates" body={`${fromDay.problem ?? toDay.problem ?? datesProblem} No inspections are listed until the dates can be read.`} />
+      ) : pages.isPending ? (
         <LoadingState label="Loading inspections…" />
       ) : pages.isError ? (
         <ErrorState error={pages.error} onRetry={() => pages.refetch()} />
@@ -209,6 +237,7 @@ function RecordsList({ params }: { params: LinkParams }) {
 const styles = StyleSheet.create({
   dates: { flexDirection: 'row', gap: space.md },
   datesPhone: { flexDirection: 'column' },
+  dateField: { flex: 1, maxWidth: 360 },
   list: { gap: space.xs },
   row: { flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: minTouchTarget, paddingVertical: space.sm, paddingHorizontal: space.sm, borderRadius: radius.md, borderBottomWidth: 1, borderBottomColor: colors.line },
   rowPhone: { flexWrap: 'wrap' },

@@ -82,3 +82,30 @@ test.each([
     expect(errors).toEqual(['Failed to load resource: the server responded with a status of 400 (Bad Request)']);
   }),
 );
+
+test('a date the list cannot read is said beside the field, and nothing is listed or exported meanwhile', () =>
+  asAuditor(PHONE, async (page, errors) => {
+    await page.goto(`${product.url}/records`);
+    await page.getByText('3 shown, newest first').waitFor();
+    await page.getByRole('button', { name: 'Change filters' }).click();
+    const from = page.getByLabel('From (YYYY-MM-DD, UTC)');
+    const to = page.getByLabel('To (inclusive)');
+    const exportCsv = page.getByRole('button', { name: 'Export CSV' });
+    await from.fill('05/11/2026');
+    await page.getByText('⚠ Write the day as YYYY-MM-DD: 05/11/2026 could be day/month or month/day.').waitFor();
+    await page.getByText('Check the dates', { exact: true }).waitFor();
+    expect(await page.getByText(/shown, newest first/).count()).toBe(0);
+    expect(await exportCsv.isDisabled()).toBe(true);
+    await screenshot(page, 'records-unreadable-date-phone');
+    // A readable but empty range says why it is empty.
+    await from.fill('2026-12-03');
+    await to.fill('2026-12-01');
+    await page.getByText('⚠ From (2026-12-03) is after To (2026-12-01): no day lies between them.').waitFor();
+    expect(await exportCsv.isDisabled()).toBe(true);
+    // Cleared, the list and the export are back.
+    await from.fill('');
+    await to.fill('');
+    await page.getByText('3 shown, newest first').waitFor();
+    expect(await exportCsv.isDisabled()).toBe(false);
+    expect(errors).toEqual([]);
+  }));

@@ -3,6 +3,7 @@ import { Image, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
 import { fonts, radius, space } from '../../lib/theme';
 import type { Inspection } from '../../shared/api/inspections';
+import { recordReference } from '../../shared/api/records';
 import { AppText } from '../AppText';
 import { Card } from '../Card';
 import { MeasurementList } from './MeasurementList';
@@ -28,6 +29,7 @@ export function VerdictPanel({ inspection, aspectRatio = 4 / 3, actions }: Verdi
   const layout = useLayout();
   const look = VERDICT_LOOK[inspection.verdict];
   const problems = qualityProblems(inspection.quality);
+  const reference = recordReference(inspection.id);
   return (
     <View style={styles.column}>
       <View
@@ -43,8 +45,9 @@ export function VerdictPanel({ inspection, aspectRatio = 4 / 3, actions }: Verdi
             {inspection.verdict}
           </AppText>
           <AppText variant="bodyStrong">{HEADLINE[inspection.verdict]}</AppText>
+          {inspection.verdict === 'FAIL' ? <AppText variant="bodyStrong">{`Mark the part with its record: ${reference}.`}</AppText> : null}
           <AppText variant="caption" tone="muted">
-            {`${inspection.ruleName} v${inspection.ruleVersionNumber} · ${inspection.stationName} · ${new Date(inspection.createdAt).toLocaleTimeString()}`}
+            {`Record ${reference} · ${inspection.ruleName} v${inspection.ruleVersionNumber} · ${inspection.stationName} · ${new Date(inspection.createdAt).toLocaleTimeString()}`}
           </AppText>
         </View>
       </View>

@@ -9,6 +9,7 @@ import { VerdictPanel } from '../inspect/VerdictPanel';
 import { Screen } from '../Screen';
 import { ErrorState, LoadingState } from '../StateViews';
 import { ExportButton } from './ExportButton';
+import { recordReference } from '../../shared/api/records';
 
 /** One inspection as recorded: verdict and measurements, the photo, who did what when, the exact rule version. */
 export function InspectionRecord({ id }: { id: string }) {
@@ -19,7 +20,7 @@ export function InspectionRecord({ id }: { id: string }) {
   const i = record.data;
   return (
     <Screen
-      title="Inspection record"
+      title={`Inspection record ${recordReference(i.id)}`}
       subtitle={`${new Date(i.createdAt).toLocaleString()} · ${i.lineName}, ${i.stationName}`}
       actions={<ExportButton label="PDF report" path={`/api/records/inspections/${i.id}/report.pdf`} fallbackName={`inspection-${i.id}.pdf`} />}
     >

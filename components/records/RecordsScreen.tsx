@@ -7,7 +7,7 @@ import { useSession } from '../../hooks/useSession';
 import { useRule } from '../../hooks/useRules';
 import { useLines } from '../../hooks/useStations';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
-import type { RecordRow } from '../../shared/api/records';
+import { recordReference, recordReferenceSchema, type RecordRow } from '../../shared/api/records';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { Card } from '../Card';
@@ -89,7 +89,7 @@ function RecordLine({ row, phone }: { row: RecordRow; phone: boolean }) {
         <View style={styles.cellSide}>
           <AppText variant="caption">{when.toLocaleString()}</AppText>
           <AppText variant="caption" tone="muted">
-            {row.operatorName}
+            {`${row.operatorName} · record ${recordReference(row.id)}`}
           </AppText>
         </View>
       </Pressable>
@@ -122,7 +122,10 @@ function RecordsList({ params }: { params: LinkParams }) {
   const fromDay = readDay(from, leftField.from);
   const toDay = readDay(to, leftField.to);
   const datesProblem = rangeProblem(fromDay.day, toDay.day);
-  const datesUnusable = !!(fromDay.problem || toDay.problem || datesProblem);
+  const [reference, setReference] = useState('');
+  const readReference = recordReferenceSchema.safeParse(reference);
+  const referenceProblem = reference.trim() === '' || readReference.success ? null : 'A record reference is eight letters A–F and digits, e.g. 7F3A-19C2.';
+  const filterProblem = fromDay.problem ?? toDay.problem ?? datesProblem ?? referenceProblem;
   const filters: RecordFilterValues = useMemo(
     () => ({
       verdict: verdict ?? undefined,
@@ -134,8 +137,9 @@ function RecordsList({ params }: { params: LinkParams }) {
       ruleId: linked.ruleId,
       partType: linked.partType,
       cause: linked.cause,
+      ref: readReference.success && reference.trim() !== '' ? readReference.data : undefined,
     }),
-    [verdict, stationId, disputed, fromDay.day, toDay.day, linked],
+    [verdict, stationId, disputed, fromDay.day, toDay.day, linked, readReference.success, readReference.data, reference],
   );
   const hasLinked = Object.values(linked).some(Boolean);
   // Typing a date replaces the exact bounds a link brought.
@@ -161,15 +165,24 @@ function RecordsList({ params }: { params: LinkParams }) {
             query={exportQuery}
             fallbackName="inspections.csv"
             countHeader="X-Inspection-Count"
-            unavailable={datesUnusable ? 'Correct the dates in the filters first: the export holds what the list shows.' : undefined}
+            unavailable={filterProblem ? 'Correct the filters first: the export holds what the list shows.' : undefined}
           />
         </>
       }
     >
       <FilterPanel
         foldable={phone}
-        summary={describeRecordFilters({ verdict, stationName: stations.find((s) => s.value === stationId)?.label ?? null, disputed, from, to })}
+        summary={describeRecordFilters({ verdict, stationName: stations.find((s) => s.value === stationId)?.label ?? null, disputed, from, to, reference: reference.trim() })}
       >
+        <TextField
+          label="Record reference (from the part’s tag)"
+          value={reference}
+          onChangeText={setReference}
+          error={referenceProblem ?? undefined}
+          placeholder="7F3A-19C2"
+          autoCapitalize="characters"
+          autoCorrect={false}
+        />
         <ChoiceChips<Verdict | null>
           label="Verdict"
           value={verdict}
@@ -211,8 +224,8 @@ function RecordsList({ params }: { params: LinkParams }) {
       {/* Outside the panel, so that a folded panel on a phone still says what the link narrowed. */}
       {hasLinked ? <LinkedFiltersNote linked={linked} lineName={lines.data?.find((l) => l.id === linked.lineId)?.name} onClear={() => setLinked({})} /> : null}
 
-      {datesUnusable ? (
-        <EmptyState title="Check the dates" body={`${fromDay.problem ?? toDay.problem ?? datesProblem} No inspections are listed until the dates can be read.`} />
+      {filterProblem ? (
+        <EmptyState title="Check the filters" body={`${filterProblem} No inspections are listed until the filters can be read.`} />
       ) : pages.isPending ? (
         <LoadingState label="Loading inspections…" />
       ) : pages.isError ? (

@@ -1,6 +1,23 @@
 import { z } from 'zod';
 import { verdictSchema } from './inspections';
 
+/**
+ * An inspection's short reference, "7F3A-19C2": the first eight hex digits of its id (a random
+ * UUID), short enough to write on the tag of a part set aside and enough to find its record
+ * (two inspections may share one now and then; their times and stations tell them apart).
+ */
+export function recordReference(id: string): string {
+  const hex = id.replace(/-/g, '').slice(0, 8).toUpperCase();
+  return `${hex.slice(0, 4)}-${hex.slice(4, 8)}`;
+}
+
+/** A reference as typed (7F3A-19C2, 7f3a19c2, with spaces around) → its eight lower-case hex digits. */
+export const recordReferenceSchema = z
+  .string()
+  .trim()
+  .regex(/^[0-9a-f]{4}-?[0-9a-f]{4}$/i, 'A record reference is eight letters A–F and digits, e.g. 7F3A-19C2')
+  .transform((ref) => ref.replace('-', '').toLowerCase());
+
 const isoDate = z.iso.datetime({ offset: true, message: 'Use an ISO 8601 date and time, e.g. 2026-11-01T00:00:00Z' });
 
 /** Filters shared by the records table and its CSV export. */
@@ -17,6 +34,8 @@ export const recordFiltersSchema = z.strictObject({
   partType: z.string().min(1).max(40).optional(),
   /** The failing gauge or cause stored on the inspection (a Pareto bar). */
   cause: z.string().min(1).max(120).optional(),
+  /** A record reference (recordReference), as written on a part's tag. */
+  ref: recordReferenceSchema.optional(),
   order: z.enum(['newest', 'oldest']).default('newest'),
 });
 export type RecordFilters = z.output<typeof recordFiltersSchema>;

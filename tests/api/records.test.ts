@@ -6,7 +6,7 @@ import path from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import sharp from 'sharp';
 import request from 'supertest';
-import { CSV_COLUMNS, recordPageSchema } from '../../shared/api/records';
+import { CSV_COLUMNS, recordPageSchema, recordReference } from '../../shared/api/records';
 import { createTestApp, TEST_PASSWORD, type TestApp } from '../support/app';
 
 jest.setTimeout(180_000);
@@ -80,6 +80,24 @@ test('the records table pages by keyset, newest first, and filters by verdict an
   expect(november.items[0]).toMatchObject({ stationName: 'Press 1', ruleName: 'Plate spots', ruleVersionNumber: 1, verdict: 'FAIL', cause: 'Spot area' });
 });
 
+test('a record reference (the id\'s first eight hex digits, as written on a part\'s tag) finds its inspection', async () => {
+  const reference = recordReference(failedId);
+  expect(reference).toMatch(/^[0-9A-F]{4}-[0-9A-F]{4}$/);
+  expect(reference.replace('-', '').toLowerCase()).toBe(failedId.slice(0, 8));
+  // As printed, without the dash, in lower case and with spaces around: the same inspection.
+  for (const typed of [reference, reference.replace('-', ''), ` ${reference.toLowerCase()} `]) {
+    const found = recordPageSchema.parse((await request(t.app).get('/api/records/inspections').query({ ref: typed }).set(auditor)).body);
+    expect(found.items.map((r) => r.id)).toEqual([failedId]);
+  }
+  // Another reference finds none of it; text that is no reference is refused by name.
+  const other = failedId.startsWith('0') ? 'FFFF-FFFF' : '0000-0000';
+  const none = recordPageSchema.parse((await request(t.app).get('/api/records/inspections').query({ ref: other }).set(auditor)).body);
+  expect(none.items.some((r) => r.id === failedId)).toBe(false);
+  const refused = await request(t.app).get('/api/records/inspections').query({ ref: "7F3A' or '1'='1" }).set(auditor);
+  expect(refused.status).toBe(400);
+  expect(refused.body.error.details.issues[0]).toMatchObject({ path: 'ref' });
+});
+
 test('the disputed filter lists exactly the disputed inspections, and its opposite all the others', async () => {
   const operator = { Authorization: `Bearer ${await t.tokenFor('tomas')}` };
   expect((await request(t.app).post(`/api/inspections/${failedId}/dispute`).set(operator).send({ note: 'The spot wipes off' })).status).toBe(201);
@@ -144,6 +162,7 @@ test('the inspection report carries the verdict, measurements, rule version and 
   expect(res.headers['content-type']).toBe('application/pdf');
   const text = pdfText(res.body as Buffer);
   expect(text).toMatch(/Verdict: FAIL \(Spot area\)/);
+  expect(text).toContain(`Inspection record ${recordReference(failedId)}`);
   // The unit as its symbol (px²), not the document's code (px2).
   expect(text).toMatch(/Spot area\s+64 px²\s+at most 20\s+OUTSIDE LIMITS/);
   expect(text).toMatch(/Spot count, "bright", per part\s+1 —\s+at most 3\s+within limits/);

@@ -98,6 +98,10 @@ describe('the operator at phone width', () => {
     expect(measured).not.toMatch(/mm2/);
     await screenshot(page, 'inspect-verdict-phone');
     expect(await inspectionCount()).toBe(before + 1);
+    // The record's reference, to write on the part's tag, is the stored inspection's id's first eight hex digits.
+    const [{ id }] = await product.db.dataSource.query(`select id from inspections order by created_at desc limit 1`);
+    const reference = `${id.slice(0, 4)}-${id.slice(4, 8)}`.toUpperCase();
+    expect(await verdict.innerText()).toContain(`Record ${reference} · `);
   });
 
   test('disputes the verdict with a note', async () => {

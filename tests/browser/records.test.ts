@@ -93,7 +93,7 @@ test('a date the list cannot read is said beside the field, and nothing is liste
     const exportCsv = page.getByRole('button', { name: 'Export CSV' });
     await from.fill('05/11/2026');
     await page.getByText('⚠ Write the day as YYYY-MM-DD: 05/11/2026 could be day/month or month/day.').waitFor();
-    await page.getByText('Check the dates', { exact: true }).waitFor();
+    await page.getByText('Check the filters', { exact: true }).waitFor();
     expect(await page.getByText(/shown, newest first/).count()).toBe(0);
     expect(await exportCsv.isDisabled()).toBe(true);
     await screenshot(page, 'records-unreadable-date-phone');
@@ -107,5 +107,17 @@ test('a date the list cannot read is said beside the field, and nothing is liste
     await to.fill('');
     await page.getByText('3 shown, newest first').waitFor();
     expect(await exportCsv.isDisabled()).toBe(false);
+    // The reference on a failed part's tag finds its record alone.
+    const failed = page.getByRole('link', { name: /^FAIL, Plate spots at Press 1/ });
+    const reference = /record ([0-9A-F]{4}-[0-9A-F]{4})/.exec(await failed.innerText())![1];
+    const referenceField = page.getByLabel('Record reference (from the part’s tag)');
+    await referenceField.fill(reference.toLowerCase());
+    await page.getByText('1 shown, newest first').waitFor();
+    expect(await failed.count()).toBe(1);
+    await referenceField.fill('7F3A-19');
+    await page.getByText('⚠ A record reference is eight letters A–F and digits, e.g. 7F3A-19C2.').waitFor();
+    expect(await exportCsv.isDisabled()).toBe(true);
+    await referenceField.fill('');
+    await page.getByText('3 shown, newest first').waitFor();
     expect(errors).toEqual([]);
   }));

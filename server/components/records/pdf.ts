@@ -1,6 +1,7 @@
 import PDFDocument from 'pdfkit';
 import sharp from 'sharp';
 import type { Inspection } from '../../../shared/api/inspections';
+import { recordReference } from '../../../shared/api/records';
 import type { RuleVersion } from '../../../shared/api/rules';
 import { SIGNATURE_MEANING_LABELS } from '../../../shared/api/rules';
 import type { Trial } from '../../../shared/api/trials';
@@ -169,7 +170,7 @@ const number = (value: number) => String(Number(value.toPrecision(6)));
 
 /** One inspection: verdict, measurements against limits, the rule version and its release signature, the photo and the evidence. */
 export async function inspectionReport(inspection: Inspection, version: RuleVersion, photo: Buffer, evidence: Buffer | null, printed: PrintedBy): Promise<Buffer> {
-  const doc = newDocument('Inspection record', `Inspection ${inspection.id}`);
+  const doc = newDocument(`Inspection record ${recordReference(inspection.id)}`, `Inspection ${inspection.id}`);
   verdictBox(doc, inspection);
   field(doc, 'When', `${inspection.createdAt} (UTC)`);
   field(doc, 'Where', `${inspection.lineName}, ${inspection.stationName}`);

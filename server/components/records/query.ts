@@ -18,6 +18,8 @@ export function whereClause(filters: RecordFilters, params: unknown[]): string {
   if (filters.operatorId) parts.push(`i.operator_id = ${bind(filters.operatorId)}`);
   if (filters.partType) parts.push(`i.part_type = ${bind(filters.partType)}`);
   if (filters.cause) parts.push(`i.cause = ${bind(filters.cause)}`);
+  // A reference is the id's first eight hex digits: a range of the id's index, not a text match.
+  if (filters.ref) parts.push(`i.id between ${bind(`${filters.ref}-0000-0000-0000-000000000000`)}::uuid and ${bind(`${filters.ref}-ffff-ffff-ffff-ffffffffffff`)}::uuid`);
   // Disputed inspections are few: starting from the disputes keeps the page fast on millions of
   // inspections (a correlated exists made the planner walk the time index instead).
   if (filters.disputed === 'true') parts.push(`i.id = any(array(select d.inspection_id from disputes d))`);

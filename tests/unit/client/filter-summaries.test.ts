@@ -26,5 +26,6 @@ describe('describeRecordFilters', () => {
   test('every choice made, one day bound typed', () => {
     expect(describeRecordFilters({ verdict: 'FAIL', stationName: 'Press 3 exit', disputed: true, from: '2026-11-01', to: '' })).toBe('FAIL only · Press 3 exit · disputed only · 2026-11-01 to …');
     expect(describeRecordFilters({ ...open, disputed: false, to: '2026-11-30' })).toBe('Every verdict · all stations · not disputed · … to 2026-11-30');
+    expect(describeRecordFilters({ ...open, reference: '7F3A-19C2' })).toBe('Every verdict · all stations · disputed or not · any day · record 7F3A-19C2');
   });
 });

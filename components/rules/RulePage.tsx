@@ -62,7 +62,7 @@ export function RulePage({ id }: { id: string }) {
         <AppText variant="heading">Versions</AppText>
         {versions.map((v) => (
           <View key={v.id} style={styles.version}>
-            <VersionState state={v.state} number={v.number} />
+            <VersionState state={v.state} number={v.number} sentBack={v.reviewedAt !== null} />
             <AppText variant="caption" tone="muted" style={styles.grow}>
               {`by ${v.author.name}, edited ${formatDate(v.editedAt)}${v.releasedAt ? ` · released ${formatDate(v.releasedAt)}${v.reviewer ? ` by ${v.reviewer.name}` : ''}` : ''}${v.reviewNote ? ` · review note: “${v.reviewNote}”` : ''}${v.withdrawReason ? ` · withdrawn: “${v.withdrawReason}”` : ''}`}
             </AppText>

@@ -42,7 +42,7 @@ function RuleRow({ rule, partTypeName }: { rule: RuleSummary; partTypeName: stri
           <AppText variant="caption">{rule.lastTrial ? describeLastTrial(rule.lastTrial) : 'No trial yet'}</AppText>
         </View>
         <View style={styles.states}>
-          <VersionState state={rule.latestVersion.state} number={rule.latestVersion.number} />
+          <VersionState state={rule.latestVersion.state} number={rule.latestVersion.number} sentBack={rule.latestVersion.sentBack} />
           {rule.releasedVersion && rule.releasedVersion.id !== rule.latestVersion.id ? <VersionState state={rule.releasedVersion.state} number={rule.releasedVersion.number} /> : null}
         </View>
       </Pressable>

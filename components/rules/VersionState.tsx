@@ -12,17 +12,22 @@ export const STATE_WORDS: Record<RuleVersionState, { symbol: string; word: strin
   withdrawn: { symbol: '⊘', word: 'Withdrawn' },
 };
 
-export function VersionState({ state, number }: { state: RuleVersionState; number?: number }) {
-  const { symbol, word } = STATE_WORDS[state];
+/** `sentBack`: a draft returned from review, which waits for the engineer's changes. */
+export function VersionState({ state, number, sentBack = false }: { state: RuleVersionState; number?: number; sentBack?: boolean }) {
+  const returned = sentBack && state === 'draft';
+  const { symbol, word } = returned ? SENT_BACK : STATE_WORDS[state];
   return (
-    <View style={[styles.pill, state === 'released' && styles.released, state === 'withdrawn' && styles.withdrawn]}>
-      <AppText variant="label">{`${symbol} ${number !== undefined ? `v${number} ` : ''}${word}`}</AppText>
+    <View style={[styles.pill, state === 'released' && styles.released, state === 'withdrawn' && styles.withdrawn, returned && styles.sentBack]}>
+      <AppText variant="label" tone={returned ? 'caution' : undefined}>{`${symbol} ${number !== undefined ? `v${number} ` : ''}${word}`}</AppText>
     </View>
   );
 }
+
+const SENT_BACK = { symbol: '↩', word: 'Draft, sent back' };
 
 const styles = StyleSheet.create({
   pill: { alignSelf: 'flex-start', paddingHorizontal: space.sm, paddingVertical: space.xxs, borderRadius: radius.pill, borderWidth: 1, borderColor: colors.control, backgroundColor: colors.surface },
   released: { borderColor: colors.notice, backgroundColor: colors.noticeTint },
   withdrawn: { borderStyle: 'dashed' },
+  sentBack: { borderColor: colors.caution, backgroundColor: colors.cautionTint },
 });

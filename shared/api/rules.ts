@@ -52,7 +52,8 @@ export const ruleVersionSchema = z.object({
 });
 export type RuleVersion = z.infer<typeof ruleVersionSchema>;
 
-const versionBrief = z.object({ id: z.string(), number: z.number().int(), state: ruleVersionStateSchema, editedAt: z.string() });
+/** `sentBack`: a draft a supervisor returned from review (it waits for the engineer's changes). */
+const versionBrief = z.object({ id: z.string(), number: z.number().int(), state: ruleVersionStateSchema, editedAt: z.string(), sentBack: z.boolean() });
 
 /** The newest trial of any of the rule's versions, for the list. */
 const lastTrialBrief = z.object({

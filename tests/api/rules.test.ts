@@ -1,5 +1,5 @@
 import request from 'supertest';
-import { ruleDetailSchema, ruleVersionSchema } from '../../shared/api/rules';
+import { ruleDetailSchema, ruleVersionSchema, type RuleSummary } from '../../shared/api/rules';
 import { createTestApp, TEST_PASSWORD, type TestApp } from '../support/app';
 
 let t: TestApp;
@@ -168,6 +168,17 @@ test('a supervisor sends a version back with a note; it becomes a draft again', 
   await request(t.app).post(`/api/rule-versions/${id}/submit`).set(engineer).send({});
   const res = await request(t.app).post(`/api/rule-versions/${id}/send-back`).set(supervisor).send({ note: 'Limit too loose for the M16 drawing' });
   expect(res.body).toMatchObject({ state: 'draft', reviewNote: 'Limit too loose for the M16 drawing' });
+  // The rules list marks it, so that its engineer sees which drafts wait for their changes; a new rule's draft is not marked.
+  const listed = (await request(t.app).get('/api/rules').query({ q: 'Send me back' }).set(engineer)).body.items;
+  expect(listed.map((r: RuleSummary) => r.latestVersion)).toEqual([expect.objectContaining({ id, state: 'draft', sentBack: true })]);
+  const fresh = await createRule('Never reviewed');
+  const freshListed = (await request(t.app).get('/api/rules').query({ q: 'Never reviewed' }).set(engineer)).body.items;
+  expect(freshListed.map((r: RuleSummary) => r.latestVersion)).toEqual([expect.objectContaining({ id: fresh.versions[0].id, sentBack: false })]);
+  // Sent for review again, it is no longer marked.
+  await recordDoneTrial(id);
+  await request(t.app).post(`/api/rule-versions/${id}/submit`).set(engineer).send({});
+  const resubmitted = (await request(t.app).get('/api/rules').query({ q: 'Send me back' }).set(engineer)).body.items;
+  expect(resubmitted[0].latestVersion).toMatchObject({ state: 'in-review', sentBack: false });
 });
 
 test('roles: operators and auditors read rules but cannot write them; engineers cannot release', async () => {

@@ -107,7 +107,7 @@ export class RulesService {
   }
 
   private brief(v: RuleVersionEntity) {
-    return { id: v.id, number: v.number, state: v.state, editedAt: v.editedAt.toISOString() };
+    return { id: v.id, number: v.number, state: v.state, editedAt: v.editedAt.toISOString(), sentBack: v.state === 'draft' && v.reviewedAt !== null };
   }
 
   private async summaries(rules: RuleEntity[]): Promise<RuleSummary[]> {

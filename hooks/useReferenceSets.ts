@@ -41,6 +41,12 @@ export function useDefectKinds() {
   return useQuery({ queryKey: catalogueKeys.defectKinds(), queryFn: ({ signal }) => listDefectKinds(signal), staleTime: 5 * 60_000 });
 }
 
+/** A part type's name as the plant's catalogue gives it; its code until the catalogue has loaded. */
+export function usePartTypeName(): (code: string) => string {
+  const partTypes = usePartTypes();
+  return (code) => partTypes.data?.find((p) => p.code === code)?.name ?? code;
+}
+
 /** A defect kind's name as the plant's catalogue gives it; its code until the catalogue has loaded. */
 export function useDefectKindName(): (code: string) => string {
   const defectKinds = useDefectKinds();

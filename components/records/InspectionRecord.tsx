@@ -2,6 +2,7 @@ import { Link } from 'expo-router';
 import { Image, Pressable, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
 import { useInspectionRecord } from '../../hooks/useRecords';
+import { usePartTypeName } from '../../hooks/useReferenceSets';
 import { minTouchTarget, space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { Card } from '../Card';
@@ -14,6 +15,7 @@ import { recordReference } from '../../shared/api/records';
 /** One inspection as recorded: verdict and measurements, the photo, who did what when, the exact rule version. */
 export function InspectionRecord({ id }: { id: string }) {
   const record = useInspectionRecord(id);
+  const partTypeName = usePartTypeName();
   const phone = useLayout() === 'phone';
   if (record.isPending) return <LoadingState label="Loading the inspection…" />;
   if (record.isError) return <ErrorState error={record.error} onRetry={() => record.refetch()} />;
@@ -30,7 +32,7 @@ export function InspectionRecord({ id }: { id: string }) {
           Who, what, when
         </AppText>
         <AppText>{`Operator: ${i.operator.name}`}</AppText>
-        <AppText>{`Part type: ${i.partType}`}</AppText>
+        <AppText>{`Part type: ${partTypeName(i.partType)}`}</AppText>
         <Link href={`/rules/${i.ruleId}`} asChild>
           <Pressable accessibilityRole="link" accessibilityLabel={`Open the rule ${i.ruleName}`} style={styles.link}>
             <AppText tone="steel" variant="bodyStrong">{`Rule: ${i.ruleName}, version ${i.ruleVersionNumber} ›`}</AppText>

@@ -3,6 +3,7 @@ import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
 import { useRecordPages, type RecordFilterValues } from '../../hooks/useRecords';
+import { usePartTypeName } from '../../hooks/useReferenceSets';
 import { useSession } from '../../hooks/useSession';
 import { useRule } from '../../hooks/useRules';
 import { useLines } from '../../hooks/useStations';
@@ -56,10 +57,11 @@ function RuleNameText({ id }: { id: string }) {
 }
 
 function LinkedFiltersNote({ linked, lineName, onClear }: { linked: LinkedFilters; lineName: string | undefined; onClear: () => void }) {
+  const partTypeName = usePartTypeName();
   const time = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
   const parts = [
     linked.lineId ? (lineName ?? 'one line') : null,
-    linked.partType ? `part type ${linked.partType}` : null,
+    linked.partType ? `part type ${partTypeName(linked.partType)}` : null,
     linked.cause ? `cause “${linked.cause}”` : null,
     linked.from || linked.to ? `${linked.from ? time(linked.from) : '…'} to ${linked.to ? time(linked.to) : '…'}` : null,
   ].filter(Boolean);

@@ -3,6 +3,7 @@ import { Link, useRouter } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { useDebouncedValue } from '../../hooks/useDebouncedValue';
+import { usePartTypeName } from '../../hooks/useReferenceSets';
 import { useRuleList } from '../../hooks/useRules';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import type { RuleSummary } from '../../shared/api/rules';
@@ -18,12 +19,13 @@ import { TextField } from '../TextField';
 const PAGE_SIZE = 20;
 
 function RuleLine({ rule }: { rule: RuleSummary }) {
+  const partTypeName = usePartTypeName();
   return (
     <Link href={`/rules/${rule.id}/history`} asChild>
       <Pressable accessibilityRole="link" accessibilityLabel={`History of the rule ${rule.name}`} style={styles.row}>
         <View style={styles.main}>
           <AppText variant="bodyStrong" tone="steel">{`${rule.name} ›`}</AppText>
-          <AppText variant="caption" tone="muted">{`${rule.latestVersion.number} version${rule.latestVersion.number === 1 ? '' : 's'} · ${rule.partType} · created by ${rule.createdBy.name}`}</AppText>
+          <AppText variant="caption" tone="muted">{`${rule.latestVersion.number} version${rule.latestVersion.number === 1 ? '' : 's'} · ${partTypeName(rule.partType)} · created by ${rule.createdBy.name}`}</AppText>
         </View>
         <View style={styles.states}>
           {[rule.releasedVersion, rule.releasedVersion?.id === rule.latestVersion.id ? null : rule.latestVersion].map((v) =>

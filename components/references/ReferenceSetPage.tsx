@@ -4,7 +4,7 @@ import { StyleSheet, View } from 'react-native';
 import { useRouter } from 'expo-router';
 import type { ImageLabel, ReferenceImage } from '../../shared/api/references';
 import { colors, radius, space } from '../../lib/theme';
-import { useDefectKinds, usePartTypes, useReferenceImages, useReferenceSet } from '../../hooks/useReferenceSets';
+import { useDefectKinds, usePartTypeName, useReferenceImages, useReferenceSet } from '../../hooks/useReferenceSets';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { Card } from '../Card';
@@ -21,7 +21,7 @@ const PAGE_SIZE = 48;
 export function ReferenceSetPage({ id }: { id: string }) {
   const router = useRouter();
   const set = useReferenceSet(id);
-  const partTypes = usePartTypes();
+  const partTypeNameOf = usePartTypeName();
   const defectKinds = useDefectKinds();
   const [label, setLabel] = useState<ImageLabel | null>(null);
   const [defectKind, setDefectKind] = useState<string | null>(null);
@@ -48,7 +48,7 @@ export function ReferenceSetPage({ id }: { id: string }) {
     );
   }
   const { counts } = set.data;
-  const partTypeName = partTypes.data?.find((p) => p.code === set.data.partType)?.name ?? set.data.partType;
+  const partTypeName = partTypeNameOf(set.data.partType);
   const filtered = label !== null || defectKind !== null;
   const toggle = (image: ReferenceImage) =>
     setSelected((s) => {

@@ -6,7 +6,7 @@ import type { ReferenceSet } from '../../shared/api/references';
 import { findArea } from '../../lib/navigation';
 import { formatDate } from '../../lib/format';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
-import { usePartTypes, useReferenceSets } from '../../hooks/useReferenceSets';
+import { usePartTypeName, useReferenceSets } from '../../hooks/useReferenceSets';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { Screen } from '../Screen';
@@ -31,9 +31,8 @@ function SetRow({ set, partTypeName }: { set: ReferenceSet; partTypeName: string
 export function ReferenceSetsList() {
   const router = useRouter();
   const sets = useReferenceSets();
-  const partTypes = usePartTypes();
   const [creating, setCreating] = useState(false);
-  const nameOf = (code: string) => partTypes.data?.find((p) => p.code === code)?.name ?? code;
+  const nameOf = usePartTypeName();
   return (
     <Screen title={findArea('reference-sets').title} subtitle={findArea('reference-sets').purpose} actions={<Button label="New reference set" onPress={() => setCreating(true)} />}>
       {sets.isError && !sets.data ? (

@@ -1,5 +1,6 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
+import { usePartTypeName } from '../../hooks/useReferenceSets';
 import { useReleasedRules } from '../../hooks/useReview';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import { AppText } from '../AppText';
@@ -8,6 +9,7 @@ import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 /** Versions on the line now, each opening its page (signatures, trial, withdraw). */
 export function ReleasedVersions() {
   const rules = useReleasedRules();
+  const partTypeName = usePartTypeName();
   if (rules.isPending) return <LoadingState label="Loading released versions…" />;
   if (rules.error) return <ErrorState error={rules.error} onRetry={() => void rules.refetch()} />;
   const released = rules.data.filter((rule) => rule.releasedVersion);
@@ -23,7 +25,7 @@ export function ReleasedVersions() {
             style={styles.item}
           >
             <AppText variant="bodyStrong" style={styles.name}>{`✓ ${rule.name} · v${rule.releasedVersion!.number}`}</AppText>
-            <AppText variant="caption" tone="muted">{`Part type ${rule.partType}`}</AppText>
+            <AppText variant="caption" tone="muted">{`Part type: ${partTypeName(rule.partType)}`}</AppText>
           </Pressable>
         </Link>
         </View>

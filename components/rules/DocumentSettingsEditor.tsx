@@ -1,26 +1,14 @@
 // The rule document's own settings: its name, which channel of the photo the pipeline reads, and
 // how neighbourhood steps treat pixels beyond the image's edge.
 import { View, StyleSheet } from 'react-native';
-import { BORDER_MODES, INPUT_CHANNELS, type BorderMode, type InputChannel } from '../../shared/rules/schema';
+import { BORDER_MODES, INPUT_CHANNELS } from '../../shared/rules/schema';
+import { BORDER_LABELS, CHANNEL_LABELS } from '../../shared/rules/words';
 import type { FieldIssue } from '../../shared/api/errors';
 import { space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { ChoiceChips } from '../ChoiceChips';
 import { TextField } from '../TextField';
 import type { EditorAction, EditorState } from './ruleEditorState';
-
-const CHANNEL_LABELS: Record<InputChannel, string> = {
-  luma: 'Grey (luma, BT.601)',
-  red: 'Red only',
-  green: 'Green only',
-  blue: 'Blue only',
-};
-
-const BORDER_LABELS: Record<BorderMode, { label: string; meaning: string }> = {
-  reflect: { label: 'Mirror', meaning: 'Pixels beyond the edge mirror the image without repeating the edge pixel (gfedcb|abcdefgh).' },
-  replicate: { label: 'Repeat edge', meaning: 'Pixels beyond the edge repeat the edge pixel (aaaa|abcd).' },
-  constant: { label: 'Black', meaning: 'Pixels beyond the edge are 0; an erosion clears shapes that touch the edge.' },
-};
 
 interface DocumentSettingsEditorProps {
   state: Pick<EditorState, 'name' | 'input' | 'border'>;

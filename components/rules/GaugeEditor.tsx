@@ -1,8 +1,9 @@
 // Gauges: what each measures, where (a region in fractions of the image), in which unit, and its limits.
 import { StyleSheet, View } from 'react-native';
-import { GAUGE_MEASURES, UNITS_OF_MEASURE, type GaugeMeasure, type Region } from '../../shared/rules/schema';
+import { GAUGE_MEASURES, UNITS_OF_MEASURE, type Region } from '../../shared/rules/schema';
 import { limitProblems, screenLimitMessage, type LimitBound } from '../../shared/rules/limits';
 import { describeLimits, unitSymbol } from '../../shared/rules/units';
+import { MEASURE_LABELS } from '../../shared/rules/words';
 import type { FieldIssue } from '../../shared/api/errors';
 import { colors, radius, space } from '../../lib/theme';
 import { AppText } from '../AppText';
@@ -16,16 +17,6 @@ import { MASK_MEASURES, outputsMask, STEP_DESCRIPTIONS, stepNames } from './step
 import { EditToggle, OpenAllButton } from './CardToggles';
 import { useOpenCards } from './useOpenCards';
 
-export const MEASURE_LABELS: Record<GaugeMeasure, string> = {
-  'edge-fraction': 'Share of mask pixels',
-  'blob-count': 'Blob count',
-  'largest-blob-area': 'Largest blob area',
-  'largest-blob-length': 'Largest blob length',
-  mean: 'Mean value',
-  stddev: 'Standard deviation',
-  min: 'Lowest value',
-  max: 'Highest value',
-};
 
 const FRACTION = { min: 0, max: 1, unit: 'fraction', step: 0.01 };
 const ANY = { min: -1e9, max: 1e9, step: 1 };

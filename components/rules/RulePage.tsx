@@ -4,7 +4,7 @@ import { useRouter } from 'expo-router';
 import { formatDate } from '../../lib/format';
 import { requestLeave } from '../../lib/leaveGuard';
 import { space } from '../../lib/theme';
-import { usePartTypes } from '../../hooks/useReferenceSets';
+import { usePartTypeName } from '../../hooks/useReferenceSets';
 import { useRule, useStartNewDraft } from '../../hooks/useRules';
 import { useSession } from '../../hooks/useSession';
 import { AppText } from '../AppText';
@@ -21,7 +21,7 @@ export function RulePage({ id }: { id: string }) {
   const router = useRouter();
   const { user } = useSession();
   const rule = useRule(id);
-  const partTypes = usePartTypes();
+  const partTypeNameOf = usePartTypeName();
   const newDraft = useStartNewDraft();
   const isEngineer = user?.roles.includes('engineer') ?? false;
 
@@ -45,7 +45,7 @@ export function RulePage({ id }: { id: string }) {
   const latest = versions[0];
   const draft = latest?.state === 'draft' ? latest : null;
   const base = data.versions.find((v) => v.id === data.releasedVersion?.id) ?? latest;
-  const partTypeName = partTypes.data?.find((p) => p.code === data.partType)?.name ?? data.partType;
+  const partTypeName = partTypeNameOf(data.partType);
 
   return (
     <Screen

@@ -8,7 +8,7 @@ import { formatDate, formatPercent } from '../../lib/format';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import { useDebouncedValue } from '../../hooks/useDebouncedValue';
 import { useLayout } from '../../hooks/useLayout';
-import { usePartTypes } from '../../hooks/useReferenceSets';
+import { usePartTypeName, usePartTypes } from '../../hooks/useReferenceSets';
 import { useRuleList } from '../../hooks/useRules';
 import { useSession } from '../../hooks/useSession';
 import { AppText } from '../AppText';
@@ -65,7 +65,7 @@ export function RulesList() {
   const list = useRuleList({ search: debounced, state, partType, mine, limit: PAGE_SIZE, offset });
   const isEngineer = user?.roles.includes('engineer') ?? false;
   const filtered = search !== '' || state !== null || partType !== null || mine;
-  const nameOf = (code: string) => partTypes.data?.find((p) => p.code === code)?.name ?? code;
+  const nameOf = usePartTypeName();
 
   return (
     <Screen

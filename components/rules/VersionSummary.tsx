@@ -4,7 +4,7 @@ import type { Gauge, Step } from '../../shared/rules/schema';
 import { space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { describeLimits } from '../../shared/rules/units';
-import { MEASURE_LABELS } from './GaugeEditor';
+import { MEASURE_LABELS } from '../../shared/rules/words';
 import { describeStep, STEP_DESCRIPTIONS } from './stepCatalogue';
 
 export function VersionSummary({ document }: { document: unknown }) {

@@ -9,6 +9,10 @@ import {
   STEP_OPS,
   type Step,
 } from '../../shared/rules/schema';
+import { describeStepSettings, STEP_TITLES } from '../../shared/rules/words';
+
+/** A step's settings in one line (shared/rules/words.ts). */
+export const describeStep = describeStepSettings;
 
 export type StepOp = (typeof STEP_OPS)[number];
 
@@ -19,18 +23,18 @@ export interface StepDescription {
 }
 
 export const STEP_DESCRIPTIONS: Record<StepOp, StepDescription> = {
-  kernel: { title: 'Kernel', purpose: 'Any matrix of weights, from the kernel library or your own.', starting: { op: 'kernel', matrix: [[0, -1, 0], [-1, 5, -1], [0, -1, 0]], divisor: 1, offset: 0 } },
-  gaussian: { title: 'Gaussian smoothing', purpose: 'Softens noise before edges are looked for.', starting: { op: 'gaussian', sigma: 1.2 } },
-  box: { title: 'Box mean', purpose: 'Mean of a square neighbourhood.', starting: { op: 'box', size: 3 } },
-  median: { title: 'Median', purpose: 'Removes specks while keeping edges sharp.', starting: { op: 'median', size: 3 } },
-  gradient: { title: 'Gradient', purpose: 'Edge strength or direction (Sobel, Scharr, Prewitt).', starting: { op: 'gradient', operator: 'sobel', output: 'magnitude' } },
-  laplacian: { title: 'Laplacian', purpose: 'Second derivative: fine detail and thin lines.', starting: { op: 'laplacian', neighbours: 4 } },
-  log: { title: 'Laplacian of Gaussian', purpose: 'Smoothing and second derivative in one step.', starting: { op: 'log', sigma: 1.4 } },
-  threshold: { title: 'Threshold', purpose: 'Turns values into a mask: 1 above the threshold, else 0.', starting: { op: 'threshold', method: 'otsu' } },
-  erode: { title: 'Erode', purpose: 'Shrinks mask regions; removes small specks.', starting: { op: 'erode', radius: 1 } },
-  dilate: { title: 'Dilate', purpose: 'Grows mask regions; closes small gaps.', starting: { op: 'dilate', radius: 1 } },
-  open: { title: 'Open', purpose: 'Erode then dilate: removes specks, keeps shapes.', starting: { op: 'open', radius: 1 } },
-  close: { title: 'Close', purpose: 'Dilate then erode: fills small holes and gaps.', starting: { op: 'close', radius: 1 } },
+  kernel: { title: STEP_TITLES.kernel, purpose: 'Any matrix of weights, from the kernel library or your own.', starting: { op: 'kernel', matrix: [[0, -1, 0], [-1, 5, -1], [0, -1, 0]], divisor: 1, offset: 0 } },
+  gaussian: { title: STEP_TITLES.gaussian, purpose: 'Softens noise before edges are looked for.', starting: { op: 'gaussian', sigma: 1.2 } },
+  box: { title: STEP_TITLES.box, purpose: 'Mean of a square neighbourhood.', starting: { op: 'box', size: 3 } },
+  median: { title: STEP_TITLES.median, purpose: 'Removes specks while keeping edges sharp.', starting: { op: 'median', size: 3 } },
+  gradient: { title: STEP_TITLES.gradient, purpose: 'Edge strength or direction (Sobel, Scharr, Prewitt).', starting: { op: 'gradient', operator: 'sobel', output: 'magnitude' } },
+  laplacian: { title: STEP_TITLES.laplacian, purpose: 'Second derivative: fine detail and thin lines.', starting: { op: 'laplacian', neighbours: 4 } },
+  log: { title: STEP_TITLES.log, purpose: 'Smoothing and second derivative in one step.', starting: { op: 'log', sigma: 1.4 } },
+  threshold: { title: STEP_TITLES.threshold, purpose: 'Turns values into a mask: 1 above the threshold, else 0.', starting: { op: 'threshold', method: 'otsu' } },
+  erode: { title: STEP_TITLES.erode, purpose: 'Shrinks mask regions; removes small specks.', starting: { op: 'erode', radius: 1 } },
+  dilate: { title: STEP_TITLES.dilate, purpose: 'Grows mask regions; closes small gaps.', starting: { op: 'dilate', radius: 1 } },
+  open: { title: STEP_TITLES.open, purpose: 'Erode then dilate: removes specks, keeps shapes.', starting: { op: 'open', radius: 1 } },
+  close: { title: STEP_TITLES.close, purpose: 'Dilate then erode: fills small holes and gaps.', starting: { op: 'close', radius: 1 } },
 };
 
 export interface NumberSpec {
@@ -51,28 +55,6 @@ export const ADAPTIVE_SIZE_SPEC: NumberSpec = { label: 'Window size', min: 3, ma
 export const RADIUS_SPEC: NumberSpec = { label: 'Radius', min: 1, max: MAX_MORPHOLOGY_RADIUS, unit: 'px', integer: true, step: 1 };
 export const THRESHOLD_VALUE_SPEC: NumberSpec = { label: 'Threshold value', min: -1e9, max: 1e9, unit: 'grey level', step: 1 };
 export const ADAPTIVE_C_SPEC: NumberSpec = { label: 'Offset below the local mean (c)', min: -1e9, max: 1e9, unit: 'grey level', step: 1 };
-
-/** A one-line summary of a step's parameters, for lists and the preview strip. */
-export function describeStep(step: Step): string {
-  switch (step.op) {
-    case 'kernel':
-      return step.kernel ? `library kernel “${step.kernel}”` : `${step.matrix?.length ?? 0}×${step.matrix?.[0]?.length ?? 0} matrix ÷ ${step.divisor ?? 1}${step.offset ? ` + ${step.offset}` : ''}`;
-    case 'gaussian':
-    case 'log':
-      return `sigma ${step.sigma} px`;
-    case 'box':
-    case 'median':
-      return `${step.size}×${step.size} px`;
-    case 'gradient':
-      return `${step.operator}, ${step.output}`;
-    case 'laplacian':
-      return `${step.neighbours} neighbours`;
-    case 'threshold':
-      return `${step.method === 'fixed' ? `fixed at ${step.value}` : step.method === 'otsu' ? 'Otsu' : `adaptive mean ${step.size} px, c ${step.c}`}${step.invert ? ', inverted' : ''}`;
-    default:
-      return `radius ${step.radius} px`;
-  }
-}
 
 /**
  * "Step n: Title" for each step in order; where two steps share a title each also carries its

@@ -1,5 +1,5 @@
 import { StyleSheet, View } from 'react-native';
-import { usePartTypes } from '../../hooks/useReferenceSets';
+import { usePartTypeName } from '../../hooks/useReferenceSets';
 import { space } from '../../lib/theme';
 import type { RunRuleSet, TrendBucket, TrendChoices } from '../../shared/api/trends';
 import { ChoiceChips } from '../ChoiceChips';
@@ -22,8 +22,7 @@ export function TrendFilterCard({ value, onChange, choices, foldable }: TrendFil
   const set = <K extends keyof TrendFilterValues>(key: K, v: TrendFilterValues[K]) => onChange({ ...value, [key]: v });
   const line = choices.lines.find((l) => l.id === value.lineId);
   const problem = rangeProblem(value.range);
-  const partTypes = usePartTypes();
-  const partTypeName = (code: string) => partTypes.data?.find((t) => t.code === code)?.name ?? code;
+  const partTypeName = usePartTypeName();
 
   return (
     <FilterPanel summary={describeTrendFilters(value, choices, partTypeName)} foldable={foldable}>

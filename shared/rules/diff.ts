@@ -1,7 +1,11 @@
 // What changed between two rule documents, row by row: the reviewer's side-by-side view (released against
 // in review) and the rule history (each version against the one before). Works on the JSON itself, so any
-// document the API returns can be compared; plain TypeScript, so the app and the server share it.
-import { describeLimits } from './units';
+// document the API returns can be compared; plain TypeScript, so the app and the server share it. Steps,
+// gauges and settings read in the editor's words (words.ts); a part the schema does not know reads as
+// its JSON.
+import { regionSchema, stepSchema } from './schema';
+import { describeLimits, unitSymbol } from './units';
+import { BORDER_LABELS, CHANNEL_LABELS, describeRegion, describeStepSettings, MEASURE_LABELS, STEP_TITLES } from './words';
 
 export type ChangeKind = 'same' | 'changed' | 'added' | 'removed';
 
@@ -36,10 +40,21 @@ export function describeValue(value: unknown): string {
 }
 
 function describeStep(step: unknown): string {
+  const known = stepSchema.safeParse(step);
+  if (known.success) return `${STEP_TITLES[known.data.op]}: ${describeStepSettings(known.data)}`;
   const { op, ...parameters } = asObject(step);
   const rest = describeValue(parameters);
   return rest ? `${String(op)}: ${rest}` : String(op);
 }
+
+/** A setting's word from a table of them, or the value itself when the table does not have it. */
+function wordFor(words: Record<string, string>, value: unknown): string {
+  return typeof value === 'string' && Object.prototype.hasOwnProperty.call(words, value) ? words[value] : describeValue(value);
+}
+
+const CHANNEL_WORDS: Record<string, string> = CHANNEL_LABELS;
+const BORDER_WORDS: Record<string, string> = Object.fromEntries(Object.entries(BORDER_LABELS).map(([mode, { label }]) => [mode, label]));
+const MEASURE_WORDS: Record<string, string> = MEASURE_LABELS;
 
 function row(section: DiffRow['section'], label: string, before: string | null, after: string | null): DiffRow {
   const change: ChangeKind = before === null ? 'added' : after === null ? 'removed' : before === after ? 'same' : 'changed';
@@ -82,16 +97,34 @@ export function alignSteps(before: readonly string[], after: readonly string[]):
 }
 
 const GAUGE_FIELDS = ['measure', 'step', 'region', 'unit', 'limits'] as const;
+/** A gauge's fields as its rows are labelled. */
+const GAUGE_FIELD_WORDS: Record<(typeof GAUGE_FIELDS)[number], string> = { measure: 'measures', step: 'measured on', region: 'region', unit: 'unit', limits: 'limits' };
 
 /** The quality gate's settings under the names the rule editor gives them. */
 const QUALITY_LABELS: Record<string, string> = { minFocus: 'lowest focus', maxClipped: 'largest clipped share', minMean: 'lowest mean brightness' };
 
-/** A gauge field as a reviewer reads it: limits in words ("at most 0.07"; the unit has its own row), the rest as describeValue. */
+/** A gauge field as a reviewer reads it: limits in words ("at most 0.07"; the unit has its own row), the measure and region as the editor names them, a step by its number. */
 function describeGaugeField(gauge: Json, field: (typeof GAUGE_FIELDS)[number]): string {
-  if (field !== 'limits' || gauge.limits === undefined) return describeValue(gauge[field]);
-  const { min, max } = asObject(gauge.limits);
-  const number = (v: unknown) => (typeof v === 'number' ? v : null);
-  return describeLimits(number(min), number(max), null);
+  const value = gauge[field];
+  switch (field) {
+    case 'measure':
+      return wordFor(MEASURE_WORDS, value);
+    case 'step':
+      return value === undefined ? 'the last step' : `Step ${describeValue(value)}`;
+    case 'region': {
+      if (value === undefined) return describeRegion(undefined);
+      const region = regionSchema.safeParse(value);
+      return region.success ? describeRegion(region.data) : describeValue(value);
+    }
+    case 'unit':
+      return typeof value === 'string' ? unitSymbol(value) : describeValue(value);
+    case 'limits': {
+      if (value === undefined) return describeValue(value);
+      const { min, max } = asObject(value);
+      const number = (v: unknown) => (typeof v === 'number' ? v : null);
+      return describeLimits(number(min), number(max), null);
+    }
+  }
 }
 
 /** Rows for every setting, step and gauge field of either document; `before` may be absent (a first version). */
@@ -102,8 +135,11 @@ export function diffRuleDocuments(beforeDocument: unknown | null, afterDocument:
   const text = (doc: Json | null, read: (d: Json) => unknown) => (doc === null ? null : describeValue(read(doc)));
 
   rows.push(row('Settings', 'Name', text(before, (d) => d.name), text(after, (d) => d.name)));
-  rows.push(row('Settings', 'Input channel', text(before, (d) => asObject(d.input).channel), text(after, (d) => asObject(d.input).channel)));
-  rows.push(row('Settings', 'Border', text(before, (d) => d.border ?? 'reflect'), text(after, (d) => d.border ?? 'reflect')));
+  const words = (doc: Json | null, read: (d: Json) => unknown, table: Record<string, string>) => (doc === null ? null : wordFor(table, read(doc)));
+  const channel = (d: Json) => asObject(d.input).channel ?? 'luma';
+  const border = (d: Json) => d.border ?? 'reflect';
+  rows.push(row('Settings', 'Photo channel', words(before, channel, CHANNEL_WORDS), words(after, channel, CHANNEL_WORDS)));
+  rows.push(row('Settings', 'Beyond the edge', words(before, border, BORDER_WORDS), words(after, border, BORDER_WORDS)));
   for (const field of Object.keys(QUALITY_LABELS)) {
     rows.push(row('Settings', `Quality gate: ${QUALITY_LABELS[field]}`, text(before, (d) => asObject(d.quality)[field]), text(after, (d) => asObject(d.quality)[field])));
   }
@@ -122,13 +158,13 @@ export function diffRuleDocuments(beforeDocument: unknown | null, afterDocument:
     const b = gaugesBefore.get(name) ?? null;
     const a = gaugesAfter.get(name) ?? null;
     if (!a || !b) {
-      const whole = (g: Json | null) => (g === null ? null : GAUGE_FIELDS.filter((f) => g[f] !== undefined).map((f) => `${f}: ${describeGaugeField(g, f)}`).join('; '));
+      const whole = (g: Json | null) => (g === null ? null : GAUGE_FIELDS.filter((f) => g[f] !== undefined).map((f) => `${GAUGE_FIELD_WORDS[f]}: ${describeGaugeField(g, f)}`).join('; '));
       rows.push(row('Gauges', name, whole(b), whole(a)));
       continue;
     }
     for (const field of GAUGE_FIELDS) {
       if (a[field] === undefined && b[field] === undefined) continue;
-      rows.push(row('Gauges', `${name} · ${field}`, describeGaugeField(b, field), describeGaugeField(a, field)));
+      rows.push(row('Gauges', `${name} · ${GAUGE_FIELD_WORDS[field]}`, describeGaugeField(b, field), describeGaugeField(a, field)));
     }
   }
   return rows;

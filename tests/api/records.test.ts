@@ -163,6 +163,8 @@ test('the inspection report carries the verdict, measurements, rule version and 
   const text = pdfText(res.body as Buffer);
   expect(text).toMatch(/Verdict: FAIL \(Spot area\)/);
   expect(text).toContain(`Inspection record ${recordReference(failedId)}`);
+  // The part type by its catalogue name, with the code the CSV and the API keep.
+  expect(text).toContain('Part type: Plate (plate)');
   // The unit as its symbol (px²), not the document's code (px2).
   expect(text).toMatch(/Spot area\s+64 px²\s+at most 20\s+OUTSIDE LIMITS/);
   expect(text).toMatch(/Spot count, "bright", per part\s+1 —\s+at most 3\s+within limits/);

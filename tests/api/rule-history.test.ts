@@ -151,7 +151,7 @@ test('a version shows only what differs from the version before; the first has n
   expect(v1.changes).toBeNull();
   expect(v2.changes!.fromNumber).toBe(1);
   expect(v2.changes!.rows).toEqual([
-    { section: 'Steps', label: 'Step 3', before: null, after: 'open: radius 1', change: 'added' },
+    { section: 'Steps', label: 'Step 3', before: null, after: 'Open: radius 1 px', change: 'added' },
     { section: 'Gauges', label: 'Tear area · limits', before: 'at most 500', after: 'at most 350', change: 'changed' },
   ]);
 });

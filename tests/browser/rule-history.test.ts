@@ -71,7 +71,7 @@ test.each([
     await page.getByRole('heading', { name: 'Version 2' }).waitFor();
     const changes = page.getByRole('list', { name: 'Changes from version 1 to version 2' });
     await changes.getByText('Steps · Step 1').waitFor();
-    await changes.getByText('Version 2: median: size 3').waitFor();
+    await changes.getByText('Version 2: Median: 3×3 px').waitFor();
     await changes.getByText('Version 1: at most 20').waitFor();
     await changes.getByText('Version 2: at most 12').waitFor();
     expect(await changes.getByText('+ added').count()).toBe(1);

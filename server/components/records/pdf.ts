@@ -169,13 +169,14 @@ function verdictBox(doc: PDFKit.PDFDocument, inspection: Inspection): void {
 const number = (value: number) => String(Number(value.toPrecision(6)));
 
 /** One inspection: verdict, measurements against limits, the rule version and its release signature, the photo and the evidence. */
-export async function inspectionReport(inspection: Inspection, version: RuleVersion, photo: Buffer, evidence: Buffer | null, printed: PrintedBy): Promise<Buffer> {
+/** `partType`: the part type's name with its code, as the catalogue gives it. */
+export async function inspectionReport(inspection: Inspection, version: RuleVersion, photo: Buffer, evidence: Buffer | null, printed: PrintedBy, partType: string): Promise<Buffer> {
   const doc = newDocument(`Inspection record ${recordReference(inspection.id)}`, `Inspection ${inspection.id}`);
   verdictBox(doc, inspection);
   field(doc, 'When', `${inspection.createdAt} (UTC)`);
   field(doc, 'Where', `${inspection.lineName}, ${inspection.stationName}`);
   field(doc, 'Operator', inspection.operator.name);
-  field(doc, 'Part type', inspection.partType);
+  field(doc, 'Part type', partType);
   field(doc, 'Rule', `${inspection.ruleName}, version ${inspection.ruleVersionNumber} (${version.state})`);
   field(doc, 'Rule content SHA-256', version.contentHash);
   field(doc, 'Calibration', inspection.mmPerPx ? `${inspection.mmPerPx.toPrecision(6)} mm/px` : 'none');

@@ -126,12 +126,13 @@ export class RecordsService {
   async inspectionPdf(actor: UserEntity, id: string): Promise<Buffer> {
     const inspection = await this.inspections.get(id);
     const version = await this.rules.version(inspection.ruleVersionId);
-    const [row] = await this.dataSource.query('select image_hash, evidence_hash from inspections where id = $1', [id]);
+    const [row] = await this.dataSource.query('select i.image_hash, i.evidence_hash, p.name as part_type_name from inspections i left join part_types p on p.code = i.part_type where i.id = $1', [id]);
     if (!row) throw notFound('The inspection');
+    const partType = row.part_type_name ? `${row.part_type_name} (${inspection.partType})` : inspection.partType;
     const pdf = await inspectionReport(inspection, version, await this.store.get(row.image_hash), row.evidence_hash ? await this.store.get(row.evidence_hash) : null, {
       name: actor.displayName,
       at: new Date(),
-    });
+    }, partType);
     await this.audit.recordAlone({ actor: actorOf(actor), action: 'export.inspection-pdf', entityType: 'inspection', entityId: id });
     return pdf;
   }

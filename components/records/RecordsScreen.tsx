@@ -168,6 +168,9 @@ function RecordsList({ params }: { params: LinkParams }) {
             fallbackName="inspections.csv"
             countHeader="X-Inspection-Count"
             unavailable={filterProblem ? 'Correct the filters first: the export holds what the list shows.' : undefined}
+            describeSaved={(fileName, count) =>
+              `Saved ${fileName}${count === null ? '' : `: ${count.toLocaleString()} inspection${count === 1 ? '' : 's'}`}, one row per gauge measured (an inspection without gauges has one row).`
+            }
           />
         </>
       }

@@ -65,6 +65,46 @@ export type RecordRow = z.infer<typeof recordRowSchema>;
 export const recordPageSchema = z.object({ items: z.array(recordRowSchema), next: z.string().nullable() });
 export type RecordPage = z.infer<typeof recordPageSchema>;
 
+/** The last day a bound includes: a bound at midnight UTC is exclusive (To is sent as the next day's start). */
+function lastDayBefore(bound: string): string {
+  const time = Date.parse(bound);
+  if (Number.isNaN(time)) return 'unknown';
+  const at = new Date(time);
+  if (at.getUTCHours() === 0 && at.getUTCMinutes() === 0 && at.getUTCSeconds() === 0 && at.getUTCMilliseconds() === 0) return new Date(time - 86_400_000).toISOString().slice(0, 10);
+  return at.toISOString().slice(0, 16).replace(':', '');
+}
+
+function firstDay(bound: string): string {
+  const time = Date.parse(bound);
+  if (Number.isNaN(time)) return 'unknown';
+  const iso = new Date(time).toISOString();
+  return iso.slice(11, 19) === '00:00:00' ? iso.slice(0, 10) : iso.slice(0, 16).replace(':', '');
+}
+
+const fileWord = (text: string) => text.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40) || 'x';
+
+/**
+ * The CSV export's file name, saying what it holds: "inspections_2026-11-01_to_2026-11-30_FAIL_exported-2026-12-05.csv".
+ * Days as the list's date fields show them (To inclusive); a filter by an id (line, station, rule,
+ * version, operator) is named by what it narrows, not by the id.
+ */
+export function exportFileName(filters: Partial<RecordFilters>, exportedAt: Date): string {
+  const parts = ['inspections'];
+  if (filters.from || filters.to) parts.push(`${filters.from ? firstDay(filters.from) : 'start'}_to_${filters.to ? lastDayBefore(filters.to) : 'now'}`);
+  else parts.push('all-days');
+  if (filters.verdict) parts.push(filters.verdict);
+  if (filters.disputed) parts.push(filters.disputed === 'true' ? 'disputed' : 'not-disputed');
+  if (filters.lineId) parts.push('one-line');
+  if (filters.stationId) parts.push('one-station');
+  if (filters.ruleId || filters.ruleVersionId) parts.push('one-rule');
+  if (filters.operatorId) parts.push('one-operator');
+  if (filters.partType) parts.push(fileWord(filters.partType));
+  if (filters.cause) parts.push(`cause-${fileWord(filters.cause)}`);
+  if (filters.ref) parts.push(`record-${filters.ref}`);
+  parts.push(`exported-${exportedAt.toISOString().slice(0, 10)}`);
+  return `${parts.join('_')}.csv`;
+}
+
 /** The CSV export's columns, in order (one row per measurement; an inspection without gauges has one row). */
 export const CSV_COLUMNS = [
   'inspection_id',

@@ -122,6 +122,8 @@ test('the CSV export parses back with a general CSV parser to the same values (R
   const res = await request(t.app).get('/api/records/inspections.csv?from=2026-11-01T00:00:00Z&order=oldest').set(auditor);
   expect(res.status).toBe(200);
   expect(res.headers['x-inspection-count']).toBe('6');
+  // The file's name says what it holds and when it was made.
+  expect(res.headers['content-disposition']).toMatch(/^attachment; filename="inspections_2026-11-01_to_now_exported-20\d\d-\d\d-\d\d\.csv"$/);
   expect(res.text.includes('\r\n')).toBe(true);
   const rows: Record<string, string>[] = parseCsv(res.text, { columns: true });
   expect(Object.keys(rows[0])).toEqual([...CSV_COLUMNS]);

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { listRecordsQuerySchema, recordFiltersSchema } from '../../../shared/api/records';
+import { exportFileName, listRecordsQuerySchema, recordFiltersSchema } from '../../../shared/api/records';
 import { idParamsSchema } from '../../../shared/api/params';
 import { parse } from '../../lib/validate';
 import { requireRole } from '../auth/require-role';
@@ -19,7 +19,7 @@ export function recordRoutes(records: RecordsService): Router {
     // The row count comes first so that a client can show progress while the file streams.
     res.set({
       'Content-Type': 'text/csv; charset=utf-8; header=present',
-      'Content-Disposition': `attachment; filename="inspections-${new Date().toISOString().slice(0, 10)}.csv"`,
+      'Content-Disposition': `attachment; filename="${exportFileName(filters, new Date())}"`,
       'X-Inspection-Count': String(await records.count(filters)),
     });
     await records.exportCsv(req.user!, filters, res);

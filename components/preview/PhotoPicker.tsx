@@ -6,6 +6,7 @@ import { useDefectKindName, useLabelWords, useReferenceImages, useReferenceSets 
 import { AppText } from '../AppText';
 import { ChoiceChips } from '../ChoiceChips';
 import { ErrorState, LoadingState } from '../StateViews';
+import { describeSetCounts } from '../references/setCounts';
 
 export const PICKER_PAGE = 500;
 
@@ -29,7 +30,7 @@ export function PhotoPicker({ partType, setId, imageId, onSet, onPhoto }: PhotoP
   if (offered.length === 0) return <AppText tone="muted">No reference sets yet. Create one under Reference sets and upload photos of this part to preview the rule.</AppText>;
   return (
     <View style={styles.group}>
-      <ChoiceChips label="Reference set" choices={offered.map((s) => ({ value: s.id, label: `${s.name} (${s.counts.total})` }))} value={setId ?? ''} onChange={onSet} />
+      <ChoiceChips label="Reference set" choices={offered.map((s) => ({ value: s.id, label: `${s.name} (${describeSetCounts(s.counts)})` }))} value={setId ?? ''} onChange={onSet} />
       {setId === null ? null : images.isError ? (
         <ErrorState error={images.error} onRetry={() => void images.refetch()} />
       ) : !images.data ? (

@@ -19,6 +19,7 @@ import { LimitSweepPlot } from './LimitSweepPlot';
 import { SubmitDialog } from './SubmitDialog';
 import { TrialFigures } from './TrialFigures';
 import { MisjudgedPhotos, SlowestPhotos } from './TrialImages';
+import { describeSetCounts } from '../references/setCounts';
 
 interface TrialPanelProps {
   version: RuleVersion;
@@ -69,6 +70,7 @@ export function TrialPanel({ version, partType, stations, stationId, onStation, 
 
   const offered = (sets.data ?? []).filter((s) => s.partType === partType);
   const chosenSet = setId ?? trial.data?.referenceSetId ?? offered[0]?.id ?? null;
+  const unlabelledInSet = offered.find((s) => s.id === chosenSet)?.counts.unlabelled ?? 0;
   const tunable = gauges.filter((g) => g.gauge.limits.max !== undefined || g.gauge.limits.min !== undefined);
   const gaugeName = sweepGauge && tunable.some((g) => g.gauge.name === sweepGauge) ? sweepGauge : tunable[0]?.gauge.name ?? null;
   const tunedGauge = tunable.find((g) => g.gauge.name === gaugeName);
@@ -103,8 +105,11 @@ export function TrialPanel({ version, partType, stations, stationId, onStation, 
       {offered.length === 0 ? (
         <AppText tone="muted">No reference set of this part type yet. Create one under Reference sets and label its photos, then run a trial here.</AppText>
       ) : (
-        <ChoiceChips label="Reference set for the trial" choices={offered.map((s) => ({ value: s.id, label: `${s.name} (${s.counts.good} good, ${s.counts.defective} defective)` }))} value={chosenSet ?? ''} onChange={setSetId} />
+        <ChoiceChips label="Reference set for the trial" choices={offered.map((s) => ({ value: s.id, label: `${s.name} (${describeSetCounts(s.counts)})` }))} value={chosenSet ?? ''} onChange={setSetId} />
       )}
+      {unlabelledInSet > 0 ? (
+        <AppText variant="caption" tone="muted">{`${unlabelledInSet} unlabelled photo${unlabelledInSet === 1 ? ' is' : 's are'} left out of the trial: a trial compares verdicts with labels. Label them on the set’s page.`}</AppText>
+      ) : null}
       {needsMm ? (
         <ChoiceChips<string | null>
           label="Station whose calibration turns px into mm"

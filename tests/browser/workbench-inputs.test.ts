@@ -101,7 +101,7 @@ async function blocksRule(name: string): Promise<{ ruleId: string; versionId: st
 async function openPreview(page: Page, ruleId: string, setName: string): Promise<Locator> {
   await page.goto(`${product.url}/rules/${ruleId}`);
   await page.getByText('Version 1 (draft) · saved').waitFor();
-  await page.getByRole('radio', { name: `${setName} (1)` }).click();
+  await page.getByRole('radiogroup', { name: 'Reference set', exact: true }).getByRole('radio', { name: `${setName} (1 photo: 0 good, 0 defective, 1 unlabelled)` }).click();
   await page.getByRole('radio', { name: 'Photo blocks.png, unlabelled' }).click();
   await page.getByRole('heading', { name: /^Preview verdict: / }).waitFor({ timeout: 60_000 });
   return page.getByRole('img', { name: '1. Threshold output, large' });

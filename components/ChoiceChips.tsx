@@ -5,6 +5,8 @@ import { AppText } from './AppText';
 export interface Choice<T> {
   value: T;
   label: string;
+  /** The spoken name when the label alone repeats across groups ("3" → "3 rows"). */
+  accessibilityLabel?: string;
 }
 
 interface ChoiceChipsProps<T> {
@@ -29,7 +31,7 @@ export function ChoiceChips<T extends string | boolean | null>({ label, choices,
             <Pressable
               key={String(choice.value)}
               role="radio"
-              aria-label={choice.label}
+              aria-label={choice.accessibilityLabel ?? choice.label}
               aria-checked={selected}
               onPress={() => onChange(choice.value)}
               style={({ pressed }) => [styles.chip, selected && styles.chipSelected, pressed && !selected && styles.chipPressed]}

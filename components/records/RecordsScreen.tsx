@@ -25,6 +25,9 @@ import { ExportButton } from './ExportButton';
 
 type Verdict = NonNullable<RecordFilterValues['verdict']>;
 
+/** The verdict mark's size on a record's row (px). */
+const RECORD_MARK = 28;
+
 
 /** Filters a link brings in the address (a chart point, a cause, an alert): /records?from=…&cause=…. */
 type LinkParams = Partial<Record<'from' | 'to' | 'lineId' | 'stationId' | 'ruleId' | 'verdict' | 'partType' | 'cause', string>>;
@@ -82,13 +85,13 @@ function RecordLine({ row, phone }: { row: RecordRow; phone: boolean }) {
   const when = new Date(row.createdAt);
   return (
     <Link href={`/records/${row.id}`} asChild>
-      <Pressable accessibilityRole="link" accessibilityLabel={`${row.verdict}, ${row.ruleName} at ${row.stationName}, ${when.toLocaleString()}`} style={StyleSheet.flatten([styles.row, phone && styles.rowPhone])}>
-        <VerdictMark verdict={row.verdict} size={28} />
+      <Pressable accessibilityRole="link" accessibilityLabel={`${row.verdict}, ${row.ruleName} at ${row.stationName}, ${when.toLocaleString()}, record ${recordReference(row.id)}`} style={StyleSheet.flatten([styles.row, phone && styles.rowPhone])}>
+        <VerdictMark verdict={row.verdict} size={RECORD_MARK} />
         <View style={styles.cellMain}>
           <AppText variant="bodyStrong">{`${row.verdict}${row.cause ? ` · ${row.cause}` : ''}${row.disputed ? ' · disputed' : ''}`}</AppText>
           <AppText variant="caption" tone="muted">{`${row.ruleName} v${row.ruleVersionNumber} · ${row.lineName}, ${row.stationName}`}</AppText>
         </View>
-        <View style={styles.cellSide}>
+        <View style={[styles.cellSide, phone && styles.cellSidePhone]}>
           <AppText variant="caption">{when.toLocaleString()}</AppText>
           <AppText variant="caption" tone="muted">
             {`${row.operatorName} · record ${recordReference(row.id)}`}
@@ -261,6 +264,8 @@ const styles = StyleSheet.create({
   rowPhone: { flexWrap: 'wrap' },
   cellMain: { flex: 1, minWidth: 180, gap: space.xxs },
   cellSide: { alignItems: 'flex-end', gap: space.xxs },
+  // On a phone the time and operator wrap under the verdict, lined up with its text (after the mark).
+  cellSidePhone: { alignItems: 'flex-start', flexBasis: '100%', paddingLeft: RECORD_MARK + space.md },
   linked: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm, padding: space.sm, borderRadius: radius.md, backgroundColor: colors.steelTint },
   linkedText: { flexGrow: 1, flexShrink: 1, flexBasis: 220 },
 });

@@ -98,7 +98,7 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
             </View>
             {open ? (
               <>
-                <TextField label="Gauge name" value={gauge.name} onChangeText={(name) => change({ name })} error={errorOf('name')} />
+                <TextField label="Gauge name" accessibilityLabel={`Gauge ${index + 1} name`} value={gauge.name} onChangeText={(name) => change({ name })} error={errorOf('name')} />
                 <ChoiceChips
                   label="Measure"
                   choices={GAUGE_MEASURES.map((m) => ({ value: m, label: MEASURE_LABELS[m] }))}
@@ -134,10 +134,10 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
                 {errorOf('unit') ? <AppText tone="danger" variant="caption">{`⚠ ${errorOf('unit')}`}</AppText> : null}
                 <View style={styles.row}>
                   <View style={styles.half}>
-                    <NumberField spec={{ ...ANY, label: 'Lowest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.min} onChange={(min) => change({ limits: { ...gauge.limits, min } })} error={limitError('min')} />
+                    <NumberField spec={{ ...ANY, label: 'Lowest allowed', unit: unitSymbol(gauge.unit) }} accessibilityLabel={`Gauge ${index + 1}, lowest allowed${gauge.unit ? ` (${unitSymbol(gauge.unit)})` : ''}`} optional value={gauge.limits.min} onChange={(min) => change({ limits: { ...gauge.limits, min } })} error={limitError('min')} />
                   </View>
                   <View style={styles.half}>
-                    <NumberField spec={{ ...ANY, label: 'Highest allowed', unit: unitSymbol(gauge.unit) }} optional value={gauge.limits.max} onChange={(max) => change({ limits: { ...gauge.limits, max } })} error={limitError('max')} />
+                    <NumberField spec={{ ...ANY, label: 'Highest allowed', unit: unitSymbol(gauge.unit) }} accessibilityLabel={`Gauge ${index + 1}, highest allowed${gauge.unit ? ` (${unitSymbol(gauge.unit)})` : ''}`} optional value={gauge.limits.max} onChange={(max) => change({ limits: { ...gauge.limits, max } })} error={limitError('max')} />
                   </View>
                 </View>
                 <ChoiceChips

@@ -21,9 +21,10 @@ interface KernelStepEditorProps {
 const SIZES = [1, 3, 5, 7, 9] as const;
 
 /** The sizes offered, with the matrix's own when it is larger (a rule document may hold up to 31). */
-function sizeChoices(current: number): { value: string; label: string }[] {
+/** `noun`: "rows" or "columns", for the spoken name ("3 rows"): both groups offer the same numbers. */
+function sizeChoices(current: number, noun: string): { value: string; label: string; accessibilityLabel: string }[] {
   const sizes: number[] = SIZES.includes(current as (typeof SIZES)[number]) ? [...SIZES] : [...SIZES, current].sort((a, b) => a - b);
-  return sizes.map((n) => ({ value: String(n), label: String(n) }));
+  return sizes.map((n) => ({ value: String(n), label: String(n), accessibilityLabel: `${n} ${noun}` }));
 }
 const ANY = { min: -1e9, max: 1e9, step: 1 };
 
@@ -99,8 +100,8 @@ export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, error
       ) : (
         <View style={styles.group}>
           <View style={styles.sizeRow}>
-            <ChoiceChips label="Rows" choices={sizeChoices(rows)} value={String(rows)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, Number(v), cols) })} />
-            <ChoiceChips label="Columns" choices={sizeChoices(cols)} value={String(cols)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, rows, Number(v)) })} />
+            <ChoiceChips label="Rows" choices={sizeChoices(rows, 'rows')} value={String(rows)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, Number(v), cols) })} />
+            <ChoiceChips label="Columns" choices={sizeChoices(cols, 'columns')} value={String(cols)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, rows, Number(v)) })} />
           </View>
           {cols > 5 ? (
             <AppText variant="caption" tone="muted">{`${cols} columns: the grid scrolls sideways.`}</AppText>

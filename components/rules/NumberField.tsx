@@ -12,6 +12,8 @@ interface NumberFieldProps {
   /** Empty is allowed (an optional limit). */
   optional?: boolean;
   label?: string;
+  /** The spoken name where the label repeats on the screen ("Gauge 2, lowest allowed (mm²)"). */
+  accessibilityLabel?: string;
 }
 
 function rangeHint(spec: NumberSpec): string {
@@ -23,7 +25,7 @@ function rangeHint(spec: NumberSpec): string {
   return parts.join(', ');
 }
 
-export function NumberField({ spec, value, onChange, error, optional = false, label }: NumberFieldProps) {
+export function NumberField({ spec, value, onChange, error, optional = false, label, accessibilityLabel }: NumberFieldProps) {
   const [text, setText] = useState(value === undefined ? '' : String(value));
   const [typingError, setTypingError] = useState<string | undefined>();
 
@@ -62,6 +64,7 @@ export function NumberField({ spec, value, onChange, error, optional = false, la
       inputMode="decimal"
       autoCorrect={false}
       autoCapitalize="none"
+      {...(accessibilityLabel ? { accessibilityLabel } : {})}
     />
   );
 }

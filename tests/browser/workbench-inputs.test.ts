@@ -445,7 +445,8 @@ describe('at phone width', () => {
     await page.getByRole('button', { name: 'Edit Step 2: Kernel' }).click();
     const grid = page.getByLabel('Weights, 15 rows by 15 columns');
     await grid.waitFor();
-    for (const size of ['Rows', 'Columns']) expect(await page.getByRole('radiogroup', { name: size }).getByRole('radio', { name: '15' }).getAttribute('aria-checked')).toBe('true');
+    // Both groups offer the same numbers: each chip says which it sizes ("15 rows", "15 columns").
+    for (const size of ['Rows', 'Columns']) expect(await page.getByRole('radiogroup', { name: size }).getByRole('radio', { name: `15 ${size.toLowerCase()}` }).getAttribute('aria-checked')).toBe('true');
     await page.getByText('15 columns: the grid scrolls sideways.').waitFor();
     const divisor = page.getByLabel(/^Divisor/).first();
     await divisor.scrollIntoViewIfNeeded();

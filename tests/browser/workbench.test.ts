@@ -68,8 +68,8 @@ describe('at wide width', () => {
     await page.getByText('Step 5: Median', { exact: true }).waitFor();
     await page.getByRole('button', { name: 'Add a gauge' }).click();
     // The new gauge opens for editing; the saved one shows its summary.
-    await page.getByLabel('Gauge name').last().fill('Largest mark');
-    await page.getByLabel('Highest allowed (px²)').fill('400000');
+    await page.getByLabel(/^Gauge \d+ name$/).last().fill('Largest mark');
+    await page.getByLabel(/^Gauge \d+, highest allowed \(px²\)$/).fill('400000');
     await page.getByText(/has unsaved changes/).waitFor();
     await page.getByRole('button', { name: 'Save draft' }).click();
     await page.getByText('Version 1 (draft) · saved').waitFor();

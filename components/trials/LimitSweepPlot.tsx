@@ -5,6 +5,7 @@ import type { Sweep } from '../../shared/api/trials';
 import { colors, radius, space } from '../../lib/theme';
 import { formatGaugeValue } from '../../lib/format';
 import { AppText } from '../AppText';
+import { axisEnd, dotsOf } from './sweepDots';
 
 interface LimitSweepPlotProps {
   sweep: Sweep;
@@ -15,36 +16,52 @@ interface LimitSweepPlotProps {
 
 const PLOT = 240;
 const DOT = 14;
+/** Width of the false reject rate's tick labels, left of the plot. */
+const Y_TICKS = 48;
 
 function pct(v: number | null): string {
   return v === null ? '—' : `${(v * 100).toFixed(1)} %`;
 }
 
+const tickText = (v: number) => `${Math.round(v * 1000) / 10} %`;
+
 export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProps) {
   const points = sweep.points.filter((p) => p.falseRejectRate !== null && p.escapeRate !== null);
   if (points.length === 0) return <AppText tone="muted">The trial has no labelled good and defective photos with this gauge; the curve needs both.</AppText>;
   const current = sweep.current;
+  const xEnd = axisEnd(Math.max(...points.map((p) => p.escapeRate!)));
+  const yEnd = axisEnd(Math.max(...points.map((p) => p.falseRejectRate!)));
+  const dots = dotsOf(points, (limit) => limit === current || limit === draftLimit);
+  const ticks = [0, 0.5, 1];
   return (
     <View style={styles.wrap}>
+      <AppText variant="caption" tone="muted">False reject rate ↑</AppText>
       <View style={styles.plotRow}>
-        <AppText variant="caption" tone="muted" style={styles.yLabel}>False reject rate ↑</AppText>
-        <View style={styles.plot} accessibilityLabel={`Curve of ${points.length} limits: false reject rate against escape rate`}>
+        <View style={styles.yTicks} pointerEvents="none">
+          {ticks.map((f) => (
+            <AppText key={f} variant="caption" tone="muted" style={[styles.yTick, { bottom: f * (PLOT - DOT) }]}>
+              {tickText(f * yEnd)}
+            </AppText>
+          ))}
+        </View>
+        <View style={styles.plot} accessibilityLabel={`Curve of ${points.length} limits: false reject rate (0 to ${tickText(yEnd)}) against escape rate (0 to ${tickText(xEnd)})`}>
           {[0.25, 0.5, 0.75].map((f) => (
             <View key={f} pointerEvents="none" style={[styles.grid, { bottom: f * PLOT }]} />
           ))}
-          {points.map((p) => {
+          {dots.map(({ point: p, first, last, limits }) => {
             const isCurrent = current !== null && p.limit === current;
             const isDraft = draftLimit !== undefined && p.limit === draftLimit;
+            const which = limits > 1 ? `Limits ${formatGaugeValue(first)} to ${formatGaugeValue(last)} (${limits}, the same rates), this one ${formatGaugeValue(p.limit)}` : `Limit ${formatGaugeValue(p.limit)}`;
             return (
               <Pressable
                 key={p.limit}
                 accessibilityRole="button"
-                accessibilityLabel={`Limit ${formatGaugeValue(p.limit)}: false reject rate ${pct(p.falseRejectRate)}, escape rate ${pct(p.escapeRate)}${isCurrent ? ', the trial’s limit' : ''}`}
+                accessibilityLabel={`${which}: false reject rate ${pct(p.falseRejectRate)}, escape rate ${pct(p.escapeRate)}${isCurrent ? ', the trial’s limit' : ''}`}
                 onPress={() => onPick(p.limit)}
                 hitSlop={8}
                 style={[
                   styles.dot,
-                  { left: p.escapeRate! * (PLOT - DOT), bottom: p.falseRejectRate! * (PLOT - DOT) },
+                  { left: (p.escapeRate! / xEnd) * (PLOT - DOT), bottom: (p.falseRejectRate! / yEnd) * (PLOT - DOT) },
                   isCurrent && styles.current,
                   isDraft && styles.draft,
                 ]}
@@ -53,7 +70,14 @@ export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProp
           })}
         </View>
       </View>
-      <AppText variant="caption" tone="muted" style={styles.xLabel}>Escape rate →  (0 to 100 % on both axes)</AppText>
+      <View style={styles.xTicks} pointerEvents="none">
+        {ticks.map((f) => (
+          <AppText key={f} variant="caption" tone="muted" style={[styles.xTick, { left: f * (PLOT - DOT) }]}>
+            {tickText(f * xEnd)}
+          </AppText>
+        ))}
+      </View>
+      <AppText variant="caption" tone="muted" style={styles.xLabel}>{`Escape rate →${xEnd < 1 || yEnd < 1 ? '  (axes zoomed to the rates the trial reached)' : ''}`}</AppText>
       <AppText variant="caption">
         {`◎ ringed: the trial’s limit ${current === null ? '(none)' : formatGaugeValue(current)}${draftLimit !== undefined && draftLimit !== current ? ` · ■ square: the draft’s limit ${formatGaugeValue(draftLimit)}` : ''}. Press a dot to use its limit in the draft.`}
       </AppText>
@@ -76,11 +100,14 @@ export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProp
 
 const styles = StyleSheet.create({
   wrap: { gap: space.sm },
-  plotRow: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
-  yLabel: { width: 70 },
+  plotRow: { flexDirection: 'row', alignItems: 'flex-end', gap: space.xs },
+  yTicks: { width: Y_TICKS, height: PLOT },
+  yTick: { position: 'absolute', right: 0, lineHeight: DOT },
+  xTicks: { height: 18, marginLeft: Y_TICKS + space.xs, width: PLOT },
+  xTick: { position: 'absolute', top: 0 },
   plot: { width: PLOT, height: PLOT, borderLeftWidth: 2, borderBottomWidth: 2, borderColor: colors.ink, backgroundColor: colors.surface },
   grid: { position: 'absolute', left: 0, right: 0, height: 1, backgroundColor: colors.line },
-  xLabel: { marginLeft: 78 },
+  xLabel: { marginLeft: Y_TICKS + space.xs },
   dot: { position: 'absolute', width: DOT, height: DOT, borderRadius: DOT / 2, backgroundColor: colors.steelMid },
   current: { borderWidth: 3, borderColor: colors.ink, backgroundColor: colors.surface },
   draft: { borderRadius: 0, backgroundColor: colors.steel },

@@ -18,6 +18,8 @@ const PLOT = 240;
 const DOT = 14;
 /** Width of the false reject rate's tick labels, left of the plot. */
 const Y_TICKS = 48;
+/** Width of an escape rate's tick label, under the plot. */
+const X_TICK = 48;
 
 function pct(v: number | null): string {
   return v === null ? '—' : `${(v * 100).toFixed(1)} %`;
@@ -72,7 +74,7 @@ export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProp
       </View>
       <View style={styles.xTicks} pointerEvents="none">
         {ticks.map((f) => (
-          <AppText key={f} variant="caption" tone="muted" style={[styles.xTick, { left: f * (PLOT - DOT) }]}>
+          <AppText key={f} variant="caption" tone="muted" numberOfLines={1} style={[styles.xTick, f === 0 ? styles.xTickFirst : f === 1 ? styles.xTickLast : { left: f * (PLOT - DOT) + DOT / 2 - X_TICK / 2 }]}>
             {tickText(f * xEnd)}
           </AppText>
         ))}
@@ -104,7 +106,9 @@ const styles = StyleSheet.create({
   yTicks: { width: Y_TICKS, height: PLOT },
   yTick: { position: 'absolute', right: 0, lineHeight: DOT },
   xTicks: { height: 18, marginLeft: Y_TICKS + space.xs, width: PLOT },
-  xTick: { position: 'absolute', top: 0 },
+  xTick: { position: 'absolute', top: 0, width: X_TICK, textAlign: 'center' },
+  xTickFirst: { left: 0, textAlign: 'left' },
+  xTickLast: { right: 0, textAlign: 'right' },
   plot: { width: PLOT, height: PLOT, borderLeftWidth: 2, borderBottomWidth: 2, borderColor: colors.ink, backgroundColor: colors.surface },
   grid: { position: 'absolute', left: 0, right: 0, height: 1, backgroundColor: colors.line },
   xLabel: { marginLeft: Y_TICKS + space.xs },

@@ -13,7 +13,7 @@ test('an axis ends at the smallest of 5, 10, 20, 25, 50 and 100 % that holds eve
 });
 
 test('limits with the same rates are one dot: the one in use, else the middle one', () => {
-  const point = (limit: number, escapeRate: number, falseRejectRate: number) => ({ limit, escapeRate, falseRejectRate });
+  const point = (limit: number, escapeRate: number, falseRejectRate: number) => ({ limit, escapeRate, falseRejectRate, falseRejects: 0, escapes: 0 });
   const points = [point(10, 0, 0.2), point(11, 0, 0.2), point(12, 0, 0.2), point(13, 0.05, 0.1), point(14, 0.1, 0)];
   const dots = dotsOf(points, () => false);
   expect(dots.map((d) => [d.point.limit, d.first, d.last, d.limits])).toEqual([

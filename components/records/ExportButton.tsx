@@ -61,7 +61,8 @@ export function ExportButton({ label, path, query = {}, fallbackName, countHeade
       ) : null}
       {saved ? (
         <AppText variant="caption" tone="notice" role="status" style={styles.saved}>
-          {`✓ ${saved}`}
+          {/* A file name has no spaces: it may break after its underscores instead of running off a phone's screen. */}
+          {`✓ ${saved.replace(/_/g, '_\u200b')}`}
         </AppText>
       ) : null}
       {error ? <ErrorBanner error={error} nextStep="Try the export again; narrow the filters if it keeps failing." /> : null}
@@ -74,6 +75,6 @@ const styles = StyleSheet.create({
   // The reason below a disabled button wraps under it instead of widening it.
   columnWithReason: { alignItems: 'flex-start' },
   unavailable: { maxWidth: 260 },
-  saved: { maxWidth: 320 },
+  saved: { maxWidth: 220 },
   progress: { paddingVertical: space.xs, paddingHorizontal: space.sm, borderRadius: radius.sm, backgroundColor: colors.surfaceSunken },
 });

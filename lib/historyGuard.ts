@@ -33,7 +33,8 @@ function onPopState(event: PopStateEvent): void {
   clearTimeout(noEntryFurther);
   if (restoring === 'no') {
     putBack(1);
-    noEntryFurther = setTimeout(() => putBack(-1), 400);
+    // A step forward answers within milliseconds; no answer means there was no entry further on.
+    noEntryFurther = setTimeout(() => putBack(-1), 1000);
   } else if (entryId() === guarded.entry) {
     const move = restoring === 'forward' ? -1 : 1;
     restoring = 'no';

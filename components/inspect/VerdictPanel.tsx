@@ -16,16 +16,25 @@ const HEADLINE: Record<Inspection['verdict'], string> = {
   RETAKE: 'The photo cannot be judged. Take a new photo of the same part.',
 };
 
+/** The same verdicts as a record reads them later: what was found, not what to do now. */
+const RECORDED_HEADLINE: Record<Inspection['verdict'], string> = {
+  PASS: 'The part was within every limit.',
+  FAIL: 'The part was outside a limit.',
+  RETAKE: 'The photo could not be judged; the operator was asked for a new one.',
+};
+
 interface VerdictPanelProps {
   inspection: Inspection;
   /** Width over height of the photo, for the evidence image. */
   aspectRatio?: number;
   /** Next part, dispute...: right under the verdict, so the next part is one tap away. */
   actions?: ReactNode;
+  /** Shown in the records (an auditor's later reading): no instructions for the operator. */
+  recorded?: boolean;
 }
 
 /** The verdict, huge: word, shape and colour, then why (measurements, evidence or the photo's problem). */
-export function VerdictPanel({ inspection, aspectRatio = 4 / 3, actions }: VerdictPanelProps) {
+export function VerdictPanel({ inspection, aspectRatio = 4 / 3, actions, recorded = false }: VerdictPanelProps) {
   const layout = useLayout();
   const look = VERDICT_LOOK[inspection.verdict];
   const problems = qualityProblems(inspection.quality);
@@ -44,8 +53,8 @@ export function VerdictPanel({ inspection, aspectRatio = 4 / 3, actions }: Verdi
           <AppText style={[styles.word, layout === 'phone' && styles.wordPhone, { color: look.colour }]} headingLevel={2}>
             {inspection.verdict}
           </AppText>
-          <AppText variant="bodyStrong">{HEADLINE[inspection.verdict]}</AppText>
-          {inspection.verdict === 'FAIL' ? <AppText variant="bodyStrong">{`Mark the part with its record: ${reference}.`}</AppText> : null}
+          <AppText variant="bodyStrong">{(recorded ? RECORDED_HEADLINE : HEADLINE)[inspection.verdict]}</AppText>
+          {inspection.verdict === 'FAIL' && !recorded ? <AppText variant="bodyStrong">{`Mark the part with its record: ${reference}.`}</AppText> : null}
           <AppText variant="caption" tone="muted">
             {`Record ${reference} · ${inspection.ruleName} v${inspection.ruleVersionNumber} · ${inspection.stationName} · ${new Date(inspection.createdAt).toLocaleTimeString()}`}
           </AppText>

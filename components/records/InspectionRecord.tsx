@@ -26,7 +26,7 @@ export function InspectionRecord({ id }: { id: string }) {
       subtitle={`${new Date(i.createdAt).toLocaleString()} · ${i.lineName}, ${i.stationName}`}
       actions={<ExportButton label="PDF report" path={`/api/records/inspections/${i.id}/report.pdf`} fallbackName={`inspection-${i.id}.pdf`} />}
     >
-      <VerdictPanel inspection={i} />
+      <VerdictPanel inspection={i} recorded />
       <Card style={styles.facts}>
         <AppText variant="heading" headingLevel={2}>
           Who, what, when

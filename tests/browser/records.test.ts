@@ -64,6 +64,9 @@ test.each([
     await page.getByRole('link', { name: /^FAIL, Plate spots at Press 1/ }).click();
     await page.getByText('Inspection record').waitFor();
     await page.getByText('Spot area', { exact: true }).first().waitFor();
+    // The record reads what was found; the operator's instructions stay on the station's screen.
+    await page.getByText('The part was outside a limit.', { exact: true }).waitFor();
+    expect(await page.getByText(/Mark the part|Set it aside/).count()).toBe(0);
     await screenshot(page, `record-detail-auditor-${name}`);
     expect(errors).toEqual([]);
   }),

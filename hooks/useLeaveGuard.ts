@@ -28,13 +28,11 @@ export function useLeaveGuard(reason: string | null): void {
       event.returnValue = '';
     };
     window.addEventListener('beforeunload', onBeforeUnload);
-    return () => window.removeEventListener('beforeunload', onBeforeUnload);
-  }, [reason, agreed]);
-
-  useEffect(() => {
-    if (!reason || agreed || Platform.OS !== 'web') return;
     holdHistory(true);
-    return () => holdHistory(false);
+    return () => {
+      window.removeEventListener('beforeunload', onBeforeUnload);
+      holdHistory(false);
+    };
   }, [reason, agreed]);
 
   usePreventRemove(reason !== null && !agreed, ({ data }) => {

@@ -128,8 +128,9 @@ function RecordsList({ params }: { params: LinkParams }) {
   const toDay = readDay(to, leftField.to);
   const datesProblem = rangeProblem(fromDay.day, toDay.day);
   const [reference, setReference] = useState('');
-  const readReference = recordReferenceSchema.safeParse(reference);
-  const referenceProblem = reference.trim() === '' || readReference.success ? null : 'A record reference is eight letters A–F and digits, e.g. 7F3A-19C2.';
+  const readReference = reference.trim() === '' ? null : recordReferenceSchema.safeParse(reference);
+  const refFilter = readReference?.success ? readReference.data : undefined;
+  const referenceProblem = readReference === null || readReference.success ? null : 'A record reference is eight letters A–F and digits, e.g. 7F3A-19C2.';
   const filterProblem = fromDay.problem ?? toDay.problem ?? datesProblem ?? referenceProblem;
   const filters: RecordFilterValues = useMemo(
     () => ({
@@ -142,9 +143,9 @@ function RecordsList({ params }: { params: LinkParams }) {
       ruleId: linked.ruleId,
       partType: linked.partType,
       cause: linked.cause,
-      ref: readReference.success && reference.trim() !== '' ? readReference.data : undefined,
+      ref: refFilter,
     }),
-    [verdict, stationId, disputed, fromDay.day, toDay.day, linked, readReference.success, readReference.data, reference],
+    [verdict, stationId, disputed, fromDay.day, toDay.day, linked, refFilter],
   );
   const hasLinked = Object.values(linked).some(Boolean);
   // Typing a date replaces the exact bounds a link brought.

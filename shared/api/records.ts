@@ -65,20 +65,17 @@ export type RecordRow = z.infer<typeof recordRowSchema>;
 export const recordPageSchema = z.object({ items: z.array(recordRowSchema), next: z.string().nullable() });
 export type RecordPage = z.infer<typeof recordPageSchema>;
 
-/** The last day a bound includes: a bound at midnight UTC is exclusive (To is sent as the next day's start). */
-function lastDayBefore(bound: string): string {
-  const time = Date.parse(bound);
-  if (Number.isNaN(time)) return 'unknown';
-  const at = new Date(time);
-  if (at.getUTCHours() === 0 && at.getUTCMinutes() === 0 && at.getUTCSeconds() === 0 && at.getUTCMilliseconds() === 0) return new Date(time - 86_400_000).toISOString().slice(0, 10);
-  return at.toISOString().slice(0, 16).replace(':', '');
-}
-
-function firstDay(bound: string): string {
+/**
+ * A bound for a file name: its day when it falls at midnight UTC, else its minute (2026-11-03T0600).
+ * An exclusive end at midnight names the day before, the last one it includes (To is sent as the
+ * next day's start).
+ */
+function boundText(bound: string, exclusiveEnd: boolean): string {
   const time = Date.parse(bound);
   if (Number.isNaN(time)) return 'unknown';
   const iso = new Date(time).toISOString();
-  return iso.slice(11, 19) === '00:00:00' ? iso.slice(0, 10) : iso.slice(0, 16).replace(':', '');
+  if (iso.slice(11, 23) !== '00:00:00.000') return iso.slice(0, 16).replace(':', '');
+  return exclusiveEnd ? new Date(time - 86_400_000).toISOString().slice(0, 10) : iso.slice(0, 10);
 }
 
 const fileWord = (text: string) => text.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40) || 'x';
@@ -90,7 +87,7 @@ const fileWord = (text: string) => text.toLowerCase().replace(/[^a-z0-9]+/g, '-'
  */
 export function exportFileName(filters: Partial<RecordFilters>, exportedAt: Date): string {
   const parts = ['inspections'];
-  if (filters.from || filters.to) parts.push(`${filters.from ? firstDay(filters.from) : 'start'}_to_${filters.to ? lastDayBefore(filters.to) : 'now'}`);
+  if (filters.from || filters.to) parts.push(`${filters.from ? boundText(filters.from, false) : 'start'}_to_${filters.to ? boundText(filters.to, true) : 'now'}`);
   else parts.push('all-days');
   if (filters.verdict) parts.push(filters.verdict);
   if (filters.disputed) parts.push(filters.disputed === 'true' ? 'disputed' : 'not-disputed');

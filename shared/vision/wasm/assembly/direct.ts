@@ -93,7 +93,8 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
       }
       const convert = during ? at(src, nextRow * w) : 0;
       const line16 = ringLine(ring16, next, ring, line16Bytes) + ((<usize>rx) << 1);
-      const done = whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset, convert, line16, bound);
+      const ahead = nonzero <= FEW_TAPS ? at(dst, min(y + OUTPUT_AHEAD, h - 1) * w) : 0;
+      const done = whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset, convert, line16, bound, ahead);
       if (during) {
         const ok = done >= 0 && toWhole16(convert + ((<usize>done) << 2), line16 + ((<usize>done) << 1), w - done, bound, convert);
         if (ok) fillBorderOf<i16>(ringLine(ring16, next, ring, line16Bytes), w, rx, mode);
@@ -111,6 +112,15 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
     }
   }
 }
+
+/**
+ * With at most FEW_TAPS nonzero weights (3×3 kernels) a row of 16-bit sums waits on memory more than
+ * on its arithmetic, so it reads a word of each 64 bytes of the output row OUTPUT_AHEAD below as it
+ * goes: that row's stores then find their lines in the cache. With more taps the extra loads cost
+ * the sums more than they save.
+ */
+const FEW_TAPS = 9;
+const OUTPUT_AHEAD = 8;
 
 /**
  * Source row sy clamped to the image: a row read on the way so that it is in the cache when its turn
@@ -195,7 +205,16 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize)
  * go to line16 as 16-bit integers alongside, 32 for each 32 pixels summed (as toWhole16, within
  * `bound`); returns how many it converted, or −1 when one of them was not a whole number within it.
  */
-function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32): i32 {
+function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32, ahead: usize): i32 {
+  return ahead != 0
+    ? whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, ahead, true)
+    : whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, 0, false);
+}
+
+/** whole16's loops; `touch` is a constant in each of its two copies, so the copy without it keeps no trace of it. */
+@inline
+function whole16Row(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32, ahead: usize, touch: bool): i32 {
+  let seen = 0;
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
   const magic = v128.load(WHOLE_MAGIC_LANES);
   const high = wholeHigh(bound), low = i16x8.neg(high);
@@ -258,6 +277,7 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
       acc2 = i16x8.add(acc2, i16x8.mul(k, v128.load(p + 32)));
       acc3 = i16x8.add(acc3, i16x8.mul(k, v128.load(p + 48)));
     }
+    if (touch) seen |= load<i32>(at(ahead, x)) | load<i32>(at(ahead, x + 16));
     if (convert != 0) {
       ok = wholeBlock(convert, line16, x, magic, high, low, ok);
       ok = wholeBlock(convert, line16, x + 8, magic, high, low, ok);
@@ -271,6 +291,7 @@ function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: 
     storeSums(q, acc3, vs, vo, unit, 96);
   }
   const converted = x;
+  if (touch) keepTouched(seen);
   for (; x + 8 <= w; x += 8) {
     const o = (<usize>x) << 1;
     let acc = i16x8.splat(0);

@@ -4,7 +4,7 @@
 // being edited; the rules list, a rule page, its pipeline as a list of steps and a trial's figures on
 // a phone.
 import type { BrowserContext, Page } from 'playwright-core';
-import { inSight, launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
+import { chooseRadio, inSight, launchBrowser, PHONE, screenshot, seedPlantIntoProduct, startProduct, watchErrors, WIDE, type RunningProduct, signInAs } from '../support/browser';
 
 jest.setTimeout(600_000);
 
@@ -261,7 +261,7 @@ describe('at phone width', () => {
     // Its gauges are in mm: the trial needs a calibrated station, chosen beside it; the preview uses the same one.
     const run = page.getByRole('button', { name: 'Run trial' });
     expect(await run.getAttribute('aria-disabled')).toBe('true');
-    await page.getByRole('radiogroup', { name: 'Station whose calibration turns px into mm' }).getByRole('radio', { name: /Press 3 exit/ }).click();
+    await chooseRadio(page.getByRole('radiogroup', { name: 'Station whose calibration turns px into mm' }).getByRole('radio', { name: /Press 3 exit/ }));
     await page.getByText(/^Gauges in mm use 0\.156 mm\/px, the calibration of Line 1 — stamping · Press 3 exit/).waitFor();
     const previewStation = page.getByRole('radiogroup', { name: 'Station (its calibration turns px into mm)' }).getByRole('radio', { name: /Press 3 exit/ });
     expect(await previewStation.getAttribute('aria-checked')).toBe('true');

@@ -73,6 +73,23 @@ export async function screenshot(page: Page, name: string): Promise<void> {
 }
 
 /**
+ * Clicks a radio until it is checked, three tries of five seconds. On a page still laying itself out
+ * (a preview arriving above it) the radio can move between Playwright's aim and its click, which then
+ * lands beside it; a person would tap again.
+ */
+export async function chooseRadio(radio: Locator, tries = 3): Promise<void> {
+  for (let attempt = 0; attempt < tries; attempt++) {
+    await radio.click();
+    const deadline = Date.now() + 5_000;
+    while (Date.now() < deadline) {
+      if ((await radio.getAttribute('aria-checked')) === 'true') return;
+      await radio.page().waitForTimeout(100);
+    }
+  }
+  throw new Error(`the radio ${radio.toString()} stayed unchecked after ${tries} clicks`);
+}
+
+/**
  * True when the element is wholly inside the window and no box around it that scrolls (a dialog's
  * body, a table's sideways scroller) hides any part of it.
  */

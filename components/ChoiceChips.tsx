@@ -12,19 +12,21 @@ export interface Choice<T> {
 interface ChoiceChipsProps<T> {
   /** Names the group for screen readers and shows above the chips. */
   label: string;
+  /** Said before the label where the same group can be on screen more than once ("Step 2: Gradient"). */
+  context?: string;
   choices: readonly Choice<T>[];
   value: T;
   onChange: (value: T) => void;
 }
 
 /** Pick exactly one of a few values; the chosen chip is filled and ticked, not only coloured. */
-export function ChoiceChips<T extends string | boolean | null>({ label, choices, value, onChange }: ChoiceChipsProps<T>) {
+export function ChoiceChips<T extends string | boolean | null>({ label, context, choices, value, onChange }: ChoiceChipsProps<T>) {
   return (
     <View style={styles.group}>
       <AppText variant="label" tone="muted">
         {label}
       </AppText>
-      <View role="radiogroup" aria-label={label} style={styles.row}>
+      <View role="radiogroup" aria-label={context ? `${context}, ${label}` : label} style={styles.row}>
         {choices.map((choice) => {
           const selected = choice.value === value;
           return (

@@ -16,6 +16,8 @@ interface KernelStepEditorProps {
   canSaveKernel: boolean;
   onChange: (step: KernelStep) => void;
   errorOf: (field: string) => string | undefined;
+  /** The step's name ("Step 2: Kernel"), said before each field's label. */
+  stepName: string;
 }
 
 const SIZES = [1, 3, 5, 7, 9] as const;
@@ -58,7 +60,7 @@ function MatrixCell({ value, onChange, label }: { value: number; onChange: (v: n
   );
 }
 
-export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, errorOf }: KernelStepEditorProps) {
+export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, errorOf, stepName }: KernelStepEditorProps) {
   const [saving, setSaving] = useState(false);
   const source = step.kernel !== undefined ? 'library' : 'matrix';
   const matrix = step.matrix ?? [[1]];
@@ -77,6 +79,7 @@ export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, error
   return (
     <View style={styles.group}>
       <ChoiceChips
+        context={stepName}
         label="Weights from"
         choices={[
           { value: 'library', label: 'Kernel library' },
@@ -87,7 +90,7 @@ export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, error
       />
       {source === 'library' ? (
         <View style={styles.group}>
-          <ChoiceChips label="Kernel" choices={kernels.map((k) => ({ value: k.name, label: k.name }))} value={step.kernel ?? ''} onChange={(name) => onChange({ op: 'kernel', kernel: name })} />
+          <ChoiceChips context={stepName} label="Kernel" choices={kernels.map((k) => ({ value: k.name, label: k.name }))} value={step.kernel ?? ''} onChange={(name) => onChange({ op: 'kernel', kernel: name })} />
           {(() => {
             const chosen = kernels.find((k) => k.name === step.kernel);
             return chosen ? (
@@ -100,19 +103,19 @@ export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, error
       ) : (
         <View style={styles.group}>
           <View style={styles.sizeRow}>
-            <ChoiceChips label="Rows" choices={sizeChoices(rows, 'rows')} value={String(rows)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, Number(v), cols) })} />
-            <ChoiceChips label="Columns" choices={sizeChoices(cols, 'columns')} value={String(cols)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, rows, Number(v)) })} />
+            <ChoiceChips context={stepName} label="Rows" choices={sizeChoices(rows, 'rows')} value={String(rows)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, Number(v), cols) })} />
+            <ChoiceChips context={stepName} label="Columns" choices={sizeChoices(cols, 'columns')} value={String(cols)} onChange={(v) => onChange({ ...step, matrix: resized(matrix, rows, Number(v)) })} />
           </View>
           {cols > 5 ? (
             <AppText variant="caption" tone="muted">{`${cols} columns: the grid scrolls sideways.`}</AppText>
           ) : null}
           {/* A wide matrix scrolls sideways in its own box instead of pushing the page past the screen. */}
           <ScrollView horizontal style={styles.gridScroller} contentContainerStyle={styles.gridContent}>
-            <View accessibilityLabel={`Weights, ${rows} rows by ${cols} columns`} style={styles.grid}>
+            <View accessibilityLabel={`${stepName}, weights, ${rows} rows by ${cols} columns`} style={styles.grid}>
               {matrix.map((row, j) => (
                 <View key={j} style={styles.gridRow}>
                   {row.map((w, i) => (
-                    <MatrixCell key={`${j}-${i}-${rows}-${cols}`} value={w} label={`Weight row ${j + 1} column ${i + 1}`} onChange={(v) => setCell(j, i, v)} />
+                    <MatrixCell key={`${j}-${i}-${rows}-${cols}`} value={w} label={`${stepName}, weight row ${j + 1} column ${i + 1}`} onChange={(v) => setCell(j, i, v)} />
                   ))}
                 </View>
               ))}
@@ -121,10 +124,10 @@ export function KernelStepEditor({ step, kernels, canSaveKernel, onChange, error
           {errorOf('matrix') ? <AppText tone="danger" variant="caption">{`⚠ ${errorOf('matrix')}`}</AppText> : null}
           <View style={styles.sizeRow}>
             <View style={styles.half}>
-              <NumberField spec={{ ...ANY, label: 'Divisor', unit: '' }} value={divisor} onChange={(v) => v !== undefined && onChange({ ...step, divisor: v })} error={errorOf('divisor')} />
+              <NumberField context={stepName} spec={{ ...ANY, label: 'Divisor', unit: '' }} value={divisor} onChange={(v) => v !== undefined && onChange({ ...step, divisor: v })} error={errorOf('divisor')} />
             </View>
             <View style={styles.half}>
-              <NumberField spec={{ ...ANY, label: 'Offset', unit: 'grey level' }} value={step.offset ?? 0} onChange={(v) => v !== undefined && onChange({ ...step, offset: v })} error={errorOf('offset')} />
+              <NumberField context={stepName} spec={{ ...ANY, label: 'Offset', unit: 'grey level' }} value={step.offset ?? 0} onChange={(v) => v !== undefined && onChange({ ...step, offset: v })} error={errorOf('offset')} />
             </View>
           </View>
           {sum !== divisor ? (

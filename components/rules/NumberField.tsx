@@ -14,6 +14,8 @@ interface NumberFieldProps {
   label?: string;
   /** The spoken name where the label repeats on the screen ("Gauge 2, lowest allowed (mm²)"). */
   accessibilityLabel?: string;
+  /** Said before the label where the same field can be on screen more than once ("Step 2: Gaussian"). */
+  context?: string;
 }
 
 function rangeHint(spec: NumberSpec): string {
@@ -25,7 +27,7 @@ function rangeHint(spec: NumberSpec): string {
   return parts.join(', ');
 }
 
-export function NumberField({ spec, value, onChange, error, optional = false, label, accessibilityLabel }: NumberFieldProps) {
+export function NumberField({ spec, value, onChange, error, optional = false, label, accessibilityLabel, context }: NumberFieldProps) {
   const [text, setText] = useState(value === undefined ? '' : String(value));
   const [typingError, setTypingError] = useState<string | undefined>();
 
@@ -54,9 +56,11 @@ export function NumberField({ spec, value, onChange, error, optional = false, la
   };
 
   const name = label ?? spec.label;
+  const shown = spec.unit && !name.includes(spec.unit) ? `${name} (${spec.unit})` : name;
+  const spoken = accessibilityLabel ?? (context ? `${context}, ${shown}` : undefined);
   return (
     <TextField
-      label={spec.unit && !name.includes(spec.unit) ? `${name} (${spec.unit})` : name}
+      label={shown}
       hint={rangeHint(spec) || undefined}
       value={text}
       onChangeText={change}
@@ -64,7 +68,7 @@ export function NumberField({ spec, value, onChange, error, optional = false, la
       inputMode="decimal"
       autoCorrect={false}
       autoCapitalize="none"
-      {...(accessibilityLabel ? { accessibilityLabel } : {})}
+      {...(spoken ? { accessibilityLabel: spoken } : {})}
     />
   );
 }

@@ -70,7 +70,7 @@ export function PipelineEditor({ steps, kernels, canSaveKernel, issues, dispatch
               </View>
             </View>
             {open ? (
-              <StepParameters step={entry.step} kernels={kernels} canSaveKernel={canSaveKernel} errorOf={errorOf} onChange={(step) => dispatch({ type: 'change-step', key: entry.key, step })} />
+              <StepParameters stepName={name} step={entry.step} kernels={kernels} canSaveKernel={canSaveKernel} errorOf={errorOf} onChange={(step) => dispatch({ type: 'change-step', key: entry.key, step })} />
             ) : null}
             {unplaced.map((issue) => (
               <AppText key={`${issue.path}-${issue.message}`} tone="danger" variant="caption" accessibilityRole="alert">{`⚠ ${issue.path}: ${issue.message}`}</AppText>

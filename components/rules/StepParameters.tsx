@@ -22,35 +22,38 @@ interface StepParametersProps {
   canSaveKernel: boolean;
   onChange: (step: Step) => void;
   errorOf: (field: string) => string | undefined;
+  /** The step's name ("Step 2: Gaussian"), said before each field's label: several steps can be open at once. */
+  stepName: string;
 }
 
 const OPERATOR_LABELS: Record<(typeof GRADIENT_OPERATORS)[number], string> = { sobel: 'Sobel', scharr: 'Scharr', prewitt: 'Prewitt' };
 const OUTPUT_LABELS: Record<(typeof GRADIENT_OUTPUTS)[number], string> = { x: 'Across (x)', y: 'Down (y)', magnitude: 'Magnitude', direction: 'Direction' };
 
-export function StepParameters({ step, kernels, canSaveKernel, onChange, errorOf }: StepParametersProps) {
+export function StepParameters({ step, kernels, canSaveKernel, onChange, errorOf, stepName }: StepParametersProps) {
   const keep = (v: number | undefined, apply: (n: number) => void) => {
     if (v !== undefined) apply(v);
   };
   switch (step.op) {
     case 'kernel':
-      return <KernelStepEditor step={step} kernels={kernels} canSaveKernel={canSaveKernel} onChange={onChange} errorOf={errorOf} />;
+      return <KernelStepEditor step={step} kernels={kernels} canSaveKernel={canSaveKernel} onChange={onChange} errorOf={errorOf} stepName={stepName} />;
     case 'gaussian':
     case 'log':
-      return <NumberField spec={SIGMA_SPEC} value={step.sigma} onChange={(v) => keep(v, (sigma) => onChange({ ...step, sigma }))} error={errorOf('sigma')} />;
+      return <NumberField context={stepName} spec={SIGMA_SPEC} value={step.sigma} onChange={(v) => keep(v, (sigma) => onChange({ ...step, sigma }))} error={errorOf('sigma')} />;
     case 'box':
-      return <NumberField spec={BOX_SIZE_SPEC} value={step.size} onChange={(v) => keep(v, (size) => onChange({ ...step, size }))} error={errorOf('size')} />;
+      return <NumberField context={stepName} spec={BOX_SIZE_SPEC} value={step.size} onChange={(v) => keep(v, (size) => onChange({ ...step, size }))} error={errorOf('size')} />;
     case 'median':
-      return <NumberField spec={MEDIAN_SIZE_SPEC} value={step.size} onChange={(v) => keep(v, (size) => onChange({ ...step, size }))} error={errorOf('size')} />;
+      return <NumberField context={stepName} spec={MEDIAN_SIZE_SPEC} value={step.size} onChange={(v) => keep(v, (size) => onChange({ ...step, size }))} error={errorOf('size')} />;
     case 'gradient':
       return (
         <View style={styles.group}>
-          <ChoiceChips label="Operator" choices={GRADIENT_OPERATORS.map((o) => ({ value: o, label: OPERATOR_LABELS[o] }))} value={step.operator} onChange={(operator) => onChange({ ...step, operator })} />
-          <ChoiceChips label="Output" choices={GRADIENT_OUTPUTS.map((o) => ({ value: o, label: OUTPUT_LABELS[o] }))} value={step.output} onChange={(output) => onChange({ ...step, output })} />
+          <ChoiceChips context={stepName} label="Operator" choices={GRADIENT_OPERATORS.map((o) => ({ value: o, label: OPERATOR_LABELS[o] }))} value={step.operator} onChange={(operator) => onChange({ ...step, operator })} />
+          <ChoiceChips context={stepName} label="Output" choices={GRADIENT_OUTPUTS.map((o) => ({ value: o, label: OUTPUT_LABELS[o] }))} value={step.output} onChange={(output) => onChange({ ...step, output })} />
         </View>
       );
     case 'laplacian':
       return (
         <ChoiceChips
+          context={stepName}
           label="Neighbours"
           choices={[
             { value: '4', label: '4 (edges only)' },
@@ -64,6 +67,7 @@ export function StepParameters({ step, kernels, canSaveKernel, onChange, errorOf
       return (
         <View style={styles.group}>
           <ChoiceChips
+            context={stepName}
             label="Method"
             choices={[
               { value: 'fixed', label: 'Fixed value' },
@@ -82,15 +86,16 @@ export function StepParameters({ step, kernels, canSaveKernel, onChange, errorOf
             }
           />
           {step.method === 'fixed' ? (
-            <NumberField spec={THRESHOLD_VALUE_SPEC} value={step.value} onChange={(v) => keep(v, (value) => onChange({ ...step, value }))} error={errorOf('value')} />
+            <NumberField context={stepName} spec={THRESHOLD_VALUE_SPEC} value={step.value} onChange={(v) => keep(v, (value) => onChange({ ...step, value }))} error={errorOf('value')} />
           ) : null}
           {step.method === 'adaptive-mean' ? (
             <View style={styles.group}>
-              <NumberField spec={ADAPTIVE_SIZE_SPEC} value={step.size} onChange={(v) => keep(v, (size) => onChange({ ...step, size }))} error={errorOf('size')} />
-              <NumberField spec={ADAPTIVE_C_SPEC} value={step.c} onChange={(v) => keep(v, (c) => onChange({ ...step, c }))} error={errorOf('c')} />
+              <NumberField context={stepName} spec={ADAPTIVE_SIZE_SPEC} value={step.size} onChange={(v) => keep(v, (size) => onChange({ ...step, size }))} error={errorOf('size')} />
+              <NumberField context={stepName} spec={ADAPTIVE_C_SPEC} value={step.c} onChange={(v) => keep(v, (c) => onChange({ ...step, c }))} error={errorOf('c')} />
             </View>
           ) : null}
           <ChoiceChips
+            context={stepName}
             label="Mask marks"
             choices={[
               { value: 'above', label: 'Values above' },
@@ -108,7 +113,7 @@ export function StepParameters({ step, kernels, canSaveKernel, onChange, errorOf
     case 'dilate':
     case 'open':
     case 'close':
-      return <NumberField spec={RADIUS_SPEC} value={step.radius} onChange={(v) => keep(v, (radius) => onChange({ ...step, radius }))} error={errorOf('radius')} />;
+      return <NumberField context={stepName} spec={RADIUS_SPEC} value={step.radius} onChange={(v) => keep(v, (radius) => onChange({ ...step, radius }))} error={errorOf('radius')} />;
   }
 }
 

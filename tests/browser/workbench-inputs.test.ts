@@ -441,20 +441,21 @@ describe('at phone width', () => {
     await page.goto(`${product.url}/rules/${rule.id}`);
     // A saved step shows its summary until it is opened.
     await page.getByText('15×15 matrix ÷ 1').waitFor();
-    expect(await page.getByLabel('Weights, 15 rows by 15 columns').count()).toBe(0);
+    expect(await page.getByLabel('Step 2: Kernel, weights, 15 rows by 15 columns').count()).toBe(0);
     await page.getByRole('button', { name: 'Edit Step 2: Kernel' }).click();
-    const grid = page.getByLabel('Weights, 15 rows by 15 columns');
+    // Each field says its step: several steps can be open at once.
+    const grid = page.getByLabel('Step 2: Kernel, weights, 15 rows by 15 columns');
     await grid.waitFor();
     // Both groups offer the same numbers: each chip says which it sizes ("15 rows", "15 columns").
-    for (const size of ['Rows', 'Columns']) expect(await page.getByRole('radiogroup', { name: size }).getByRole('radio', { name: `15 ${size.toLowerCase()}` }).getAttribute('aria-checked')).toBe('true');
+    for (const size of ['Rows', 'Columns']) expect(await page.getByRole('radiogroup', { name: `Step 2: Kernel, ${size}` }).getByRole('radio', { name: `15 ${size.toLowerCase()}` }).getAttribute('aria-checked')).toBe('true');
     await page.getByText('15 columns: the grid scrolls sideways.').waitFor();
-    const divisor = page.getByLabel(/^Divisor/).first();
+    const divisor = page.getByRole('textbox', { name: 'Step 2: Kernel, Divisor', exact: true });
     await divisor.scrollIntoViewIfNeeded();
     const before = (await divisor.boundingBox())!;
     const phoneWidth = page.viewportSize()!.width;
     expect(before.x + before.width).toBeLessThanOrEqual(phoneWidth);
     // The last column comes into view by scrolling the grid; the rest of the card stays where it was.
-    const lastCell = page.getByLabel('Weight row 8 column 15');
+    const lastCell = page.getByLabel('Step 2: Kernel, weight row 8 column 15');
     await lastCell.scrollIntoViewIfNeeded();
     const cell = (await lastCell.boundingBox())!;
     expect(cell.x).toBeGreaterThanOrEqual(0);

@@ -64,7 +64,7 @@ describe('at wide width', () => {
     // Add a median step and set its size; add a gauge with a limit.
     await page.getByRole('radio', { name: 'Median' }).click();
     await page.getByRole('button', { name: 'Add Median' }).click();
-    await page.getByLabel('Size (px)').fill('5');
+    await page.getByRole('textbox', { name: 'Step 5: Median, Size (px)', exact: true }).fill('5');
     await page.getByText('Step 5: Median', { exact: true }).waitFor();
     await page.getByRole('button', { name: 'Add a gauge' }).click();
     // The new gauge opens for editing; the saved one shows its summary.
@@ -172,11 +172,11 @@ describe('at phone width', () => {
       await page.getByText('library kernel “gaussian-5”').first().waitFor();
       const edit = page.getByRole('button', { name: 'Edit Step 2: Kernel' });
       expect(await edit.getAttribute('aria-expanded')).toBe('false');
-      expect(await page.getByRole('radiogroup', { name: 'Kernel', exact: true }).count()).toBe(0);
+      expect(await page.getByRole('radiogroup', { name: 'Step 2: Kernel, Kernel', exact: true }).count()).toBe(0);
       await edit.click();
       const done = page.getByRole('button', { name: 'Done editing Step 2: Kernel' });
       expect(await done.getAttribute('aria-expanded')).toBe('true');
-      expect(await page.getByRole('radiogroup', { name: 'Kernel', exact: true }).count()).toBe(1);
+      expect(await page.getByRole('radiogroup', { name: 'Step 2: Kernel, Kernel', exact: true }).count()).toBe(1);
       expect(await page.getByRole('radio', { name: 'gaussian-5', exact: true }).getAttribute('aria-checked')).toBe('true');
       // A saved gauge says what it measures, where and within what limits until it is opened.
       await page.getByText(/^Largest blob area on Step 4: Threshold · \d+(\.\d+)? to \d+(\.\d+)? mm² · whole photo$/).waitFor();
@@ -192,7 +192,7 @@ describe('at phone width', () => {
       expect(await inSight(page.getByRole('button', { name: 'Save draft' }))).toBe(true);
       await screenshot(page, 'workbench-pipeline-list-phone');
       await done.click();
-      expect(await page.getByRole('radiogroup', { name: 'Kernel', exact: true }).count()).toBe(0);
+      expect(await page.getByRole('radiogroup', { name: 'Step 2: Kernel, Kernel', exact: true }).count()).toBe(0);
       expect(errors).toEqual([]);
     } finally {
       await own.close();

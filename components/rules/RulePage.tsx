@@ -1,6 +1,7 @@
 // One rule: its versions and their states; an engineer edits the open draft or starts a new one.
 import { StyleSheet, View } from 'react-native';
 import { useRouter } from 'expo-router';
+import { isSentBack } from '../../shared/api/rules';
 import { formatDate } from '../../lib/format';
 import { requestLeave } from '../../lib/leaveGuard';
 import { space } from '../../lib/theme';
@@ -62,7 +63,7 @@ export function RulePage({ id }: { id: string }) {
         <AppText variant="heading">Versions</AppText>
         {versions.map((v) => (
           <View key={v.id} style={styles.version}>
-            <VersionState state={v.state} number={v.number} sentBack={v.reviewedAt !== null} />
+            <VersionState state={v.state} number={v.number} sentBack={isSentBack(v)} />
             <AppText variant="caption" tone="muted" style={styles.grow}>
               {`by ${v.author.name}, edited ${formatDate(v.editedAt)}${v.releasedAt ? ` · released ${formatDate(v.releasedAt)}${v.reviewer ? ` by ${v.reviewer.name}` : ''}` : ''}${v.reviewNote ? ` · review note: “${v.reviewNote}”` : ''}${v.withdrawReason ? ` · withdrawn: “${v.withdrawReason}”` : ''}`}
             </AppText>

@@ -12,9 +12,9 @@ export const STATE_WORDS: Record<RuleVersionState, { symbol: string; word: strin
   withdrawn: { symbol: '⊘', word: 'Withdrawn' },
 };
 
-/** `sentBack`: a draft returned from review, which waits for the engineer's changes. */
+/** `sentBack`: isSentBack of the version (a draft returned from review, which waits for the engineer's changes). */
 export function VersionState({ state, number, sentBack = false }: { state: RuleVersionState; number?: number; sentBack?: boolean }) {
-  const returned = sentBack && state === 'draft';
+  const returned = sentBack;
   const { symbol, word } = returned ? SENT_BACK : STATE_WORDS[state];
   return (
     <View style={[styles.pill, state === 'released' && styles.released, state === 'withdrawn' && styles.withdrawn, returned && styles.sentBack]}>

@@ -52,7 +52,15 @@ export const ruleVersionSchema = z.object({
 });
 export type RuleVersion = z.infer<typeof ruleVersionSchema>;
 
-/** `sentBack`: a draft a supervisor returned from review (it waits for the engineer's changes). */
+/**
+ * A draft a supervisor returned from review: it waits for the engineer's changes. Only sending back
+ * leaves a draft with a review on it (a resubmitted version is in review again).
+ */
+export function isSentBack(version: { state: RuleVersionState; reviewedAt: string | Date | null }): boolean {
+  return version.state === 'draft' && version.reviewedAt !== null;
+}
+
+/** `sentBack`: isSentBack, decided by the server for the rules list. */
 const versionBrief = z.object({ id: z.string(), number: z.number().int(), state: ruleVersionStateSchema, editedAt: z.string(), sentBack: z.boolean() });
 
 /** The newest trial of any of the rule's versions, for the list. */

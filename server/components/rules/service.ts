@@ -9,6 +9,7 @@ import type {
   RuleVersion,
   Signature,
 } from '../../../shared/api/rules';
+import { isSentBack } from '../../../shared/api/rules';
 import type { RuleDocument } from '../../../shared/rules/schema';
 import { validateRuleDocument } from '../../../shared/rules/schema';
 import { digestOf } from '../../lib/digest';
@@ -107,7 +108,7 @@ export class RulesService {
   }
 
   private brief(v: RuleVersionEntity) {
-    return { id: v.id, number: v.number, state: v.state, editedAt: v.editedAt.toISOString(), sentBack: v.state === 'draft' && v.reviewedAt !== null };
+    return { id: v.id, number: v.number, state: v.state, editedAt: v.editedAt.toISOString(), sentBack: isSentBack(v) };
   }
 
   private async summaries(rules: RuleEntity[]): Promise<RuleSummary[]> {

@@ -1,11 +1,13 @@
 import { useEffect, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { useReleaseVersion, type SignatureMeaningChoice } from '../../hooks/useReview';
+import { useReleaseVersion, useTrial, type SignatureMeaningChoice } from '../../hooks/useReview';
 import { ApiError } from '../../lib/api';
 import { space } from '../../lib/theme';
 import { SIGNATURE_MEANING_LABELS, type RuleVersion } from '../../shared/api/rules';
+import { trialCautions } from '../../shared/rules/trial-cautions';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
+import { CheckList } from '../CheckList';
 import { ChoiceChips } from '../ChoiceChips';
 import { Dialog } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
@@ -29,6 +31,11 @@ export function ReleaseDialog({ version, visible, onClose, onReleased }: Release
   const [note, setNote] = useState('');
   const [confirming, setConfirming] = useState(false);
   const [passwordError, setPasswordError] = useState<string>();
+  // The submitted trial's cautions (a wrong PASS ships a bad part): the signer ticks that they read them.
+  const trial = useTrial(version.submittedTrialId);
+  const cautions = trial.data?.summary ? trialCautions(trial.data.summary) : [];
+  const [accepted, setAccepted] = useState(false);
+  const [acceptError, setAcceptError] = useState<string>();
 
   useEffect(() => {
     if (!visible) {
@@ -36,6 +43,8 @@ export function ReleaseDialog({ version, visible, onClose, onReleased }: Release
       setNote('');
       setConfirming(false);
       setPasswordError(undefined);
+      setAccepted(false);
+      setAcceptError(undefined);
       reset();
     }
   }, [visible, reset]);
@@ -71,7 +80,11 @@ export function ReleaseDialog({ version, visible, onClose, onReleased }: Release
             <Button label="Cancel" variant="secondary" onPress={onClose} />
             <Button
               label="Continue"
-              onPress={() => (password ? setConfirming(true) : setPasswordError('Enter your password to sign'))}
+              onPress={() => {
+                if (cautions.length > 0 && !accepted) setAcceptError('Tick this to release the rule with these results, or close and send it back.');
+                if (!password) setPasswordError('Enter your password to sign');
+                if (password && (cautions.length === 0 || accepted)) setConfirming(true);
+              }}
             />
           </>
         )
@@ -79,11 +92,26 @@ export function ReleaseDialog({ version, visible, onClose, onReleased }: Release
     >
       {confirming ? (
         <AppText>
-          {`You sign “${SIGNATURE_MEANING_LABELS[meaning]}” for ${version.ruleName} v${version.number}, bound to its content. The version reaches the line at once, replaces the released one, and can no longer change.`}
+          {`You sign “${SIGNATURE_MEANING_LABELS[meaning]}” for ${version.ruleName} v${version.number}, bound to its content. The version reaches the line at once, replaces the released one, and can no longer change.${cautions.length > 0 ? ` You release it knowing: ${cautions.join(' ')}` : ''}`}
         </AppText>
       ) : (
         <View style={styles.form}>
           <AppText>Your signature records your name, the date and time, and what it means. It stays bound to this exact content.</AppText>
+          {cautions.map((caution) => (
+            <AppText key={caution} tone="danger" variant="bodyStrong">{`⚠ ${caution}`}</AppText>
+          ))}
+          {cautions.length > 0 ? (
+            <CheckList
+              label="Before you sign"
+              items={[{ value: 'accepted', label: 'I have read these trial results', detail: 'Releasing the rule with them is my decision under the plant’s quality procedures.' }]}
+              value={accepted ? ['accepted'] : []}
+              onChange={(ticked) => {
+                setAccepted(ticked.length > 0);
+                setAcceptError(undefined);
+              }}
+              error={acceptError}
+            />
+          ) : null}
           <ChoiceChips<SignatureMeaningChoice>
             label="Meaning of your signature"
             choices={MEANINGS.map((m) => ({ value: m, label: SIGNATURE_MEANING_LABELS[m] }))}

@@ -7,11 +7,13 @@ import { ErrorState, LoadingState } from '../StateViews';
 import { formatPercent } from '../../lib/format';
 
 
-function Rate({ label, explanation, p }: { label: string; explanation: string; p: TrialSummary['falseRejectRate'] }) {
+/** `alarm`: a rate whose every count is a wrong verdict to act on (escapes), marked when it is not 0. */
+function Rate({ label, explanation, p, alarm = false }: { label: string; explanation: string; p: TrialSummary['falseRejectRate']; alarm?: boolean }) {
+  const marked = alarm && p.count > 0;
   return (
-    <View style={styles.rate}>
+    <View style={[styles.rate, marked && styles.alarm]}>
       <AppText variant="label">{label}</AppText>
-      <AppText variant="heading">{formatPercent(p.rate)}</AppText>
+      <AppText variant="heading" tone={marked ? 'danger' : undefined}>{`${marked ? '⚠ ' : ''}${formatPercent(p.rate)}`}</AppText>
       <AppText variant="caption">{`${p.count} of ${p.of} · 95 % interval ${formatPercent(p.low)} to ${formatPercent(p.high)}`}</AppText>
       <AppText variant="caption" tone="muted">{explanation}</AppText>
     </View>
@@ -28,8 +30,8 @@ export function TrialFigures({ trialId }: { trialId: string | null }) {
   if (!t.summary) return <AppText>{`The trial is ${t.state}${t.error ? `: ${t.error}` : ''}. Its figures appear when it has finished.`}</AppText>;
   const s = t.summary;
   const rows = [
-    { label: 'Known good', counts: s.table.good },
-    { label: 'Known defective', counts: s.table.defective },
+    { label: 'Labelled good', counts: s.table.good },
+    { label: 'Labelled defective', counts: s.table.defective },
     { label: 'Labelled retake', counts: s.table.retake },
   ];
   return (
@@ -53,7 +55,7 @@ export function TrialFigures({ trialId }: { trialId: string | null }) {
       </View>
       <View style={styles.rates}>
         <Rate label="False reject rate" explanation="Good parts the rule would reject." p={s.falseRejectRate} />
-        <Rate label="Escape rate" explanation="Defective parts the rule would pass." p={s.escapeRate} />
+        <Rate label="Escape rate" explanation="Defective parts the rule would pass." p={s.escapeRate} alarm />
         <Rate label="Agreement" explanation="Verdicts that match the labels." p={s.agreement} />
         <View style={styles.rate}>
           <AppText variant="label">Cohen’s kappa</AppText>
@@ -74,4 +76,5 @@ const styles = StyleSheet.create({
   td: { flex: 1, padding: space.sm, textAlign: 'right' },
   rates: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   rate: { flexGrow: 1, flexBasis: 200, gap: space.xxs, padding: space.md, borderRadius: radius.md, borderWidth: 1, borderColor: colors.line },
+  alarm: { borderColor: colors.danger, borderWidth: 2 },
 });

@@ -12,13 +12,23 @@ interface SubmitDialogProps {
   versionNumber: number;
   /** A reason known beforehand why the server will refuse, or null. */
   foreseenRefusal: string | null;
+  /** What the latest trial says against the rule (trialCautions): the note must answer it. */
+  cautions: string[];
   onClose: () => void;
   onSubmitted: () => void;
 }
 
-export function SubmitDialog({ versionId, versionNumber, foreseenRefusal, onClose, onSubmitted }: SubmitDialogProps) {
+export function SubmitDialog({ versionId, versionNumber, foreseenRefusal, cautions, onClose, onSubmitted }: SubmitDialogProps) {
   const submit = useSubmitForReview();
   const [note, setNote] = useState('');
+  const [noteError, setNoteError] = useState<string>();
+  const send = () => {
+    if (cautions.length > 0 && !note.trim()) {
+      setNoteError('Say in the note why the rule can go to review with these trial results.');
+      return;
+    }
+    submit.mutate({ versionId, note }, { onSuccess: onSubmitted });
+  };
   return (
     <Dialog
       visible
@@ -27,7 +37,7 @@ export function SubmitDialog({ versionId, versionNumber, foreseenRefusal, onClos
       actions={
         <>
           <Button label="Cancel" variant="secondary" onPress={onClose} disabled={submit.isPending} />
-          <Button label="Submit for review" onPress={() => submit.mutate({ versionId, note }, { onSuccess: onSubmitted })} busy={submit.isPending} />
+          <Button label="Submit for review" onPress={send} busy={submit.isPending} />
         </>
       }
     >
@@ -35,7 +45,20 @@ export function SubmitDialog({ versionId, versionNumber, foreseenRefusal, onClos
         A supervisor will review the rule with its latest trial attached, then release it or send it back. From now on the version cannot be edited; a change needs a new draft.
       </AppText>
       {foreseenRefusal ? <AppText tone="caution">{`⚠ ${foreseenRefusal}`}</AppText> : null}
-      <TextField label="Note for the reviewer" hint="What changed and why, and what the trial shows." value={note} onChangeText={setNote} multiline />
+      {cautions.map((caution) => (
+        <AppText key={caution} tone="danger" variant="bodyStrong">{`⚠ ${caution}`}</AppText>
+      ))}
+      <TextField
+        label={cautions.length > 0 ? 'Note for the reviewer (required)' : 'Note for the reviewer'}
+        hint={cautions.length > 0 ? 'Why the rule can go to review with these results, and what the plant’s procedure asks.' : 'What changed and why, and what the trial shows.'}
+        value={note}
+        onChangeText={(text) => {
+          setNote(text);
+          setNoteError(undefined);
+        }}
+        error={noteError}
+        multiline
+      />
       {submit.error ? (
         <ErrorBanner
           error={submit.error}

@@ -48,7 +48,10 @@ export function TrialFigures({ summary }: { summary: TrialSummary }) {
       </View>
       <View style={styles.list}>
         <AppText><AppText variant="bodyStrong">False reject rate</AppText>{` (good parts failed): ${describeProportion(summary.falseRejectRate)}`}</AppText>
-        <AppText><AppText variant="bodyStrong">Escape rate</AppText>{` (defective parts passed): ${describeProportion(summary.escapeRate)}`}</AppText>
+        <AppText tone={summary.escapeRate.count > 0 ? 'danger' : undefined}>
+          <AppText variant="bodyStrong" tone={summary.escapeRate.count > 0 ? 'danger' : undefined}>{`${summary.escapeRate.count > 0 ? '⚠ ' : ''}Escape rate`}</AppText>
+          {` (defective parts passed): ${describeProportion(summary.escapeRate)}`}
+        </AppText>
         <AppText><AppText variant="bodyStrong">Agreement with labels</AppText>{`: ${describeProportion(summary.agreement)}`}</AppText>
         <AppText><AppText variant="bodyStrong">Cohen’s kappa</AppText>{`: ${summary.kappa === null ? '— (not enough variety in labels or verdicts)' : summary.kappa.toFixed(3)}`}</AppText>
         <AppText variant="caption" tone="muted">

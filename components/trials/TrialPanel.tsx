@@ -20,6 +20,7 @@ import { SubmitDialog } from './SubmitDialog';
 import { TrialFigures } from './TrialFigures';
 import { MisjudgedPhotos, SlowestPhotos } from './TrialImages';
 import { describeSetCounts } from '../references/setCounts';
+import { trialCautions } from '../../shared/rules/trial-cautions';
 
 interface TrialPanelProps {
   version: RuleVersion;
@@ -179,6 +180,7 @@ export function TrialPanel({ version, partType, stations, stationId, onStation, 
           versionId={version.id}
           versionNumber={version.number}
           foreseenRefusal={foreseenRefusal}
+          cautions={done?.summary ? trialCautions(done.summary) : []}
           onClose={() => setSubmitting(false)}
           onSubmitted={() => {
             setSubmitting(false);

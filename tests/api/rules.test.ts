@@ -121,6 +121,24 @@ describe('release', () => {
     expect(Date.parse(version.signatures[0].signedAt)).toBeLessThanOrEqual(Date.now());
   });
 
+  test('a release keeps the submitted trial’s escapes with its audit event (the signer saw them in the app)', async () => {
+    const rule = await createRule('Release with escapes', dualRole);
+    const id = rule.versions[0].id;
+    const [v] = await t.db.dataSource.query('select content_hash, author_id from rule_versions where id = $1', [id]);
+    const [set] = await t.db.dataSource.query(`insert into reference_sets (name, part_type, created_by) values ('escapes set', 'washer-m16', $1) returning id`, [v.author_id]);
+    // 3 of 4 defective parts passed: an escape rate of 75 % (defective judged PASS ÷ labelled defective).
+    const rate = (count: number, of: number) => ({ count, of, rate: count / of, low: null, high: null });
+    const summary = { agreement: rate(7, 10), falseRejectRate: rate(0, 6), escapeRate: rate(3, 4) };
+    await t.db.dataSource.query(
+      `insert into trials (rule_version_id, reference_set_id, content_hash, state, total, processed, started_by, finished_at, summary) values ($1, $2, $3, 'done', 10, 10, $4, now(), $5)`,
+      [id, set.id, v.content_hash, v.author_id, JSON.stringify(summary)],
+    );
+    expect((await request(t.app).post(`/api/rule-versions/${id}/submit`).set(dualRole).send({ note: 'Escapes explained' })).status).toBe(200);
+    expect((await request(t.app).post(`/api/rule-versions/${id}/release`).set(supervisor).send({ password: TEST_PASSWORD, meaning: 'approval' })).status).toBe(200);
+    const [event] = await t.db.dataSource.query(`select details from audit_events where action = 'rule-version.release' and entity_id = $1`, [id]);
+    expect(event.details.trialCautions).toEqual(['In its trial the rule passed 3 of 4 defective parts (escape rate 75.0 %): released as it is, it would ship parts like them.']);
+  });
+
   test('changing the released content behind the database’s back breaks the signature', async () => {
     await t.db.dataSource.transaction(async (m) => {
       await m.query('alter table rule_versions disable trigger rule_versions_frozen');

@@ -12,6 +12,7 @@ import type {
 import { isSentBack } from '../../../shared/api/rules';
 import type { RuleDocument } from '../../../shared/rules/schema';
 import { validateRuleDocument } from '../../../shared/rules/schema';
+import { trialCautions } from '../../../shared/rules/trial-cautions';
 import { digestOf } from '../../lib/digest';
 import { AppError, notFound } from '../../lib/errors';
 import type { AuditService } from '../audit/service';
@@ -326,6 +327,9 @@ export class RulesService {
         await manager.save(old);
         await this.audit.record(manager, { actor: actorOf(actor), action: 'rule-version.supersede', entityType: 'rule-version', entityId: old.id, after: { state: 'superseded' }, details: { by: version.id } });
       }
+      // What the submitted trial said against the rule, kept with the release (the signer ticked it in the app).
+      const trial = version.submittedTrialId ? await manager.findOneBy(TrialEntity, { id: version.submittedTrialId }) : null;
+      const cautions = trial?.summary ? trialCautions(trial.summary as unknown as TrialSummary) : [];
       version.state = 'released';
       version.reviewerId = actor.id;
       version.reviewedAt = now;
@@ -348,7 +352,7 @@ export class RulesService {
         entityType: 'rule-version',
         entityId: id,
         after: { state: 'released', contentHash: version.contentHash },
-        details: { meaning: input.meaning, signatureHash: signature.signatureHash, note: input.note },
+        details: { meaning: input.meaning, signatureHash: signature.signatureHash, note: input.note, trialCautions: cautions },
       });
       const name = await this.ruleName(manager, version);
       await this.mail.enqueue(manager, {

@@ -191,6 +191,41 @@ describe.each([
     await screenshot(page, `review-released-${widthName}`);
   });
 
+  test('a trial that passed defective parts is a caution the signer must tick before releasing', async () => {
+    // A gasket rule whose attached trial passed 2 of 5 defective parts (escape rate = defective judged
+    // PASS ÷ labelled defective, common practice), recorded as the trial runner records its summary.
+    const engineer = await person('engineer');
+    const name = `Gasket with escapes (${widthName})`;
+    const rule = await product.services.rules.create(engineer, { name, partType: partTypeCode('gasket'), smallestDefectMm: 0.3, document: { ...DEMO_RULES.gasket.released, name } });
+    const id = rule.versions[0].id;
+    const rate = (count: number, of: number) => ({ count, of, rate: count / of, low: null, high: null });
+    const summary = { table: { good: { PASS: 5, FAIL: 0, RETAKE: 0 }, defective: { PASS: 2, FAIL: 3, RETAKE: 0 }, retake: { PASS: 0, FAIL: 0, RETAKE: 0 } }, images: 10, unlabelled: 0, agreement: rate(8, 10), falseRejectRate: rate(0, 5), escapeRate: rate(2, 5), retakeRate: rate(0, 10), kappa: 0.6, medianMs: 20 };
+    const [set] = await product.db.dataSource.query(`select id from reference_sets where part_type = $1`, [partTypeCode('gasket')]);
+    await product.db.dataSource.query(
+      `insert into trials (rule_version_id, reference_set_id, content_hash, state, total, processed, started_by, finished_at, summary) values ($1, $2, $3, 'done', 10, 10, $4, now(), $5)`,
+      [id, set.id, rule.versions[0].contentHash, engineer.id, JSON.stringify(summary)],
+    );
+    await product.services.rules.submit(engineer, id, 'Two escapes: the small nicks, to be caught by v2');
+    await page.goto(`${product.url}/review/${id}`);
+    await page.getByRole('button', { name: `Release ${name} v1` }).click();
+    const dialog = openDialog(page);
+    const caution = '⚠ In its trial the rule passed 2 of 5 defective parts (escape rate 40.0 %): released as it is, it would ship parts like them.';
+    await dialog.getByText(caution).waitFor();
+    await dialog.getByLabel('Your password').fill(DEMO_PASSWORD);
+    await dialog.getByRole('button', { name: 'Continue' }).click();
+    await dialog.getByText('Tick this to release the rule with these results, or close and send it back.').waitFor();
+    expect(await dialog.getByRole('button', { name: 'Sign and release' }).count()).toBe(0);
+    await screenshot(page, `review-release-caution-${widthName}`);
+    await dialog.getByRole('checkbox', { name: /I have read these trial results/ }).click();
+    await dialog.getByRole('button', { name: 'Continue' }).click();
+    await dialog.getByText(/You release it knowing: In its trial the rule passed 2 of 5 defective parts/).waitFor();
+    await dialog.getByRole('button', { name: 'Sign and release' }).click();
+    await dialog.waitFor({ state: 'hidden' });
+    expect((await versionState(id)).state).toBe('released');
+    const [event] = await product.db.dataSource.query(`select details from audit_events where action = 'rule-version.release' and entity_id = $1`, [id]);
+    expect(event.details.trialCautions).toEqual([caution.slice(2)]);
+  });
+
   test('sending a version back needs a note, and the engineer gets it with the version as a draft', async () => {
     await page.goto(`${product.url}/review/${bracketV2}`);
     await page.getByRole('button', { name: `Send ${bracket} v2 back to the engineer` }).click();

@@ -24,6 +24,7 @@ import { DocumentSettingsEditor } from './DocumentSettingsEditor';
 import { GaugeEditor } from './GaugeEditor';
 import { PipelineEditor } from './PipelineEditor';
 import { QualityGateEditor } from './QualityGateEditor';
+import { UnreadableFieldsContext, useUnreadableFieldCount } from './unreadableFields';
 import { canonicalJson, documentFrom, editorReducer, editorStateFrom, issuesByKey, type EditorAction } from './ruleEditorState';
 
 interface DraftEditorProps {
@@ -65,7 +66,10 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
 
   const document = useMemo(() => documentFrom(state), [state]);
   const documentText = canonicalJson(document);
-  const unsaved = documentText !== baseline;
+  // A field holding text that is not a number keeps its last number in the document: until it is
+  // corrected the draft is neither saved nor savable.
+  const unreadable = useUnreadableFieldCount();
+  const unsaved = documentText !== baseline || unreadable.count > 0;
   useLeaveGuard(unsaved && canEdit ? `Version ${version.number} (draft) has changes that are not saved.` : null);
   const localIssues = useMemo(() => {
     const result = validateRuleDocument(document);
@@ -143,53 +147,59 @@ export function DraftEditor({ rule, version, canEdit, onSubmitted }: DraftEditor
   );
 
   return (
-    <View style={styles.editor}>
-      <View style={[styles.toolbar, layout === 'wide' ? null : styles.toolbarPhone, stickyStyle(0)]} role="toolbar" aria-label="Draft" onLayout={(e) => setToolbarHeight(e.nativeEvent.layout.height)}>
-        <AppText variant="bodyStrong" style={styles.grow} role="status" aria-live="polite">
-          {unsaved ? `✎ Version ${version.number} (draft) has unsaved changes` : `Version ${version.number} (draft) · saved`}
-        </AppText>
-        <Button label="Save draft" onPress={saveDraft} busy={save.isPending} disabled={!unsaved || !canEdit} accessibilityHint="Stores the draft on the server" />
-        {serverIssues.length > 0 ? (
-          // In the bar that stays on screen: on a phone the Save button is pressed far below the top of the page.
-          <AppText tone="danger" variant="bodyStrong" accessibilityRole="alert" style={styles.refusal}>
-            {`⚠ Not saved: the server found ${serverIssues.length === 1 ? '1 problem' : `${serverIssues.length} problems`}, marked ⚠ beside the fields below.`}
+    <UnreadableFieldsContext.Provider value={unreadable.fields}>
+      <View style={styles.editor}>
+        <View style={[styles.toolbar, layout === 'wide' ? null : styles.toolbarPhone, stickyStyle(0)]} role="toolbar" aria-label="Draft" onLayout={(e) => setToolbarHeight(e.nativeEvent.layout.height)}>
+          <AppText variant="bodyStrong" style={styles.grow} role="status" aria-live="polite">
+            {unreadable.count > 0
+              ? `⚠ Version ${version.number} (draft): ${unreadable.count === 1 ? '1 field holds' : `${unreadable.count} fields hold`} text that is not a number; correct ${unreadable.count === 1 ? 'it' : 'them'} to save`
+              : unsaved
+                ? `✎ Version ${version.number} (draft) has unsaved changes`
+                : `Version ${version.number} (draft) · saved`}
           </AppText>
-        ) : null}
-      </View>
-      {notice ? <AppText tone="notice" role="status">{`✓ ${notice}`}</AppText> : null}
-      {save.error && serverIssues.length === 0 ? <ErrorBanner error={save.error} /> : null}
-      {general.filter((i) => !i.path.startsWith('quality') && i.path !== 'name').map((issue) => (
-        <AppText key={`${issue.path}-${issue.message}`} tone="danger">{`⚠ ${issue.path}: ${issue.message}`}</AppText>
-      ))}
-      {layout === 'wide' ? (
-        <View style={styles.columns}>
-          <View style={styles.left}>{editor}</View>
-          <View style={[styles.right, stickyColumnStyle(previewTop, windowHeight, space.lg)]}>
-            <ScrollView accessibilityLabel="Live preview column" contentContainerStyle={styles.previewScroll}>{preview}</ScrollView>
-          </View>
+          <Button label="Save draft" onPress={saveDraft} busy={save.isPending} disabled={!unsaved || !canEdit || unreadable.count > 0} accessibilityHint="Stores the draft on the server" />
+          {serverIssues.length > 0 ? (
+            // In the bar that stays on screen: on a phone the Save button is pressed far below the top of the page.
+            <AppText tone="danger" variant="bodyStrong" accessibilityRole="alert" style={styles.refusal}>
+              {`⚠ Not saved: the server found ${serverIssues.length === 1 ? '1 problem' : `${serverIssues.length} problems`}, marked ⚠ beside the fields below.`}
+            </AppText>
+          ) : null}
         </View>
-      ) : (
-        <>
-          {editor}
-          {preview}
-        </>
-      )}
-      <Card>
-        <AppText variant="heading">Trials and review</AppText>
-        <TrialPanel
-          version={version}
-          partType={rule.partType}
-          stations={stations}
-          stationId={stationId}
-          onStation={setStationId}
-          unsaved={unsaved}
-          gauges={state.gauges}
-          onPickLimit={(gaugeName, bound, value) => dispatch({ type: 'set-limit', gaugeName, bound, value })}
-          onOpenInPreview={(setId, imageId) => setTarget({ setId, imageId })}
-          onSubmitted={onSubmitted}
-        />
-      </Card>
-    </View>
+        {notice ? <AppText tone="notice" role="status">{`✓ ${notice}`}</AppText> : null}
+        {save.error && serverIssues.length === 0 ? <ErrorBanner error={save.error} /> : null}
+        {general.filter((i) => !i.path.startsWith('quality') && i.path !== 'name').map((issue) => (
+          <AppText key={`${issue.path}-${issue.message}`} tone="danger">{`⚠ ${issue.path}: ${issue.message}`}</AppText>
+        ))}
+        {layout === 'wide' ? (
+          <View style={styles.columns}>
+            <View style={styles.left}>{editor}</View>
+            <View style={[styles.right, stickyColumnStyle(previewTop, windowHeight, space.lg)]}>
+              <ScrollView accessibilityLabel="Live preview column" contentContainerStyle={styles.previewScroll}>{preview}</ScrollView>
+            </View>
+          </View>
+        ) : (
+          <>
+            {editor}
+            {preview}
+          </>
+        )}
+        <Card>
+          <AppText variant="heading">Trials and review</AppText>
+          <TrialPanel
+            version={version}
+            partType={rule.partType}
+            stations={stations}
+            stationId={stationId}
+            onStation={setStationId}
+            unsaved={unsaved}
+            gauges={state.gauges}
+            onPickLimit={(gaugeName, bound, value) => dispatch({ type: 'set-limit', gaugeName, bound, value })}
+            onOpenInPreview={(setId, imageId) => setTarget({ setId, imageId })}
+            onSubmitted={onSubmitted}
+          />
+        </Card>
+      </View>
+    </UnreadableFieldsContext.Provider>
   );
 }
 

@@ -2,6 +2,8 @@
 import { useEffect, useState } from 'react';
 import { TextField } from '../TextField';
 import type { NumberSpec } from './stepCatalogue';
+import { exampleOf } from './numberExample';
+import { useReportUnreadable } from './unreadableFields';
 
 interface NumberFieldProps {
   spec: NumberSpec;
@@ -30,6 +32,7 @@ function rangeHint(spec: NumberSpec): string {
 export function NumberField({ spec, value, onChange, error, optional = false, label, accessibilityLabel, context }: NumberFieldProps) {
   const [text, setText] = useState(value === undefined ? '' : String(value));
   const [typingError, setTypingError] = useState<string | undefined>();
+  useReportUnreadable(typingError !== undefined);
 
   useEffect(() => {
     // Follow changes made elsewhere (a limit picked on the sweep, a duplicated step), not our own typing.
@@ -48,7 +51,7 @@ export function NumberField({ spec, value, onChange, error, optional = false, la
     }
     const parsed = Number(trimmed);
     if (!Number.isFinite(parsed)) {
-      setTypingError('Enter a number, e.g. 1.5');
+      setTypingError(`Enter a number, e.g. ${exampleOf(spec)}`);
       return;
     }
     setTypingError(undefined);

@@ -246,6 +246,14 @@ describe('at phone width', () => {
       // Correcting the field clears it.
       await sigma.fill('2');
       await refusal.waitFor({ state: 'hidden' });
+      // Text that is not a number: the bar says so and Save waits (the document still holds the field's last number).
+      await sigma.fill('abc');
+      const unreadable = page.getByText(/: 1 field holds text that is not a number; correct it to save$/);
+      await unreadable.waitFor();
+      expect(await inSight(unreadable)).toBe(true);
+      expect(await page.getByRole('button', { name: 'Save draft' }).getAttribute('aria-disabled')).toBe('true');
+      await sigma.fill('2');
+      await unreadable.waitFor({ state: 'hidden' });
       // The refused save is the browser's one logged failure.
       expect(errors).toEqual(['Failed to load resource: the server responded with a status of 400 (Bad Request)']);
     } finally {

@@ -4,7 +4,7 @@ import { ApiError } from '../../lib/api';
 import { fieldErrorsFrom, type FieldErrors } from '../../lib/formErrors';
 import { useCreateRule } from '../../hooks/useRules';
 import { usePartTypes } from '../../hooks/useReferenceSets';
-import type { RuleDetail } from '../../shared/api/rules';
+import { createRuleRequestSchema, type RuleDetail } from '../../shared/api/rules';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { ChoiceChips } from '../ChoiceChips';
@@ -27,7 +27,9 @@ export function CreateRuleDialog({ onClose, onCreated }: { onClose: () => void; 
     if (!name.trim()) local.name = 'Enter a name';
     if (!partType) local.partType = 'Choose the part type';
     const mm = smallest.trim() === '' ? null : Number(smallest.replace(',', '.'));
-    if (mm !== null && !(mm > 0)) local.smallestDefectMm = 'Enter a size in mm above 0, or leave it empty';
+    // The server's own check, so that what passes here is not refused there.
+    const size = createRuleRequestSchema.shape.smallestDefectMm.safeParse(Number.isNaN(mm) ? 'not a number' : mm);
+    if (!size.success) local.smallestDefectMm = Number.isNaN(mm) ? 'Enter a size in mm, or leave it empty' : size.error.issues[0].message;
     setErrors(local);
     if (Object.keys(local).length > 0) return;
     create.mutate(

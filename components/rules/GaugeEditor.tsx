@@ -15,6 +15,7 @@ import { NumberField } from './NumberField';
 import type { EditorAction, EditorGauge, EditorStep } from './ruleEditorState';
 import { MASK_MEASURES, outputsMask, STEP_DESCRIPTIONS, stepNames } from './stepCatalogue';
 import { EditToggle, OpenAllButton } from './CardToggles';
+import { fieldMessage } from './fieldMessage';
 import { useOpenCards } from './useOpenCards';
 
 
@@ -98,7 +99,7 @@ export function GaugeEditor({ gauges, steps, issues, drawingKey, onDraw, dispatc
             </View>
             {open ? (
               <>
-                <TextField label="Gauge name" accessibilityLabel={`Gauge ${index + 1} name`} value={gauge.name} onChangeText={(name) => change({ name })} error={errorOf('name')} />
+                <TextField label="Gauge name" accessibilityLabel={`Gauge ${index + 1} name`} value={gauge.name} onChangeText={(name) => change({ name })} error={fieldMessage(errorOf('name'), 'Gauge name')} />
                 <ChoiceChips
                   label="Measure"
                   choices={GAUGE_MEASURES.map((m) => ({ value: m, label: MEASURE_LABELS[m] }))}

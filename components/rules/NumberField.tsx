@@ -2,6 +2,7 @@
 import { useEffect, useState } from 'react';
 import { TextField } from '../TextField';
 import type { NumberSpec } from './stepCatalogue';
+import { fieldMessage } from './fieldMessage';
 import { exampleOf } from './numberExample';
 import { useReportUnreadable } from './unreadableFields';
 
@@ -67,7 +68,7 @@ export function NumberField({ spec, value, onChange, error, optional = false, la
       hint={rangeHint(spec) || undefined}
       value={text}
       onChangeText={change}
-      error={typingError ?? error}
+      error={typingError ?? fieldMessage(error, name)}
       inputMode="decimal"
       autoCorrect={false}
       autoCapitalize="none"

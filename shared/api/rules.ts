@@ -94,7 +94,7 @@ export type RuleDetail = z.infer<typeof ruleDetailSchema>;
 export const createRuleRequestSchema = z.strictObject({
   name: z.string().trim().min(1, 'Enter a name').max(120),
   partType: codeSchema,
-  smallestDefectMm: z.number().positive().max(1000).nullable().default(null),
+  smallestDefectMm: z.number().positive('Enter a size in mm above 0, or leave it empty').max(1000, 'Enter a size of at most 1000 mm, or leave it empty').nullable().default(null),
   /** The first draft's rule document (format kernwright-rule/1). */
   document: z.unknown(),
 });

@@ -242,6 +242,8 @@ describe('at phone width', () => {
       const refusal = page.getByText('⚠ Not saved: the server found 1 problem, marked ⚠ beside the fields below.');
       await refusal.waitFor();
       expect(await inSight(refusal)).toBe(true);
+      // The field's message names it by its label, not by the rule document's code (sigma).
+      await page.getByText(/^⚠ Sigma must be between 0\.3 and 10/).first().waitFor();
       await screenshot(page, 'workbench-refused-save-phone');
       // Correcting the field clears it.
       await sigma.fill('2');

@@ -17,7 +17,7 @@ const NEXT_STEPS: Record<string, string> = {
   bad_request: 'Check what you entered and try again.',
   too_many_requests: 'Wait a minute, then try again.',
   payload_too_large: 'Use a smaller file and try again.',
-  unsupported_media: 'Use a PNG or JPEG file and try again.',
+  unsupported_media: 'Use a JPEG, PNG, TIFF or WebP photo and try again.',
   service_unavailable: 'Try again in a minute. If it keeps happening, tell your administrator.',
   unreadable_response: 'Reload the page to get the current version of the app, then try again.',
 };

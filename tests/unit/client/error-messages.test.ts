@@ -26,4 +26,8 @@ describe('explainError', () => {
     expect(explainError(new ApiError(418, 'something_new', 'Odd')).nextStep).toMatch(/^Try again/);
     expect(explainError(new Error('boom')).message).toBe('Something went wrong in the app.');
   });
+
+  it('names the photo formats the decoder takes when an upload is of another kind (server/vision/decode.ts)', () => {
+    expect(explainError(new ApiError(415, 'unsupported_media', 'Unsupported media type')).nextStep).toBe('Use a JPEG, PNG, TIFF or WebP photo and try again.');
+  });
 });

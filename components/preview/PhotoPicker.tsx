@@ -1,4 +1,5 @@
 // Which reference photo the preview runs on: a reference set, then one of its photos.
+import { useEffect } from 'react';
 import { Image, Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import type { ReferenceImage } from '../../shared/api/references';
 import { colors, radius, space } from '../../lib/theme';
@@ -23,10 +24,15 @@ export function PhotoPicker({ partType, setId, imageId, onSet, onPhoto }: PhotoP
   const labelText = useLabelWords();
   const kindName = useDefectKindName();
   const images = useReferenceImages(setId, { label: null, defectKind: null, limit: PICKER_PAGE, offset: 0 });
+  // The part type's only set is chosen for the engineer, as the trial below chooses it.
+  const ofPart = sets.data?.filter((s) => s.partType === partType) ?? [];
+  const onlySet = ofPart.length === 1 ? ofPart[0].id : null;
+  useEffect(() => {
+    if (setId === null && onlySet) onSet(onlySet);
+  }, [setId, onlySet, onSet]);
   if (sets.isError) return <ErrorState error={sets.error} onRetry={() => void sets.refetch()} />;
   if (!sets.data) return <LoadingState label="Loading reference sets…" />;
-  const fitting = sets.data.filter((s) => s.partType === partType);
-  const offered = fitting.length > 0 ? fitting : sets.data;
+  const offered = ofPart.length > 0 ? ofPart : sets.data;
   if (offered.length === 0) return <AppText tone="muted">No reference sets yet. Create one under Reference sets and upload photos of this part to preview the rule.</AppText>;
   return (
     <View style={styles.group}>

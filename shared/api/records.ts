@@ -105,6 +105,7 @@ export function exportFileName(filters: Partial<RecordFilters>, exportedAt: Date
 /** The CSV export's columns, in order (one row per measurement; an inspection without gauges has one row). */
 export const CSV_COLUMNS = [
   'inspection_id',
+  'record_reference',
   'created_at_utc',
   'line',
   'station',
@@ -112,6 +113,7 @@ export const CSV_COLUMNS = [
   'rule_version',
   'rule_content_sha256',
   'part_type',
+  'part_type_name',
   'operator',
   'verdict',
   'cause',

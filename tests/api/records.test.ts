@@ -131,6 +131,8 @@ test('the CSV export parses back with a general CSV parser to the same values (R
   const failed = rows.filter((r) => r.inspection_id === failedId);
   expect(failed.map((r) => r.gauge)).toEqual(['Spot area', 'Spot count, "bright", per part']);
   expect(failed[0]).toMatchObject({ line: 'Line 1, "north"', verdict: 'FAIL', value: '64', limit_max: '20', gauge_pass: 'false', created_at_utc: '2026-11-06T08:00:00.000Z' });
+  // The reference written on the part's tag, and the part type as the catalogue names it.
+  expect(failed[0]).toMatchObject({ record_reference: recordReference(failedId), part_type: 'plate', part_type_name: 'Plate' });
   const [db] = await t.db.dataSource.query('select v.content_hash from rule_versions v where v.id = $1', [versionId]);
   expect(failed[0].rule_content_sha256).toBe(db.content_hash);
 });

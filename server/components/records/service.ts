@@ -96,14 +96,16 @@ export class RecordsService {
     const params: unknown[] = [];
     const where = whereClause(filters, params);
     const direction = filters.order === 'newest' ? 'desc' : 'asc';
-    const sql = `select i.id as inspection_id, to_char(i.created_at at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') as created_at_utc,
-        l.name as line, s.name as station, r.name as rule, v.number as rule_version, v.content_hash as rule_content_sha256, i.part_type,
+    // record_reference is recordReference(id) (shared/api/records.ts): a uuid's text starts with its first eight hex digits.
+    const sql = `select i.id as inspection_id, upper(substr(i.id::text, 1, 4) || '-' || substr(i.id::text, 5, 4)) as record_reference, to_char(i.created_at at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') as created_at_utc,
+        l.name as line, s.name as station, r.name as rule, v.number as rule_version, v.content_hash as rule_content_sha256, i.part_type, p.name as part_type_name,
         u.display_name as operator, i.verdict, i.cause, i.image_hash as image_sha256, i.mm_per_px,
         m.gauge, m.value, m.unit, m.limit_min, m.limit_max, m.pass as gauge_pass,
         exists (select 1 from disputes d where d.inspection_id = i.id) as disputed
       from inspections i
       join lines l on l.id = i.line_id join stations s on s.id = i.station_id join rules r on r.id = i.rule_id
       join rule_versions v on v.id = i.rule_version_id join users u on u.id = i.operator_id
+      left join part_types p on p.code = i.part_type
       left join measurements m on m.inspection_id = i.id
       where ${where}
       order by i.created_at ${direction}, i.id ${direction}, m.position`;

@@ -1,11 +1,13 @@
 // Limit tuning: one gauge's limit swept over the trial's values, each limit a dot at its escape rate
 // (across) and false reject rate (up); the current limit is ringed and named. Picking a dot sets the draft's limit.
+import { useState } from 'react';
 import { StyleSheet, View, Pressable } from 'react-native';
 import type { Sweep } from '../../shared/api/trials';
 import { colors, radius, space } from '../../lib/theme';
 import { formatGaugeValue } from '../../lib/format';
 import { AppText } from '../AppText';
-import { axisEnd, dotsOf } from './sweepDots';
+import { Button } from '../Button';
+import { axisEnd, distinctLabels, dotsOf } from './sweepDots';
 
 interface LimitSweepPlotProps {
   sweep: Sweep;
@@ -28,12 +30,18 @@ function pct(v: number | null): string {
 const tickText = (v: number) => `${Math.round(v * 1000) / 10} %`;
 
 export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProps) {
+  const [listOpen, setListOpen] = useState(false);
   const points = sweep.points.filter((p) => p.falseRejectRate !== null && p.escapeRate !== null);
   if (points.length === 0) return <AppText tone="muted">The trial has no labelled good and defective photos with this gauge; the curve needs both.</AppText>;
   const current = sweep.current;
   const xEnd = axisEnd(Math.max(...points.map((p) => p.escapeRate!)));
   const yEnd = axisEnd(Math.max(...points.map((p) => p.falseRejectRate!)));
   const dots = dotsOf(points, (limit) => limit === current || limit === draftLimit);
+  const currentDrawn = current !== null && dots.some((d) => d.point.limit === current);
+  // The list: one row per dot, in the order of the limits, each limit written so that no two rows read alike.
+  const rows = [...dots].sort((a, b) => a.first - b.first);
+  const shown = distinctLabels(rows.flatMap((d) => [d.first, d.last]), formatGaugeValue);
+  const rowLimits = rows.map((d, i) => (d.limits > 1 ? `${shown[2 * i]} to ${shown[2 * i + 1]} (${d.limits} limits)` : shown[2 * i]));
   const ticks = [0, 0.5, 1];
   return (
     <View style={styles.wrap}>
@@ -81,21 +89,31 @@ export function LimitSweepPlot({ sweep, onPick, draftLimit }: LimitSweepPlotProp
       </View>
       <AppText variant="caption" tone="muted" style={styles.xLabel}>{`Escape rate →${xEnd < 1 || yEnd < 1 ? '  (axes zoomed to the rates the trial reached)' : ''}`}</AppText>
       <AppText variant="caption">
-        {`◎ ringed: the trial’s limit ${current === null ? '(none)' : formatGaugeValue(current)}${draftLimit !== undefined && draftLimit !== current ? ` · ■ square: the draft’s limit ${formatGaugeValue(draftLimit)}` : ''}. Press a dot to use its limit in the draft.`}
+        {`${currentDrawn ? '◎ ringed: the trial’s limit ' : 'The trial’s limit '}${current === null ? '(none)' : formatGaugeValue(current)}${currentDrawn || current === null ? '' : ' is not among the dots'}${draftLimit !== undefined && draftLimit !== current ? ` · ■ square: the draft’s limit ${formatGaugeValue(draftLimit)}` : ''}. Press a dot to use its limit in the draft.`}
       </AppText>
-      <View style={styles.list} accessibilityLabel="Limits and their rates">
-        {points.slice(0, 60).map((p) => (
-          <Pressable
-            key={p.limit}
-            accessibilityRole="button"
-            accessibilityLabel={`Use limit ${formatGaugeValue(p.limit)}`}
-            onPress={() => onPick(p.limit)}
-            style={({ pressed }) => [styles.option, pressed && styles.optionPressed, p.limit === draftLimit && styles.optionChosen]}
-          >
-            <AppText variant="caption">{`${p.limit === draftLimit ? '✓ ' : ''}${formatGaugeValue(p.limit)} → rejects ${pct(p.falseRejectRate)}, escapes ${pct(p.escapeRate)}`}</AppText>
-          </Pressable>
-        ))}
-      </View>
+      <Button
+        label={listOpen ? 'Hide the list of limits' : `List the limits (${rows.length} ${rows.length === 1 ? 'row' : 'rows'})`}
+        variant="quiet"
+        compact
+        expanded={listOpen}
+        onPress={() => setListOpen(!listOpen)}
+        style={styles.start}
+      />
+      {listOpen ? (
+        <View style={styles.list} accessibilityLabel="Limits and their rates">
+          {rows.map(({ point: p }, i) => (
+            <Pressable
+              key={p.limit}
+              accessibilityRole="button"
+              accessibilityLabel={`Use limit ${formatGaugeValue(p.limit)}: rejects ${pct(p.falseRejectRate)}, escapes ${pct(p.escapeRate)}`}
+              onPress={() => onPick(p.limit)}
+              style={({ pressed }) => [styles.option, pressed && styles.optionPressed, p.limit === draftLimit && styles.optionChosen]}
+            >
+              <AppText variant="caption">{`${p.limit === draftLimit ? '✓ ' : ''}${rowLimits[i]} → rejects ${pct(p.falseRejectRate)}, escapes ${pct(p.escapeRate)}`}</AppText>
+            </Pressable>
+          ))}
+        </View>
+      ) : null}
     </View>
   );
 }
@@ -116,6 +134,7 @@ const styles = StyleSheet.create({
   current: { borderWidth: 3, borderColor: colors.ink, backgroundColor: colors.surface },
   draft: { borderRadius: 0, backgroundColor: colors.steel },
   list: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
+  start: { alignSelf: 'flex-start' },
   option: { minHeight: 44, justifyContent: 'center', paddingHorizontal: space.sm, borderWidth: 1, borderColor: colors.control, borderRadius: radius.md },
   optionPressed: { backgroundColor: colors.steelTint },
   optionChosen: { backgroundColor: colors.steelTint, borderColor: colors.steel },

@@ -28,3 +28,19 @@ export function dotsOf(points: readonly SweepPoint[], inUse: (limit: number) => 
     limits: group.length,
   }));
 }
+
+/**
+ * Each value as `format` writes it, with more significant digits (up to 12) where two different
+ * values would read the same ("0.0338" and "0.0338" → "0.03381" and "0.03384").
+ */
+export function distinctLabels(values: readonly number[], format: (v: number) => string): string[] {
+  const labels = values.map(format);
+  for (let digits = 4; digits <= 12; digits++) {
+    const clashing = new Set(labels.filter((label, i) => labels.some((other, j) => other === label && values[j] !== values[i])));
+    if (clashing.size === 0) break;
+    values.forEach((v, i) => {
+      if (clashing.has(labels[i])) labels[i] = String(Number(v.toPrecision(digits)));
+    });
+  }
+  return labels;
+}

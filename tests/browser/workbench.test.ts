@@ -289,6 +289,15 @@ describe('at phone width', () => {
     const box = await table.boundingBox();
     expect(box!.x).toBeGreaterThanOrEqual(0);
     expect(box!.x + box!.width).toBeLessThanOrEqual(PHONE.width);
+    // Limit tuning: the list of limits waits behind a button; each row reads differently, and a row sets the draft's limit.
+    const listButton = page.getByRole('button', { name: /^List the limits \(\d+ rows?\)$/ });
+    await listButton.click();
+    const limitRows = page.getByLabel('Limits and their rates').getByRole('button');
+    const rowTexts = await limitRows.allInnerTexts();
+    expect(rowTexts.length).toBeGreaterThan(0);
+    expect(new Set(rowTexts).size).toBe(rowTexts.length);
+    await limitRows.first().click();
+    await page.getByText(/\(draft\) has unsaved changes/).waitFor();
     expect(errors).toEqual([]);
     await own.close();
   });

@@ -1,6 +1,6 @@
 // The limit-tuning plot: its axes zoom to the rates the trial reached, and limits with the same two
 // rates share one dot that still names the limit in use.
-import { axisEnd, dotsOf } from '../../../components/trials/sweepDots';
+import { axisEnd, distinctLabels, dotsOf } from '../../../components/trials/sweepDots';
 
 test('an axis ends at the smallest of 5, 10, 20, 25, 50 and 100 % that holds every rate', () => {
   expect(axisEnd(0)).toBe(0.05);
@@ -22,4 +22,11 @@ test('limits with the same rates are one dot: the one in use, else the middle on
     [14, 14, 14, 1],
   ]);
   expect(dotsOf(points, (limit) => limit === 12)[0].point.limit).toBe(12);
+});
+
+test('limits that would read the same get the digits that tell them apart; equal ones stay equal', () => {
+  const format = (v: number) => v.toPrecision(3);
+  expect(distinctLabels([0.03381, 0.03384, 0.5], format)).toEqual(['0.03381', '0.03384', '0.500']);
+  expect(distinctLabels([1712.41, 1712.44, 1712.41], (v) => v.toFixed(1))).toEqual(['1712.41', '1712.44', '1712.41']);
+  expect(distinctLabels([2, 3], String)).toEqual(['2', '3']);
 });

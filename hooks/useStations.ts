@@ -1,6 +1,7 @@
 // Lines and stations, with their calibration, through react-query.
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { calibrateStation, createLine, createStation, listLines, updateStation } from '../lib/api';
+import type { CalibrationRequest } from '../shared/api/stations';
 
 export const stationKeys = {
   all: ['stations'] as const,
@@ -29,7 +30,5 @@ export function useUpdateStation() {
 }
 
 export function useCalibrateStation() {
-  return useStationMutation(({ id, referenceLengthMm, distancePx }: { id: string; referenceLengthMm: number; distancePx: number }) =>
-    calibrateStation(id, { referenceLengthMm, distancePx }),
-  );
+  return useStationMutation(({ id, ...calibration }: { id: string } & CalibrationRequest) => calibrateStation(id, calibration));
 }

@@ -40,7 +40,7 @@ import {
   type RuleVersion,
   type RuleVersionState,
 } from '../shared/api/rules';
-import { lineSchema, stationSchema, type Line, type Station } from '../shared/api/stations';
+import { lineSchema, stationSchema, type CalibrationRequest, type Line, type Station } from '../shared/api/stations';
 import { sweepSchema, trialResultSchema, trialSchema, type Sweep, type Trial, type TrialResult } from '../shared/api/trials';
 import { recordPageSchema, type RecordPage } from '../shared/api/records';
 import { ruleHistorySchema, type RuleHistory } from '../shared/api/rule-history';
@@ -265,7 +265,7 @@ export function updateStation(id: string, changes: { name?: string; cameraNote?:
   return request(`/api/stations/${encodeURIComponent(id)}`, { method: 'PATCH', body: changes, schema: stationSchema });
 }
 
-export function calibrateStation(id: string, body: { referenceLengthMm: number; distancePx: number }): Promise<Station> {
+export function calibrateStation(id: string, body: CalibrationRequest): Promise<Station> {
   return request(`/api/stations/${encodeURIComponent(id)}/calibration`, { method: 'POST', body, schema: stationSchema });
 }
 

@@ -124,7 +124,8 @@ export async function seedDemoPlant(services: Services, options: DemoPlantOption
       let station = await ds.getRepository(StationEntity).findOneBy({ lineId, name: s.name });
       if (!station) {
         const created = await services.stations.createStation(supervisor, { lineId, name: s.name, cameraNote: s.cameraNote, partTypes: [partTypeCode(s.family)] });
-        await services.stations.calibrate(supervisor, created.id, { referenceLengthMm: 20, distancePx: 20 / demoScale(s.family) });
+        // The scale holds for the demo frame, the size every seeded photo is generated at (generateDataset's sizes below).
+        await services.stations.calibrate(supervisor, created.id, { referenceLengthMm: 20, distancePx: 20 / demoScale(s.family), photoWidthPx: DEMO_FRAME.width, photoHeightPx: DEMO_FRAME.height });
         station = await ds.getRepository(StationEntity).findOneByOrFail({ id: created.id });
       }
       stations.push({ id: station.id, family: s.family, drifts: s.drifts, name: s.name });

@@ -8,6 +8,9 @@ export const stationSchema = z.object({
   name: z.string(),
   cameraNote: z.string(),
   mmPerPx: z.number().nullable(),
+  /** The photo size the scale holds for; null when the calibration did not record it (no size check then). */
+  photoWidthPx: z.number().int().nullable(),
+  photoHeightPx: z.number().int().nullable(),
   /** Standard uncertainty of one pixel's quantisation, s/√12, in mm. */
   quantisationUncertaintyMm: z.number().nullable(),
   calibratedAt: z.string().nullable(),
@@ -39,8 +42,24 @@ export const updateStationRequestSchema = z
   .strictObject({ name: name.optional(), cameraNote: z.string().trim().max(500).optional(), active: z.boolean().optional(), partTypes: partTypes.optional() })
   .refine((v) => Object.keys(v).length > 0, { message: 'Change at least one field' });
 
-/** Calibration from a photo of a target of known size: two edges a known distance apart. */
-export const calibrationRequestSchema = z.strictObject({
+const photoSidePx = (side: 'width' | 'height') =>
+  z.number(`Enter the photos’ ${side} in pixels`).int(`Enter the photos’ ${side} in whole pixels`).positive(`Enter the photos’ ${side} in pixels, at least 1`).max(100_000);
+
+/**
+ * Calibration from a photo of a target of known size: two edges a known distance apart, in a photo of
+ * the station's size (the scale holds only for photos of that size). The calibration screen always
+ * asks for the size.
+ */
+export const calibrationFormSchema = z.strictObject({
   referenceLengthMm: z.number().positive('Enter the target’s length in mm').max(10_000),
   distancePx: z.number().positive('Mark two edges at least a pixel apart').max(100_000),
+  photoWidthPx: photoSidePx('width'),
+  photoHeightPx: photoSidePx('height'),
 });
+/** The API's calibration: older scripts may leave the photo size out (no size check at inspection then). */
+export const calibrationRequestSchema = calibrationFormSchema.partial({ photoWidthPx: true, photoHeightPx: true }).superRefine((c, ctx) => {
+  // One side alone names no photo size.
+  if (c.photoWidthPx === undefined && c.photoHeightPx !== undefined) ctx.addIssue({ code: 'custom', path: ['photoWidthPx'], message: 'Enter the photos’ width in pixels too' });
+  if (c.photoHeightPx === undefined && c.photoWidthPx !== undefined) ctx.addIssue({ code: 'custom', path: ['photoHeightPx'], message: 'Enter the photos’ height in pixels too' });
+});
+export type CalibrationRequest = z.input<typeof calibrationRequestSchema>;

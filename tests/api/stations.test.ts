@@ -38,6 +38,42 @@ test('a calibration needs positive numbers', async () => {
   expect(res.body.error.details.issues[0].path).toBe('distancePx');
 });
 
+// Common practice: a pixel scale holds only for the image size it was measured in, so the calibration
+// keeps that size (DESIGN.md, "Image quality gate": size); the product's own rule asks for whole, positive pixels.
+test('a calibration stores and returns the photo size its scale holds for, and keeps it in the audit trail', async () => {
+  const [line] = (await request(t.app).get('/api/stations/lines').set(supervisor)).body.items;
+  const id = line.stations[0].id;
+  expect(line.stations[0]).toMatchObject({ photoWidthPx: null, photoHeightPx: null });
+  const res = await request(t.app).post(`/api/stations/${id}/calibration`).set(supervisor).send({ referenceLengthMm: 20, distancePx: 228.57, photoWidthPx: 2592, photoHeightPx: 1944 });
+  expect(res.status).toBe(200);
+  expect(stationSchema.parse(res.body)).toMatchObject({ photoWidthPx: 2592, photoHeightPx: 1944 });
+  expect((await request(t.app).get(`/api/stations/${id}`).set(supervisor)).body).toMatchObject({ photoWidthPx: 2592, photoHeightPx: 1944 });
+  const [event] = await t.db.dataSource.query(`select details from audit_events where action = 'station.calibrate' order by seq desc limit 1`);
+  expect(event.details).toMatchObject({ photoWidthPx: 2592, photoHeightPx: 1944, previousPhotoWidthPx: null, previousPhotoHeightPx: null });
+});
+
+test.each([
+  ['zero', { photoWidthPx: 0, photoHeightPx: 1944 }, 'photoWidthPx'],
+  ['negative', { photoWidthPx: 2592, photoHeightPx: -1944 }, 'photoHeightPx'],
+  ['fractional', { photoWidthPx: 2592.5, photoHeightPx: 1944 }, 'photoWidthPx'],
+  ['one side alone', { photoWidthPx: 2592 }, 'photoHeightPx'],
+])('a calibration refuses a photo size that is %s, and keeps the one it had', async (_case, size, path) => {
+  const [line] = (await request(t.app).get('/api/stations/lines').set(supervisor)).body.items;
+  const id = line.stations[0].id;
+  const res = await request(t.app).post(`/api/stations/${id}/calibration`).set(supervisor).send({ referenceLengthMm: 10, distancePx: 400, ...size });
+  expect(res.status).toBe(400);
+  expect(res.body.error.details.issues.map((i: { path: string }) => i.path)).toEqual([path]);
+  expect((await request(t.app).get(`/api/stations/${id}`).set(supervisor)).body).toMatchObject({ photoWidthPx: 2592, photoHeightPx: 1944 });
+});
+
+test('a calibration without a photo size (an older script) still calibrates, and records no size', async () => {
+  const [line] = (await request(t.app).get('/api/stations/lines').set(supervisor)).body.items;
+  const id = line.stations[0].id;
+  const res = await request(t.app).post(`/api/stations/${id}/calibration`).set(supervisor).send({ referenceLengthMm: 10, distancePx: 400 });
+  expect(res.status).toBe(200);
+  expect(res.body).toMatchObject({ mmPerPx: 0.025, photoWidthPx: null, photoHeightPx: null });
+});
+
 test('operators may list stations but not change them', async () => {
   const operator = { Authorization: `Bearer ${await t.tokenFor('tomas')}` };
   const lines = await request(t.app).get('/api/stations/lines').set(operator);

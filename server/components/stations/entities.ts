@@ -1,4 +1,4 @@
-import { Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryColumn, PrimaryGeneratedColumn } from 'typeorm';
+import { Check, Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryColumn, PrimaryGeneratedColumn } from 'typeorm';
 import { PartTypeEntity } from '../catalogue/entities';
 
 @Entity('lines')
@@ -16,6 +16,7 @@ export class LineEntity {
 /** A place on a line where parts are photographed; gauges in mm use its calibration. */
 @Entity('stations')
 @Index('UQ_stations_line_name', ['lineId', 'name'], { unique: true })
+@Check('CHK_stations_photo_size', `(photo_width_px IS NULL) = (photo_height_px IS NULL) AND (photo_width_px IS NULL OR (photo_width_px > 0 AND photo_height_px > 0))`)
 export class StationEntity {
   @PrimaryGeneratedColumn('uuid')
   id: string;
@@ -36,6 +37,13 @@ export class StationEntity {
   /** Millimetres per pixel; null until the station is calibrated. */
   @Column({ name: 'mm_per_px', type: 'double precision', nullable: true })
   mmPerPx: number | null;
+
+  /** The photo size the scale holds for; null when the calibration did not record it (inspections then skip the size check). */
+  @Column({ name: 'photo_width_px', type: 'integer', nullable: true })
+  photoWidthPx: number | null;
+
+  @Column({ name: 'photo_height_px', type: 'integer', nullable: true })
+  photoHeightPx: number | null;
 
   @Column({ name: 'calibrated_at', type: 'timestamptz', nullable: true })
   calibratedAt: Date | null;

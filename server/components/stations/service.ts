@@ -29,6 +29,8 @@ export class StationsService {
       name: station.name,
       cameraNote: station.cameraNote,
       mmPerPx: station.mmPerPx,
+      photoWidthPx: station.photoWidthPx,
+      photoHeightPx: station.photoHeightPx,
       quantisationUncertaintyMm: station.mmPerPx === null ? null : pixelQuantisationUncertaintyMm(station.mmPerPx),
       calibratedAt: station.calibratedAt?.toISOString() ?? null,
       calibratedBy,
@@ -106,14 +108,15 @@ export class StationsService {
     return (await this.get(id)).dto;
   }
 
-  /** Sets the station's scale from a target of known length; who and when are kept with it. */
+  /** Sets the station's scale from a target of known length, and the photo size it holds for; who and when are kept with it. */
   async calibrate(actor: UserEntity, id: string, input: z.output<typeof calibrationRequestSchema>): Promise<Station> {
     const mmPerPx = scaleFromReference(input.referenceLengthMm, input.distancePx);
     await this.dataSource.transaction(async (manager) => {
       const station = await manager.findOne(StationEntity, { where: { id }, lock: { mode: 'pessimistic_write' } });
       if (!station) throw notFound('The station');
-      const before = { mmPerPx: station.mmPerPx };
-      station.mmPerPx = mmPerPx;
+      const before = { mmPerPx: station.mmPerPx, photoWidthPx: station.photoWidthPx, photoHeightPx: station.photoHeightPx };
+      const after = { mmPerPx, photoWidthPx: input.photoWidthPx ?? null, photoHeightPx: input.photoHeightPx ?? null };
+      Object.assign(station, after);
       station.calibratedAt = new Date();
       station.calibratedBy = actor.id;
       await manager.save(station);
@@ -123,8 +126,8 @@ export class StationsService {
         entityType: 'station',
         entityId: id,
         before,
-        after: { mmPerPx },
-        details: { ...input, mmPerPx, previousMmPerPx: before.mmPerPx },
+        after,
+        details: { ...input, mmPerPx, previousMmPerPx: before.mmPerPx, previousPhotoWidthPx: before.photoWidthPx, previousPhotoHeightPx: before.photoHeightPx },
       });
     });
     return (await this.get(id)).dto;

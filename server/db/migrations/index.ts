@@ -9,6 +9,7 @@ import { RecordFilterIndexes1796159960777 } from './1796159960777-RecordFilterIn
 import { PartitionInspectionsByMonth1796169997481 } from './1796169997481-PartitionInspectionsByMonth';
 import { SharedRateLimits1796170734337 } from './1796170734337-SharedRateLimits';
 import { StationPartTypes1796170788720 } from './1796170788720-StationPartTypes';
+import { StationPhotoSize1796172000000 } from './1796172000000-StationPhotoSize';
 
 /** Migrations in the order they run. */
-export const MIGRATIONS: Function[] = [Users1796146987773, AuditTrail1796147129023, PlantRulesInspections1796147286651, MailOutbox1796153281173, AccountLockout1796157769215, TrendsAlertsStudies1796157815152, TrialAttempts1796159530837, RecordFilterIndexes1796159960777, PartitionInspectionsByMonth1796169997481, SharedRateLimits1796170734337, StationPartTypes1796170788720];
+export const MIGRATIONS: Function[] = [Users1796146987773, AuditTrail1796147129023, PlantRulesInspections1796147286651, MailOutbox1796153281173, AccountLockout1796157769215, TrendsAlertsStudies1796157815152, TrialAttempts1796159530837, RecordFilterIndexes1796159960777, PartitionInspectionsByMonth1796169997481, SharedRateLimits1796170734337, StationPartTypes1796170788720, StationPhotoSize1796172000000];

@@ -37,3 +37,29 @@ export function samplingCheck(smallestDefectMm: number, mmPerPx: number, recomme
     return { spanPx, verdict: 'below-recommended', message: `A ${smallestDefectMm} mm defect spans ${span} px: fewer than the ${recommendedPx} px common practice asks for; detection will be unreliable.` };
   return { spanPx, verdict: 'ok', message: `A ${smallestDefectMm} mm defect spans ${span} px.` };
 }
+
+export interface PhotoSize {
+  widthPx: number;
+  heightPx: number;
+}
+
+/** The photo size a station's scale holds for, or null when its calibration recorded none. */
+export function calibratedPhotoSize(station: { photoWidthPx: number | null; photoHeightPx: number | null }): PhotoSize | null {
+  return station.photoWidthPx !== null && station.photoHeightPx !== null ? { widthPx: station.photoWidthPx, heightPx: station.photoHeightPx } : null;
+}
+
+/** "2592×1944": a photo size as the screens and messages write it. */
+export function formatPhotoSize(size: PhotoSize): string {
+  return `${size.widthPx}×${size.heightPx}`;
+}
+
+/**
+ * Why a photo cannot be measured with a station's scale, or null when it can. A scale in mm/px holds
+ * only for photos of the size the target was marked in (common practice): a photo of another size
+ * did not come from that camera set-up, so it asks for a retake (DESIGN.md, "Image quality gate":
+ * size). A calibration that recorded no size checks nothing.
+ */
+export function photoSizeProblem(photo: PhotoSize, calibratedFor: PhotoSize | null): string | null {
+  if (!calibratedFor || (photo.widthPx === calibratedFor.widthPx && photo.heightPx === calibratedFor.heightPx)) return null;
+  return `wrong size: the photo is ${formatPhotoSize(photo)} px; this station’s calibration holds for photos of ${formatPhotoSize(calibratedFor)} px`;
+}

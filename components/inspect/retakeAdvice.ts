@@ -3,6 +3,7 @@ const ADVICE: Record<string, string> = {
   'out of focus': 'The photo is blurred. Hold the part still in the fixture and let the camera focus before taking it.',
   'over-exposed': 'Too much of the photo is pure white. Move the part out of the glare or dim the light.',
   'too dark': 'The photo is too dark. Check the station’s light and that nothing shades the part.',
+  'wrong size': 'The photo is not the size this station’s camera takes, so its millimetres would be wrong. Take it with the station’s camera at its usual setting, not a copy or a crop.',
 };
 
 export function retakeAdvice(cause: string | null): string {

@@ -1,3 +1,4 @@
+import sharp from 'sharp';
 import request from 'supertest';
 import { inspectionSchema } from '../../shared/api/inspections';
 import { spotPhoto, SPOT_RULE } from '../support/photos';
@@ -26,7 +27,8 @@ beforeAll(async () => {
   const { rules, stations } = t.services;
   const line = await stations.createLine(supervisor, { name: 'Line 1' });
   const station = await stations.createStation(supervisor, { lineId: line.id, name: 'Press 1', cameraNote: '' });
-  stationId = (await stations.calibrate(supervisor, station.id, { referenceLengthMm: 10, distancePx: 200 })).id; // 0.05 mm/px
+  // 0.05 mm/px, for photos of the spot photos' 64×48 px.
+  stationId = (await stations.calibrate(supervisor, station.id, { referenceLengthMm: 10, distancePx: 200, photoWidthPx: 64, photoHeightPx: 48 })).id;
   const rule = await rules.create(engineer, { name: 'Plate spots', partType: 'plate', smallestDefectMm: null, document: RULE });
   releasedId = rule.versions[0].id;
   const [v] = await q('select content_hash from rule_versions where id = $1', [releasedId]);
@@ -74,6 +76,36 @@ test('a defective part fails, names the failing gauge and keeps an evidence imag
 test('a dark photo is a RETAKE, never a PASS', async () => {
   const res = await inspect(await photo(4, 0, 20), 'key-dark-0001');
   expect(res.body).toMatchObject({ verdict: 'RETAKE', cause: 'too dark' });
+});
+
+// The product's own rule (DESIGN.md, "Image quality gate": size), after common practice: a pixel scale
+// holds only for photos of the size it was measured in, so the mm figures of another size mean nothing.
+test('a photo of another size than the station’s calibration is a RETAKE with the reason, nothing measured; the calibrated size is judged as usual', async () => {
+  const small = await sharp(Buffer.alloc(32 * 32, 250), { raw: { width: 32, height: 32, channels: 1 } }).png().toBuffer();
+  const res = await inspect(small, 'key-size-00001');
+  expect(res.status).toBe(201);
+  const inspection = inspectionSchema.parse(res.body);
+  expect(inspection).toMatchObject({ verdict: 'RETAKE', cause: 'wrong size', measurements: [], evidenceUrl: null });
+  expect(inspection.quality).toMatchObject({
+    pass: false,
+    problems: ['wrong size: the photo is 32×32 px; this station’s calibration holds for photos of 64×48 px'],
+    widthPx: 32,
+    heightPx: 32,
+  });
+  const [{ n }] = await t.db.dataSource.query(`select count(*)::int as n from measurements where inspection_id = $1`, [inspection.id]);
+  expect(n).toBe(0);
+  // The trends count it as a retake, not as a judged part.
+  const [hours] = await t.db.dataSource.query(`select sum(judged)::int as judged, sum(failed)::int as failed, sum(retakes)::int as retakes from inspection_hours where hour = date_trunc('hour', $1::timestamptz)`, [inspection.createdAt]);
+  const [rows] = await t.db.dataSource.query(
+    `select count(*) filter (where verdict <> 'RETAKE')::int as judged, count(*) filter (where verdict = 'FAIL')::int as failed, count(*) filter (where verdict = 'RETAKE')::int as retakes
+       from inspections where created_at >= date_trunc('hour', $1::timestamptz) and created_at < date_trunc('hour', $1::timestamptz) + interval '1 hour'`,
+    [inspection.createdAt],
+  );
+  expect(hours).toEqual(rows);
+  expect(rows.retakes).toBeGreaterThanOrEqual(1);
+
+  // The same defective part at the calibrated 64×48 px: judged and failed as usual.
+  expect((await inspect(await photo(9, 6), 'key-size-00002')).body).toMatchObject({ verdict: 'FAIL', cause: 'Spot area' });
 });
 
 test('only released versions inspect; bad photos are refused clearly and leave no record', async () => {

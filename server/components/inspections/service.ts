@@ -2,10 +2,11 @@ import crypto from 'node:crypto';
 import { IsNull, Not, type DataSource } from 'typeorm';
 import type { z } from 'zod';
 import type { Inspection, inspectRequestSchema } from '../../../shared/api/inspections';
-import type { RuleRun } from '../../../shared/vision/pipeline';
+import type { Measurement, RuleRun, Verdict } from '../../../shared/vision/pipeline';
 import { AppError, notFound } from '../../lib/errors';
 import type { ImageUrlSigner } from '../../lib/image-urls';
 import type { ImageStore } from '../../lib/storage/image-store';
+import type { DecodedPhoto } from '../../vision/decode';
 import { decodeUploadedPhoto } from '../../vision/decode-upload';
 import { evidencePngOf } from '../../vision/encode';
 import type { EvidenceRaster } from '../../vision/evidence';
@@ -17,6 +18,7 @@ import { RuleEntity, RuleVersionEntity } from '../rules/entities';
 import { LineEntity, StationEntity } from '../stations/entities';
 import { requireStationInspects } from '../stations/part-types';
 import { DisputeEntity, InspectionEntity, MeasurementEntity } from './entities';
+import { wrongSizeQuality } from './photo-size';
 
 type InspectRequest = z.output<typeof inspectRequestSchema>;
 
@@ -59,9 +61,23 @@ function phaseClock(timings: InspectTimings): (phase: 'lookup' | 'decode' | 'pip
 }
 
 /** The first failing gauge, or the quality figure that asked for a retake. */
-export function causeOf(run: RuleRun): string | null {
+export function causeOf(run: { verdict: Verdict; quality: { problems: readonly string[] }; measurements: readonly Pick<Measurement, 'name' | 'pass'>[] }): string | null {
   if (run.verdict === 'RETAKE') return run.quality.problems[0]?.split(':')[0] ?? 'photo quality';
   return run.measurements.find((m) => !m.pass)?.name ?? null;
+}
+
+/** What an inspection stores of its judgement: from the rule's run, or a retake before it. */
+interface Judgement {
+  verdict: Verdict;
+  cause: string | null;
+  quality: Record<string, unknown>;
+  measurements: readonly Measurement[];
+  evidenceHash: string | null;
+}
+
+/** A retake decided before the rule runs: nothing measured, no evidence, the problem as its cause. */
+function unmeasuredRetake(quality: { problems: string[] }): Judgement {
+  return { verdict: 'RETAKE', cause: causeOf({ verdict: 'RETAKE', quality, measurements: [] }), quality, measurements: [], evidenceHash: null };
 }
 
 export class InspectionsService {
@@ -146,18 +162,10 @@ export class InspectionsService {
     // The photo is written while the pipeline runs; the row that names it commits only after both.
     const storing = this.store.put(photoBytes);
     storing.catch(() => undefined);
-    const run = await this.pool.run(version.document, photo, {
-      mmPerPx: station.mmPerPx ?? undefined,
-      retain: 'gauged',
-      images: 'none',
-      transferPhoto: true,
-      evidence: options.evidence !== false,
-    });
-    lap('pipeline');
-    timings.engine = run.ms;
-    timings.steps = run.steps.map((s) => ({ op: s.op, ms: s.ms }));
-    const evidenceHash = run.evidence ? await this.store.put(await this.evidenceOf(run, run.evidence)) : null;
-    lap('evidence');
+    // A photo the station's scale does not hold for is not measured at all: its mm figures would mean nothing.
+    const wrongSize = wrongSizeQuality(photo, station);
+    const judgement = wrongSize ? unmeasuredRetake(wrongSize) : await this.judge(version.document, station, photo, options, timings, lap);
+    const { verdict, measurements } = judgement;
     const imageHash = await storing;
     lap('store');
     const durationMs = performance.now() - started;
@@ -174,19 +182,19 @@ export class InspectionsService {
             partType: rule.partType,
             operatorId: actor.id,
             imageHash,
-            evidenceHash,
-            verdict: run.verdict,
-            cause: causeOf(run),
-            quality: run.quality as unknown as Record<string, unknown>,
+            evidenceHash: judgement.evidenceHash,
+            verdict,
+            cause: judgement.cause,
+            quality: judgement.quality,
             mmPerPx: station.mmPerPx,
             durationMs,
             createdAt: options.at ?? new Date(),
           }),
         );
-        if (run.measurements.length)
+        if (measurements.length)
           await manager.insert(
             MeasurementEntity,
-            run.measurements.map((m, position) => ({
+            measurements.map((m, position) => ({
               inspectionId: inspection.id,
               inspectionCreatedAt: inspection.createdAt,
               position,
@@ -203,8 +211,8 @@ export class InspectionsService {
           action: 'inspection.create',
           entityType: 'inspection',
           entityId: inspection.id,
-          after: { verdict: run.verdict, imageHash, ruleVersionId: version.id, contentHash: version.contentHash },
-          details: { station: station.name, rule: rule.name, version: version.number, verdict: run.verdict },
+          after: { verdict, imageHash, ruleVersionId: version.id, contentHash: version.contentHash },
+          details: { station: station.name, rule: rule.name, version: version.number, verdict },
         });
         return inspection.id;
       });
@@ -220,6 +228,23 @@ export class InspectionsService {
       }
       throw err;
     }
+  }
+
+  /** Runs the rule in the pool at the station's scale; a FAIL's evidence image is stored. */
+  private async judge(document: unknown, station: StationEntity, photo: DecodedPhoto, options: InspectOptions, timings: InspectTimings, lap: ReturnType<typeof phaseClock>): Promise<Judgement> {
+    const run = await this.pool.run(document, photo, {
+      mmPerPx: station.mmPerPx ?? undefined,
+      retain: 'gauged',
+      images: 'none',
+      transferPhoto: true,
+      evidence: options.evidence !== false,
+    });
+    lap('pipeline');
+    timings.engine = run.ms;
+    timings.steps = run.steps.map((s) => ({ op: s.op, ms: s.ms }));
+    const evidenceHash = run.evidence ? await this.store.put(await this.evidenceOf(run, run.evidence)) : null;
+    lap('evidence');
+    return { verdict: run.verdict, cause: causeOf(run), quality: run.quality as unknown as Record<string, unknown>, measurements: run.measurements, evidenceHash };
   }
 
   private evidenceOf(run: RuleRun, raster: EvidenceRaster): Promise<Buffer> {

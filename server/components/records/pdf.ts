@@ -206,8 +206,11 @@ export async function inspectionReport(inspection: Inspection, version: RuleVers
       })),
     );
   heading(doc, 'Quality of the photo');
-  const q = inspection.quality as { focus?: number; clipped?: number; mean?: number };
-  doc.text(`focus ${q.focus?.toFixed(1) ?? '?'}, clipped share ${q.clipped !== undefined ? (q.clipped * 100).toFixed(2) + ' %' : '?'}, mean ${q.mean?.toFixed(1) ?? '?'}`);
+  const q = inspection.quality as { focus?: number; clipped?: number; mean?: number; problems?: string[] };
+  // A photo sent back before the rule ran (wrong size) has its problem and no figures.
+  if (q.focus !== undefined || q.clipped !== undefined || q.mean !== undefined)
+    doc.text(`focus ${q.focus?.toFixed(1) ?? '?'}, clipped share ${q.clipped !== undefined ? (q.clipped * 100).toFixed(2) + ' %' : '?'}, mean ${q.mean?.toFixed(1) ?? '?'}`);
+  for (const problem of q.problems ?? []) doc.text(`Retake: ${problem}`);
   signatures(doc, version);
   doc.moveDown();
   note(doc, SAFETY);

@@ -17,6 +17,7 @@ import { ErrorState, LoadingState } from '../StateViews';
 import { DraftEditor } from './DraftEditor';
 import { VersionState } from './VersionState';
 import { VersionSummary } from './VersionSummary';
+import { TrialFigures } from '../review/TrialFigures';
 
 export function RulePage({ id }: { id: string }) {
   const router = useRouter();
@@ -91,6 +92,12 @@ export function RulePage({ id }: { id: string }) {
         <Card>
           <AppText variant="heading">{`Version ${latest.number}`}</AppText>
           <VersionSummary document={latest.document} />
+          {latest.submittedTrialId ? (
+            <View style={styles.trial}>
+              <AppText variant="bodyStrong">{`The trial submitted with version ${latest.number}`}</AppText>
+              <TrialFigures trialId={latest.submittedTrialId} />
+            </View>
+          ) : null}
         </Card>
       ) : null}
     </Screen>
@@ -102,4 +109,5 @@ const styles = StyleSheet.create({
   grow: { flexGrow: 1, flexShrink: 1, flexBasis: 200 },
   newDraft: { gap: space.sm, marginTop: space.sm },
   start: { alignSelf: 'flex-start' },
+  trial: { gap: space.sm, marginTop: space.md },
 });

@@ -130,6 +130,9 @@ describe.each([
       await engineer.goto(`${product.url}/rules/${row.id}`);
       await engineer.getByText(/^Version 2 is in review\. A rule has one open draft or review at a time/).waitFor();
       expect(await engineer.getByRole('button', { name: /^New draft from version/ }).count()).toBe(0);
+      // The author still reads the trial the version went to review with.
+      await engineer.getByText('The trial submitted with version 2').waitFor();
+      await engineer.getByRole('table', { name: 'Confusion table: labels against verdicts' }).waitFor();
       await screenshot(engineer, `rule-in-review-engineer-${widthName}`);
     });
   });

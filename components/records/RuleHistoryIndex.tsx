@@ -11,7 +11,7 @@ import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { Card } from '../Card';
 import { Pagination } from '../Pagination';
-import { VersionStateLabel } from '../review/VersionStateLabel';
+import { VersionState } from '../rules/VersionState';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
@@ -31,8 +31,7 @@ function RuleLine({ rule }: { rule: RuleSummary }) {
           {[rule.releasedVersion, rule.releasedVersion?.id === rule.latestVersion.id ? null : rule.latestVersion].map((v) =>
             v ? (
               <View key={v.id} style={styles.state}>
-                <AppText variant="label">{`v${v.number}`}</AppText>
-                <VersionStateLabel state={v.state} />
+                <VersionState state={v.state} number={v.number} sentBack={v.sentBack} />
               </View>
             ) : null,
           )}

@@ -4,6 +4,7 @@ import { useRouter } from 'expo-router';
 import { useRuleDetail, useRuleVersion, useSendBackVersion, useWithdrawVersion } from '../../hooks/useReview';
 import { useSession } from '../../hooks/useSession';
 import { formatDate } from '../../lib/format';
+import { isSentBack } from '../../shared/api/rules';
 import { diffRuleDocuments } from '../../shared/rules/diff';
 import { space } from '../../lib/theme';
 import { AppText } from '../AppText';
@@ -17,7 +18,7 @@ import { ReleaseDialog } from './ReleaseDialog';
 import { RuleDiffTable } from './RuleDiffTable';
 import { SignatureList } from './SignatureList';
 import { TrialFigures } from './TrialFigures';
-import { VersionStateLabel } from './VersionStateLabel';
+import { VersionState } from '../rules/VersionState';
 
 type Decision = 'release' | 'send-back' | 'withdraw' | null;
 
@@ -45,7 +46,7 @@ export function VersionReview({ versionId }: { versionId: string }) {
       subtitle={`Written by ${v.author.name}${v.submittedAt ? `, submitted ${formatDate(v.submittedAt)}` : ''}`}
       actions={<Button label="Back to the review list" variant="quiet" compact onPress={() => router.push('/review')} />}
     >
-      <VersionStateLabel state={v.state} />
+      <VersionState state={v.state} sentBack={isSentBack(v)} />
       {v.state === 'withdrawn' && v.withdrawReason ? <AppText>{`Withdrawn: “${v.withdrawReason}”`}</AppText> : null}
 
       <Card>

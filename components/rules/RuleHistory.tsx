@@ -14,7 +14,8 @@ import { Button } from '../Button';
 import { Card } from '../Card';
 import { ExportButton } from '../records/ExportButton';
 import { SignatureList } from '../review/SignatureList';
-import { VersionStateLabel } from '../review/VersionStateLabel';
+import { VersionState } from './VersionState';
+import { isSentBack } from '../../shared/api/rules';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 
@@ -122,7 +123,7 @@ function VersionCard({ version, open, canPrint, focused }: { version: RuleHistor
     <Card style={[styles.card, focused && styles.focused]}>
       <View style={styles.header}>
         <AppText variant="heading">{`Version ${version.number}`}</AppText>
-        <VersionStateLabel state={version.state} />
+        <VersionState state={version.state} sentBack={isSentBack(version)} />
       </View>
       {focused ? <AppText tone="notice" variant="label">→ The version the inspection you came from was judged with.</AppText> : null}
       <AppText>{facts.join(' · ')}</AppText>

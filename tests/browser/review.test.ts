@@ -239,7 +239,7 @@ describe.each([
     await screenshot(page, `review-send-back-${widthName}`);
     await dialog.getByRole('button', { name: 'Send back' }).click();
     await dialog.waitFor({ state: 'hidden' });
-    await page.getByText('✎ Draft').waitFor();
+    await page.getByText('↩ Draft, sent back').waitFor();
     await page.getByText(/Reviewer’s note: “Try the median/).waitFor();
     expect(await versionState(bracketV2)).toMatchObject({ state: 'draft', review_note: 'Try the median on the reference set with the JPEG photos first; the trial has none.' });
   });

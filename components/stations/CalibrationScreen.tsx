@@ -5,8 +5,8 @@ import { useCalibrateStation, useLines } from '../../hooks/useStations';
 import { validateForm, type FieldErrors } from '../../lib/formErrors';
 import { pickPhoto, type PickedPhoto } from '../../lib/pickPhoto';
 import { colors, radius, space } from '../../lib/theme';
-import { pixelQuantisationUncertaintyMm, scaleFromReference } from '../../shared/calibration';
-import { calibrationRequestSchema } from '../../shared/api/stations';
+import { calibratedPhotoSize, pixelQuantisationUncertaintyMm, scaleFromReference } from '../../shared/calibration';
+import { calibrationFormSchema } from '../../shared/api/stations';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 import { Card } from '../Card';
@@ -15,11 +15,20 @@ import { ErrorBanner } from '../ErrorBanner';
 import { Screen } from '../Screen';
 import { EmptyState, ErrorState, LoadingState } from '../StateViews';
 import { TextField } from '../TextField';
-import { CalibrationSummary, formatScale } from './CalibrationSummary';
+import { CalibrationSummary, formatCalibration } from './CalibrationSummary';
 import { pixelDistance, TargetPointPicker, type ImagePoint, type MarkPlacement } from './TargetPointPicker';
 
 function parseNumber(text: string): number {
   return text.trim() === '' ? Number.NaN : Number(text.replace(',', '.'));
+}
+
+/** A whole number of pixels, one of a pair side by side. */
+function PixelField({ label, value, error, onChange }: { label: string; value: string; error?: string; onChange: (text: string) => void }) {
+  return (
+    <View style={styles.sizeField}>
+      <TextField label={label} value={value} onChangeText={onChange} keyboardType="number-pad" inputMode="numeric" error={error} />
+    </View>
+  );
 }
 
 /** Calibrate a station from a target of known length: mm/px and its quantisation uncertainty shown before saving. */
@@ -29,6 +38,8 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
   const calibrate = useCalibrateStation();
   const [lengthText, setLengthText] = useState('');
   const [distanceText, setDistanceText] = useState('');
+  const [widthText, setWidthText] = useState('');
+  const [heightText, setHeightText] = useState('');
   const [photo, setPhoto] = useState<PickedPhoto>();
   const [points, setPoints] = useState<ImagePoint[]>([]);
   const [placement, setPlacement] = useState<MarkPlacement>('tapped');
@@ -50,12 +61,19 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
   const distancePx = parseNumber(distanceText);
   const ready = referenceLengthMm > 0 && distancePx > 0;
   const mmPerPx = ready ? scaleFromReference(referenceLengthMm, distancePx) : null;
+  const photoWidthPx = parseNumber(widthText);
+  const photoHeightPx = parseNumber(heightText);
+  const photoSize = Number.isInteger(photoWidthPx) && Number.isInteger(photoHeightPx) && photoWidthPx > 0 && photoHeightPx > 0 ? { widthPx: photoWidthPx, heightPx: photoHeightPx } : null;
 
   const choosePhoto = async () => {
     const picked = await pickPhoto('library').catch(() => undefined);
     if (picked) {
       setPhoto(picked);
       setPoints([]);
+      // The target's photo comes from the station's camera: its size is the size the scale holds for.
+      setWidthText(String(picked.width));
+      setHeightText(String(picked.height));
+      setErrors((e) => ({ ...e, photoWidthPx: undefined, photoHeightPx: undefined }));
     }
   };
   const markPoints = (next: ImagePoint[], how: MarkPlacement) => {
@@ -66,10 +84,15 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
       setErrors((e) => ({ ...e, distancePx: undefined }));
     }
   };
+  const changeSize = (field: 'photoWidthPx' | 'photoHeightPx', text: string) => {
+    (field === 'photoWidthPx' ? setWidthText : setHeightText)(text);
+    setErrors((e) => ({ ...e, [field]: undefined }));
+  };
   const review = () => {
-    const result = validateForm(calibrationRequestSchema, { referenceLengthMm, distancePx });
+    const result = validateForm(calibrationFormSchema, { referenceLengthMm, distancePx, photoWidthPx, photoHeightPx });
     if (!result.ok) {
       setErrors({
+        ...result.errors,
         referenceLengthMm: Number.isNaN(referenceLengthMm) ? 'Enter the target’s length in mm' : result.errors.referenceLengthMm,
         distancePx: Number.isNaN(distancePx) ? 'Mark two edges on the photo or enter the distance in pixels' : result.errors.distancePx,
       });
@@ -89,11 +112,6 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
         <AppText variant="heading">Now</AppText>
         <CalibrationSummary station={station} />
       </Card>
-      {saved ? (
-        <View style={styles.notice} role="status">
-          <AppText variant="bodyStrong" tone="notice">✓ Calibration saved. Gauges in mm at this station use it from the next inspection.</AppText>
-        </View>
-      ) : null}
       <Card style={styles.form}>
         <AppText variant="heading">New calibration</AppText>
         <AppText tone="muted">
@@ -136,10 +154,15 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
           inputMode="decimal"
           error={errors.distancePx}
         />
+        <AppText tone="muted">The scale holds only for photos of this size from this camera; photos of another size are sent back for a retake.</AppText>
+        <View style={styles.sizeRow}>
+          <PixelField label="Photo width (px)" value={widthText} error={errors.photoWidthPx} onChange={(text) => changeSize('photoWidthPx', text)} />
+          <PixelField label="Photo height (px)" value={heightText} error={errors.photoHeightPx} onChange={(text) => changeSize('photoHeightPx', text)} />
+        </View>
         <View style={styles.result} role="status" aria-live="polite">
           {mmPerPx !== null ? (
             <>
-              <AppText variant="heading">{formatScale(mmPerPx)}</AppText>
+              <AppText variant="heading">{formatCalibration(mmPerPx, photoSize)}</AppText>
               <AppText>{`Standard uncertainty from one pixel’s quantisation, u = s/√12 = ${Number(pixelQuantisationUncertaintyMm(mmPerPx).toPrecision(3))} mm`}</AppText>
               <AppText variant="caption" tone="muted">{`${referenceLengthMm} mm over ${distancePx} px. One pixel is ${Number(mmPerPx.toPrecision(4))} mm wide here.`}</AppText>
             </>
@@ -147,6 +170,12 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
             <AppText tone="muted">Enter the length and the distance to see the scale.</AppText>
           )}
         </View>
+        {/* Beside the button just pressed: the dialog gives the focus back to it, on a phone far below the top. */}
+        {saved ? (
+          <View style={styles.notice} role="status">
+            <AppText variant="bodyStrong" tone="notice">✓ Calibration saved. Gauges in mm at this station use it from the next inspection.</AppText>
+          </View>
+        ) : null}
         <View style={styles.actions}>
           <Button label="Save calibration" onPress={review} />
         </View>
@@ -154,7 +183,7 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
       <ConfirmDialog
         visible={confirming}
         title="Save this calibration?"
-        message={`${station.name} will measure at ${mmPerPx !== null ? formatScale(mmPerPx) : '—'}${station.mmPerPx !== null ? ` instead of ${formatScale(station.mmPerPx)}` : ''}. Every gauge in mm or mm² at this station uses it from the next inspection; earlier inspections keep the scale they were measured with.`}
+        message={`${station.name} will measure at ${mmPerPx !== null ? formatCalibration(mmPerPx, photoSize) : '—'}${station.mmPerPx !== null ? ` instead of ${formatCalibration(station.mmPerPx, calibratedPhotoSize(station))}` : ''}. Every gauge in mm or mm² at this station uses it from the next inspection; a photo of another size gets RETAKE. Earlier inspections keep the scale they were measured with.`}
         confirmLabel="Save calibration"
         busy={calibrate.isPending}
         error={calibrate.error}
@@ -164,13 +193,15 @@ export function CalibrationScreen({ stationId }: { stationId: string }) {
         }}
         onConfirm={() =>
           calibrate.mutate(
-            { id: station.id, referenceLengthMm, distancePx },
+            { id: station.id, referenceLengthMm, distancePx, photoWidthPx, photoHeightPx },
             {
               onSuccess: () => {
                 setConfirming(false);
                 setSaved(true);
                 setLengthText('');
                 setDistanceText('');
+                setWidthText('');
+                setHeightText('');
                 setPoints([]);
                 // The form closes up, so that the confirmation and the new scale at the top are in view.
                 setPhoto(undefined);
@@ -188,5 +219,7 @@ const styles = StyleSheet.create({
   form: { gap: space.md },
   result: { gap: space.xxs, padding: space.md, borderRadius: radius.md, backgroundColor: colors.surfaceSunken },
   actions: { flexDirection: 'row', justifyContent: 'flex-end' },
+  sizeRow: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
+  sizeField: { flexGrow: 1, flexBasis: 140 },
   notice: { padding: space.md, borderRadius: radius.md, borderWidth: 1, borderLeftWidth: 4, borderColor: colors.notice, backgroundColor: colors.noticeTint },
 });

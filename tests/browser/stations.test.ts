@@ -22,6 +22,8 @@ const BLOCK = { left: 300, right: 700, top: 300, bottom: 600 };
 const BLOCK_MM = 10;
 // REFERENCES.md §8 (calibration basics, worked example): 10.00 mm over 400.0 px is 0.025 mm/px.
 const EXPECTED_SCALE = '0.025 mm/px';
+// The scale holds only for photos of the target photo's size (common practice; DESIGN.md's quality gate: size).
+const EXPECTED_CALIBRATION = `${EXPECTED_SCALE} for ${PHOTO.width}×${PHOTO.height} photos`;
 // One pixel's quantisation, s/√12 (GUM JCGM 100:2008 §F.2.2.1, rectangular distribution; from memory):
 // 0.025 / 3.4641 = 0.0072169 mm, shown to three significant figures, written "u = …" and not "±…": the
 // GUM keeps ± for an interval of stated coverage (JCGM 100:2008 §7.2.2; from memory).
@@ -112,20 +114,28 @@ describe.each([
     await tapPhotoAt(page, BLOCK.right - 6, 452);
     await page.getByText(/^✓ A and B moved onto the edges nearest your taps/).waitFor();
     expect(await page.getByLabel('Distance between the two edges (px)').inputValue()).toBe('400.0');
+    // The photo size comes from the target's photo; the screen refuses a size that is not whole pixels.
+    const width = page.getByLabel('Photo width (px)');
+    expect(await width.inputValue()).toBe(String(PHOTO.width));
+    expect(await page.getByLabel('Photo height (px)').inputValue()).toBe(String(PHOTO.height));
+    await width.fill('1200.5');
+    await page.getByRole('button', { name: 'Save calibration' }).click();
+    await page.getByText('Enter the photos’ width in whole pixels').waitFor();
+    await width.fill(String(PHOTO.width));
     const result = page.getByRole('status').filter({ hasText: 'Standard uncertainty from one pixel’s quantisation' });
-    await result.getByText(EXPECTED_SCALE, { exact: true }).waitFor();
+    await result.getByText(EXPECTED_CALIBRATION, { exact: true }).waitFor();
     await result.getByText(`Standard uncertainty from one pixel’s quantisation, u = s/√12 = ${EXPECTED_UNCERTAINTY_MM}`).waitFor();
     await result.scrollIntoViewIfNeeded();
     await screenshot(page, `stations-calibration-marked-${widthName}`);
 
     await page.getByRole('button', { name: 'Save calibration' }).click();
     const confirm = openDialog(page);
-    await confirm.getByText(`${stationName} will measure at ${EXPECTED_SCALE}.`, { exact: false }).waitFor();
+    await confirm.getByText(`${stationName} will measure at ${EXPECTED_CALIBRATION}.`, { exact: false }).waitFor();
     await confirm.getByRole('button', { name: 'Save calibration' }).click();
     await confirm.waitFor({ state: 'hidden' });
     const saved = page.getByText(/^✓ Calibration saved/);
     await saved.waitFor();
-    await page.getByText(`${EXPECTED_SCALE} · quantisation ${EXPECTED_UNCERTAINTY}`).waitFor();
+    await page.getByText(`${EXPECTED_CALIBRATION} · quantisation ${EXPECTED_UNCERTAINTY}`).waitFor();
     await page.getByText(/^Calibrated by Mara Lindqvist on /).waitFor();
     // The form closes up after saving, so the confirmation is in view where the person was.
     expect(await page.getByRole('button', { name: /^Photo of the calibration target/ }).count()).toBe(0);
@@ -135,15 +145,16 @@ describe.each([
     expect(box.y + box.height).toBeLessThanOrEqual(viewport.height);
     await screenshot(page, `stations-calibrated-${widthName}`);
 
-    const [row] = await product.db.dataSource.query(`select s.mm_per_px, u.username from stations s join users u on u.id = s.calibrated_by where s.name = $1`, [stationName]);
+    const [row] = await product.db.dataSource.query(`select s.mm_per_px, s.photo_width_px, s.photo_height_px, u.username from stations s join users u on u.id = s.calibrated_by where s.name = $1`, [stationName]);
     expect(row.mm_per_px).toBeCloseTo(0.025, 12);
+    expect([row.photo_width_px, row.photo_height_px]).toEqual([PHOTO.width, PHOTO.height]);
     expect(row.username).toBe('supervisor');
     expect(errors).toEqual([]);
   });
 
   test('the stations list shows the new calibration with who set it', async () => {
     await page.getByRole('button', { name: 'Back to stations' }).click();
-    const card = page.getByText(`${EXPECTED_SCALE} · quantisation ${EXPECTED_UNCERTAINTY}`);
+    const card = page.getByText(`${EXPECTED_CALIBRATION} · quantisation ${EXPECTED_UNCERTAINTY}`);
     await card.first().waitFor();
     expect(await page.getByText(/^Calibrated by Mara Lindqvist on /).count()).toBeGreaterThan(0);
     await screenshot(page, `stations-list-calibrated-${widthName}`);

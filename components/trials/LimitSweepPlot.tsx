@@ -135,7 +135,8 @@ const styles = StyleSheet.create({
   draft: { borderRadius: 0, backgroundColor: colors.steel },
   list: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
   start: { alignSelf: 'flex-start' },
-  option: { minHeight: 44, justifyContent: 'center', paddingHorizontal: space.sm, borderWidth: 1, borderColor: colors.control, borderRadius: radius.md },
+  // A row as wide as its text, never wider than the list: a long range wraps onto a second line.
+  option: { minHeight: 44, maxWidth: '100%', justifyContent: 'center', paddingHorizontal: space.sm, borderWidth: 1, borderColor: colors.control, borderRadius: radius.md },
   optionPressed: { backgroundColor: colors.steelTint },
   optionChosen: { backgroundColor: colors.steelTint, borderColor: colors.steel },
 });

@@ -296,6 +296,10 @@ describe('at phone width', () => {
     const rowTexts = await limitRows.allInnerTexts();
     expect(rowTexts.length).toBeGreaterThan(0);
     expect(new Set(rowTexts).size).toBe(rowTexts.length);
+    for (const row of await limitRows.all()) {
+      const rowBox = (await row.boundingBox())!;
+      expect(rowBox.x + rowBox.width).toBeLessThanOrEqual(PHONE.width);
+    }
     await limitRows.first().click();
     await page.getByText(/\(draft\) has unsaved changes/).waitFor();
     expect(errors).toEqual([]);

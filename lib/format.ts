@@ -6,6 +6,14 @@ export function formatDate(iso: string): string {
   return Number.isNaN(date.getTime()) ? '—' : dateFormat.format(date);
 }
 
+const dateTimeFormat = new Intl.DateTimeFormat(undefined, { year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', second: '2-digit' });
+
+/** A moment as every list and page writes it ("Dec 5, 2026, 10:21:12 AM" in an English browser). */
+export function formatDateTime(iso: string): string {
+  const date = new Date(iso);
+  return Number.isNaN(date.getTime()) ? '—' : dateTimeFormat.format(date);
+}
+
 /** "21–40 of 57" for a page of a list. */
 export function describePage(offset: number, shown: number, total: number): string {
   if (total === 0 || shown === 0) return `0 of ${total}`;

@@ -1,4 +1,5 @@
 import { Link } from 'expo-router';
+import { formatDateTime } from '../../lib/format';
 import { Image, Pressable, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
 import { useInspectionRecord } from '../../hooks/useRecords';
@@ -23,7 +24,7 @@ export function InspectionRecord({ id }: { id: string }) {
   return (
     <Screen
       title={`Inspection record ${recordReference(i.id)}`}
-      subtitle={`${new Date(i.createdAt).toLocaleString()} · ${i.lineName}, ${i.stationName}`}
+      subtitle={`${formatDateTime(i.createdAt)} · ${i.lineName}, ${i.stationName}`}
       actions={<ExportButton label="PDF report" path={`/api/records/inspections/${i.id}/report.pdf`} fallbackName={`inspection-${i.id}.pdf`} />}
     >
       <VerdictPanel inspection={i} recorded />

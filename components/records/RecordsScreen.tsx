@@ -1,4 +1,5 @@
 import { Link, useLocalSearchParams, useRouter } from 'expo-router';
+import { formatDateTime } from '../../lib/format';
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { useLayout } from '../../hooks/useLayout';
@@ -82,17 +83,16 @@ function LinkedFiltersNote({ linked, lineName, onClear }: { linked: LinkedFilter
 }
 
 function RecordLine({ row, phone }: { row: RecordRow; phone: boolean }) {
-  const when = new Date(row.createdAt);
   return (
     <Link href={`/records/${row.id}`} asChild>
-      <Pressable accessibilityRole="link" accessibilityLabel={`${row.verdict}, ${row.ruleName} at ${row.stationName}, ${when.toLocaleString()}, record ${recordReference(row.id)}`} style={StyleSheet.flatten([styles.row, phone && styles.rowPhone])}>
+      <Pressable accessibilityRole="link" accessibilityLabel={`${row.verdict}, ${row.ruleName} at ${row.stationName}, ${formatDateTime(row.createdAt)}, record ${recordReference(row.id)}`} style={StyleSheet.flatten([styles.row, phone && styles.rowPhone])}>
         <VerdictMark verdict={row.verdict} size={RECORD_MARK} />
         <View style={styles.cellMain}>
           <AppText variant="bodyStrong">{`${row.verdict}${row.cause ? ` · ${row.cause}` : ''}${row.disputed ? ' · disputed' : ''}`}</AppText>
           <AppText variant="caption" tone="muted">{`${row.ruleName} v${row.ruleVersionNumber} · ${row.lineName}, ${row.stationName}`}</AppText>
         </View>
         <View style={[styles.cellSide, phone && styles.cellSidePhone]}>
-          <AppText variant="caption">{when.toLocaleString()}</AppText>
+          <AppText variant="caption">{formatDateTime(row.createdAt)}</AppText>
           <AppText variant="caption" tone="muted">
             {`${row.operatorName} · record ${recordReference(row.id)}`}
           </AppText>

@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { formatDate } from '../../lib/format';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { useRepeatabilityStudies } from '../../hooks/useStudies';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
@@ -67,7 +68,7 @@ export function RepeatabilityPanel({ canRun }: { canRun: boolean }) {
               </AppText>
               <View style={styles.grow}>
                 <AppText variant="bodyStrong">{`${study.partLabel} · ${study.ruleName} v${study.ruleVersionNumber}`}</AppText>
-                <AppText variant="caption" tone="muted">{`${study.stationName} · ${study.photos} photos · ${study.verdicts.PASS} PASS, ${study.verdicts.FAIL} FAIL, ${study.verdicts.RETAKE} RETAKE · ${new Date(study.createdAt).toLocaleDateString()}`}</AppText>
+                <AppText variant="caption" tone="muted">{`${study.stationName} · ${study.photos} photos · ${study.verdicts.PASS} PASS, ${study.verdicts.FAIL} FAIL, ${study.verdicts.RETAKE} RETAKE · ${formatDate(study.createdAt)}`}</AppText>
               </View>
             </Pressable>
           ))}

@@ -1,4 +1,5 @@
 import { ScrollView, StyleSheet, View } from 'react-native';
+import { formatDateTime } from '../../lib/format';
 import { colors, minTouchTarget, radius, space } from '../../lib/theme';
 import type { RepeatabilityStudy } from '../../shared/api/studies';
 import { unitSuffix } from '../../shared/rules/units';
@@ -35,7 +36,7 @@ export function RepeatabilityResult({ study }: { study: RepeatabilityStudy }) {
   const warning = againstKnown(study);
   return (
     <View style={styles.result}>
-      <AppText tone="muted">{`Part “${study.partLabel}” (${KNOWN_WORDS[study.knownLabel]}) · ${study.ruleName} v${study.ruleVersionNumber} at ${study.stationName} · ${study.photos} photos · ${study.createdBy}, ${new Date(study.createdAt).toLocaleString()}`}</AppText>
+      <AppText tone="muted">{`Part “${study.partLabel}” (${KNOWN_WORDS[study.knownLabel]}) · ${study.ruleName} v${study.ruleVersionNumber} at ${study.stationName} · ${study.photos} photos · ${study.createdBy}, ${formatDateTime(study.createdAt)}`}</AppText>
       <View style={[styles.verdictLine, study.consistent ? styles.same : styles.differs]}>
         <AppText variant="bodyStrong" tone={study.consistent ? 'notice' : 'danger'}>
           {judged === 0

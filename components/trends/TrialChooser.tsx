@@ -1,4 +1,5 @@
 import { StyleSheet, View } from 'react-native';
+import { formatDate } from '../../lib/format';
 import { useRule } from '../../hooks/useRules';
 import { useTrialsOfVersion } from '../../hooks/useTrials';
 import { space } from '../../lib/theme';
@@ -25,7 +26,7 @@ function FinishedTrials({ versionId, trialId, onTrial }: { versionId: string; tr
       label="Finished trial"
       value={trialId}
       onChange={onTrial}
-      choices={done.map((t) => ({ value: t.id, label: `${t.referenceSetName} · ${new Date(t.finishedAt ?? t.createdAt).toLocaleDateString()}` }))}
+      choices={done.map((t) => ({ value: t.id, label: `${t.referenceSetName} · ${formatDate(t.finishedAt ?? t.createdAt)}` }))}
     />
   );
 }

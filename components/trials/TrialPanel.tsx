@@ -5,7 +5,7 @@ import { StyleSheet, View } from 'react-native';
 import type { RuleVersion } from '../../shared/api/rules';
 import type { Station } from '../../shared/api/stations';
 import type { Trial } from '../../shared/api/trials';
-import { stationTitle } from '../../lib/format';
+import { stationTitle, formatDateTime } from '../../lib/format';
 import { colors, radius, space } from '../../lib/theme';
 import { useReferenceSets } from '../../hooks/useReferenceSets';
 import { isTrialRunning, useLimitSweep, useStartTrial, useTrial, useTrialsOfVersion } from '../../hooks/useTrials';
@@ -142,7 +142,7 @@ export function TrialPanel({ version, partType, stations, stationId, onStation, 
       ) : (
         <View style={styles.panel}>
           <AppText variant="bodyStrong">
-            {`Trial on ${trial.data.referenceSetName}${trial.data.mmPerPx ? ` at ${trial.data.mmPerPx.toPrecision(3)} mm/px` : ''} · ${new Date(trial.data.createdAt).toLocaleString()}`}
+            {`Trial on ${trial.data.referenceSetName}${trial.data.mmPerPx ? ` at ${trial.data.mmPerPx.toPrecision(3)} mm/px` : ''} · ${formatDateTime(trial.data.createdAt)}`}
           </AppText>
           {trial.data.contentHash !== version.contentHash ? (
             <AppText tone="caution">⚠ This trial ran on an earlier content of the draft; run it again to see the current figures.</AppText>

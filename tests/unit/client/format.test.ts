@@ -1,6 +1,6 @@
 // A gauge's value as every screen writes it (lib/format.ts): the preview, the trial's limit sweep
 // and the operator's verdict share it; a chart's bar labels are fitted to the room below their bar.
-import { fitLines, formatGaugeValue } from '../../../lib/format';
+import { fitLines, formatDate, formatDateTime, formatGaugeValue } from '../../../lib/format';
 
 describe('formatGaugeValue', () => {
   it('keeps whole numbers whole and gives decimals by size', () => {
@@ -40,5 +40,15 @@ describe('fitLines', () => {
 
   it('cuts a word longer than a line', () => {
     expect(fitLines('Eccentricity', 8, 2)).toBe('Eccentri\ncity');
+  });
+});
+
+describe('formatDateTime', () => {
+  it('writes a moment with the same date as formatDate and the time to the second', () => {
+    const iso = '2026-12-05T10:21:12.000Z';
+    const written = formatDateTime(iso);
+    expect(written).toContain(formatDate(iso).split(',')[0]);
+    expect(written).toMatch(/\d{1,2}:21:12/);
+    expect(formatDateTime('not a date')).toBe('—');
   });
 });

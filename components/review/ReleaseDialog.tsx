@@ -34,6 +34,8 @@ export function ReleaseDialog({ version, visible, onClose, onReleased }: Release
   // The submitted trial's cautions (a wrong PASS ships a bad part): the signer ticks that they read them.
   const trial = useTrial(version.submittedTrialId);
   const cautions = trial.data?.summary ? trialCautions(trial.data.summary) : [];
+  // Until the trial is read, its cautions are unknown: nothing is signed meanwhile.
+  const trialUnread = Boolean(version.submittedTrialId) && !trial.data;
   const [accepted, setAccepted] = useState(false);
   const [acceptError, setAcceptError] = useState<string>();
 
@@ -83,7 +85,7 @@ export function ReleaseDialog({ version, visible, onClose, onReleased }: Release
               onPress={() => {
                 if (cautions.length > 0 && !accepted) setAcceptError('Tick this to release the rule with these results, or close and send it back.');
                 if (!password) setPasswordError('Enter your password to sign');
-                if (password && (cautions.length === 0 || accepted)) setConfirming(true);
+                if (password && !trialUnread && (cautions.length === 0 || accepted)) setConfirming(true);
               }}
             />
           </>
@@ -97,6 +99,9 @@ export function ReleaseDialog({ version, visible, onClose, onReleased }: Release
       ) : (
         <View style={styles.form}>
           <AppText>Your signature records your name, the date and time, and what it means. It stays bound to this exact content.</AppText>
+          {trialUnread ? (
+            <AppText tone="caution" role="status">{trial.isError ? '⚠ The submitted trial could not be read: reload the page before signing.' : 'Reading the submitted trial’s figures…'}</AppText>
+          ) : null}
           {cautions.map((caution) => (
             <AppText key={caution} tone="danger" variant="bodyStrong">{`⚠ ${caution}`}</AppText>
           ))}

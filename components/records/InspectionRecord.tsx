@@ -48,7 +48,7 @@ export function InspectionRecord({ id }: { id: string }) {
             <AppText tone="steel">{`History of version ${i.ruleVersionNumber}: signatures, trials, changes ›`}</AppText>
           </Pressable>
         </Link>
-        <AppText>{`Calibration: ${i.mmPerPx ? `${i.mmPerPx.toPrecision(5)} mm/px` : 'none'}`}</AppText>
+        <AppText>{`Calibration: ${i.mmPerPx ? `${Number(i.mmPerPx.toPrecision(5))} mm/px` : 'none'}`}</AppText>
         <AppText tone="muted" variant="caption">{`Recorded in ${Math.round(i.durationMs)} ms · idempotency key ${i.idempotencyKey}`}</AppText>
         {i.dispute ? (
           <AppText>{`Disputed: “${i.dispute.note}”${i.dispute.resolvedAt ? ` — judged ${i.dispute.judgement} (${i.dispute.resolutionNote})` : ' — waiting for a qualified person'}`}</AppText>

@@ -133,7 +133,7 @@ async function preparePlant(config: ReturnType<typeof loadConfig>, options: Scal
     const perFamily = Math.ceil(options.inspections / FAMILY_NAMES.length);
     for (const family of FAMILY_NAMES) {
       const station = await services.stations.createStation(supervisor, { lineId: line.id, name: `Scale proof ${family}`, cameraNote: `${DEMO_FRAME.width}×${DEMO_FRAME.height}` });
-      await services.stations.calibrate(supervisor, station.id, { referenceLengthMm: 20, distancePx: 20 / demoScale(family) });
+      await services.stations.calibrate(supervisor, station.id, { referenceLengthMm: 20, distancePx: 20 / demoScale(family), photoWidthPx: DEMO_FRAME.width, photoHeightPx: DEMO_FRAME.height });
       plant.stations.set(family, station.id);
       const [released] = await dataSource.query(
         `select v.id from rule_versions v join rules r on r.id = v.rule_id where r.part_type = $1 and v.state = 'released' order by v.created_at desc limit 1`,

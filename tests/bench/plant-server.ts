@@ -52,7 +52,7 @@ export async function preparePlant(databaseUrl: string, imageDir: string, statio
     const stationIds: string[] = [];
     for (let i = 1; i <= stations; i++) {
       const station = await services.stations.createStation(supervisor, { lineId: line.id, name: `5 MP station ${i}`, cameraNote: `${FRAME.width}×${FRAME.height} JPEG` });
-      await services.stations.calibrate(supervisor, station.id, { referenceLengthMm: 20, distancePx: 20 / mmPerPx });
+      await services.stations.calibrate(supervisor, station.id, { referenceLengthMm: 20, distancePx: 20 / mmPerPx, photoWidthPx: FRAME.width, photoHeightPx: FRAME.height });
       stationIds.push(station.id);
     }
     const rule = await dataSource.getRepository(RuleEntity).findOneByOrFail({ name: RULE_NAME });

@@ -27,9 +27,12 @@ export function CreateRuleDialog({ onClose, onCreated }: { onClose: () => void; 
     if (!name.trim()) local.name = 'Enter a name';
     if (!partType) local.partType = 'Choose the part type';
     const mm = smallest.trim() === '' ? null : Number(smallest.replace(',', '.'));
-    // The server's own check, so that what passes here is not refused there.
-    const size = createRuleRequestSchema.shape.smallestDefectMm.safeParse(Number.isNaN(mm) ? 'not a number' : mm);
-    if (!size.success) local.smallestDefectMm = Number.isNaN(mm) ? 'Enter a size in mm, or leave it empty' : size.error.issues[0].message;
+    if (Number.isNaN(mm)) local.smallestDefectMm = 'Enter a size in mm, or leave it empty';
+    else {
+      // The server's own check, so that what passes here is not refused there.
+      const size = createRuleRequestSchema.shape.smallestDefectMm.safeParse(mm);
+      if (!size.success) local.smallestDefectMm = size.error.issues[0].message;
+    }
     setErrors(local);
     if (Object.keys(local).length > 0) return;
     create.mutate(

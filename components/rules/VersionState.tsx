@@ -14,11 +14,10 @@ export const STATE_WORDS: Record<RuleVersionState, { symbol: string; word: strin
 
 /** `sentBack`: isSentBack of the version (a draft returned from review, which waits for the engineer's changes). */
 export function VersionState({ state, number, sentBack = false }: { state: RuleVersionState; number?: number; sentBack?: boolean }) {
-  const returned = sentBack;
-  const { symbol, word } = returned ? SENT_BACK : STATE_WORDS[state];
+  const { symbol, word } = sentBack ? SENT_BACK : STATE_WORDS[state];
   return (
-    <View style={[styles.pill, state === 'released' && styles.released, state === 'withdrawn' && styles.withdrawn, returned && styles.sentBack]}>
-      <AppText variant="label" tone={returned ? 'caution' : undefined}>{`${symbol} ${number !== undefined ? `v${number} ` : ''}${word}`}</AppText>
+    <View style={[styles.pill, state === 'released' && styles.released, state === 'withdrawn' && styles.withdrawn, sentBack && styles.sentBack]}>
+      <AppText variant="label" tone={sentBack ? 'caution' : undefined}>{`${symbol} ${number !== undefined ? `v${number} ` : ''}${word}`}</AppText>
     </View>
   );
 }

@@ -5,7 +5,8 @@ import { imageLike, type Image } from './image';
 import { gaussianSecondDerivativeWeights, gaussianWeights, kernelFromMatrix, LAPLACIAN_4, LAPLACIAN_8 } from './kernels';
 import { simdKernels } from './engine';
 
-const LAPLACIAN_KERNELS = { 4: kernelFromMatrix(LAPLACIAN_4), 8: kernelFromMatrix(LAPLACIAN_8) } as const;
+/** The Laplacian's kernels, which the SIMD engine correlates with. */
+export const LAPLACIAN_KERNELS = { 4: kernelFromMatrix(LAPLACIAN_4), 8: kernelFromMatrix(LAPLACIAN_8) } as const;
 
 /**
  * 4-neighbour [0 1 0; 1 −4 1; 0 1 0] or 8-neighbour [1 1 1; 1 −8 1; 1 1 1] Laplacian

@@ -10,6 +10,7 @@ import { borderTable, fillRowBorder, OUTSIDE, rowOffsetTable, type BorderMode } 
 import { simdKernels } from './engine';
 import { createImage, imageLike, type Image } from './image';
 import { keysOf, minKey, sampleBits, sampleOrder, samplesFromKeys } from './ordered-keys';
+import { sameBuffer } from './workspace';
 
 export function erode(src: Image, radius: number, border: BorderMode, out?: Image): Image {
   return binaryMorphology(src, 'erode', radius, border, out) ?? extremeFilter(src, radius, border, false, out);
@@ -37,7 +38,7 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
     case 'open':
     case 'close': {
       // The scratch must not be the source: the first pass reads the source while it writes the scratch.
-      const tmp = scratch && scratch !== out && scratch.data !== src.data ? imageLike(src, scratch) : createImage(src.width, src.height);
+      const tmp = scratch && scratch !== out && !sameBuffer(scratch, src) ? imageLike(src, scratch) : createImage(src.width, src.height);
       const order = simdKernels() ? 'unordered' : sampleOrder(src.data);
       if (order === 'unordered') {
         const first = extremeFilter(src, radius, border, op !== 'open', tmp);

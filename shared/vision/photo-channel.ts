@@ -6,13 +6,17 @@ import type { BorderMode } from './border';
 import { simdKernels } from './engine';
 import { gradientWeights } from './gradient';
 import { BT601_WEIGHTS, channelImage, imageLike, type Image, type RawPhoto, type ValueRange } from './image';
-import { gaussianWeights } from './kernels';
+import { gaussianWeights, type Kernel } from './kernels';
 import { qualityFigures, qualityFromSums, type QualityFigures, type QualitySums } from './quality';
 import type { ResidentImage } from './wasm/resident-image';
 
 export function inputChannel(photo: RawPhoto, channel: InputChannel, out?: Image): Image {
   const simd = simdKernels();
   const { channels, bitDepth, samples } = photo;
+  // An 8-bit grey photo's image in the module keeps the bytes too, for the kernels that read them.
+  if (simd && out && simd.owns(out) && out.width === photo.width && out.height === photo.height && eightBitSource(photo, channel)?.channels === 1) {
+    return simd.greyInput(samples as Uint8Array, out);
+  }
   const colour8 = channel === 'luma' && bitDepth === 8 && (channels === 3 || channels === 4) && samples instanceof Uint8Array;
   if (!simd || !colour8 || samples.length !== photo.width * photo.height * channels) return channelImage(photo, channel, out);
   return simd.lumaRgb8(samples, channels, BT601_WEIGHTS, imageLike(photo, out)) ?? channelImage(photo, channel, out);
@@ -37,6 +41,18 @@ function eightBitSource(photo: RawPhoto, channel: InputChannel): { samples: Uint
   const oneChannel = channels === 1 || (channel === 'luma' && (channels === 3 || channels === 4));
   const whole = bitDepth === 8 && samples instanceof Uint8Array && samples.length === width * height * channels;
   return oneChannel && whole ? { samples: samples as Uint8Array, channels: channels as 1 | 3 | 4 } : null;
+}
+
+/**
+ * The quality figures of an 8-bit grey photo on the SIMD engine from its bytes, for a rule whose first
+ * step correlates with `kernel` and reads the input's 8-bit copy for it (SimdKernels.readsEightBit):
+ * `input` keeps the bytes and gets its float32 samples only when something reads them. null where
+ * this does not apply: the caller then converts the input (inputWithQuality).
+ */
+export function eightBitInputFromPhoto(photo: RawPhoto, channel: InputChannel, input: Image, kernel: Kernel): QualityFigures | null {
+  const direct = directPhoto(photo, channel, input);
+  if (!direct || direct.channels !== 1 || !direct.simd.readsEightBit(kernel)) return null;
+  return qualityFromSums(direct.simd.greyQualityLater(direct.samples, direct.input), photo.width * photo.height);
 }
 
 /**

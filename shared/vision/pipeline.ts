@@ -10,11 +10,11 @@ import { gaugeUnit, measurePixels, needsCalibration, regionSpans, toUnit, within
 import { gradient } from './gradient';
 import type { BitDepth, Image, RawPhoto, ValueRange } from './image';
 import { gaussianWeights, kernelFromMatrix, separate, type Kernel, type KernelDefinition } from './kernels';
-import { laplacian, laplacianOfGaussian } from './laplacian';
+import { LAPLACIAN_KERNELS, laplacian, laplacianOfGaussian } from './laplacian';
 import { medianFilter } from './median';
 import { morphology } from './morphology';
 import { gaussianGradient } from './smoothed-gradient';
-import { inputWithQuality, separableFromPhoto, sweepFromPhoto } from './photo-channel';
+import { eightBitInputFromPhoto, inputWithQuality, separableFromPhoto, sweepFromPhoto } from './photo-channel';
 import { judgeQuality, type QualityFigures, type QualityJudgement } from './quality';
 import { boxFilter, gaussianBlur } from './smoothing';
 import { thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from './threshold';
@@ -121,7 +121,9 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
 
   // A rule whose first step is separable (a Gaussian and a gradient after it that nobody else reads
   // are one sweep) takes an 8-bit photo straight into that step (photo-channel.ts), unless every
-  // image is kept: the input image is then filled only if something reads it.
+  // image is kept: the input image is then filled only if something reads it. So does one whose first
+  // step is a direct correlation that reads an 8-bit grey photo's bytes (a Laplacian, most kernels of
+  // whole numbers): it runs in the loop below.
   let input = workspace.take(photo.width, photo.height);
   let opening: Opening | null = null;
   let figures: QualityFigures | null = null;
@@ -129,10 +131,9 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
     const out = take();
     const t0 = now();
     const opened = openFromPhoto(rule, photo, kernels[0], needed, input, out, handover.range);
-    if (opened) {
-      figures = opened.figures;
-      opening = { output: out, ms: now() - t0, steps: opened.steps };
-    } else spare.push(out);
+    if (opened) figures = opened.figures;
+    if (opened && opened.steps > 0) opening = { output: out, ms: now() - t0, steps: opened.steps as 1 | 2 };
+    else spare.push(out);
   }
   if (!figures) ({ input, quality: figures } = inputWithQuality(photo, rule.input.channel, input));
   const quality = judgeQuality(figures, rule.quality);
@@ -276,24 +277,25 @@ interface Opening {
 
 /**
  * The rule's opening step run straight from the photo (see runValidatedRule): the quality figures and
- * how many steps `out` holds, or null when the photo or the step does not allow it.
+ * how many steps `out` holds (0: the input image waits for its samples, the first step runs as usual),
+ * or null when the photo or the step does not allow it.
  */
-function openFromPhoto(rule: RuleDocument, photo: RawPhoto, kernel: Kernel | null, needed: Set<number>, input: Image, out: Image, range: ValueRange): { figures: QualityFigures; steps: 1 | 2 } | null {
+function openFromPhoto(rule: RuleDocument, photo: RawPhoto, kernel: Kernel | null, needed: Set<number>, input: Image, out: Image, range: ValueRange): { figures: QualityFigures; steps: 0 | 1 | 2 } | null {
   const [first, second] = rule.steps;
   const channel = rule.input.channel;
+  const opened = (figures: QualityFigures | null, steps: 0 | 1 | 2) => (figures ? { figures, steps } : null);
   if (first?.op === 'gaussian' && second?.op === 'gradient' && second.output !== 'direction' && !needed.has(1)) {
-    const figures = sweepFromPhoto(photo, channel, first.sigma, second.operator, second.output, rule.border, input, out, range);
-    return figures ? { figures, steps: 2 } : null;
+    return opened(sweepFromPhoto(photo, channel, first.sigma, second.operator, second.output, rule.border, input, out, range), 2);
   }
-  let figures: QualityFigures | null = null;
   if (first?.op === 'gaussian') {
     const g = gaussianWeights(first.sigma);
-    figures = separableFromPhoto(photo, channel, g, g, 0, rule.border, input, out);
-  } else if (first?.op === 'kernel' && kernel) {
-    const pair = separate(kernel);
-    if (pair) figures = separableFromPhoto(photo, channel, pair.column, pair.row, kernel.offset, rule.border, input, out);
+    return opened(separableFromPhoto(photo, channel, g, g, 0, rule.border, input, out), 1);
   }
-  return figures ? { figures, steps: 1 } : null;
+  if (first?.op === 'laplacian') return opened(eightBitInputFromPhoto(photo, channel, input, LAPLACIAN_KERNELS[first.neighbours]), 0);
+  if (first?.op !== 'kernel' || !kernel) return null;
+  const pair = separate(kernel);
+  if (pair) return opened(separableFromPhoto(photo, channel, pair.column, pair.row, kernel.offset, rule.border, input, out), 1);
+  return opened(eightBitInputFromPhoto(photo, channel, input, kernel), 0);
 }
 
 /**

@@ -77,7 +77,8 @@ export class ImageWorkspace {
   }
 }
 
-function sameBuffer(a: Image, b: Image): boolean {
+/** True when two images hold their samples in the same buffer (resident ones compared by address: their `data` would drop an 8-bit copy). */
+export function sameBuffer(a: Image, b: Image): boolean {
   if (isResident(a) || isResident(b)) return isResident(a) && isResident(b) && a.heap === b.heap && a.address === b.address;
   return a.data === b.data;
 }

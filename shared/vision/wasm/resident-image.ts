@@ -5,6 +5,9 @@
 // pixel) until something reads them: the edge fraction and the blobs read the bits themselves, so
 // a rule run whose last step is such a mask never writes its float32 samples (20 MB at 5 MP).
 // A photo's input image may likewise wait for its samples when the first step reads the photo itself.
+// An 8-bit grey photo's input image also keeps the photo's bytes beside its samples (`eightBit`), for
+// the kernels that can read them (a quarter of the memory traffic): until the image is overwritten,
+// given back, or its `data` is handed out (whoever holds the array may write it).
 import type { Image } from '../image';
 import type { WasmHeap } from './heap';
 
@@ -20,6 +23,7 @@ export class ResidentImage implements Image {
   private view: Float32Array;
   private deferred: DeferredMask | null = null;
   private pendingFill: (() => void) | null = null;
+  private bytes = 0;
 
   constructor(
     readonly heap: WasmHeap,
@@ -32,6 +36,7 @@ export class ResidentImage implements Image {
 
   get data(): Float32Array {
     this.settle();
+    this.dropEightBit();
     if (this.view.buffer !== this.heap.memory.buffer) this.view = this.heap.f32(this.address, this.width * this.height);
     return this.view;
   }
@@ -39,6 +44,17 @@ export class ResidentImage implements Image {
   /** The packed bits standing for the samples, while they are not written. */
   get packedMask(): DeferredMask | null {
     return this.deferred;
+  }
+
+  /** Address of a block of width × height bytes equal to the samples, or 0. */
+  get eightBit(): number {
+    return this.bytes;
+  }
+
+  /** The samples are these bytes (whole numbers 0 … 255); the image owns the block from now on. */
+  keepEightBit(address: number): void {
+    this.dropEightBit();
+    this.bytes = address;
   }
 
   /** The samples will come from these bits when first read; the image owns the bits' block from now on. */
@@ -68,13 +84,20 @@ export class ResidentImage implements Image {
     this.heap.release(mask.words);
   }
 
-  /** Drops deferred samples unwritten (before the image is overwritten or given up). */
+  /** Drops deferred samples unwritten, and the bytes (before the image is overwritten or given up). */
   discard(): void {
     this.pendingFill = null;
+    this.dropEightBit();
     const mask = this.deferred;
     if (!mask) return;
     this.deferred = null;
     this.heap.release(mask.words);
+  }
+
+  private dropEightBit(): void {
+    if (this.bytes === 0) return;
+    this.heap.release(this.bytes);
+    this.bytes = 0;
   }
 }
 

@@ -22,7 +22,7 @@ export interface EngineExports {
   separableBytes(src: number, channels: number, kr: number, kg: number, kb: number, quality: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, mode: number, offset: number, scratch: number): void;
   separableBytesScratchBytes(w: number, colLen: number, rowLen: number): number;
   laplacianOfGaussian(src: number, dst: number, w: number, h: number, g: number, g2: number, r: number, mode: number, scratch: number): void;
-  correlate2d(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, scratch: number): void;
+  correlate2d(src: number, src8: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, scratch: number): void;
   directScratchBytes(w: number, rows: number, cols: number): number;
   correlateFft(src: number, dst: number, w: number, h: number, weights: number, rows: number, cols: number, mode: number, scale: number, offset: number, floor: number, scratch: number): void;
   fftScratchBytes(w: number, cols: number): number;
@@ -54,6 +54,7 @@ export interface EngineExports {
   regionSums(src: number, w: number, h: number, starts: number, ends: number, out: number): void;
   regionSquares(src: number, w: number, h: number, starts: number, ends: number, mean: number): number;
   lumaRgb8(src: number, channels: number, n: number, dst: number, kr: number, kg: number, kb: number): void;
+  bytesToFloats(src: number, n: number, dst: number): void;
   lumaRgb8Quality(src: number, channels: number, w: number, h: number, dst: number, kr: number, kg: number, kb: number, top: number, out: number, scratch: number): void;
   wideRingBytes(w: number): number;
   grey8Quality(src: number, w: number, h: number, dst: number, out: number): void;
@@ -96,6 +97,21 @@ export const FFT_KERNEL_TAPS = 11 * 11;
 /** Longest side the FFT's 128×128 tiles take (the schema allows 31). */
 const FFT_KERNEL_SIDE = 63;
 
+/**
+ * The largest ‖k‖₁ of whole weights whose 16-bit sums hold for every byte (32767 ÷ 255 rounded
+ * down): such a direct kernel reads an image's 8-bit copy instead of its float32 samples
+ * (assembly/direct.ts decides the same from the float32 weights).
+ */
+const EIGHT_BIT_L1 = 128;
+
+/**
+ * The longest column `separable` reads from an 8-bit copy: longer ones are bound by their arithmetic,
+ * and converting the rows into the ring costs more than the reads save (σ = 3, 19 taps, at 5 MP with
+ * the caches emptied between runs: 2.17–2.18 ns/px from the float32 samples, 2.23–2.24 from the bytes;
+ * σ = 1, 7 taps: 1.35–1.40 → 1.18–1.19).
+ */
+const BYTES_COLUMN_TAPS = 7;
+
 /** Blocks taken for one call, released together at its end. */
 class CallScope {
   private readonly blocks: number[] = [];
@@ -135,31 +151,55 @@ export class SimdKernels {
     return image instanceof ResidentImage && image.heap === this.heap;
   }
 
-  /** column ⊗ row correlation plus offset. */
+  /**
+   * column ⊗ row correlation plus offset; up to BYTES_COLUMN_TAPS taps down the columns from src's
+   * 8-bit copy when it has one (the same bits).
+   */
   separable(src: Image, column: ArrayLike<number>, row: ArrayLike<number>, border: BorderMode, out?: Image, offset = 0): Image {
-    return this.mapImage(src, out, (s, d, scope) => {
-      const col = scope.f32(column);
-      const rw = scope.f32(row);
-      const scratch = scope.alloc(this.wasm.separableScratchBytes(src.width, column.length, row.length));
-      this.wasm.separable(s, d, src.width, src.height, col, column.length, rw, row.length, BORDER_CODES[border], offset, scratch);
+    const bytes = column.length <= BYTES_COLUMN_TAPS ? this.eightBitOf(src) : 0;
+    const { width: w, height: h } = src;
+    return this.mapSeparable(src, out, column, row, bytes, (s, d, col, rw, scope) => {
+      if (bytes === 0) {
+        this.wasm.separable(s, d, w, h, col, column.length, rw, row.length, BORDER_CODES[border], offset, scope.alloc(this.wasm.separableScratchBytes(w, column.length, row.length)));
+        return;
+      }
+      const scratch = scope.alloc(this.wasm.separableBytesScratchBytes(w, column.length, row.length));
+      this.wasm.separableBytes(bytes, 1, 0, 0, 0, 0, d, w, h, col, column.length, rw, row.length, BORDER_CODES[border], offset, scratch);
     });
   }
 
-  /** Correlation with any kernel (weights / divisor + offset): direct, or through the FFT in tiles from FFT_KERNEL_TAPS weights. */
+  /**
+   * Correlation with any kernel (weights / divisor + offset): direct, or through the FFT in tiles from
+   * FFT_KERNEL_TAPS weights. A direct kernel that `readsEightBit` reads src's 8-bit copy when it has
+   * one, and leaves samples src has not written yet unwritten.
+   */
   correlate2d(src: Image, kernel: Kernel, border: BorderMode, out?: Image): Image {
-    const large = kernel.rows * kernel.cols >= FFT_KERNEL_TAPS && Math.max(kernel.rows, kernel.cols) <= FFT_KERNEL_SIDE;
-    return this.mapImage(src, out, (s, d, scope) => {
-      const weights = scope.f32(kernel.weights);
-      const largest = large ? this.wasm.largestFiniteMagnitude(s, src.data.length) : -1;
-      if (largest >= 0) {
-        const floor = fftZeroFloor(kernel, largest, 2 ** -24);
-        const scratch = scope.alloc(this.wasm.fftScratchBytes(src.width, kernel.cols));
-        this.wasm.correlateFft(s, d, src.width, src.height, weights, kernel.rows, kernel.cols, BORDER_CODES[border], 1 / kernel.divisor, kernel.offset, floor, scratch);
-        return;
-      }
+    const bytes = this.readsEightBit(kernel) ? this.eightBitOf(src) : 0;
+    const code = BORDER_CODES[border];
+    const direct = (s: number, d: number, scope: CallScope) => {
       const scratch = scope.alloc(this.wasm.directScratchBytes(src.width, kernel.rows, kernel.cols));
-      this.wasm.correlate2d(s, d, src.width, src.height, weights, kernel.rows, kernel.cols, BORDER_CODES[border], 1 / kernel.divisor, kernel.offset, scratch);
+      this.wasm.correlate2d(s, bytes, d, src.width, src.height, scope.f32(kernel.weights), kernel.rows, kernel.cols, code, 1 / kernel.divisor, kernel.offset, scratch);
+    };
+    if (!isLarge(kernel)) return this.mapImage(src, out, direct, true, bytes !== 0);
+    return this.mapImage(src, out, (s, d, scope) => {
+      const largest = this.wasm.largestFiniteMagnitude(s, src.width * src.height);
+      if (largest < 0) return direct(s, d, scope);
+      const floor = fftZeroFloor(kernel, largest, 2 ** -24);
+      const scratch = scope.alloc(this.wasm.fftScratchBytes(src.width, kernel.cols));
+      this.wasm.correlateFft(s, d, src.width, src.height, scope.f32(kernel.weights), kernel.rows, kernel.cols, code, 1 / kernel.divisor, kernel.offset, floor, scratch);
     });
+  }
+
+  /** True when correlate2d with this kernel reads an image's 8-bit copy (direct, whole weights, ‖k‖₁ ≤ EIGHT_BIT_L1). */
+  readsEightBit(kernel: Kernel): boolean {
+    if (isLarge(kernel)) return false;
+    let l1 = 0;
+    for (const w of kernel.weights) {
+      const k = Math.fround(w);
+      if (!Number.isInteger(k)) return false;
+      l1 += Math.abs(k);
+    }
+    return l1 <= EIGHT_BIT_L1;
   }
 
   /** g″ across the vertically g-smoothed image plus g across its vertical g″ (symmetric weights of one length). */
@@ -220,16 +260,40 @@ export class SimdKernels {
   /**
    * `gradient` of the separable correlation column ⊗ row of src, in one sweep: the smoothed rows live
    * in a ring of four rows, never in a whole image. The same samples as `separable` then `gradient`.
+   * From src's 8-bit copy when it has one (the same bits).
    */
   smoothedGradient(src: Image, column: ArrayLike<number>, row: ArrayLike<number>, a: number, b: number, output: 'x' | 'y' | 'magnitude', border: BorderMode, out?: Image, range?: ValueRange): Image {
-    return this.mapImage(src, out, (s, d, scope) => {
-      const col = scope.f32(column);
-      const rw = scope.f32(row);
+    const bytes = this.eightBitOf(src);
+    const { width: w, height: h } = src;
+    const [gradientCode, borderCode] = [GRADIENT_CODES[output], BORDER_CODES[border]];
+    return this.mapSeparable(src, out, column, row, bytes, (s, d, col, rw, scope) => {
       const rangeAddress = range ? scope.alloc(8) : 0;
-      const scratch = scope.alloc(this.wasm.smoothedGradientScratchBytes(src.width, column.length, row.length));
-      this.wasm.smoothedGradient(s, d, src.width, src.height, col, column.length, rw, row.length, a, b, GRADIENT_CODES[output], BORDER_CODES[border], rangeAddress, scratch);
+      if (bytes === 0) {
+        const scratch = scope.alloc(this.wasm.smoothedGradientScratchBytes(w, column.length, row.length));
+        this.wasm.smoothedGradient(s, d, w, h, col, column.length, rw, row.length, a, b, gradientCode, borderCode, rangeAddress, scratch);
+      } else {
+        const scratch = scope.alloc(this.wasm.smoothedGradientBytesScratchBytes(w, column.length, row.length));
+        this.wasm.smoothedGradientBytes(bytes, 1, 0, 0, 0, 0, d, w, h, col, column.length, rw, row.length, a, b, gradientCode, borderCode, rangeAddress, scratch);
+      }
       if (range) this.readRange(rangeAddress, output, range);
     });
+  }
+
+  /** mapImage for a kernel of a column and a row of weights (copied in); `bytes`: it reads src's 8-bit copy there. */
+  private mapSeparable(
+    src: Image,
+    out: Image | undefined,
+    column: ArrayLike<number>,
+    row: ArrayLike<number>,
+    bytes: number,
+    kernel: (src: number, dst: number, column: number, row: number, scope: CallScope) => void,
+  ): Image {
+    return this.mapImage(src, out, (s, d, scope) => kernel(s, d, scope.f32(column), scope.f32(row), scope), true, bytes !== 0);
+  }
+
+  /** The address of the image's 8-bit copy (ResidentImage.eightBit), or 0. */
+  private eightBitOf(image: Image): number {
+    return this.owns(image) ? image.eightBit : 0;
   }
 
   /**
@@ -272,31 +336,76 @@ export class SimdKernels {
     });
   }
 
-  /** Copies the photo's bytes in and runs `kernel` from them into `out`; its `quality` is where the sums go. */
+  /**
+   * Copies the photo's bytes in and runs `kernel` from them into `out`; its `quality` is where the sums
+   * go. With `keepGrey`, a grey photo's `out` (the input image, when resident) keeps the bytes as its
+   * 8-bit copy.
+   */
   private fromPhoto(
     samples: Uint8Array,
     channels: 1 | 3 | 4,
     weights: LumaWeights,
     out: Image,
     kernel: (src: number, thousandths: number[], quality: number, dst: number, scope: CallScope) => void,
+    keepGrey = false,
   ): QualitySums | null {
     const thousandths = channels === 1 ? [0, 0, 0] : wholeThousandths(weights);
     if (!thousandths) return null;
     const pixels = out.width * out.height;
     const scope = new CallScope(this.heap);
     try {
-      const src = scope.alloc(samples.length);
-      new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
-      const sums = scope.alloc(32);
       const resident = this.owns(out);
+      const keep = keepGrey && channels === 1 && resident;
+      const src = keep ? this.copyIn(samples) : scope.alloc(samples.length);
+      if (!keep) new Uint8Array(this.heap.memory.buffer, src, samples.length).set(samples);
+      const sums = scope.alloc(32);
       const dst = resident ? this.outputAddress(out) : scope.alloc(4 * pixels);
       kernel(src, thousandths, sums, dst, scope);
+      if (keep) out.keepEightBit(src);
       if (!resident) out.data.set(this.heap.f32(dst, pixels));
-      const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
-      return { sum, clipped, lapSum, lapSquares };
+      return this.qualityAt(sums);
     } finally {
       scope.end();
     }
+  }
+
+  /** An 8-bit grey photo's samples into `out`, which keeps the bytes as its 8-bit copy (channelImage's samples). */
+  greyInput(samples: Uint8Array, out: ResidentImage): ResidentImage {
+    const bytes = this.copyIn(samples);
+    this.wasm.bytesToFloats(bytes, samples.length, this.outputAddress(out));
+    out.keepEightBit(bytes);
+    return out;
+  }
+
+  /**
+   * An 8-bit grey photo's quality sums (as photoWithQualitySums) from its bytes alone: `out`, the input
+   * image, keeps the bytes as its 8-bit copy and gets its float32 samples only when something reads
+   * them (a kernel that reads the 8-bit copy does not).
+   */
+  greyQualityLater(samples: Uint8Array, out: ResidentImage): QualitySums {
+    const bytes = this.copyIn(samples);
+    const scope = new CallScope(this.heap);
+    try {
+      const sums = scope.alloc(32);
+      this.wasm.grey8Quality(bytes, out.width, out.height, 0, sums);
+      out.fillLater(() => this.wasm.bytesToFloats(out.eightBit, samples.length, out.address));
+      out.keepEightBit(bytes);
+      return this.qualityAt(sums);
+    } finally {
+      scope.end();
+    }
+  }
+
+  /** The bytes in a block of their own (the caller owns it). */
+  private copyIn(samples: Uint8Array): number {
+    const address = this.heap.alloc(samples.length);
+    new Uint8Array(this.heap.memory.buffer, address, samples.length).set(samples);
+    return address;
+  }
+
+  private qualityAt(sums: number): QualitySums {
+    const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, sums, 4);
+    return { sum, clipped, lapSum, lapSquares };
   }
 
   /** The magnitude's range a gradient kernel stored at `address` (NaN for the other outputs). */
@@ -308,14 +417,14 @@ export class SimdKernels {
 
   /** True when every value is a whole number in 0 … 255. */
   eightBitLevels(image: Image): boolean {
-    return this.read(image, (s) => this.wasm.eightBitLevels(s, image.data.length) === 1);
+    return this.read(image, (s) => this.wasm.eightBitLevels(s, image.width * image.height) === 1);
   }
 
   /** [min, max] with NaN left out ([Infinity, −Infinity] when there is no number). */
   valueRange(image: Image): [number, number] {
     return this.read(image, (s, scope) => {
       const out = scope.alloc(8);
-      this.wasm.valueRange(s, image.data.length, out);
+      this.wasm.valueRange(s, image.width * image.height, out);
       const found = this.heap.f32(out, 2);
       return [found[0], found[1]];
     });
@@ -365,7 +474,7 @@ export class SimdKernels {
   thresholdAt(src: Image, cut: number, invert: boolean, out?: Image, packed?: PackedMask): Image {
     return this.mapImage(src, out, (s, d, scope) => {
       if (!packed) {
-        this.wasm.thresholdAt(s, d, src.data.length, cut, invert ? 1 : 0);
+        this.wasm.thresholdAt(s, d, src.width * src.height, cut, invert ? 1 : 0);
         return;
       }
       const words = scope.alloc(4 * packed.words.length);
@@ -448,7 +557,7 @@ export class SimdKernels {
   qualitySums(image: Image, top: number): QualitySums {
     return this.read(image, (s, scope) => {
       const out = scope.alloc(32);
-      if (top === 255 && this.wasm.eightBitLevels(s, image.data.length) === 1) this.wasm.qualitySumsWhole8(s, image.width, image.height, out);
+      if (top === 255 && this.wasm.eightBitLevels(s, image.width * image.height) === 1) this.wasm.qualitySumsWhole8(s, image.width, image.height, out);
       else this.wasm.qualitySums(s, image.width, image.height, top, out, scope.alloc(this.wasm.wideRingBytes(image.width)));
       const [sum, clipped, lapSum, lapSquares] = new Float64Array(this.heap.memory.buffer, out, 4);
       return { sum, clipped, lapSum, lapSquares };
@@ -538,7 +647,7 @@ export class SimdKernels {
   lumaRgb8(samples: Uint8Array, channels: 3 | 4, weights: LumaWeights, out: Image): Image | null {
     const thousandths = wholeThousandths(weights);
     if (!thousandths) return null;
-    const pixels = out.data.length;
+    const pixels = out.width * out.height;
     const scope = new CallScope(this.heap);
     try {
       const src = scope.alloc(samples.length);
@@ -555,15 +664,23 @@ export class SimdKernels {
 
   /**
    * An 8-bit photo's input image and its quality sums (top 255) in one pass over the rows: grey samples
-   * as float32, their sums exact in whole numbers; colour to luma as lumaRgb8, the sums as qualitySums
-   * gives them for that image, to the bit. null when the weights are not whole thousandths.
+   * as float32, their sums exact in whole numbers (a resident image keeps the bytes as its 8-bit copy);
+   * colour to luma as lumaRgb8, the sums as qualitySums gives them for that image, to the bit. null
+   * when the weights are not whole thousandths.
    */
   photoWithQualitySums(samples: Uint8Array, channels: 1 | 3 | 4, weights: LumaWeights, out: Image): QualitySums | null {
     const { width: w, height: h } = out;
-    return this.fromPhoto(samples, channels, weights, out, (src, k, sums, dst, scope) => {
-      if (channels === 1) this.wasm.grey8Quality(src, w, h, dst, sums);
-      else this.wasm.lumaRgb8Quality(src, channels, w, h, dst, k[0], k[1], k[2], 255, sums, scope.alloc(this.wasm.wideRingBytes(w)));
-    });
+    return this.fromPhoto(
+      samples,
+      channels,
+      weights,
+      out,
+      (src, k, quality, dst, scope) => {
+        if (channels === 1) this.wasm.grey8Quality(src, w, h, dst, quality);
+        else this.wasm.lumaRgb8Quality(src, channels, w, h, dst, k[0], k[1], k[2], 255, quality, scope.alloc(this.wasm.wideRingBytes(w)));
+      },
+      true,
+    );
   }
 
   /** Address of the image's samples in the module's memory: its own, or a copy for the call. */
@@ -592,13 +709,14 @@ export class SimdKernels {
 
   /**
    * Runs a kernel from src into `out` (or a new image), copying in and out only what is not resident
-   * (out only when the kernel writes the output image).
+   * (out only when the kernel writes the output image). `fromEightBit`: the kernel reads src's 8-bit
+   * copy only, so samples src has not written yet stay unwritten.
    */
-  private mapImage(src: Image, out: Image | undefined, kernel: (src: number, dst: number, scope: CallScope) => void, writesOutput = true): Image {
+  private mapImage(src: Image, out: Image | undefined, kernel: (src: number, dst: number, scope: CallScope) => void, writesOutput = true, fromEightBit = false): Image {
     const dst = imageLike(src, out === src ? undefined : out);
     const scope = new CallScope(this.heap);
     try {
-      const s = this.addressOf(src, scope);
+      const s = fromEightBit && this.owns(src) ? src.address : this.addressOf(src, scope);
       const resident = this.owns(dst);
       const d = resident ? this.outputAddress(dst) : scope.alloc(4 * dst.data.length);
       kernel(s, d, scope);
@@ -608,6 +726,11 @@ export class SimdKernels {
     }
     return dst;
   }
+}
+
+/** Kernels correlate2d takes through the FFT. */
+function isLarge(kernel: Kernel): boolean {
+  return kernel.rows * kernel.cols >= FFT_KERNEL_TAPS && Math.max(kernel.rows, kernel.cols) <= FFT_KERNEL_SIDE;
 }
 
 /** Packed rows with the bits past the last column cleared (the morphology leaves them undefined). */

@@ -59,5 +59,15 @@ export function warmUp(kernels: SimdKernels): void {
     kernels.photoQualityAndSmoothedGradient(samples, channels, BT601_WEIGHTS, gaussianWeights(1), gaussianWeights(1), 1, 2, 'magnitude', 'reflect', b, range);
     kernels.photoQualityAndSeparable(samples, channels, BT601_WEIGHTS, [1, 4, 6, 4, 1], [1, 4, 6, 4, 1], 'reflect', 0, b);
   }
-  for (const image of [a, b, c]) kernels.heap.release(image.address);
+  // A grey photo's input keeps its bytes, which the direct kernels read (the float32 samples later).
+  const grey = bytes.subarray(0, SIDE * SIDE);
+  kernels.greyQualityLater(grey, c);
+  kernels.correlate2d(c, kernelFromMatrix([[0, 1, 0], [1, -4, 1], [0, 1, 0]]), 'reflect', b);
+  kernels.correlate2d(c, fiveByFive, 'reflect', b);
+  c.settle();
+  kernels.greyInput(grey, c);
+  for (const image of [a, b, c]) {
+    image.discard();
+    kernels.heap.release(image.address);
+  }
 }

@@ -5,13 +5,15 @@ import type { BorderMode } from '../../../shared/rules/schema';
 import { labelBlobs } from '../../../shared/vision/blobs';
 import { correlate, correlateDirect } from '../../../shared/vision/convolve';
 import { gradient } from '../../../shared/vision/gradient';
-import { imageFromSamples, type Image } from '../../../shared/vision/image';
+import { imageFromSamples, type Image, type RawPhoto } from '../../../shared/vision/image';
 import { gaussianRadius, kernelFromMatrix } from '../../../shared/vision/kernels';
 import { laplacian } from '../../../shared/vision/laplacian';
 import { medianFilter } from '../../../shared/vision/median';
 import { morphology } from '../../../shared/vision/morphology';
+import { inputChannel } from '../../../shared/vision/photo-channel';
 import { boxFilter, gaussianBlur } from '../../../shared/vision/smoothing';
 import { thresholdOtsu } from '../../../shared/vision/threshold';
+import { ImageWorkspace } from '../../../shared/vision/workspace';
 import { maskImage, partImage } from './images';
 import { CV_BORDER, loadOpenCv, matToFloat, maxAbsDiff, toMat32, toMatInt, type OpenCv } from './opencv';
 import { ENGINES, useEngine } from './engines';
@@ -35,8 +37,8 @@ function expectClose(actual: Float32Array, expected: Float32Array): void {
   expect(maxAbsDiff(actual, expected)).toBeLessThanOrEqual(RELATIVE_TOLERANCE * scale * 8);
 }
 
-function viaOpenCv(image: Image, run: (src: OpenCv, dst: OpenCv) => void): Float32Array {
-  const src = toMat32(cv, image);
+function viaOpenCv(image: Image, run: (src: OpenCv, dst: OpenCv) => void, toMat: (cv: OpenCv, image: Image) => OpenCv = toMat32): Float32Array {
+  const src = toMat(cv, image);
   const dst = new cv.Mat();
   run(src, dst);
   const out = matToFloat(cv, dst);
@@ -251,6 +253,37 @@ describe.each(ENGINES)('on the %s engine', (engine) => {
         k.delete();
       });
       expectClose(ours.data, expected);
+    });
+  });
+
+  // The rule runner's input image of an 8-bit grey photo: on the SIMD engine it keeps the photo's
+  // bytes, which the direct kernels read instead of its float32 samples.
+  describe.each(BORDERS)('from an 8-bit grey photo, with the %s border', (border) => {
+    const samples = Uint8Array.from(partImage(W, H, 255, 7).data);
+    const photo: RawPhoto = { width: W, height: H, channels: 1, bitDepth: 8, samples };
+    const fromBytes = (run: (src: OpenCv, dst: OpenCv) => void) => viaOpenCv(imageFromSamples(W, H, samples), run, (cv, image) => toMatInt(cv, image, 8));
+    const runOnInput = <T>(fn: (input: Image, out: Image) => T): T => {
+      const workspace = new ImageWorkspace();
+      const input = inputChannel(photo, 'luma', workspace.take(W, H));
+      const result = fn(input, workspace.take(W, H));
+      workspace.dispose();
+      return result;
+    };
+
+    test('the 4- and 8-neighbour Laplacians match OpenCV Laplacian and filter2D on the 8-bit Mat (CV_8U in, CV_32F out)', () => {
+      const ours = runOnInput((input, out) => [laplacian(input, 4, border, out).data.slice(), laplacian(input, 8, border, out).data.slice()]);
+      expectClose(ours[0], fromBytes((src, dst) => cv.Laplacian(src, dst, cv.CV_32F, 1, 1, 0, CV_BORDER[border])));
+      const k = cv.matFromArray(3, 3, cv.CV_32F, [1, 1, 1, 1, -8, 1, 1, 1, 1]);
+      expectClose(ours[1], fromBytes((src, dst) => cv.filter2D(src, dst, cv.CV_32F, k, new cv.Point(-1, -1), 0, CV_BORDER[border])));
+      k.delete();
+    });
+
+    test('a non-separable 5x5 kernel of whole numbers matches OpenCV filter2D on the 8-bit Mat', () => {
+      const matrix = [[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]];
+      const ours = runOnInput((input, out) => correlateDirect(input, kernelFromMatrix(matrix), border, out).data.slice());
+      const k = cv.matFromArray(5, 5, cv.CV_32F, matrix.flat());
+      expectClose(ours, fromBytes((src, dst) => cv.filter2D(src, dst, cv.CV_32F, k, new cv.Point(-1, -1), 0, CV_BORDER[border])));
+      k.delete();
     });
   });
 });

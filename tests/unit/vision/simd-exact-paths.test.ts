@@ -9,19 +9,22 @@ import type { MorphologyOp } from '../../../shared/rules/schema';
 import { createPackedMask } from '../../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../../shared/vision/blobs';
 import { borderIndex, OUTSIDE, type BorderMode } from '../../../shared/vision/border';
-import { correlateDirect } from '../../../shared/vision/convolve';
+import { correlate, correlateDirect } from '../../../shared/vision/convolve';
 import { measurePixels, regionSpans } from '../../../shared/vision/gauges';
 import { gradient } from '../../../shared/vision/gradient';
 import { simdKernels } from '../../../shared/vision/engine';
 import { channelImage, createImage, imageFromSamples, type RawPhoto } from '../../../shared/vision/image';
 import { inputChannel, inputWithQuality } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
+import { laplacian } from '../../../shared/vision/laplacian';
+import { isResident } from '../../../shared/vision/wasm/resident-image';
 import { qualityFigures } from '../../../shared/vision/quality';
 import { releaseRun, runRule } from '../../../shared/vision/pipeline';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
 import { kernelFromMatrix, type Kernel } from '../../../shared/vision/kernels';
 import { medianFilter } from '../../../shared/vision/median';
-import { boxFilter } from '../../../shared/vision/smoothing';
+import { boxFilter, gaussianBlur } from '../../../shared/vision/smoothing';
+import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { otsuHistogram, thresholdAdaptiveMean, thresholdFixed, thresholdOtsu } from '../../../shared/vision/threshold';
 import type { Image } from '../../../shared/vision/image';
 import { firstFloat32Where, float32Above } from '../../../shared/vision/float32';
@@ -241,6 +244,83 @@ test('direct correlation of whole-number kernels (zero and ±1 weights among the
     }),
     RUNS,
   );
+});
+
+test('direct correlation from an 8-bit grey photo\'s input image (the SIMD engine reads the bytes it keeps when ‖k‖₁ ≤ 128, the float32 samples otherwise): the float32 sums bit for bit', () => {
+  const kernel = fc
+    .tuple(fc.constantFrom(3, 5, 7, 9), fc.constantFrom(3, 5, 7))
+    .chain(([rows, cols]) => fc.tuple(fc.constant(rows), fc.constant(cols), fc.array(fc.integer({ min: -6, max: 6 }), { minLength: rows * cols, maxLength: rows * cols }), fc.constantFrom(1, 3, 16), fc.integer({ min: -40, max: 40 })));
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 30, max: 100 }), fc.integer({ min: 1, max: 12 })));
+  fc.assert(
+    fc.property(size, seed, borderMode, kernel, ([w, h], s, border, [rows, cols, flat, divisor, eighths]) => {
+      const p = photo(w, h, s);
+      const k = kernelFromMatrix(Array.from({ length: rows }, (_, j) => flat.slice(j * cols, (j + 1) * cols)), divisor, eighths / 8);
+      const expected = Array.from(new Uint32Array(float32DirectSums(channelImage(p, 'luma'), k, border).buffer));
+      onEngine('simd', () => {
+        const workspace = new ImageWorkspace();
+        const input = inputChannel(p, 'luma', workspace.take(w, h));
+        expect(isResident(input) && input.eightBit !== 0).toBe(true);
+        expect(bitsOf(correlateDirect(input, k, border, workspace.take(w, h)))).toEqual(expected);
+        workspace.dispose();
+      });
+    }),
+    RUNS,
+  );
+});
+
+test('Gaussians, rank-1 kernels and the Gaussian-and-gradient sweep from an 8-bit grey photo\'s input image (its 8-bit copy, on the SIMD engine): the same bits as from its float32 samples', () => {
+  const step = fc.constantFrom<(input: Image, out: Image, border: BorderMode) => Image>(
+    (input, out, border) => gaussianBlur(input, 0.6, border, out),
+    (input, out, border) => gaussianBlur(input, 1, border, out),
+    // 19 taps: past BYTES_COLUMN_TAPS, read from the float32 samples.
+    (input, out, border) => gaussianBlur(input, 3, border, out),
+    (input, out, border) => correlate(input, kernelFromMatrix([[1, 2, 1], [2, 4, 2], [1, 2, 1]], 16, 3), border, out),
+    (input, out, border) => gaussianGradient(input, 1, 'sobel', 'magnitude', border, out),
+    (input, out, border) => gaussianGradient(input, 0.8, 'scharr', 'y', border, out),
+  );
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 40 }), fc.integer({ min: 41, max: 90 })));
+  fc.assert(
+    fc.property(size, seed, borderMode, step, ([w, h], s, border, run) => {
+      const p = photo(w, h, s);
+      onEngine('simd', () => {
+        const workspace = new ImageWorkspace();
+        const input = inputChannel(p, 'luma', workspace.take(w, h));
+        expect(isResident(input) && input.eightBit !== 0).toBe(true);
+        const fromCopy = bitsOf(run(input, workspace.take(w, h), border));
+        expect(fromCopy).toEqual(bitsOf(run(channelImage(p, 'luma'), createImage(w, h), border)));
+        workspace.dispose();
+      });
+    }),
+    RUNS,
+  );
+});
+
+test('an input image\'s 8-bit copy: read instead of the float32 samples while it stands; dropped when the samples are handed out, overwritten or given back', () => {
+  const [w, h] = [45, 13];
+  const p = photo(w, h, 11);
+  const plainLaplacian = (image: Image) => bitsOf(onEngine('plain', () => laplacian(image, 4, 'reflect')));
+  onEngine('simd', () => {
+    const workspace = new ImageWorkspace();
+    const input = inputChannel(p, 'luma', workspace.take(w, h));
+    if (!isResident(input)) throw new Error('the SIMD engine\'s workspace image is resident');
+    // Other float32 samples written behind the image's back (not through `data`): the kernel reads the bytes.
+    input.heap.f32(input.address, w * h).fill(7);
+    expect(bitsOf(laplacian(input, 4, 'reflect', workspace.take(w, h)))).toEqual(plainLaplacian(channelImage(p, 'luma')));
+    // Whoever holds `data` may write it: handing it out drops the copy, and the samples are read again.
+    expect(input.data[0]).toBe(7);
+    expect(input.eightBit).toBe(0);
+    expect(bitsOf(laplacian(input, 4, 'reflect', workspace.take(w, h)))).toEqual(plainLaplacian(createImage(w, h, new Float32Array(w * h).fill(7))));
+    // Overwritten by a step: dropped. Given back: dropped, and its block returned to the heap.
+    inputChannel(p, 'luma', input);
+    expect(input.eightBit).not.toBe(0);
+    boxFilter(createImage(w, h, new Float32Array(w * h).fill(3)), 3, 'reflect', input);
+    expect(input.eightBit).toBe(0);
+    inputChannel(p, 'luma', input);
+    const copy = input.eightBit;
+    workspace.give(input);
+    expect(input.heap.inUse(copy)).toBe(false);
+    workspace.dispose();
+  });
 });
 
 test('direct correlation at the edge of 16-bit sums: a lone weight of ±1 (any sample up to 32767 could add in 16 bits) on samples around 32767, beyond 2²² and infinite: the float32 sums bit for bit', () => {
@@ -630,14 +710,18 @@ test('a rule opening with a Gaussian and a gradient, run straight from an 8-bit 
   );
 });
 
-test('a rule opening with a separable step (a Gaussian, a rank-1 kernel with divisor and offset), run straight from an 8-bit photo: the same outputs, quality, measurements and verdict as through the float32 input', () => {
+test('a rule opening with a separable step (a Gaussian, a rank-1 kernel with divisor and offset) or a direct kernel (a Laplacian, a sharpening kernel), run straight from an 8-bit photo: the same outputs, quality, measurements and verdict as through the float32 input', () => {
   const opening = fc.constantFrom<Record<string, unknown>>(
     { op: 'gaussian', sigma: 0.8 },
     { op: 'gaussian', sigma: 2.2 },
     { op: 'kernel', matrix: [[1, 2, 1], [2, 4, 2], [1, 2, 1]], divisor: 16, offset: 3 },
     { op: 'kernel', matrix: [[1, 4, 6, 4, 1], [2, 8, 12, 8, 2], [1, 4, 6, 4, 1]], divisor: 64 },
-    // Not separable: the run converts the input as before.
+    // Not separable: a grey photo's input waits for its samples, the kernel reads its bytes.
     { op: 'kernel', matrix: [[0, -1, 0], [-1, 5, -1], [0, -1, 0]] },
+    { op: 'laplacian', neighbours: 4 },
+    { op: 'laplacian', neighbours: 8 },
+    // Past the bytes' bound (‖k‖₁ 150 > 128): the input converted as before.
+    { op: 'kernel', matrix: [[10, -20, 10], [-20, 30, -20], [10, -20, 10]], divisor: 30 },
   );
   const border = fc.constantFrom('reflect', 'replicate', 'constant');
   const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 1, max: 40 }), fc.integer({ min: 41, max: 90 })));

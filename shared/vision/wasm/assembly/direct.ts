@@ -20,8 +20,11 @@ export function directScratchBytes(w: i32, rows: i32, cols: i32): i32 {
 
 /**
  * dst(x,y) = Σⱼ Σᵢ k[j][i]·src(x+i−rx, y+j−ry)·scale + offset, k float32 row-major at weights.
+ * src8: 0, or the same samples as bytes (an 8-bit photo's); a kernel whose 16-bit sums hold for any
+ * byte (whole weights, ‖k‖₁ ≤ 128 = 32767 ÷ 255 rounded down; EIGHT_BIT_L1 in simd-kernels.ts) then
+ * reads them instead of src, which it never touches (src's samples need not be written).
  */
-export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usize, rows: i32, cols: i32, mode: i32, scale: f32, offset: f32, scratch: usize): void {
+export function correlate2d(src: usize, src8: usize, dst: usize, w: i32, h: i32, weights: usize, rows: i32, cols: i32, mode: i32, scale: f32, offset: f32, scratch: usize): void {
   const ry = rows >> 1;
   const rx = cols >> 1;
   const taps = rows * cols;
@@ -63,7 +66,9 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   // A 3×3 kernel goes through 16-bit sums only when the first source row is of whole numbers within
   // the bound (the ring's first line holds it meanwhile): an image of fractions (a smoothed one)
   // would try every row and then take the float32 loop anyway.
-  if (rows == 3 && cols == 3 && (bound == 0 || h == 0 || !toWhole16(src, ring16, w, bound, src))) {
+  // Bytes are whole numbers within any bound of 255 or more: no checks, a quarter of the reads.
+  const bytes = src8 != 0 && bound >= 255;
+  if (rows == 3 && cols == 3 && (bound == 0 || h == 0 || (!bytes && !toWhole16(src, ring16, w, bound, src)))) {
     correlate3x3(src, dst, w, h, mode, table, scale, offset, zeros);
     return;
   }
@@ -73,7 +78,7 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
   // holding them to the float32 loop, which reads the source rows in place.
   for (let t = 0; t < rows; t++) {
     const line = ringLine(ring16, t, ring, line16Bytes);
-    store<i32>(at(whole, t % ring), <i32>(bound > 0 && toWhole16Line(src, w, h, t - ry, rx, mode, line, bound, rowBelow(src, t - ry + 3, w, h))));
+    store<i32>(at(whole, t % ring), <i32>(bound > 0 && toWhole16Line(src, bytes ? src8 : 0, w, h, t - ry, rx, mode, line, bound, rowBelow(src, t - ry + 3, w, h))));
   }
   for (let y = 0; y < h; y++) {
     let allWhole = bound > 0;
@@ -91,12 +96,12 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
         const line = load<usize>(at(slots16, load<i32>(at(taps16, 2 * t))));
         store<usize>(at(tapLines, t), line + <usize>load<i32>(at(taps16, 2 * t + 1)));
       }
-      const convert = during ? at(src, nextRow * w) : 0;
+      const convert = during ? (bytes ? src8 + <usize>(nextRow * w) : at(src, nextRow * w)) : 0;
       const line16 = ringLine(ring16, next, ring, line16Bytes) + ((<usize>rx) << 1);
       const ahead = nonzero <= FEW_TAPS ? at(dst, min(y + OUTPUT_AHEAD, h - 1) * w) : 0;
-      const done = whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset, convert, line16, bound, ahead);
+      const done = whole16(tapLines, table16, ones, ones + minusOnes, nonzero, w, out, scale, offset, convert, line16, bound, ahead, bytes);
       if (during) {
-        const ok = done >= 0 && toWhole16(convert + ((<usize>done) << 2), line16 + ((<usize>done) << 1), w - done, bound, convert);
+        const ok = done >= 0 && (bytes ? bytesTo16(convert + <usize>done, line16 + ((<usize>done) << 1), w - done) : toWhole16(convert + ((<usize>done) << 2), line16 + ((<usize>done) << 1), w - done, bound, convert));
         if (ok) fillBorderOf<i16>(ringLine(ring16, next, ring, line16Bytes), w, rx, mode);
         store<i32>(at(whole, next % ring), <i32>ok);
         continue;
@@ -108,7 +113,7 @@ export function correlate2d(src: usize, dst: usize, w: i32, h: i32, weights: usi
     }
     if (y + 1 < h) {
       const line = ringLine(ring16, next, ring, line16Bytes);
-      store<i32>(at(whole, next % ring), <i32>(bound > 0 && toWhole16Line(src, w, h, next - ry, rx, mode, line, bound, rowBelow(src, next - ry + 3, w, h))));
+      store<i32>(at(whole, next % ring), <i32>(bound > 0 && toWhole16Line(src, bytes ? src8 : 0, w, h, next - ry, rx, mode, line, bound, rowBelow(src, next - ry + 3, w, h))));
     }
   }
 }
@@ -155,15 +160,16 @@ function wholeSampleBound(weights: usize, taps: i32): i32 {
 /**
  * Source row sy (border applied) as 16-bit integers into line16[rx … rx+w−1], its border columns
  * filled; false when a sample is not a whole number of magnitude at most bound (line16 then unused).
- * `ahead`: a row of w samples to read on the way (toWhole16).
+ * From src8's bytes instead when it is not 0. `ahead`: a row of w samples to read on the way (toWhole16).
  */
-function toWhole16Line(src: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, line16: usize, bound: i32, ahead: usize): bool {
+function toWhole16Line(src: usize, src8: usize, w: i32, h: i32, sy: i32, rx: i32, mode: i32, line16: usize, bound: i32, ahead: usize): bool {
   const row = borderIndex(sy, h, mode);
   if (row == OUTSIDE) {
     memory.fill(line16, 0, 2 * (w + 2 * rx));
     return true;
   }
-  if (!toWhole16(at(src, row * w), line16 + ((<usize>rx) << 1), w, bound, ahead)) return false;
+  if (src8 != 0) bytesTo16(src8 + <usize>(row * w), line16 + ((<usize>rx) << 1), w);
+  else if (!toWhole16(at(src, row * w), line16 + ((<usize>rx) << 1), w, bound, ahead)) return false;
   fillBorderOf<i16>(line16, w, rx, mode);
   return true;
 }
@@ -197,6 +203,18 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize)
   return true;
 }
 
+/** n bytes as 16-bit integers at line16 (true: every byte is a whole number within any bound of 255 or more). */
+function bytesTo16(bytes: usize, line16: usize, n: i32): bool {
+  let p = 0;
+  for (; p + 16 <= n; p += 16) {
+    const b = v128.load(bytes + <usize>p);
+    v128.store(line16 + ((<usize>p) << 1), i16x8.extend_low_i8x16_u(b));
+    v128.store(line16 + ((<usize>p) << 1), i16x8.extend_high_i8x16_u(b), 16);
+  }
+  for (; p < n; p++) store<i16>(line16 + ((<usize>p) << 1), <i16>load<u8>(bytes + <usize>p));
+  return true;
+}
+
 /**
  * One output row in 16-bit sums, eight pixels per v128: tap t adds weight table16[t] times the 16-bit
  * line from tapLines[t] (already offset to the tap's column); each sum converted to float32, then
@@ -204,16 +222,20 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize)
  * a time in 32-bit integers: the same exact sums. When `convert` is a source row (else 0), its samples
  * go to line16 as 16-bit integers alongside, 32 for each 32 pixels summed (as toWhole16, within
  * `bound`); returns how many it converted, or −1 when one of them was not a whole number within it.
+ * With `bytes`, `convert` is a row of bytes, taken as they are.
  */
-function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32, ahead: usize): i32 {
+function whole16(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32, ahead: usize, bytes: bool): i32 {
+  if (bytes) return ahead != 0
+    ? whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, ahead, true, true)
+    : whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, 0, false, true);
   return ahead != 0
-    ? whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, ahead, true)
-    : whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, 0, false);
+    ? whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, ahead, true, false)
+    : whole16Row(tapLines, table16, ones, signed, taps, w, out, scale, offset, convert, line16, bound, 0, false, false);
 }
 
 /** whole16's loops; `touch` is a constant in each of its two copies, so the copy without it keeps no trace of it. */
 @inline
-function whole16Row(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32, ahead: usize, touch: bool): i32 {
+function whole16Row(tapLines: usize, table16: usize, ones: i32, signed: i32, taps: i32, w: i32, out: usize, scale: f32, offset: f32, convert: usize, line16: usize, bound: i32, ahead: usize, touch: bool, bytes: bool): i32 {
   let seen = 0;
   const vs = f32x4.splat(scale), vo = f32x4.splat(offset);
   const magic = v128.load(WHOLE_MAGIC_LANES);
@@ -278,7 +300,14 @@ function whole16Row(tapLines: usize, table16: usize, ones: i32, signed: i32, tap
       acc3 = i16x8.add(acc3, i16x8.mul(k, v128.load(p + 48)));
     }
     if (touch) seen |= load<i32>(at(ahead, x)) | load<i32>(at(ahead, x + 16));
-    if (convert != 0) {
+    if (bytes && convert != 0) {
+      const b0 = v128.load(convert + <usize>x), b1 = v128.load(convert + <usize>x, 16);
+      const l = line16 + ((<usize>x) << 1);
+      v128.store(l, i16x8.extend_low_i8x16_u(b0));
+      v128.store(l, i16x8.extend_high_i8x16_u(b0), 16);
+      v128.store(l, i16x8.extend_low_i8x16_u(b1), 32);
+      v128.store(l, i16x8.extend_high_i8x16_u(b1), 48);
+    } else if (convert != 0) {
       ok = wholeBlock(convert, line16, x, magic, high, low, ok);
       ok = wholeBlock(convert, line16, x + 8, magic, high, low, ok);
       ok = wholeBlock(convert, line16, x + 16, magic, high, low, ok);

@@ -10,7 +10,7 @@ export { eightBitLevels, valueRange, histogram, histogramScratchBytes, threshold
 export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero, countSetBits } from './blobs';
 export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares, wideRingBytes } from './statistics';
-export { lumaRgb8 } from './channels';
+export { lumaRgb8, bytesToFloats } from './channels';
 export { lumaRgb8Quality, grey8Quality } from './input-quality';
 export { box, boxScratchBytes } from './box';
 export { median, medianScratchBytes } from './median';

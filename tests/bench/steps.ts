@@ -8,11 +8,12 @@ import { labelBlobs } from '../../shared/vision/blobs';
 import { correlate, correlateDirect } from '../../shared/vision/convolve';
 import { setEngine, type EngineName } from '../../shared/vision/engine';
 import { gradient } from '../../shared/vision/gradient';
-import { channelImage, type Image } from '../../shared/vision/image';
+import type { Image } from '../../shared/vision/image';
 import { kernelFromMatrix } from '../../shared/vision/kernels';
 import { laplacian, laplacianOfGaussian } from '../../shared/vision/laplacian';
 import { medianFilter } from '../../shared/vision/median';
 import { morphology } from '../../shared/vision/morphology';
+import { inputChannel } from '../../shared/vision/photo-channel';
 import { boxFilter, gaussianBlur } from '../../shared/vision/smoothing';
 import { gaussianGradient } from '../../shared/vision/smoothed-gradient';
 import { thresholdAdaptiveMean, thresholdOtsu } from '../../shared/vision/threshold';
@@ -35,7 +36,8 @@ const k31 = kernelFromMatrix(Array.from({ length: 31 }, (_, j) => Array.from({ l
 /** The steps on buffers of the engine's own workspace (for SIMD: in its WebAssembly memory, as a rule run has them). */
 function stepsOn(workspace: ImageWorkspace): Record<string, () => void> {
   const take = (): Image => workspace.take(width, height);
-  const input = channelImage(photo, 'luma', take());
+  // The rule runner's input image: on the SIMD engine an 8-bit grey photo's keeps its bytes too.
+  const input = inputChannel(photo, 'luma', take());
   const [a, b, c] = [take(), take(), take()];
   const magnitude = gradient(gaussianBlur(input, 1, 'reflect', a), 'sobel', 'magnitude', 'reflect', take());
   const mask = thresholdOtsu(magnitude, false, take()).mask;

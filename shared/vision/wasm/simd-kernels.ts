@@ -384,11 +384,13 @@ export class SimdKernels {
    */
   greyQualityLater(samples: Uint8Array, out: ResidentImage): QualitySums {
     const bytes = this.copyIn(samples);
+    const pixels = samples.length;
     const scope = new CallScope(this.heap);
     try {
       const sums = scope.alloc(32);
       this.wasm.grey8Quality(bytes, out.width, out.height, 0, sums);
-      out.fillLater(() => this.wasm.bytesToFloats(out.eightBit, samples.length, out.address));
+      // The fill keeps no hold on the photo: the bytes are the image's own block.
+      out.fillLater(() => this.wasm.bytesToFloats(out.eightBit, pixels, out.address));
       out.keepEightBit(bytes);
       return this.qualityAt(sums);
     } finally {

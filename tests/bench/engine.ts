@@ -408,10 +408,10 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
     step: 'laplacian 4',
     passes: 1,
     times: {
-      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => laplacian(input, 4, 'reflect', a)), opencv: () => cv.Laplacian(u8, m1, cv.CV_32F, 1, 1, 0, REFLECT) }),
+      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => laplacian(input, 4, 'reflect', a)), opencv: () => cv.Laplacian(f32, m1, cv.CV_32F, 1, 1, 0, REFLECT) }),
       ...(await sharpTimes(sharpRun((s) => s.convolve({ width: 3, height: 3, kernel: [0, 1, 0, 1, -4, 1, 0, 1, 0] })))),
     },
-    note: 'simd and OpenCV: from the 8-bit photo, 32F out; sharp: clamped to 8 bits',
+    note: 'simd: reads the 8-bit copy; OpenCV: 32F in (its 8U in is slower); sharp: clamped to 8 bits',
   });
   rows.push({ step: 'LoG sigma 1.4 (11 taps)', passes: 4, times: inTurn(runs, onEngines(buffers, ({ input, a }) => laplacianOfGaussian(input, 1.4, 'reflect', a))) });
   rows.push({
@@ -450,10 +450,10 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
     step: 'kernel 5x5 non-separable (direct)',
     passes: 1,
     times: {
-      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => correlateDirect(input, k5kernel, 'reflect', a)), opencv: () => cv.filter2D(u8, m1, cv.CV_32F, cvKernel5, anchor, 0, REFLECT) }),
+      ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => correlateDirect(input, k5kernel, 'reflect', a)), opencv: () => cv.filter2D(f32, m1, cv.CV_32F, cvKernel5, anchor, 0, REFLECT) }),
       ...(await sharpTimes(sharpRun((s) => s.convolve({ width: 5, height: 5, kernel: k5.flat() })))),
     },
-    note: 'simd and OpenCV: from the 8-bit photo, 32F out; sharp: clamped to 8 bits',
+    note: 'simd: reads the 8-bit copy; OpenCV: 32F in (its 8U in is slower); sharp: clamped to 8 bits',
   });
   rows.push({
     step: 'kernel 15x15 non-separable (FFT)',

@@ -132,7 +132,7 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
     const t0 = now();
     const opened = openFromPhoto(rule, photo, kernels[0], needed, input, out, handover.range);
     if (opened) figures = opened.figures;
-    if (opened && opened.steps > 0) opening = { output: out, ms: now() - t0, steps: opened.steps as 1 | 2 };
+    if (opened && opened.steps !== 0) opening = { output: out, ms: now() - t0, steps: opened.steps };
     else spare.push(out);
   }
   if (!figures) ({ input, quality: figures } = inputWithQuality(photo, rule.input.channel, input));

@@ -41,7 +41,8 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
       const tmp = scratch && scratch !== out && !sameBuffer(scratch, src) ? imageLike(src, scratch) : createImage(src.width, src.height);
       const order = simdKernels() ? 'unordered' : sampleOrder(src.data);
       if (order === 'unordered') {
-        const first = extremeFilter(src, radius, border, op !== 'open', tmp);
+        // The first pass's image is a scratch: only the second reads it.
+        const first = extremeFilter(src, radius, border, op !== 'open', tmp, true);
         return extremeFilter(first, radius, border, op === 'open', out);
       }
       // Keys from one pass to the next: converted once in and once out (the scratch holds keys).
@@ -56,9 +57,9 @@ export function valueMorphology(src: Image, op: MorphologyOp, radius: number, bo
 }
 
 /** Minimum (erosion) or maximum (dilation) over the square of side 2r+1, vertical then horizontal. */
-function extremeFilter(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
+function extremeFilter(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image, scratchOnly = false): Image {
   const simd = simdKernels();
-  if (simd) return simd.extreme(src, r, border, takeMax, out);
+  if (simd) return simd.extreme(src, r, border, takeMax, out, scratchOnly);
   const order = sampleOrder(src.data);
   if (order !== 'unordered') {
     const dst = imageLike(src, out === src ? undefined : out);

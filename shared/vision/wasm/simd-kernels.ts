@@ -42,6 +42,8 @@ export interface EngineExports {
   thresholdAtPacked(src: number, dst: number, w: number, h: number, cut: number, invert: number, words: number): void;
   extreme(src: number, dst: number, w: number, h: number, r: number, mode: number, takeMax: number, scratch: number): void;
   extremeScratchBytes(w: number, r: number): number;
+  extremeBytes(src: number, dst: number, w: number, h: number, r: number, mode: number, takeMax: number, scratch: number): void;
+  extremeBytesScratchBytes(w: number, r: number): number;
   packMask(src: number, w: number, h: number, words: number): number;
   unpackMask(words: number, dst: number, w: number, h: number): void;
   packedExtreme(src: number, dst: number, w: number, h: number, r: number, takeMax: number, outside: number, scratch: number): void;
@@ -485,12 +487,40 @@ export class SimdKernels {
     });
   }
 
-  /** Minimum (erosion) or maximum (dilation) over the square of side 2r+1, for any values. */
-  extreme(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image): Image {
+  /**
+   * Minimum (erosion) or maximum (dilation) over the square of side 2r+1, for any values. From an
+   * 8-bit copy into a resident `out` when src has one; `samplesLater`: out is a scratch that the next
+   * pass reads through its 8-bit copy, so its float32 samples are written only if something reads them.
+   */
+  extreme(src: Image, r: number, border: BorderMode, takeMax: boolean, out?: Image, samplesLater = false): Image {
+    const bytes = this.eightBitOf(src);
+    const dst = bytes === 0 ? null : imageLike(src, out === src ? undefined : out);
+    if (dst && this.owns(dst)) return this.extremeOfBytes(bytes, src, r, border, takeMax, dst, samplesLater);
     return this.mapImage(src, out, (s, d, scope) => {
       const scratch = scope.alloc(this.wasm.extremeScratchBytes(src.width, r));
       this.wasm.extreme(s, d, src.width, src.height, r, BORDER_CODES[border], takeMax ? 1 : 0, scratch);
     });
+  }
+
+  /**
+   * `extreme` of an image's 8-bit copy into a resident `out`: the minima or maxima of whole numbers
+   * 0 … 255 are bytes too, so they are taken sixteen to an instruction and `out` keeps them as its own
+   * 8-bit copy (the next morphology pass reads them). The same samples as from the float32 values.
+   */
+  private extremeOfBytes(bytes: number, src: Image, r: number, border: BorderMode, takeMax: boolean, out: ResidentImage, samplesLater: boolean): Image {
+    const { width: w, height: h } = src;
+    const result = this.heap.alloc(w * h);
+    const scope = new CallScope(this.heap);
+    try {
+      this.wasm.extremeBytes(bytes, result, w, h, r, BORDER_CODES[border], takeMax ? 1 : 0, scope.alloc(this.wasm.extremeBytesScratchBytes(w, r)));
+      const target = this.outputAddress(out);
+      if (samplesLater) out.fillLater(() => this.wasm.bytesToFloats(out.eightBit, w * h, target));
+      else this.wasm.bytesToFloats(result, w * h, target);
+      out.keepEightBit(result);
+      return out;
+    } finally {
+      scope.end();
+    }
   }
 
   /**

@@ -66,6 +66,8 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.correlate2d(c, fiveByFive, 'reflect', b);
   c.settle();
   kernels.greyInput(grey, c);
+  kernels.extreme(c, 1, 'reflect', false, a, true);
+  kernels.extreme(a, 2, 'reflect', true, b);
   for (const image of [a, b, c]) {
     image.discard();
     kernels.heap.release(image.address);

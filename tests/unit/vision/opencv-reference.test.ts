@@ -278,6 +278,23 @@ describe.each(ENGINES)('on the %s engine', (engine) => {
       k.delete();
     });
 
+    test('erosion, dilation, opening and closing (5x5 square) match OpenCV on the 8-bit Mat, to the level', () => {
+      for (const op of ['erode', 'dilate', 'open', 'close'] as const) {
+        const ours = runOnInput((input, out) => morphology(input, op, 2, border, out).data.slice());
+        const expected = fromBytes((src, dst) => {
+          const element = cv.getStructuringElement(cv.MORPH_RECT, new cv.Size(5, 5));
+          const anchor = new cv.Point(-1, -1);
+          // BORDER_CONSTANT with value 0, stated explicitly (OpenCV's default border value is neutral).
+          const value = new cv.Scalar(0, 0, 0, 0);
+          if (op === 'erode') cv.erode(src, dst, element, anchor, 1, CV_BORDER[border], value);
+          else if (op === 'dilate') cv.dilate(src, dst, element, anchor, 1, CV_BORDER[border], value);
+          else cv.morphologyEx(src, dst, op === 'open' ? cv.MORPH_OPEN : cv.MORPH_CLOSE, element, anchor, 1, CV_BORDER[border], value);
+          element.delete();
+        });
+        expect({ op, diff: maxAbsDiff(ours, expected) }).toEqual({ op, diff: 0 });
+      }
+    });
+
     test('a non-separable 5x5 kernel of whole numbers matches OpenCV filter2D on the 8-bit Mat', () => {
       const matrix = [[1, 2, 0, -1, 1], [0, 3, 1, -2, 0], [2, -1, 4, 0, 1], [1, 0, -2, 3, 0], [0, 1, 1, 0, 2]];
       const ours = runOnInput((input, out) => correlateDirect(input, kernelFromMatrix(matrix), border, out).data.slice());

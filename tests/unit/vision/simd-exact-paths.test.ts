@@ -538,6 +538,32 @@ test('morphology on any values (minimum and maximum, NaN and −0 included): ide
   );
 });
 
+test('morphology on any values from an 8-bit grey photo\'s input image (minima and maxima of its bytes, sixteen to an instruction): the plain engine\'s bits; the output keeps its own 8-bit copy and a scratch pass\'s samples come when read', () => {
+  const size = fc.oneof(imageSize, fc.tuple(fc.integer({ min: 30, max: 90 }), fc.integer({ min: 1, max: 40 })));
+  fc.assert(
+    fc.property(size, seed, morphologyOp, fc.integer({ min: 1, max: 6 }), borderMode, ([w, h], s, op, radius, border) => {
+      const p = photo(w, h, s);
+      const expected = bitsOf(onEngine('plain', () => valueMorphology(channelImage(p, 'luma'), op, radius, border)));
+      const firstPass = bitsOf(onEngine('plain', () => valueMorphology(channelImage(p, 'luma'), op === 'close' ? 'dilate' : 'erode', radius, border)));
+      onEngine('simd', () => {
+        const workspace = new ImageWorkspace();
+        const input = inputChannel(p, 'luma', workspace.take(w, h));
+        const out = valueMorphology(input, op, radius, border, workspace.take(w, h), workspace.take(w, h));
+        if (!isResident(out)) throw new Error('the output is the workspace image given');
+        const copy = out.eightBit;
+        expect(copy).not.toBe(0);
+        expect(Array.from(out.heap.f32(out.address, w * h))).toEqual(Array.from(new Uint8Array(out.heap.memory.buffer, copy, w * h)));
+        expect(bitsOf(out)).toEqual(expected);
+        // A first pass into a scratch: its float32 samples are written when something reads them.
+        const scratch = simdKernels()!.extreme(input, radius, border, op === 'close', workspace.take(w, h), true);
+        expect(bitsOf(scratch)).toEqual(firstPass);
+        workspace.dispose();
+      });
+    }),
+    RUNS,
+  );
+});
+
 test('morphology on masks (packed bits, radius 1 to 31, or handed over by Otsu): identical bits', () => {
   fc.assert(
     fc.property(imageSize, seed, morphologyOp, fc.oneof(fc.integer({ min: 1, max: 3 }), fc.integer({ min: 4, max: 31 })), borderMode, fc.boolean(), ([w, h], s, op, radius, border, handed) => {

@@ -7,7 +7,7 @@ export { correlateFft, fftScratchBytes, largestFiniteMagnitude } from './fft';
 export { gradient, gradientScratchBytes } from './gradient';
 export { smoothedGradient, smoothedGradientScratchBytes, smoothedGradientBytes, smoothedGradientBytesScratchBytes } from './smoothed-gradient';
 export { eightBitLevels, valueRange, histogram, histogramScratchBytes, thresholdAt, thresholdAtPacked, thresholdBinsPacked } from './threshold';
-export { extreme, extremeScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
+export { extreme, extremeScratchBytes, extremeBytes, extremeBytesScratchBytes, packMask, unpackMask, packedExtreme, packedScratchBytes } from './morphology';
 export { packNonZero, countSetBits } from './blobs';
 export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares, wideRingBytes } from './statistics';
 export { lumaRgb8, bytesToFloats } from './channels';

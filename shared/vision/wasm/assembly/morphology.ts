@@ -3,7 +3,7 @@
 // plain engine's comparisons (pmin(a, b) is b < a ? b : a), so that NaN and ±0 come out the same.
 // Masks (every value 0 or 1): packed 32 pixels per int32 word, where the minimum is an AND and the
 // maximum an OR over rows and shifted words, four words per v128.
-import { align16, at, fillLineBorder, rowAddress } from './border';
+import { align16, at, borderIndex, fillBorderOf, fillLineBorder, OUTSIDE, rowAddress } from './border';
 
 const ONE_BITS: i32 = 0x3f800000;
 
@@ -24,6 +24,78 @@ export function extreme(src: usize, dst: usize, w: i32, h: i32, r: i32, mode: i3
     verticalExtreme(rows, size, w, at(line, r), takeMax != 0);
     fillLineBorder(line, w, r, mode);
     horizontalExtreme(line, size, w, at(dst, y * w), takeMax != 0);
+  }
+}
+
+/**
+ * `extreme` of 8-bit samples (w·h bytes at src) into bytes at dst: the same minima and maxima (the
+ * outside, with the constant border, is 0 as there), sixteen pixels per instruction.
+ */
+export function extremeBytes(src: usize, dst: usize, w: i32, h: i32, r: i32, mode: i32, takeMax: i32, scratch: usize): void {
+  const size = 2 * r + 1;
+  const rows = align16(scratch);
+  const zeros = align16(at(rows, size));
+  memory.fill(zeros, 0, w);
+  const line = align16(zeros + <usize>w);
+  for (let y = 0; y < h; y++) {
+    for (let j = 0; j < size; j++) {
+      const sy = borderIndex(y + j - r, h, mode);
+      store<usize>(at(rows, j), sy == OUTSIDE ? zeros : src + <usize>(sy * w));
+    }
+    if (takeMax != 0) verticalBytes(rows, size, w, line + <usize>r, true);
+    else verticalBytes(rows, size, w, line + <usize>r, false);
+    fillBorderOf<u8>(line, w, r, mode);
+    if (takeMax != 0) horizontalBytes(line, size, w, dst + <usize>(y * w), true);
+    else horizontalBytes(line, size, w, dst + <usize>(y * w), false);
+  }
+}
+
+/** Scratch bytes `extremeBytes` needs. */
+export function extremeBytesScratchBytes(w: i32, r: i32): i32 {
+  return 4 * (2 * r + 1) + 2 * w + 2 * r + 64;
+}
+
+/** The extreme of two lanes of bytes (a constant `takeMax` in each inlined copy). */
+@inline
+function extremeU8(a: v128, b: v128, takeMax: bool): v128 {
+  return takeMax ? i8x16.max_u(a, b) : i8x16.min_u(a, b);
+}
+
+@inline
+function verticalBytes(rows: usize, size: i32, w: i32, line: usize, takeMax: bool): void {
+  let x = 0;
+  for (; x + 16 <= w; x += 16) {
+    let m = v128.load(load<usize>(rows) + <usize>x);
+    for (let j = 1; j < size; j++) m = extremeU8(m, v128.load(load<usize>(at(rows, j)) + <usize>x), takeMax);
+    v128.store(line + <usize>x, m);
+  }
+  for (; x < w; x++) {
+    let m = load<u8>(load<usize>(rows) + <usize>x);
+    for (let j = 1; j < size; j++) {
+      const v = load<u8>(load<usize>(at(rows, j)) + <usize>x);
+      if (takeMax ? v > m : v < m) m = v;
+    }
+    store<u8>(line + <usize>x, m);
+  }
+}
+
+@inline
+function horizontalBytes(line: usize, size: i32, w: i32, out: usize, takeMax: bool): void {
+  let x = 0;
+  for (; x + 16 <= w; x += 16) {
+    const p = line + <usize>x;
+    let m = v128.load(p);
+    for (let i = 1; i < size; i++) m = extremeU8(m, v128.load(p + <usize>i), takeMax);
+    v128.store(out + <usize>x, m);
+  }
+  for (; x < w; x++) {
+    const p = line + <usize>x;
+    let m = load<u8>(p);
+    for (let i = 1; i < size; i++) {
+      const v = load<u8>(p + <usize>i);
+      if (takeMax ? v > m : v < m) m = v;
+    }
+    store<u8>(out + <usize>x, m);
   }
 }
 

@@ -65,7 +65,7 @@ export interface EngineExports {
   greyRgb(src: number, n: number, scale: number, shift: number, dst: number): void;
   firstExtreme(src: number, w: number, h: number, starts: number, ends: number, takeMax: number): number;
   boxScratchBytes(w: number, size: number): number;
-  median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
+  median(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number, ordered: number): number;
   medianScratchBytes(w: number, size: number): number;
   medianHistogram(src: number, dst: number, w: number, h: number, size: number, mode: number, scratch: number): number;
   medianHistogramScratchBytes(w: number, size: number): number;
@@ -250,8 +250,12 @@ export class SimdKernels {
       const d = resident ? this.outputAddress(dst) : scope.alloc(4 * dst.data.length);
       const network = size <= 5;
       const scratch = scope.alloc(network ? this.wasm.medianScratchBytes(src.width, size) : this.wasm.medianHistogramScratchBytes(src.width, size));
-      const run = network ? this.wasm.median : this.wasm.medianHistogram;
-      if (run(s, d, src.width, src.height, size, BORDER_CODES[border], scratch) === 0) return null;
+      // An image with an 8-bit copy holds no NaN or −0: the network skips its search for them.
+      const ordered = this.eightBitOf(src) !== 0 ? 1 : 0;
+      const found = network
+        ? this.wasm.median(s, d, src.width, src.height, size, BORDER_CODES[border], scratch, ordered)
+        : this.wasm.medianHistogram(s, d, src.width, src.height, size, BORDER_CODES[border], scratch);
+      if (found === 0) return null;
       if (!resident) dst.data.set(this.heap.f32(d, dst.data.length));
       return dst;
     } finally {

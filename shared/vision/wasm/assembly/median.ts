@@ -15,10 +15,11 @@ export function medianScratchBytes(w: i32, size: i32): i32 {
 
 /**
  * dst = median of the size × size neighbourhood (size 3 or 5, border by `mode`); returns 1, or 0
- * without writing anything when src holds a NaN or a −0.
+ * without writing anything when src holds a NaN or a −0. `ordered` ≠ 0: the caller knows there is
+ * none (the samples are an 8-bit photo's), and the pass over the image that looks for them is skipped.
  */
-export function median(src: usize, dst: usize, w: i32, h: i32, size: i32, mode: i32, scratch: usize): i32 {
-  if (hasUnorderedValues(src, w * h)) return 0;
+export function median(src: usize, dst: usize, w: i32, h: i32, size: i32, mode: i32, scratch: usize, ordered: i32): i32 {
+  if (ordered == 0 && hasUnorderedValues(src, w * h)) return 0;
   const r = size >> 1;
   const rows = align16(scratch);
   const zeros = align16(at(rows, size));

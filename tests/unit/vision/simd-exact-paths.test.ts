@@ -17,7 +17,7 @@ import { channelImage, createImage, imageFromSamples, type RawPhoto } from '../.
 import { inputChannel, inputWithQuality } from '../../../shared/vision/photo-channel';
 import { morphology, valueMorphology } from '../../../shared/vision/morphology';
 import { laplacian } from '../../../shared/vision/laplacian';
-import { isResident } from '../../../shared/vision/wasm/resident-image';
+import { isResident, type ResidentImage } from '../../../shared/vision/wasm/resident-image';
 import { qualityFigures } from '../../../shared/vision/quality';
 import { releaseRun, runRule } from '../../../shared/vision/pipeline';
 import { ImageWorkspace } from '../../../shared/vision/workspace';
@@ -36,6 +36,20 @@ const anyKind = fc.constantFrom<SampleKind>('8-bit', '16-bit', 'signed float', '
 const morphologyOp = fc.constantFrom<MorphologyOp>('erode', 'dilate', 'open', 'close');
 /** Box and adaptive-mean window sides: the small ones, and some wider than the images (the border reflected again and again). */
 const windowSide = fc.oneof(fc.constantFrom(1, 3, 5, 7), fc.integer({ min: 0, max: 127 }).map((r) => 2 * r + 1));
+
+/** Runs `fn` on the SIMD engine with the rule runner's input image of an 8-bit grey photo, which keeps an 8-bit copy. */
+function withGreyInput(p: RawPhoto, fn: (input: ResidentImage, workspace: ImageWorkspace) => void): void {
+  onEngine('simd', () => {
+    const workspace = new ImageWorkspace();
+    const input = inputChannel(p, 'luma', workspace.take(p.width, p.height));
+    if (!isResident(input) || input.eightBit === 0) throw new Error('the input image of an 8-bit grey photo keeps an 8-bit copy');
+    try {
+      fn(input, workspace);
+    } finally {
+      workspace.dispose();
+    }
+  });
+}
 
 /** bitsOf with every NaN as one pattern: which NaN an arithmetic operation returns is left open by IEEE 754 (§6.2, from memory). */
 function bitsOrNaN(image: Image): number[] {
@@ -188,12 +202,8 @@ test('median 3×3, 5×5 and 7×7 of an 8-bit grey photo\'s input image (its 8-bi
     fc.property(imageSize, seed, fc.constantFrom(3, 5, 7), borderMode, ([w, h], s, size, border) => {
       const p = photo(w, h, s);
       const expected = bitsOf(onEngine('plain', () => medianFilter(channelImage(p, 'luma'), size, border)));
-      onEngine('simd', () => {
-        const workspace = new ImageWorkspace();
-        const input = inputChannel(p, 'luma', workspace.take(w, h));
-        expect(isResident(input) && input.eightBit !== 0).toBe(true);
+      withGreyInput(p, (input, workspace) => {
         expect(bitsOf(medianFilter(input, size, border, workspace.take(w, h)))).toEqual(expected);
-        workspace.dispose();
       });
     }),
     RUNS,
@@ -273,12 +283,8 @@ test('direct correlation from an 8-bit grey photo\'s input image (the SIMD engin
       const p = photo(w, h, s);
       const k = kernelFromMatrix(Array.from({ length: rows }, (_, j) => flat.slice(j * cols, (j + 1) * cols)), divisor, eighths / 8);
       const expected = Array.from(new Uint32Array(float32DirectSums(channelImage(p, 'luma'), k, border).buffer));
-      onEngine('simd', () => {
-        const workspace = new ImageWorkspace();
-        const input = inputChannel(p, 'luma', workspace.take(w, h));
-        expect(isResident(input) && input.eightBit !== 0).toBe(true);
+      withGreyInput(p, (input, workspace) => {
         expect(bitsOf(correlateDirect(input, k, border, workspace.take(w, h)))).toEqual(expected);
-        workspace.dispose();
       });
     }),
     RUNS,
@@ -299,13 +305,9 @@ test('Gaussians, rank-1 kernels and the Gaussian-and-gradient sweep from an 8-bi
   fc.assert(
     fc.property(size, seed, borderMode, step, ([w, h], s, border, run) => {
       const p = photo(w, h, s);
-      onEngine('simd', () => {
-        const workspace = new ImageWorkspace();
-        const input = inputChannel(p, 'luma', workspace.take(w, h));
-        expect(isResident(input) && input.eightBit !== 0).toBe(true);
+      withGreyInput(p, (input, workspace) => {
         const fromCopy = bitsOf(run(input, workspace.take(w, h), border));
         expect(fromCopy).toEqual(bitsOf(run(channelImage(p, 'luma'), createImage(w, h), border)));
-        workspace.dispose();
       });
     }),
     RUNS,
@@ -562,9 +564,7 @@ test('morphology on any values from an 8-bit grey photo\'s input image (minima a
       const p = photo(w, h, s);
       const expected = bitsOf(onEngine('plain', () => valueMorphology(channelImage(p, 'luma'), op, radius, border)));
       const firstPass = bitsOf(onEngine('plain', () => valueMorphology(channelImage(p, 'luma'), op === 'close' ? 'dilate' : 'erode', radius, border)));
-      onEngine('simd', () => {
-        const workspace = new ImageWorkspace();
-        const input = inputChannel(p, 'luma', workspace.take(w, h));
+      withGreyInput(p, (input, workspace) => {
         const out = valueMorphology(input, op, radius, border, workspace.take(w, h), workspace.take(w, h));
         if (!isResident(out)) throw new Error('the output is the workspace image given');
         const copy = out.eightBit;
@@ -574,7 +574,6 @@ test('morphology on any values from an 8-bit grey photo\'s input image (minima a
         // A first pass into a scratch: its float32 samples are written when something reads them.
         const scratch = simdKernels()!.extreme(input, radius, border, op === 'close', workspace.take(w, h), true);
         expect(bitsOf(scratch)).toEqual(firstPass);
-        workspace.dispose();
       });
     }),
     RUNS,

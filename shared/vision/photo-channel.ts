@@ -45,13 +45,14 @@ function eightBitSource(photo: RawPhoto, channel: InputChannel): { samples: Uint
 
 /**
  * The quality figures of an 8-bit grey photo on the SIMD engine from its bytes, for a rule whose first
- * step correlates with `kernel` and reads the input's 8-bit copy for it (SimdKernels.readsEightBit):
- * `input` keeps the bytes and gets its float32 samples only when something reads them. null where
- * this does not apply: the caller then converts the input (inputWithQuality).
+ * step reads the input's 8-bit copy: a correlation with `kernel` that does (SimdKernels.readsEightBit),
+ * or, without a kernel, a step that always does (the median of 3×3 or 5×5 windows). `input` keeps the
+ * bytes and gets its float32 samples only when something reads them. null where this does not apply:
+ * the caller then converts the input (inputWithQuality).
  */
-export function eightBitInputFromPhoto(photo: RawPhoto, channel: InputChannel, input: Image, kernel: Kernel): QualityFigures | null {
+export function eightBitInputFromPhoto(photo: RawPhoto, channel: InputChannel, input: Image, kernel?: Kernel): QualityFigures | null {
   const direct = directPhoto(photo, channel, input);
-  if (!direct || direct.channels !== 1 || !direct.simd.readsEightBit(kernel)) return null;
+  if (!direct || direct.channels !== 1 || (kernel && !direct.simd.readsEightBit(kernel))) return null;
   return qualityFromSums(direct.simd.greyQualityLater(direct.samples, direct.input), photo.width * photo.height);
 }
 

@@ -122,8 +122,8 @@ export function runValidatedRule(rule: RuleDocument, photo: RawPhoto, options: R
   // A rule whose first step is separable (a Gaussian and a gradient after it that nobody else reads
   // are one sweep) takes an 8-bit photo straight into that step (photo-channel.ts), unless every
   // image is kept: the input image is then filled only if something reads it. So does one whose first
-  // step is a direct correlation that reads an 8-bit grey photo's bytes (a Laplacian, most kernels of
-  // whole numbers): it runs in the loop below.
+  // step reads an 8-bit grey photo's bytes (a Laplacian, most direct kernels of whole numbers, a 3×3 or
+  // 5×5 median): it runs in the loop below.
   let input = workspace.take(photo.width, photo.height);
   let opening: Opening | null = null;
   let figures: QualityFigures | null = null;
@@ -292,6 +292,7 @@ function openFromPhoto(rule: RuleDocument, photo: RawPhoto, kernel: Kernel | nul
     return opened(separableFromPhoto(photo, channel, g, g, 0, rule.border, input, out), 1);
   }
   if (first?.op === 'laplacian') return opened(eightBitInputFromPhoto(photo, channel, input, LAPLACIAN_KERNELS[first.neighbours]), 0);
+  if (first?.op === 'median' && first.size <= 5) return opened(eightBitInputFromPhoto(photo, channel, input), 0);
   if (first?.op !== 'kernel' || !kernel) return null;
   const pair = separate(kernel);
   if (pair) return opened(separableFromPhoto(photo, channel, pair.column, pair.row, kernel.offset, rule.border, input, out), 1);

@@ -68,6 +68,8 @@ export function warmUp(kernels: SimdKernels): void {
   kernels.greyInput(grey, c);
   kernels.extreme(c, 1, 'reflect', false, a, true);
   kernels.extreme(a, 2, 'reflect', true, b);
+  kernels.median(c, 3, 'reflect', b);
+  kernels.median(c, 5, 'reflect', b);
   for (const image of [a, b, c]) {
     image.discard();
     kernels.heap.release(image.address);

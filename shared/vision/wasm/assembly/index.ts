@@ -13,7 +13,7 @@ export { qualitySums, qualitySumsWhole8, countNonZero, regionSums, regionSquares
 export { lumaRgb8, bytesToFloats } from './channels';
 export { lumaRgb8Quality, grey8Quality } from './input-quality';
 export { box, boxScratchBytes } from './box';
-export { median, medianScratchBytes } from './median';
+export { median, medianScratchBytes, medianBytes, medianBytesScratchBytes } from './median';
 export { shrinkMeans, greyRgb, firstExtreme } from './evidence';
 export { medianHistogram, medianHistogramScratchBytes } from './median-histogram';
 

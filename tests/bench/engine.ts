@@ -354,7 +354,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
       ...inTurn(runs, { ...onEngines(buffers, ({ input, a }) => medianFilter(input, 3, 'reflect', a)), opencv: () => cv.medianBlur(u8, m4, 3) }),
       ...(await sharpTimes(sharpRun((s) => s.median(3)))),
     },
-    note: 'OpenCV and sharp: 8-bit',
+    note: 'simd: reads the 8-bit copy; OpenCV and sharp: 8-bit',
   });
   rows.push({
     step: 'median 5',
@@ -362,7 +362,7 @@ async function benchSize(cv: Cv, label: string, width: number, height: number, r
       ...inTurn(Math.max(1, runs - 2), { ...onEngines(buffers, ({ input, a }) => medianFilter(input, 5, 'reflect', a)), opencv: () => cv.medianBlur(u8, m4, 5) }),
       ...(await sharpTimes(sharpRun((s) => s.median(5)))),
     },
-    note: 'OpenCV and sharp: 8-bit',
+    note: 'simd: reads the 8-bit copy; OpenCV and sharp: 8-bit',
   });
   rows.push({
     step: 'median 7',

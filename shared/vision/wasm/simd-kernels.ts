@@ -512,7 +512,7 @@ export class SimdKernels {
         this.wasm.extremeBytes(bytes, result, src.width, src.height, r, BORDER_CODES[border], takeMax ? 1 : 0, scope.alloc(this.wasm.extremeBytesScratchBytes(src.width, r))),
       );
     }
-    return this.mapImage(src, out, (s, d, scope) => {
+    return this.mapImage(src, dst ?? out, (s, d, scope) => {
       const scratch = scope.alloc(this.wasm.extremeScratchBytes(src.width, r));
       this.wasm.extreme(s, d, src.width, src.height, r, BORDER_CODES[border], takeMax ? 1 : 0, scratch);
     });

@@ -384,9 +384,7 @@ export class SimdKernels {
 
   /** An 8-bit grey photo's samples into `out`, which keeps the bytes as its 8-bit copy (channelImage's samples). */
   greyInput(samples: Uint8Array, out: ResidentImage): ResidentImage {
-    const bytes = this.copyIn(samples);
-    this.wasm.bytesToFloats(bytes, samples.length, this.outputAddress(out));
-    out.keepEightBit(bytes);
+    this.samplesFromBytes(out, this.copyIn(samples), false);
     return out;
   }
 
@@ -397,14 +395,11 @@ export class SimdKernels {
    */
   greyQualityLater(samples: Uint8Array, out: ResidentImage): QualitySums {
     const bytes = this.copyIn(samples);
-    const pixels = samples.length;
     const scope = new CallScope(this.heap);
     try {
       const sums = scope.alloc(32);
       this.wasm.grey8Quality(bytes, out.width, out.height, 0, sums);
-      // The fill keeps no hold on the photo: the bytes are the image's own block.
-      out.fillLater(() => this.wasm.bytesToFloats(out.eightBit, pixels, out.address));
-      out.keepEightBit(bytes);
+      this.samplesFromBytes(out, bytes, true);
       return this.qualityAt(sums);
     } finally {
       scope.end();
@@ -524,19 +519,27 @@ export class SimdKernels {
    * reads through its copy, so its float32 samples are written only if something reads them.
    */
   private intoBytes(out: ResidentImage, samplesLater: boolean, compute: (result: number, scope: CallScope) => void): ResidentImage {
-    const pixels = out.width * out.height;
-    const result = this.heap.alloc(pixels);
+    const result = this.heap.alloc(out.width * out.height);
     const scope = new CallScope(this.heap);
     try {
       compute(result, scope);
-      const target = this.outputAddress(out);
-      if (samplesLater) out.fillLater(() => this.wasm.bytesToFloats(out.eightBit, pixels, target));
-      else this.wasm.bytesToFloats(result, pixels, target);
-      out.keepEightBit(result);
+      this.samplesFromBytes(out, result, samplesLater);
       return out;
     } finally {
       scope.end();
     }
+  }
+
+  /**
+   * `out`'s samples become the bytes of `block`, which it owns from now on as its 8-bit copy: written
+   * now, or with `later` when first read (the fill reads the image's own block, not the caller's data).
+   */
+  private samplesFromBytes(out: ResidentImage, block: number, later: boolean): void {
+    const pixels = out.width * out.height;
+    const target = this.outputAddress(out);
+    if (later) out.fillLater(() => this.wasm.bytesToFloats(out.eightBit, pixels, target));
+    else this.wasm.bytesToFloats(block, pixels, target);
+    out.keepEightBit(block);
   }
 
   /**

@@ -203,14 +203,18 @@ function toWhole16(line: usize, line16: usize, n: i32, bound: i32, ahead: usize)
   return true;
 }
 
+/** Sixteen bytes at p as 16-bit integers at line16 (32 bytes). */
+@inline
+function widen16Bytes(p: usize, line16: usize): void {
+  const b = v128.load(p);
+  v128.store(line16, i16x8.extend_low_i8x16_u(b));
+  v128.store(line16, i16x8.extend_high_i8x16_u(b), 16);
+}
+
 /** n bytes as 16-bit integers at line16 (true: every byte is a whole number within any bound of 255 or more). */
 function bytesTo16(bytes: usize, line16: usize, n: i32): bool {
   let p = 0;
-  for (; p + 16 <= n; p += 16) {
-    const b = v128.load(bytes + <usize>p);
-    v128.store(line16 + ((<usize>p) << 1), i16x8.extend_low_i8x16_u(b));
-    v128.store(line16 + ((<usize>p) << 1), i16x8.extend_high_i8x16_u(b), 16);
-  }
+  for (; p + 16 <= n; p += 16) widen16Bytes(bytes + <usize>p, line16 + ((<usize>p) << 1));
   for (; p < n; p++) store<i16>(line16 + ((<usize>p) << 1), <i16>load<u8>(bytes + <usize>p));
   return true;
 }
@@ -301,12 +305,8 @@ function whole16Row(tapLines: usize, table16: usize, ones: i32, signed: i32, tap
     }
     if (touch) seen |= load<i32>(at(ahead, x)) | load<i32>(at(ahead, x + 16));
     if (bytes && convert != 0) {
-      const b0 = v128.load(convert + <usize>x), b1 = v128.load(convert + <usize>x, 16);
-      const l = line16 + ((<usize>x) << 1);
-      v128.store(l, i16x8.extend_low_i8x16_u(b0));
-      v128.store(l, i16x8.extend_high_i8x16_u(b0), 16);
-      v128.store(l, i16x8.extend_low_i8x16_u(b1), 32);
-      v128.store(l, i16x8.extend_high_i8x16_u(b1), 48);
+      widen16Bytes(convert + <usize>x, line16 + ((<usize>x) << 1));
+      widen16Bytes(convert + <usize>x + 16, line16 + ((<usize>x) << 1) + 32);
     } else if (convert != 0) {
       ok = wholeBlock(convert, line16, x, magic, high, low, ok);
       ok = wholeBlock(convert, line16, x + 8, magic, high, low, ok);

@@ -13,6 +13,7 @@ import { makeDataSource } from '../../server/db/data-source';
 import { createTestApp, type TestApp } from '../support/app';
 import { spotPhoto, SPOT_RULE } from '../support/photos';
 import { releasedRule } from '../support/released-rule';
+import { restartablePort } from '../support/restartable-port';
 
 const run = promisify(execFile);
 let work: string;
@@ -27,7 +28,8 @@ const cluster = (command: 'pg_start' | 'pg_stop') => run('bash', ['-c', `source 
 beforeAll(async () => {
   work = await fs.mkdtemp(path.join(os.tmpdir(), 'kw-outage-'));
   await fs.chmod(work, 0o755); // the postgres user must reach its data directory inside
-  const port = String(56000 + crypto.randomInt(0, 900));
+  // Below the ephemeral range: the restart must find its port free (see restartable-port.ts).
+  const port = String(await restartablePort());
   env = { ...process.env, KW_DATA_DIR: work, KW_PG_PORT: port, KW_DB_NAME: 'outage' };
   await cluster('pg_start');
   const url = `postgres://postgres@127.0.0.1:${port}/outage`;

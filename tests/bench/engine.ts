@@ -692,11 +692,11 @@ async function benchPool(target: PoolTarget, engine: EngineName, images: 'none' 
     console.log(`  one thread, the same runs in turn with the pool's rounds: ${single.best.toFixed(1)} ms per image best, ${single.median.toFixed(1)} median${detachedNote}`);
     console.log(`  throughput against one thread: ${(single.best / pooled.best).toFixed(2)}x (best against best), ${(single.median / pooled.median).toFixed(2)}x (median against median); target ≥ 1.8`);
     console.log(`  the same pool with one worker (two stations): ${onePooled.best.toFixed(1)} ms per image best, ${onePooled.median.toFixed(1)} median; two workers ${(onePooled.best / pooled.best).toFixed(2)}x its throughput (best), ${(onePooled.median / pooled.median).toFixed(2)}x (median)`);
-    // Where a pooled photo's time goes, in the round of the best pool time: the run itself (slower
-    // with two at once when the cores share the memory system) and the rest of a worker's time.
-    const b = poolMs.indexOf(pooled.best);
-    const [two, lone, here] = [poolRun[b], onePoolRun[b], singleRun[b]];
-    console.log(`  each run's own time (median, round of the best pool time): ${two.toFixed(1)} ms in a worker beside another, ${lone.toFixed(1)} ms in the lone worker, ${here.toFixed(1)} ms in this thread; a worker's time per photo outside its run (the photo's move, the messages, its collections, waiting): ${(threads * poolMs[b] - two).toFixed(1)} ms with two, ${(onePoolMs[b] - lone).toFixed(1)} ms alone`);
+    // Where a pooled photo's time goes, in the round of the best pool time: the run itself (beside
+    // another worker, alone, and in this thread) and the rest of a worker's time.
+    const bestRound = poolMs.indexOf(pooled.best);
+    const [two, lone, here] = [poolRun[bestRound], onePoolRun[bestRound], singleRun[bestRound]];
+    console.log(`  each run's own time (median, round of the best pool time): ${two.toFixed(1)} ms in a worker beside another, ${lone.toFixed(1)} ms in the lone worker, ${here.toFixed(1)} ms in this thread; a worker's time per photo outside its run (the photo's move, the messages, its collections, waiting): ${(threads * poolMs[bestRound] - two).toFixed(1)} ms with two, ${(onePoolMs[bestRound] - lone).toFixed(1)} ms alone`);
     // Issue 3's pool target compares the standard pipeline with OpenCV's; a whole run does more (luma, quality gate, gauge), so this ratio is an upper bound.
     const cv = target.opencv;
     console.log(`  per image through the pool (whole run) against OpenCV's standard pipeline on one thread: ${(pooled.best / cv.best).toFixed(2)} best, ${(pooled.median / cv.median).toFixed(2)} median${engine === 'plain' ? ' (the plain engine\'s target for the pipeline alone: ≤ 0.35)' : ''}`);

@@ -43,16 +43,19 @@ function eightBitSource(photo: RawPhoto, channel: InputChannel): { samples: Uint
   return oneChannel && whole ? { samples: samples as Uint8Array, channels: channels as 1 | 3 | 4 } : null;
 }
 
+/** A rule's first step as far as reading the input's 8-bit copy goes: a correlation, or a median. */
+export type EightBitReader = { kernel: Kernel } | { medianSize: number };
+
 /**
  * The quality figures of an 8-bit grey photo on the SIMD engine from its bytes, for a rule whose first
- * step reads the input's 8-bit copy: a correlation with `kernel` that does (SimdKernels.readsEightBit),
- * or, without a kernel, a step that always does (the median of 3×3 or 5×5 windows). `input` keeps the
+ * step reads the input's 8-bit copy (SimdKernels.readsEightBit, medianReadsEightBit). `input` keeps the
  * bytes and gets its float32 samples only when something reads them. null where this does not apply:
  * the caller then converts the input (inputWithQuality).
  */
-export function eightBitInputFromPhoto(photo: RawPhoto, channel: InputChannel, input: Image, kernel?: Kernel): QualityFigures | null {
+export function eightBitInputFromPhoto(photo: RawPhoto, channel: InputChannel, input: Image, first: EightBitReader): QualityFigures | null {
   const direct = directPhoto(photo, channel, input);
-  if (!direct || direct.channels !== 1 || (kernel && !direct.simd.readsEightBit(kernel))) return null;
+  if (!direct || direct.channels !== 1) return null;
+  if (!('kernel' in first ? direct.simd.readsEightBit(first.kernel) : direct.simd.medianReadsEightBit(first.medianSize))) return null;
   return qualityFromSums(direct.simd.greyQualityLater(direct.samples, direct.input), photo.width * photo.height);
 }
 

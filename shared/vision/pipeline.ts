@@ -291,12 +291,12 @@ function openFromPhoto(rule: RuleDocument, photo: RawPhoto, kernel: Kernel | nul
     const g = gaussianWeights(first.sigma);
     return opened(separableFromPhoto(photo, channel, g, g, 0, rule.border, input, out), 1);
   }
-  if (first?.op === 'laplacian') return opened(eightBitInputFromPhoto(photo, channel, input, LAPLACIAN_KERNELS[first.neighbours]), 0);
-  if (first?.op === 'median' && first.size <= 5) return opened(eightBitInputFromPhoto(photo, channel, input), 0);
+  if (first?.op === 'laplacian') return opened(eightBitInputFromPhoto(photo, channel, input, { kernel: LAPLACIAN_KERNELS[first.neighbours] }), 0);
+  if (first?.op === 'median') return opened(eightBitInputFromPhoto(photo, channel, input, { medianSize: first.size }), 0);
   if (first?.op !== 'kernel' || !kernel) return null;
   const pair = separate(kernel);
   if (pair) return opened(separableFromPhoto(photo, channel, pair.column, pair.row, kernel.offset, rule.border, input, out), 1);
-  return opened(eightBitInputFromPhoto(photo, channel, input, kernel), 0);
+  return opened(eightBitInputFromPhoto(photo, channel, input, { kernel }), 0);
 }
 
 /**

@@ -115,6 +115,8 @@ const EIGHT_BIT_L1 = 128;
  * σ = 1, 7 taps: 1.35–1.40 → 1.18–1.19).
  */
 const BYTES_COLUMN_TAPS = 7;
+/** Widest median window the selection networks take (3×3 and 5×5; wider ones count a running histogram). */
+const MEDIAN_NETWORK_SIZE = 5;
 
 /** Blocks taken for one call, released together at its end. */
 class CallScope {
@@ -194,6 +196,11 @@ export class SimdKernels {
     });
   }
 
+  /** True when `median` of this window size reads an image's 8-bit copy (the selection networks' sizes). */
+  medianReadsEightBit(size: number): boolean {
+    return size <= MEDIAN_NETWORK_SIZE;
+  }
+
   /** True when correlate2d with this kernel reads an image's 8-bit copy (direct, whole weights, ‖k‖₁ ≤ EIGHT_BIT_L1). */
   readsEightBit(kernel: Kernel): boolean {
     if (isLarge(kernel)) return false;
@@ -246,7 +253,7 @@ export class SimdKernels {
   median(src: Image, size: number, border: BorderMode, out?: Image): Image | null {
     const dst = imageLike(src, out === src ? undefined : out);
     // The median of bytes is a byte: 3×3 and 5×5 of an 8-bit copy go sixteen pixels per v128.
-    const bytes = size <= 5 ? this.eightBitOf(src) : 0;
+    const bytes = this.medianReadsEightBit(size) ? this.eightBitOf(src) : 0;
     if (bytes !== 0 && this.owns(dst)) {
       return this.intoBytes(dst, false, (result, scope) => this.wasm.medianBytes(bytes, result, src.width, src.height, size, BORDER_CODES[border], scope.alloc(this.wasm.medianBytesScratchBytes(src.width, size))));
     }
@@ -255,7 +262,7 @@ export class SimdKernels {
       const s = this.addressOf(src, scope);
       const resident = this.owns(dst);
       const d = resident ? this.outputAddress(dst) : scope.alloc(4 * dst.data.length);
-      const network = size <= 5;
+      const network = size <= MEDIAN_NETWORK_SIZE;
       const scratch = scope.alloc(network ? this.wasm.medianScratchBytes(src.width, size) : this.wasm.medianHistogramScratchBytes(src.width, size));
       // An image with an 8-bit copy holds no NaN or −0: the network skips its search for them.
       const ordered = this.eightBitOf(src) !== 0 ? 1 : 0;

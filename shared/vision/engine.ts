@@ -3,6 +3,7 @@
 // and plain otherwise; 'simd' and 'plain' force one (the server reads KW_ENGINE, the browser and
 // tests call setEngine). Steps without a SIMD kernel run the plain code on the same buffers.
 import { instantiateAsync, instantiateSync } from './wasm/loader';
+import { chooseReadAhead, type ReadAheadChoice } from './wasm/read-ahead';
 import type { SimdKernels } from './wasm/simd-kernels';
 import { simdSupported } from './wasm/simd-support';
 import { warmUp } from './wasm/warm-up';
@@ -19,6 +20,7 @@ let unavailable: Error | null = null;
 let loading: Promise<SimdKernels | null> | null = null;
 /** True once the runtime refused to compile the module synchronously. */
 let onlyAsync = false;
+let readAhead: ReadAheadChoice | null = null;
 
 export function setEngine(next: EngineChoice): void {
   if (!ENGINE_CHOICES.includes(next)) throw new RangeError(`unknown engine "${String(next)}": expected one of ${ENGINE_CHOICES.join(', ')}`);
@@ -50,10 +52,7 @@ export function activeEngine(): EngineName {
 export async function prepareEngine(): Promise<EngineName> {
   if (choice !== 'plain' && !kernels && !unavailable) {
     loading ??= instantiateAsync().then(
-      (loaded) => {
-        warmUp(loaded);
-        return (kernels = loaded);
-      },
+      (loaded) => (kernels = ready(loaded)),
       (error: unknown) => {
         unavailable = error instanceof Error ? error : new Error(String(error));
         return null;
@@ -69,13 +68,30 @@ function loadNow(): void {
     unavailable = new Error('WebAssembly SIMD is not available in this runtime');
     return;
   }
+  let loaded: SimdKernels;
   try {
-    const loaded = instantiateSync();
-    warmUp(loaded);
-    kernels = loaded;
+    loaded = instantiateSync();
   } catch (error) {
     // A browser's main thread refuses to compile it synchronously: prepareEngine() loads it.
     if (error instanceof RangeError) onlyAsync = true;
     else unavailable = error instanceof Error ? error : new Error(String(error));
+    return;
   }
+  try {
+    kernels = ready(loaded);
+  } catch (error) {
+    unavailable = error instanceof Error ? error : new Error(String(error));
+  }
+}
+
+/** Warms the kernels up, then sets the read-ahead that is faster on this processor. */
+function ready(loaded: SimdKernels): SimdKernels {
+  warmUp(loaded);
+  readAhead = chooseReadAhead(loaded);
+  return loaded;
+}
+
+/** What the SIMD kernels' load measured of reading ahead (null before they are loaded); for the benchmark. */
+export function readAheadChoice(): ReadAheadChoice | null {
+  return readAhead;
 }

@@ -21,7 +21,7 @@ import { validateRuleDocument, type RuleDocument } from '../../shared/rules/sche
 import { createPackedMask } from '../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../shared/vision/blobs';
 import { correlate, correlateDirect } from '../../shared/vision/convolve';
-import { setEngine, type EngineName } from '../../shared/vision/engine';
+import { readAheadChoice, setEngine, simdKernels, type EngineName } from '../../shared/vision/engine';
 import { measurePixels, regionSpans } from '../../shared/vision/gauges';
 import { gradient } from '../../shared/vision/gradient';
 import type { Image, RawPhoto } from '../../shared/vision/image';
@@ -815,6 +815,16 @@ async function plainChild(out: string, runs: number): Promise<void> {
   fs.writeFileSync(out, JSON.stringify(results));
 }
 
+/** Which read-ahead the SIMD kernels took at load on this processor (shared/vision/wasm/read-ahead.ts), and why. */
+function readAheadLine(): string {
+  setEngine('simd');
+  simdKernels();
+  const choice = readAheadChoice();
+  if (!choice) return 'simd: not loaded';
+  const { on, off, ratio } = choice.timing;
+  return `simd: single-stream passes read ahead ${choice.readAhead ? 'on' : 'off'} (the probe at load: off took ${ratio.toFixed(2)} of on's time at the median of its pairs; best samples on ${on.toFixed(2)} ms, off ${off.toFixed(2)} ms)`;
+}
+
 function load(): string {
   return os.loadavg().map((l) => l.toFixed(2)).join(' ');
 }
@@ -827,6 +837,7 @@ async function main(): Promise<void> {
   console.log(`Kernwright vision benchmark — Node ${process.version}, ${os.cpus()[0]?.model ?? 'cpu'} × ${os.cpus().length}, load average (1, 5, 15 min) ${load()}`);
   console.log('plain: shared/vision in TypeScript; simd: its WebAssembly SIMD kernels; both single thread, float32.');
   console.log('OpenCV: @techstark/opencv-js 4.5.2 (WebAssembly, no SIMD); sharp 0.35 with concurrency 1.');
+  console.log(readAheadLine());
   const plain = plainInOwnProcess();
   const { cv } = await loadOpenCv();
   const results: SizeResult[] = [];

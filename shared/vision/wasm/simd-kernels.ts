@@ -17,6 +17,7 @@ import type { WasmMemory } from './webassembly';
 export interface EngineExports {
   readonly memory: WasmMemory;
   heapBase(): number;
+  setReadAhead(on: number): void;
   separable(src: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, mode: number, offset: number, scratch: number): void;
   separableScratchBytes(w: number, colLen: number, rowLen: number): number;
   separableBytes(src: number, channels: number, kr: number, kg: number, kb: number, quality: number, dst: number, w: number, h: number, colK: number, colLen: number, rowK: number, rowLen: number, mode: number, offset: number, scratch: number): void;
@@ -146,6 +147,19 @@ export class SimdKernels {
 
   constructor(private readonly wasm: EngineExports) {
     this.heap = new WasmHeap(wasm.memory, Math.ceil(wasm.heapBase() / 64) * 64);
+  }
+
+  private readingAhead = true;
+
+  /** Whether the single-stream passes (the gradient, Otsu's counts) read ahead of their work; read-ahead.ts chooses it. */
+  get readAhead(): boolean {
+    return this.readingAhead;
+  }
+
+  /** Changes only the passes' speed, never their outputs. */
+  setReadAhead(on: boolean): void {
+    this.wasm.setReadAhead(on ? 1 : 0);
+    this.readingAhead = on;
   }
 
   /** An image in the module's memory; its contents are undefined until a step writes it. */

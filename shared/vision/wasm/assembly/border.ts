@@ -55,6 +55,23 @@ export function align16(p: usize): usize {
 const TOUCHED: usize = memory.data(16, 16);
 
 /**
+ * Whether the single-stream loops read ahead of their work: the gradient the output row two below
+ * (`gradientRow`), the Otsu pass the group 8 KB on (`countGroupsOn`). Which is faster depends on the
+ * processor: on an Intel machine that did not fetch a stream ahead across 4 KB pages the reads made
+ * those passes 15–35 % faster; on an AMD one they made the gradient about 22 % and the Otsu pass 8 %
+ * slower (shared/vision/README.md). The JavaScript side measures both at load and sets the faster
+ * (read-ahead.ts). Off, the loops read their word
+ * from a row they are working on: a load that does not wait. The loops over several rows at once
+ * (`touchAhead`, the direct and σ ≥ 2 row sweeps) read ahead always: that helped on the Intel
+ * machine and made no clear difference on the AMD one.
+ */
+export let readAhead: bool = true;
+
+export function setReadAhead(on: bool): void {
+  readAhead = on;
+}
+
+/**
  * Reads one word of every 64-byte line of `bytes` bytes at `address`, so that a row the next
  * iterations need is on its way into the cache while the current one is computed (WebAssembly has
  * no prefetch instruction).

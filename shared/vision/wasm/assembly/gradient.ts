@@ -2,7 +2,7 @@
 // transpose. Per row, in one pass along it: the smoothing s = a·(up + down) + b·centre and the
 // difference t = down − up of four pixels at a time, kept in registers; then gx = s(x+1) − s(x−1)
 // and gy = a·(t(x−1) + t(x+1)) + b·t(x), the neighbours' lanes taken from the vectors either side.
-import { align16, at, borderIndex, keepTouched, OUTSIDE, rowAddress } from './border';
+import { align16, at, borderIndex, keepTouched, OUTSIDE, readAhead, rowAddress } from './border';
 import { storeExtremes } from './extremes';
 
 export const GRADIENT_X: i32 = 0;
@@ -24,7 +24,7 @@ export function gradient(src: usize, dst: usize, w: i32, h: i32, a: f32, b: f32,
   for (let y = 0; y < h; y++) {
     const up = rowAddress(src, y - 1, h, w, mode, zeros);
     const down = rowAddress(src, y + 1, h, w, mode, zeros);
-    gradientRow(up, at(src, y * w), down, at(dst, y * w), w, a, b, output, mode, scratch, at(dst, (y + 2 < h ? y + 2 : y) * w));
+    gradientRow(up, at(src, y * w), down, at(dst, y * w), w, a, b, output, mode, scratch, readAhead ? at(dst, (y + 2 < h ? y + 2 : y) * w) : at(src, y * w));
   }
   if (range != 0) storeRange(scratch, w, range);
 }

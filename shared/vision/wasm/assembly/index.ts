@@ -16,6 +16,7 @@ export { box, boxScratchBytes } from './box';
 export { median, medianScratchBytes, medianBytes, medianBytesScratchBytes } from './median';
 export { shrinkMeans, greyRgb, firstExtreme } from './evidence';
 export { medianHistogram, medianHistogramScratchBytes } from './median-histogram';
+export { setReadAhead } from './border';
 
 /** First address the JavaScript side may use: static data ends below it. */
 export function heapBase(): usize {

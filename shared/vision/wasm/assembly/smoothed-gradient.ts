@@ -2,7 +2,7 @@
 // smoothed rows go into a ring of four rows, where the gradient reads them while they are in the
 // cache, instead of a whole smoothed image written out and read back. Both parts run the row
 // functions of the two steps' own kernels, so every sample comes out as from the two steps in turn.
-import { align16, at, borderIndex, OUTSIDE } from './border';
+import { align16, at, borderIndex, OUTSIDE, readAhead } from './border';
 import { convertPhotoRows, finishPhotoRows, photoRingBytes, photoRingRows, startPhotoRows } from './photo-rows';
 import { gradientRow, gradientScratchBytes, prepareGradientScratch, storeRange } from './gradient';
 import { prepareSeparableScratch, separableRows, separableScratchBytes } from './separable';
@@ -64,7 +64,8 @@ function sweep(src: usize, bytes: usize, channels: i32, kr: i32, kg: i32, kb: i3
     }
     const up = smoothedRow(ring, slot, y - 1, h, mode, zeros);
     const down = smoothedRow(ring, slot, y + 1, h, mode, zeros);
-    gradientRow(up, ring + <usize>(y % RING) * slot, down, at(dst, y * w), w, a, b, output, mode, gradients, at(dst, (y + 2 < h ? y + 2 : y) * w));
+    const centre = ring + <usize>(y % RING) * slot;
+    gradientRow(up, centre, down, at(dst, y * w), w, a, b, output, mode, gradients, readAhead ? at(dst, (y + 2 < h ? y + 2 : y) * w) : centre);
   }
   if (range != 0) storeRange(gradients, w, range);
   if (bytes != 0) finishPhotoRows(bytes, channels, quality, source, sourceRing, w, h);

@@ -1,6 +1,6 @@
 // Thresholds and Otsu's histogram. Masks are float32 0 and 1, written without branches:
 // a compare gives all-ones lanes, ANDed with the bit pattern of 1.0.
-import { align16, at, keepTouched } from './border';
+import { align16, at, keepTouched, readAhead } from './border';
 import { storeExtremes } from './extremes';
 
 const ONE_BITS: i32 = 0x3f800000;
@@ -197,8 +197,9 @@ function countGroupsOn(src: usize, n: i32, origin: f64, scale: f64, o: f32, s: f
   // first row to its last (a gradient), so its last rows are the likeliest to be still in the caches.
   const end = (n >> 4) << 4;
   let seen = 0;
+  const ahead = readAhead ? READ_AHEAD : 0;
   for (let p = end - 16; p >= 0; p -= 16) {
-    if (p >= READ_AHEAD) seen |= load<i32>(at(src, p - READ_AHEAD));
+    if (p >= ahead) seen |= load<i32>(at(src, p - ahead));
     const ua = units4(src, p, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
     const ub = units4(src, p + 4, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);
     const uc = units4(src, p + 8, fromZero, o32, s32, sureZero, cap, base, baseBits, exact);

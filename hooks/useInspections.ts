@@ -73,11 +73,15 @@ export function useQueuedPhotos() {
         try {
           const inspection = await uploadInspection(item);
           await removeQueuedPhoto(item.idempotencyKey);
+          // The count first: the verdict must not show while the banner still counts its photo as waiting
+          // (a count that cannot be read now is read again on the queue's change event).
+          await refreshCount().catch(() => undefined);
           setDelivered((list) => [inspection, ...list]);
         } catch (error) {
           if (isWorthRetrying(error)) break;
           // Refused for good (the rule was withdrawn, the photo unreadable...): say so instead of retrying forever.
           await removeQueuedPhoto(item.idempotencyKey);
+          await refreshCount().catch(() => undefined);
           setRefused((list) => [...list, { fileName: item.fileName, message: error instanceof ApiError ? error.message : 'The server refused the photo.' }]);
         }
       }
@@ -85,7 +89,7 @@ export function useQueuedPhotos() {
       busy.current = false;
       setSending(false);
     }
-  }, []);
+  }, [refreshCount]);
 
   useEffect(() => {
     void refreshCount();

@@ -3,23 +3,28 @@
 // anything WebAssembly can ask. Both settings give the same outputs; only the speed differs.
 import type { SimdKernels } from './simd-kernels';
 
-/** The probe: a Sobel magnitude of 2048×1024 (8 MB in, 8 MB out: past the second-level caches). */
+/**
+ * The probe: the two passes that follow the setting, as a rule runs them, on 2048×1024 (8 MB in,
+ * 8 MB out: past the second-level caches): a Sobel magnitude, then Otsu's counts of it (about 3.5 ms
+ * a sample on the AMD machine, where a browser's clock may count in steps of 0.1 ms).
+ */
 const PROBE_WIDTH = 2048;
 const PROBE_HEIGHT = 1024;
-/** Gradients per timed sample: a browser's clock may count in steps of 0.1 ms, against about 1.2 ms a gradient. */
-const RUNS_PER_SAMPLE = 2;
 /** Pairs of timed samples, one of each setting, in turn. */
 const PAIRS = 6;
 /** Most samples taken before the timed ones while the time still falls. */
 const MAX_SETTLING = 12;
 /**
  * How much faster off must be to be chosen: on is the setting the passes were tuned with first, and
- * a difference within a machine's noise is no reason to leave it.
+ * a difference within the probe's noise is no reason to leave it (its median ratio varied by ±1.5 %
+ * from load to load on the AMD machine, around 0.94).
  */
-const MARGIN = 0.05;
+const MARGIN = 0.03;
+/** A settling sample this much faster than the best before it means the time is still falling. */
+const STILL_FALLING = 0.05;
 
 export interface ReadAheadTiming {
-  /** Best sample of each setting, in milliseconds for RUNS_PER_SAMPLE gradients. */
+  /** Best sample of each setting, in milliseconds. */
   on: number;
   off: number;
   /**
@@ -48,10 +53,14 @@ export function timeReadAhead(kernels: SimdKernels, clock: () => number = () => 
     const data = src.data;
     for (let p = 0; p < PROBE_WIDTH; p++) data[p] = (p * 7919) % 251;
     for (let filled = PROBE_WIDTH; filled < data.length; filled *= 2) data.copyWithin(filled, 0, filled);
+    const range = { min: NaN, max: NaN };
+    kernels.gradient(src, 1, 2, 'magnitude', 'reflect', dst, range);
+    const scale = 256 / (range.max - range.min);
     const sample = (on: boolean): number => {
       kernels.setReadAhead(on);
       const t0 = clock();
-      for (let i = 0; i < RUNS_PER_SAMPLE; i++) kernels.gradient(src, 1, 2, 'magnitude', 'reflect', dst);
+      kernels.gradient(src, 1, 2, 'magnitude', 'reflect', dst);
+      kernels.histogram(dst, range.min, scale);
       return clock() - t0;
     };
     // Until the time stops falling: the first sample touches the destination's pages, and V8 may
@@ -59,7 +68,7 @@ export function timeReadAhead(kernels: SimdKernels, clock: () => number = () => 
     let settled = sample(true);
     for (let i = 0; i < MAX_SETTLING; i++) {
       const next = sample(true);
-      const falling = next < (1 - MARGIN) * settled;
+      const falling = next < (1 - STILL_FALLING) * settled;
       settled = Math.min(settled, next);
       if (!falling) break;
     }

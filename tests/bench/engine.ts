@@ -21,7 +21,7 @@ import { validateRuleDocument, type RuleDocument } from '../../shared/rules/sche
 import { createPackedMask } from '../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../shared/vision/blobs';
 import { correlate, correlateDirect } from '../../shared/vision/convolve';
-import { readAheadChoice, setEngine, simdKernels, type EngineName } from '../../shared/vision/engine';
+import { engineChoice, readAheadChoice, setEngine, simdKernels, type EngineName } from '../../shared/vision/engine';
 import { measurePixels, regionSpans } from '../../shared/vision/gauges';
 import { gradient } from '../../shared/vision/gradient';
 import type { Image, RawPhoto } from '../../shared/vision/image';
@@ -817,8 +817,10 @@ async function plainChild(out: string, runs: number): Promise<void> {
 
 /** Which read-ahead the SIMD kernels took at load on this processor (shared/vision/wasm/read-ahead.ts), and why. */
 function readAheadLine(): string {
+  const before = engineChoice();
   setEngine('simd');
   simdKernels();
+  setEngine(before);
   const choice = readAheadChoice();
   if (!choice) return 'simd: not loaded';
   const { on, off, ratio } = choice.timing;

@@ -4,7 +4,7 @@
 import os from 'node:os';
 import path from 'node:path';
 import { Piscina } from 'piscina';
-import type { EngineChoice } from '../../shared/vision/engine';
+import { measuredReadAhead, type EngineChoice } from '../../shared/vision/engine';
 import type { RawPhoto } from '../../shared/vision/image';
 import { RuleRunError, type KernelLibrary, type RuleRun, type RunOptions } from '../../shared/vision/pipeline';
 import { engineSetting } from './engine-setting';
@@ -73,6 +73,16 @@ function workerSetup(): { filename: string; execArgv: string[]; env: NodeJS.Proc
   };
 }
 
+/**
+ * What every worker thread starts with: the engine, the kernel library and, where the SIMD kernels
+ * may run, this thread's read-ahead choice (measured here, alone, before the workers start).
+ */
+export function poolWorkerData(options: VisionPoolOptions): PipelineWorkerData {
+  const engine = options.engine ?? engineSetting();
+  const readAhead = engine === 'plain' ? null : measuredReadAhead();
+  return { engine, kernels: [...options.kernels.values()], ...(readAhead ? { readAhead } : {}) };
+}
+
 /** True when the array is the whole of its buffer (moving the buffer moves nothing else). */
 function ownsWholeBuffer(array: ArrayBufferView): boolean {
   return array.byteOffset === 0 && array.byteLength === array.buffer.byteLength && !(array.buffer instanceof SharedArrayBuffer);
@@ -86,7 +96,7 @@ export class VisionPool {
   constructor(options: VisionPoolOptions) {
     const threads = options.threads ?? Math.max(1, os.availableParallelism?.() ?? os.cpus().length);
     const setup = workerSetup();
-    const workerData: PipelineWorkerData = { engine: options.engine ?? engineSetting(), kernels: [...options.kernels.values()] };
+    const workerData = poolWorkerData(options);
     this.piscina = new Piscina({
       filename: setup.filename,
       execArgv: setup.execArgv,

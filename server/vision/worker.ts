@@ -8,16 +8,19 @@
 import { workerData } from 'node:worker_threads';
 import { move, transferableSymbol, valueSymbol } from 'piscina';
 import type { FieldIssue } from '../../shared/api/errors';
-import { setEngine, simdKernels, type EngineChoice } from '../../shared/vision/engine';
+import { presetReadAhead, setEngine, simdKernels, type EngineChoice } from '../../shared/vision/engine';
 import { createImage, type Image, type RawPhoto } from '../../shared/vision/image';
 import type { KernelDefinition } from '../../shared/vision/kernels';
 import { RuleRunError, runRule, type KernelLibrary, type RuleRun, type RuleRunErrorCode, type RunOptions } from '../../shared/vision/pipeline';
+import type { ReadAheadChoice } from '../../shared/vision/wasm/read-ahead';
 import { isResident } from '../../shared/vision/wasm/resident-image';
 import { ImageWorkspace } from '../../shared/vision/workspace';
 import { evidenceRaster, type EvidenceRaster } from './evidence';
 
 export interface PipelineWorkerData {
   engine: EngineChoice;
+  /** The pool's thread's read-ahead choice (shared/vision/wasm/read-ahead.ts), taken instead of each thread probing. */
+  readAhead?: ReadAheadChoice;
   /** The pool's kernel library, sent once to each thread instead of with every task. */
   kernels: KernelDefinition[];
 }
@@ -40,6 +43,7 @@ export type PipelineTaskResult =
   | { ok: false; error: { code: RuleRunErrorCode; message: string; issues: FieldIssue[] } };
 
 const setup = workerData as PipelineWorkerData | undefined;
+if (setup?.readAhead) presetReadAhead(setup.readAhead);
 setEngine(setup?.engine ?? 'auto');
 const kernels: KernelLibrary = new Map((setup?.kernels ?? []).map((k) => [k.name, k]));
 

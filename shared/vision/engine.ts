@@ -21,6 +21,8 @@ let loading: Promise<SimdKernels | null> | null = null;
 /** True once the runtime refused to compile the module synchronously. */
 let onlyAsync = false;
 let readAhead: ReadAheadChoice | null = null;
+/** A choice made elsewhere (another thread's probe), taken at load instead of probing. */
+let presetChoice: ReadAheadChoice | null = null;
 
 export function setEngine(next: EngineChoice): void {
   if (!ENGINE_CHOICES.includes(next)) throw new RangeError(`unknown engine "${String(next)}": expected one of ${ENGINE_CHOICES.join(', ')}`);
@@ -84,11 +86,31 @@ function loadNow(): void {
   }
 }
 
-/** Warms the kernels up, then sets the read-ahead that is faster on this processor. */
+/** Warms the kernels up, then sets the read-ahead that is faster on this processor (or the preset one). */
 function ready(loaded: SimdKernels): SimdKernels {
   warmUp(loaded);
-  readAhead = chooseReadAhead(loaded);
+  if (presetChoice) loaded.setReadAhead(presetChoice.readAhead);
+  readAhead = presetChoice ?? chooseReadAhead(loaded);
   return loaded;
+}
+
+/**
+ * Takes a read-ahead choice measured in another thread instead of probing at load (now, when the
+ * kernels are loaded already). The worker pool's threads start at once, and their probes, each
+ * disturbing the other's, chose differently from load to load; the pool's own thread probes alone
+ * before they start.
+ */
+export function presetReadAhead(choice: ReadAheadChoice): void {
+  presetChoice = choice;
+  if (!kernels) return;
+  kernels.setReadAhead(choice.readAhead);
+  readAhead = choice;
+}
+
+/** This thread's read-ahead choice, loading the SIMD kernels to probe when they are not loaded yet; null where they cannot run. */
+export function measuredReadAhead(): ReadAheadChoice | null {
+  if (!kernels && !unavailable && !onlyAsync) loadNow();
+  return kernels ? readAhead : null;
 }
 
 /** What the SIMD kernels' load measured of reading ahead (null before they are loaded); for the benchmark. */

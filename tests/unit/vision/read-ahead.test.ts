@@ -4,13 +4,14 @@
 // the faster setting.
 import fc from 'fast-check';
 import { createPackedMask } from '../../../shared/vision/deferrable-image';
-import { simdKernels } from '../../../shared/vision/engine';
+import { measuredReadAhead, simdKernels } from '../../../shared/vision/engine';
 import { gradient } from '../../../shared/vision/gradient';
 import type { Image } from '../../../shared/vision/image';
 import { gaussianGradient } from '../../../shared/vision/smoothed-gradient';
 import { thresholdOtsu } from '../../../shared/vision/threshold';
 import { chooseReadAhead, fasterReadAhead, timeReadAhead } from '../../../shared/vision/wasm/read-ahead';
 import type { SimdKernels } from '../../../shared/vision/wasm/simd-kernels';
+import { poolWorkerData } from '../../../server/vision/pool';
 import { bitsOf, borderMode, onEngine, sampleImage, sampleKind, seed } from './engines';
 
 /** Wide and tall enough that the Otsu pass reads 8 KB ahead (2,048 samples) and the gradient two rows below. */
@@ -108,5 +109,36 @@ describe('the probe at load', () => {
       expect(kernels.readAhead).toBe(setting);
       expect(kernels.heap.blocksInUse).toBe(blocks);
     }
+  });
+});
+
+describe('a choice made in another thread', () => {
+  // Timings no probe on a real machine would give: taken as they are, they show that no probe ran.
+  const preset = (readAhead: boolean) => ({ readAhead, timing: { on: 1, off: 2, ratio: 2 } });
+
+  test('is taken at load instead of probing, and applied at once to kernels already loaded', () => {
+    jest.isolateModules(() => {
+      // A fresh engine module: its kernels not loaded yet, as in a new worker thread.
+      // eslint-disable-next-line @typescript-eslint/no-var-requires
+      const engine = require('../../../shared/vision/engine') as typeof import('../../../shared/vision/engine');
+      engine.presetReadAhead(preset(false));
+      expect(engine.readAheadChoice()).toBeNull();
+      engine.setEngine('simd');
+      const kernels = engine.simdKernels()!;
+      expect(engine.readAheadChoice()).toEqual(preset(false));
+      expect(kernels.readAhead).toBe(false);
+      engine.presetReadAhead(preset(true));
+      expect(kernels.readAhead).toBe(true);
+      expect(engine.measuredReadAhead()).toEqual(preset(true));
+    });
+  });
+
+  test('is what the pool hands its workers: this thread\'s probe, and none for the plain engine', () => {
+    const kernels = new Map();
+    const measured = measuredReadAhead();
+    expect(measured).not.toBeNull();
+    expect(poolWorkerData({ kernels, engine: 'simd' }).readAhead).toEqual(measured);
+    expect(poolWorkerData({ kernels, engine: 'auto' }).readAhead).toEqual(measured);
+    expect(poolWorkerData({ kernels, engine: 'plain' })).not.toHaveProperty('readAhead');
   });
 });

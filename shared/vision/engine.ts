@@ -89,8 +89,8 @@ function loadNow(): void {
 /** Warms the kernels up, then sets the read-ahead that is faster on this processor (or the preset one). */
 function ready(loaded: SimdKernels): SimdKernels {
   warmUp(loaded);
-  if (presetChoice) loaded.setReadAhead(presetChoice.readAhead);
   readAhead = presetChoice ?? chooseReadAhead(loaded);
+  loaded.setReadAhead(readAhead.readAhead);
   return loaded;
 }
 

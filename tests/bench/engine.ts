@@ -21,7 +21,7 @@ import { validateRuleDocument, type RuleDocument } from '../../shared/rules/sche
 import { createPackedMask } from '../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../shared/vision/blobs';
 import { correlate, correlateDirect } from '../../shared/vision/convolve';
-import { engineChoice, readAheadChoice, setEngine, simdKernels, type EngineName } from '../../shared/vision/engine';
+import { measuredReadAhead, setEngine, type EngineName } from '../../shared/vision/engine';
 import { measurePixels, regionSpans } from '../../shared/vision/gauges';
 import { gradient } from '../../shared/vision/gradient';
 import type { Image, RawPhoto } from '../../shared/vision/image';
@@ -817,12 +817,8 @@ async function plainChild(out: string, runs: number): Promise<void> {
 
 /** Which read-ahead the SIMD kernels took at load on this processor (shared/vision/wasm/read-ahead.ts), and why. */
 function readAheadLine(): string {
-  const before = engineChoice();
-  setEngine('simd');
-  simdKernels();
-  setEngine(before);
-  const choice = readAheadChoice();
-  if (!choice) return 'simd: not loaded';
+  const choice = measuredReadAhead();
+  if (!choice) return 'simd: the kernels cannot run here, so nothing was probed';
   const { on, off, ratio } = choice.timing;
   return `simd: single-stream passes read ahead ${choice.readAhead ? 'on' : 'off'} (the probe at load: off took ${ratio.toFixed(2)} of on's time at the median of its pairs; best samples on ${on.toFixed(2)} ms, off ${off.toFixed(2)} ms)`;
 }

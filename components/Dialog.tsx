@@ -3,6 +3,7 @@ import { Modal, Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { useLayout } from '../hooks/useLayout';
 import { colors, radius, space } from '../lib/theme';
 import { AppText } from './AppText';
+import { Button, type ButtonVariant } from './Button';
 
 interface DialogProps {
   visible: boolean;
@@ -40,6 +41,26 @@ export function Dialog({ visible, title, onClose, children, actions }: DialogPro
         </View>
       </View>
     </Modal>
+  );
+}
+
+interface DialogActionsProps {
+  /** The main action's label: what it does ("Create rule"), not "OK". */
+  label: string;
+  onConfirm: () => void;
+  onCancel: () => void;
+  /** While the action runs: the main button shows it and Cancel is off, so that nothing is left half done. */
+  busy?: boolean;
+  variant?: Extract<ButtonVariant, 'primary' | 'danger'>;
+}
+
+/** A form dialog's actions: Cancel, then its main action. */
+export function DialogActions({ label, onConfirm, onCancel, busy = false, variant = 'primary' }: DialogActionsProps) {
+  return (
+    <>
+      <Button label="Cancel" variant="secondary" onPress={onCancel} disabled={busy} />
+      <Button label={label} variant={variant} onPress={onConfirm} busy={busy} />
+    </>
   );
 }
 

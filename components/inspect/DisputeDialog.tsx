@@ -3,8 +3,7 @@ import { ApiError } from '../../lib/api';
 import { useDisputeInspection } from '../../hooks/useInspections';
 import type { Inspection } from '../../shared/api/inspections';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
 
@@ -43,12 +42,7 @@ export function DisputeDialog({ inspection, visible, onClose, onDisputed }: Disp
       visible={visible}
       title={`Dispute the ${inspection.verdict} verdict`}
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={dispute.isPending} />
-          <Button label="Send dispute" onPress={submit} busy={dispute.isPending} />
-        </>
-      }
+      actions={<DialogActions label="Send dispute" onConfirm={submit} onCancel={onClose} busy={dispute.isPending} />}
     >
       <AppText>
         Keep the part aside. A supervisor or another qualified person will look at the part itself and record their judgement; the verdict

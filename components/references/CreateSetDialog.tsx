@@ -3,17 +3,13 @@ import { useState } from 'react';
 import type { ReferenceSet } from '../../shared/api/references';
 import { ApiError } from '../../lib/api';
 import { fieldErrorsFrom, type FieldErrors } from '../../lib/formErrors';
-import { useCreateReferenceSet, usePartTypes } from '../../hooks/useReferenceSets';
-import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { ChoiceChips } from '../ChoiceChips';
-import { Dialog } from '../Dialog';
+import { useCreateReferenceSet } from '../../hooks/useReferenceSets';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
+import { PartTypeField } from '../PartTypeField';
 import { TextField } from '../TextField';
-import { ErrorState, LoadingState } from '../StateViews';
 
 export function CreateSetDialog({ onClose, onCreated }: { onClose: () => void; onCreated: (set: ReferenceSet) => void }) {
-  const partTypes = usePartTypes();
   const create = useCreateReferenceSet();
   const [name, setName] = useState('');
   const [partType, setPartType] = useState<string | null>(null);
@@ -35,23 +31,11 @@ export function CreateSetDialog({ onClose, onCreated }: { onClose: () => void; o
       visible
       title="New reference set"
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={create.isPending} />
-          <Button label="Create set" onPress={submit} busy={create.isPending} />
-        </>
-      }
+      actions={<DialogActions label="Create set" onConfirm={submit} onCancel={onClose} busy={create.isPending} />}
     >
       {create.error && Object.keys(errors).length === 0 ? <ErrorBanner error={create.error} /> : null}
       <TextField label="Set name" value={name} onChangeText={setName} error={errors.name} hint="E.g. “Washer rim, spring batch”." />
-      {partTypes.isError ? (
-        <ErrorState error={partTypes.error} onRetry={() => void partTypes.refetch()} />
-      ) : !partTypes.data ? (
-        <LoadingState label="Loading part types…" />
-      ) : (
-        <ChoiceChips label="Part type" choices={partTypes.data.map((p) => ({ value: p.code, label: p.name }))} value={partType ?? ''} onChange={setPartType} />
-      )}
-      {errors.partType ? <AppText tone="danger" variant="caption">{`⚠ ${errors.partType}`}</AppText> : null}
+      <PartTypeField value={partType} onChange={setPartType} error={errors.partType} />
       <TextField label="Description (optional)" value={description} onChangeText={setDescription} error={errors.description} multiline />
     </Dialog>
   );

@@ -3,9 +3,8 @@ import { useState } from 'react';
 import type { ImageLabel } from '../../shared/api/references';
 import { useDefectKinds, useRelabelImages } from '../../hooks/useReferenceSets';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
 import { ChoiceChips } from '../ChoiceChips';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 
 interface LabelDialogProps {
@@ -32,12 +31,7 @@ export function LabelDialog({ setId, imageIds, current, onClose, onDone }: Label
       visible
       title={imageIds.length === 1 ? 'Label this photo' : `Label ${imageIds.length} photos`}
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={relabel.isPending} />
-          <Button label={imageIds.length === 1 ? 'Save label' : `Label ${imageIds.length} photos`} onPress={save} busy={relabel.isPending} />
-        </>
-      }
+      actions={<DialogActions label={imageIds.length === 1 ? 'Save label' : `Label ${imageIds.length} photos`} onConfirm={save} onCancel={onClose} busy={relabel.isPending} />}
     >
       <ChoiceChips
         label="Label"

@@ -1,8 +1,7 @@
 import { useEffect, useState } from 'react';
 import { ApiError } from '../../lib/api';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
 
@@ -38,15 +37,13 @@ export function NoteDialog({ visible, title, message, fieldLabel, confirmLabel, 
       title={title}
       onClose={onCancel}
       actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onCancel} disabled={busy} />
-          <Button
-            label={confirmLabel}
-            variant={destructive ? 'danger' : 'primary'}
-            busy={busy}
-            onPress={() => (note.trim() ? onConfirm(note.trim()) : setNoteError(requiredMessage))}
-          />
-        </>
+        <DialogActions
+          label={confirmLabel}
+          variant={destructive ? 'danger' : 'primary'}
+          onConfirm={() => (note.trim() ? onConfirm(note.trim()) : setNoteError(requiredMessage))}
+          onCancel={onCancel}
+          busy={busy}
+        />
       }
     >
       <AppText>{message}</AppText>

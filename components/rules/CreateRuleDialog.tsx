@@ -3,19 +3,15 @@ import { useState } from 'react';
 import { ApiError } from '../../lib/api';
 import { fieldErrorsFrom, type FieldErrors } from '../../lib/formErrors';
 import { useCreateRule } from '../../hooks/useRules';
-import { usePartTypes } from '../../hooks/useReferenceSets';
 import { createRuleRequestSchema, type RuleDetail } from '../../shared/api/rules';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { ChoiceChips } from '../ChoiceChips';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
+import { PartTypeField } from '../PartTypeField';
 import { TextField } from '../TextField';
-import { ErrorState, LoadingState } from '../StateViews';
 import { startingDocument } from './ruleEditorState';
 
 export function CreateRuleDialog({ onClose, onCreated }: { onClose: () => void; onCreated: (rule: RuleDetail) => void }) {
-  const partTypes = usePartTypes();
   const create = useCreateRule();
   const [name, setName] = useState('');
   const [partType, setPartType] = useState<string | null>(null);
@@ -46,23 +42,11 @@ export function CreateRuleDialog({ onClose, onCreated }: { onClose: () => void; 
       visible
       title="New rule"
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={create.isPending} />
-          <Button label="Create rule" onPress={submit} busy={create.isPending} />
-        </>
-      }
+      actions={<DialogActions label="Create rule" onConfirm={submit} onCancel={onClose} busy={create.isPending} />}
     >
       {create.error && Object.keys(errors).length === 0 ? <ErrorBanner error={create.error} /> : null}
       <TextField label="Rule name" value={name} onChangeText={setName} error={errors.name} hint="What it checks, e.g. “Washer rim burr”." />
-      {partTypes.isError ? (
-        <ErrorState error={partTypes.error} onRetry={() => void partTypes.refetch()} />
-      ) : !partTypes.data ? (
-        <LoadingState label="Loading part types…" />
-      ) : (
-        <ChoiceChips label="Part type" choices={partTypes.data.map((p) => ({ value: p.code, label: p.name }))} value={partType ?? ''} onChange={setPartType} />
-      )}
-      {errors.partType ? <AppText tone="danger" variant="caption">{`⚠ ${errors.partType}`}</AppText> : null}
+      <PartTypeField value={partType} onChange={setPartType} error={errors.partType} />
       <TextField
         label="Smallest defect to catch (mm, optional)"
         hint="Used to check that a station’s camera can see it (at least 3 pixels across)."

@@ -3,8 +3,7 @@ import { useState } from 'react';
 import { ApiError } from '../../lib/api';
 import { fieldErrorsFrom, type FieldErrors } from '../../lib/formErrors';
 import { useSaveKernel } from '../../hooks/useKernels';
-import { Button } from '../Button';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
 
@@ -34,12 +33,7 @@ export function SaveKernelDialog({ matrix, divisor, offset, onClose, onSaved }: 
       visible
       title="Save as my kernel"
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={save.isPending} />
-          <Button label="Save kernel" onPress={submit} busy={save.isPending} />
-        </>
-      }
+      actions={<DialogActions label="Save kernel" onConfirm={submit} onCancel={onClose} busy={save.isPending} />}
     >
       {save.error && Object.keys(errors).length === 0 ? <ErrorBanner error={save.error} /> : null}
       <TextField label="Kernel name" hint="Lower-case letters, digits and dashes, e.g. burr-emphasis-5x5." value={name} onChangeText={setName} error={errors.name} autoCapitalize="none" />

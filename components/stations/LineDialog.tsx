@@ -1,8 +1,7 @@
 import { useEffect, useState } from 'react';
 import { ApiError } from '../../lib/api';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
 
@@ -29,12 +28,7 @@ export function LineDialog({ visible, busy, error, onSave, onClose }: LineDialog
       visible={visible}
       title="New line"
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={busy} />
-          <Button label="Add line" busy={busy} onPress={() => (name.trim() ? onSave(name.trim()) : setNameError('Enter a name'))} />
-        </>
-      }
+      actions={<DialogActions label="Add line" onConfirm={() => (name.trim() ? onSave(name.trim()) : setNameError('Enter a name'))} onCancel={onClose} busy={busy} />}
     >
       <AppText>A production line groups the stations that photograph its parts.</AppText>
       <TextField label="Line name" value={name} onChangeText={(text) => { setName(text); setNameError(undefined); }} error={nameError ?? serverIssue} maxLength={80} />

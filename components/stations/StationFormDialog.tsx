@@ -3,9 +3,8 @@ import { ApiError } from '../../lib/api';
 import { fieldErrorsFrom, type FieldErrors } from '../../lib/formErrors';
 import type { PartType } from '../../shared/api/catalogue';
 import type { Line, Station } from '../../shared/api/stations';
-import { Button } from '../Button';
 import { ChoiceChips } from '../ChoiceChips';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
 import { PartTypeChecklist } from './PartTypeChecklist';
@@ -55,12 +54,7 @@ export function StationFormDialog({ visible, station, lines, partTypes, initialL
       visible={visible}
       title={station ? `Edit ${station.name}` : 'New station'}
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={busy} />
-          <Button label={station ? 'Save changes' : 'Add station'} onPress={save} busy={busy} />
-        </>
-      }
+      actions={<DialogActions label={station ? 'Save changes' : 'Add station'} onConfirm={save} onCancel={onClose} busy={busy} />}
     >
       {station ? null : (
         <ChoiceChips label="Line" choices={lines.map((l) => ({ value: l.id, label: l.name }))} value={values.lineId} onChange={(lineId) => setValues((v) => ({ ...v, lineId }))} />

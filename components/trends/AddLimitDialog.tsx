@@ -4,9 +4,8 @@ import { ApiError } from '../../lib/api';
 import { createAlertLimitSchema } from '../../shared/api/alerts';
 import type { TrendChoices } from '../../shared/api/trends';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
 import { ChoiceChips } from '../ChoiceChips';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
 import { StationChoice } from './StationChoice';
@@ -59,12 +58,7 @@ export function AddLimitDialog({ visible, choices, onClose }: AddLimitDialogProp
       visible={visible}
       title="Add an alert limit"
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={create.isPending} />
-          <Button label="Add limit" onPress={submit} busy={create.isPending} />
-        </>
-      }
+      actions={<DialogActions label="Add limit" onConfirm={submit} onCancel={onClose} busy={create.isPending} />}
     >
       <AppText>An alert is raised when a day’s share of failed parts for the rule passes the limit. Set it from the process’s usual rate and the plant’s quality procedures.</AppText>
       <ChoiceChips<string | null> label="Rule" value={ruleId} onChange={setRuleId} choices={choices.rules.map((r) => ({ value: r.id, label: r.name }))} />

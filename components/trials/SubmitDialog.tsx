@@ -2,8 +2,7 @@
 import { useState } from 'react';
 import { useSubmitForReview } from '../../hooks/useRules';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { TextField } from '../TextField';
 
@@ -34,12 +33,7 @@ export function SubmitDialog({ versionId, versionNumber, foreseenRefusal, cautio
       visible
       title={`Submit version ${versionNumber} for review?`}
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={submit.isPending} />
-          <Button label="Submit for review" onPress={send} busy={submit.isPending} />
-        </>
-      }
+      actions={<DialogActions label="Submit for review" onConfirm={send} onCancel={onClose} busy={submit.isPending} />}
     >
       <AppText>
         A supervisor will review the rule with its latest trial attached, then release it or send it back. From now on the version cannot be edited; a change needs a new draft.

@@ -9,8 +9,7 @@ import { fieldErrorsFrom, validateForm, type FieldErrors } from '../../lib/formE
 import { colors, radius, space } from '../../lib/theme';
 import { useCreateUser, useUpdateUser } from '../../hooks/useUsers';
 import { AppText } from '../AppText';
-import { Button } from '../Button';
-import { Dialog } from '../Dialog';
+import { Dialog, DialogActions } from '../Dialog';
 import { ErrorBanner } from '../ErrorBanner';
 import { RolePicker } from '../RolePicker';
 import { TextField } from '../TextField';
@@ -105,12 +104,7 @@ export function UserFormDialog({ user, currentUserId, onClose, onSaved }: UserFo
       visible
       title={editing ? `Edit ${user.displayName}` : 'Add a user'}
       onClose={onClose}
-      actions={
-        <>
-          <Button label="Cancel" variant="secondary" onPress={onClose} disabled={mutation.isPending} />
-          <Button label={editing ? 'Save changes' : 'Add user'} onPress={save} busy={mutation.isPending} />
-        </>
-      }
+      actions={<DialogActions label={editing ? 'Save changes' : 'Add user'} onConfirm={save} onCancel={onClose} busy={mutation.isPending} />}
     >
       {requestError ? <ErrorBanner error={requestError} /> : null}
       {editing ? (

@@ -1,7 +1,7 @@
 import { useEffect, useRef } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
 import { explainError } from '../lib/errorMessages';
-import { colors, radius, space } from '../lib/theme';
+import { calloutStyle, space } from '../lib/theme';
 import { AppText } from './AppText';
 import { Button } from './Button';
 
@@ -42,12 +42,7 @@ const styles = StyleSheet.create({
     flexWrap: 'wrap',
     alignItems: 'center',
     gap: space.md,
-    padding: space.md,
-    borderRadius: radius.md,
-    borderWidth: 1,
-    borderLeftWidth: 4,
-    borderColor: colors.danger,
-    backgroundColor: colors.dangerTint,
+    ...calloutStyle('danger'),
   },
   text: { flexGrow: 1, flexShrink: 1, flexBasis: 220, gap: space.xxs },
 });

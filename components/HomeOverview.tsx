@@ -4,7 +4,7 @@ import { Link } from 'expo-router';
 import type { User } from '../shared/api/auth';
 import { ROLE_LABELS, type Role } from '../shared/roles';
 import { findArea, NEXT_STEPS, type NextStep } from '../lib/navigation';
-import { colors, minTouchTarget, radius, space } from '../lib/theme';
+import { calloutStyle, colors, minTouchTarget, radius, space } from '../lib/theme';
 import { AppText } from './AppText';
 import { Card } from './Card';
 
@@ -90,10 +90,6 @@ const styles = StyleSheet.create({
   stepArea: { flexShrink: 0 },
   note: {
     gap: space.xxs,
-    padding: space.md,
-    borderRadius: radius.md,
-    borderLeftWidth: 4,
-    borderLeftColor: colors.caution,
-    backgroundColor: colors.cautionTint,
+    ...calloutStyle('caution'),
   },
 });

@@ -3,7 +3,7 @@ import { StyleSheet, View, type TextInput } from 'react-native';
 import { signInRequestSchema } from '../shared/api/auth';
 import { ApiError } from '../lib/api';
 import { fieldErrorsFrom, validateForm, type FieldErrors } from '../lib/formErrors';
-import { colors, radius, space } from '../lib/theme';
+import { calloutStyle, space } from '../lib/theme';
 import type { SessionEndReason } from '../lib/session';
 import { useSignIn } from '../hooks/useSession';
 import { AppText } from './AppText';
@@ -96,10 +96,6 @@ const styles = StyleSheet.create({
   form: { gap: space.lg },
   notice: {
     gap: space.xxs,
-    padding: space.md,
-    borderRadius: radius.md,
-    borderLeftWidth: 4,
-    borderLeftColor: colors.steel,
-    backgroundColor: colors.steelTint,
+    ...calloutStyle('steel'),
   },
 });

@@ -56,3 +56,17 @@ export const minTouchTarget = 44;
 /** Readable line length for text-heavy screens on a wide display. */
 export const contentMaxWidth = 1120;
 export const readingMaxWidth = 720;
+
+export type CalloutTone = 'danger' | 'caution' | 'notice' | 'steel';
+
+/** A boxed message with a thick left edge in its tone: an error, a caution, a confirmation or a hint. */
+export function calloutStyle(tone: CalloutTone) {
+  return {
+    padding: space.md,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderLeftWidth: 4,
+    borderColor: colors[tone],
+    backgroundColor: colors[`${tone}Tint` as const],
+  };
+}

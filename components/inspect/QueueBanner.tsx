@@ -1,5 +1,5 @@
 import { StyleSheet, View } from 'react-native';
-import { colors, radius, space } from '../../lib/theme';
+import { calloutStyle, space } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 
@@ -33,12 +33,7 @@ const styles = StyleSheet.create({
     flexWrap: 'wrap',
     alignItems: 'center',
     gap: space.md,
-    padding: space.md,
-    borderRadius: radius.md,
-    borderWidth: 1,
-    borderLeftWidth: 4,
-    borderColor: colors.caution,
-    backgroundColor: colors.cautionTint,
+    ...calloutStyle('caution'),
   },
   text: { flexGrow: 1, flexShrink: 1, flexBasis: 220, gap: space.xxs },
 });

@@ -4,7 +4,7 @@ import { StyleSheet, View } from 'react-native';
 import { useCalibrateStation, useLines } from '../../hooks/useStations';
 import { validateForm, type FieldErrors } from '../../lib/formErrors';
 import { pickPhoto, type PickedPhoto } from '../../lib/pickPhoto';
-import { colors, radius, space } from '../../lib/theme';
+import { calloutStyle, colors, radius, space } from '../../lib/theme';
 import { calibratedPhotoSize, pixelQuantisationUncertaintyMm, scaleFromReference } from '../../shared/calibration';
 import { calibrationFormSchema } from '../../shared/api/stations';
 import { AppText } from '../AppText';
@@ -221,5 +221,5 @@ const styles = StyleSheet.create({
   actions: { flexDirection: 'row', justifyContent: 'flex-end' },
   sizeRow: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   sizeField: { flexGrow: 1, flexBasis: 140 },
-  notice: { padding: space.md, borderRadius: radius.md, borderWidth: 1, borderLeftWidth: 4, borderColor: colors.notice, backgroundColor: colors.noticeTint },
+  notice: calloutStyle('notice'),
 });

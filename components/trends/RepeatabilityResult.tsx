@@ -1,6 +1,6 @@
 import { ScrollView, StyleSheet, View } from 'react-native';
 import { formatDateTime } from '../../lib/format';
-import { colors, minTouchTarget, radius, space } from '../../lib/theme';
+import { calloutStyle, colors, minTouchTarget, radius, space } from '../../lib/theme';
 import type { RepeatabilityStudy } from '../../shared/api/studies';
 import { unitSuffix } from '../../shared/rules/units';
 import { AppText } from '../AppText';
@@ -104,9 +104,9 @@ export function RepeatabilityResult({ study }: { study: RepeatabilityStudy }) {
 
 const styles = StyleSheet.create({
   result: { gap: space.sm },
-  verdictLine: { padding: space.md, borderRadius: radius.md, borderWidth: 1, borderLeftWidth: 4, gap: space.xxs },
-  same: { borderColor: colors.notice, backgroundColor: colors.noticeTint },
-  differs: { borderColor: colors.danger, backgroundColor: colors.dangerTint },
+  verdictLine: { gap: space.xxs },
+  same: calloutStyle('notice'),
+  differs: calloutStyle('danger'),
   counts: { flexDirection: 'row', flexWrap: 'wrap', gap: space.lg },
   count: { flexDirection: 'row', alignItems: 'center', gap: space.sm, minHeight: minTouchTarget },
   photos: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },

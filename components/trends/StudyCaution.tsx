@@ -1,5 +1,5 @@
 import { StyleSheet, View } from 'react-native';
-import { colors, radius, space } from '../../lib/theme';
+import { calloutStyle } from '../../lib/theme';
 import { AppText } from '../AppText';
 
 /** Where a figure can decide about a part, a person or a rule: what it is for, and what it is not. */
@@ -15,5 +15,5 @@ export function StudyCaution() {
 }
 
 const styles = StyleSheet.create({
-  note: { padding: space.md, borderRadius: radius.md, borderWidth: 1, borderLeftWidth: 4, borderColor: colors.caution, backgroundColor: colors.cautionTint },
+  note: calloutStyle('caution'),
 });

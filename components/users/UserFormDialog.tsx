@@ -6,7 +6,7 @@ import type { Role } from '../../shared/roles';
 import { createUserRequestSchema, updateUserRequestSchema, type UpdateUserRequest } from '../../shared/api/users';
 import { ApiError } from '../../lib/api';
 import { fieldErrorsFrom, validateForm, type FieldErrors } from '../../lib/formErrors';
-import { colors, radius, space } from '../../lib/theme';
+import { calloutStyle, space } from '../../lib/theme';
 import { useCreateUser, useUpdateUser } from '../../hooks/useUsers';
 import { AppText } from '../AppText';
 import { Dialog, DialogActions } from '../Dialog';
@@ -161,10 +161,6 @@ export function UserFormDialog({ user, currentUserId, onClose, onSaved }: UserFo
 const styles = StyleSheet.create({
   warning: {
     gap: space.xxs,
-    padding: space.md,
-    borderRadius: radius.md,
-    borderLeftWidth: 4,
-    borderLeftColor: colors.caution,
-    backgroundColor: colors.cautionTint,
+    ...calloutStyle('caution'),
   },
 });

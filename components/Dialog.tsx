@@ -21,7 +21,8 @@ export function Dialog({ visible, title, onClose, children, actions }: DialogPro
   const titleId = `dialog-title-${useId().replace(/:/g, '')}`;
   const sheet = layout === 'phone';
   return (
-    <Modal visible={visible} transparent animationType="fade" onRequestClose={onClose}>
+    // On the web the modal's own element is the dialog (role and aria-modal); it takes the title as its name.
+    <Modal visible={visible} transparent animationType="fade" onRequestClose={onClose} aria-labelledby={titleId}>
       <View style={[styles.backdrop, sheet ? styles.backdropSheet : styles.backdropCentre]}>
         <Pressable
           style={StyleSheet.absoluteFill}
@@ -30,7 +31,7 @@ export function Dialog({ visible, title, onClose, children, actions }: DialogPro
           accessibilityLabel="Close dialog"
           tabIndex={-1}
         />
-        <View role="dialog" aria-modal aria-labelledby={titleId} style={[styles.panel, sheet ? styles.panelSheet : styles.panelCentre]}>
+        <View style={[styles.panel, sheet ? styles.panelSheet : styles.panelCentre]}>
           <AppText variant="heading" nativeID={titleId}>
             {title}
           </AppText>

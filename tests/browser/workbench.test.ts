@@ -57,6 +57,12 @@ describe('at wide width', () => {
     await dialog.getByLabel('Rule name').fill(RULE_NAME);
     await dialog.getByRole('radio', { name: 'Stamped bracket 60×30' }).click();
     await dialog.getByLabel('Smallest defect to catch (mm, optional)').fill('0.5');
+    // One dialog for screen readers, named by its title (WAI-ARIA dialog pattern: aria-modal, aria-labelledby).
+    // The web modal's own element takes the dialog role once shown; it holds the backdrop ("Close dialog").
+    const backdrop = page.getByRole('button', { name: 'Close dialog' });
+    await page.getByRole('dialog').filter({ has: backdrop }).waitFor();
+    expect(await page.getByRole('dialog').count()).toBe(1);
+    expect(await page.getByRole('dialog', { name: 'New rule' }).filter({ has: backdrop }).count()).toBe(1);
     await dialog.getByRole('button', { name: 'Create rule' }).click();
     await page.getByRole('heading', { name: RULE_NAME }).waitFor();
     await page.getByText('Version 1 (draft) · saved').waitFor();

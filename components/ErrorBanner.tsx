@@ -1,7 +1,7 @@
 import { useEffect, useRef } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
 import { explainError } from '../lib/errorMessages';
-import { calloutStyle, space } from '../lib/theme';
+import { bannerStyle, bannerText } from '../lib/theme';
 import { AppText } from './AppText';
 import { Button } from './Button';
 
@@ -37,12 +37,6 @@ export function ErrorBanner({ error, message, nextStep, onRetry }: ErrorBannerPr
 }
 
 const styles = StyleSheet.create({
-  banner: {
-    flexDirection: 'row',
-    flexWrap: 'wrap',
-    alignItems: 'center',
-    gap: space.md,
-    ...calloutStyle('danger'),
-  },
-  text: { flexGrow: 1, flexShrink: 1, flexBasis: 220, gap: space.xxs },
+  banner: bannerStyle('danger'),
+  text: bannerText,
 });

@@ -70,3 +70,11 @@ export function calloutStyle(tone: CalloutTone) {
     backgroundColor: colors[`${tone}Tint` as const],
   };
 }
+
+/** A callout laid out as a line: its text, then an action at the end (below it on a narrow screen). */
+export function bannerStyle(tone: CalloutTone) {
+  return { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, ...calloutStyle(tone) } as const;
+}
+
+/** The text block of a `bannerStyle` line. */
+export const bannerText = { flexGrow: 1, flexShrink: 1, flexBasis: 220, gap: space.xxs } as const;

@@ -1,5 +1,5 @@
 import { StyleSheet, View } from 'react-native';
-import { calloutStyle, space } from '../../lib/theme';
+import { bannerStyle, bannerText } from '../../lib/theme';
 import { AppText } from '../AppText';
 import { Button } from '../Button';
 
@@ -28,12 +28,6 @@ export function QueueBanner({ count, sending, onSendNow }: QueueBannerProps) {
 }
 
 const styles = StyleSheet.create({
-  banner: {
-    flexDirection: 'row',
-    flexWrap: 'wrap',
-    alignItems: 'center',
-    gap: space.md,
-    ...calloutStyle('caution'),
-  },
-  text: { flexGrow: 1, flexShrink: 1, flexBasis: 220, gap: space.xxs },
+  banner: bannerStyle('caution'),
+  text: bannerText,
 });

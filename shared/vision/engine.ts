@@ -89,9 +89,13 @@ function loadNow(): void {
 /** Warms the kernels up, then sets the read-ahead that is faster on this processor (or the preset one). */
 function ready(loaded: SimdKernels): SimdKernels {
   warmUp(loaded);
-  readAhead = presetChoice ?? chooseReadAhead(loaded);
-  loaded.setReadAhead(readAhead.readAhead);
+  keepReadAhead(loaded, presetChoice ?? chooseReadAhead(loaded));
   return loaded;
+}
+
+function keepReadAhead(loaded: SimdKernels, kept: ReadAheadChoice): void {
+  loaded.setReadAhead(kept.readAhead);
+  readAhead = kept;
 }
 
 /**
@@ -102,9 +106,7 @@ function ready(loaded: SimdKernels): SimdKernels {
  */
 export function presetReadAhead(choice: ReadAheadChoice): void {
   presetChoice = choice;
-  if (!kernels) return;
-  kernels.setReadAhead(choice.readAhead);
-  readAhead = choice;
+  if (kernels) keepReadAhead(kernels, choice);
 }
 
 /** This thread's read-ahead choice, loading the SIMD kernels to probe when they are not loaded yet; null where they cannot run. */

@@ -17,6 +17,7 @@ import { decodePhoto } from '../../server/vision/decode';
 import { fftCorrelate as ndarrayFftCorrelate } from './ndarray-fft';
 import { loadKernelLibrary } from '../../server/vision/kernel-library';
 import { POOL_PROCESS_NODE_FLAGS, VisionPool } from '../../server/vision/pool';
+import { cpuSince, threadCpuMs } from './thread-cpu';
 import { validateRuleDocument, type RuleDocument } from '../../shared/rules/schema';
 import { createPackedMask } from '../../shared/vision/deferrable-image';
 import { labelBlobs } from '../../shared/vision/blobs';
@@ -659,6 +660,8 @@ async function benchPool(target: PoolTarget, engine: EngineName, images: 'none' 
     const singleRun: number[] = [];
     const onePoolRun: number[] = [];
     const poolRun: number[] = [];
+    /** CPU per photo of the pool's rounds: the main thread's, and the other threads' (the workers' above all). */
+    const poolThreadCpu: { main: number; others: number }[] = [];
     medianRun();
     for (let round = 0; round < rounds; round++) {
       freshPhotos(tasks);
@@ -673,11 +676,16 @@ async function benchPool(target: PoolTarget, engine: EngineName, images: 'none' 
       onePoolRun.push(medianRun());
       freshPhotos(tasks);
       const c0 = process.cpuUsage();
+      const threads0 = threadCpuMs();
       t0 = performance.now();
       await stations(tasks);
       poolMs.push((performance.now() - t0) / tasks);
       const used = process.cpuUsage(c0);
       poolCpu.push((used.user + used.system) / 1000 / tasks);
+      if (threads0) {
+        const { main, others } = cpuSince(threads0);
+        poolThreadCpu.push({ main: main / tasks, others: others / tasks });
+      }
       poolRun.push(medianRun());
     }
     const pooled = summary(poolMs, poolCpu);
@@ -697,6 +705,12 @@ async function benchPool(target: PoolTarget, engine: EngineName, images: 'none' 
     const bestRound = poolMs.indexOf(pooled.best);
     const [two, lone, here] = [poolRun[bestRound], onePoolRun[bestRound], singleRun[bestRound]];
     console.log(`  each run's own time (median, round of the best pool time): ${two.toFixed(1)} ms in a worker beside another, ${lone.toFixed(1)} ms in the lone worker, ${here.toFixed(1)} ms in this thread; a worker's time per photo outside its run (the photo's move, the messages, its collections, waiting): ${(threads * poolMs[bestRound] - two).toFixed(1)} ms with two, ${(onePoolMs[bestRound] - lone).toFixed(1)} ms alone`);
+    // Two cores give at most 2 × one thread's time per photo over the pool's CPU per photo.
+    const threadCpu = poolThreadCpu[bestRound];
+    if (threadCpu) {
+      const ceiling = (threads * singleMs[bestRound]) / (threadCpu.main + threadCpu.others);
+      console.log(`  CPU per photo in that round: the main thread ${threadCpu.main.toFixed(2)} ms, the other threads ${threadCpu.others.toFixed(1)} ms (a worker's run ${two.toFixed(1)} ms of wall time), against ${singleMs[bestRound].toFixed(1)} ms a photo in this thread: on ${threads} cores at most ${ceiling.toFixed(2)}x`);
+    }
     // Issue 3's pool target compares the standard pipeline with OpenCV's; a whole run does more (luma, quality gate, gauge), so this ratio is an upper bound.
     const cv = target.opencv;
     console.log(`  per image through the pool (whole run) against OpenCV's standard pipeline on one thread: ${(pooled.best / cv.best).toFixed(2)} best, ${(pooled.median / cv.median).toFixed(2)} median${engine === 'plain' ? ' (the plain engine\'s target for the pipeline alone: ≤ 0.35)' : ''}`);

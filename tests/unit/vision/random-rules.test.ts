@@ -118,6 +118,7 @@ describe.each(ENGINES)('%s engine', (engine) => {
       ),
       RUNS,
     );
+    workspace.dispose();
   });
 });
 
@@ -134,13 +135,16 @@ function expectSameMeasurement(simd: Measurement, plain: Measurement): void {
 }
 
 test('rules of exact steps (box, median, thresholds, morphology): the SIMD engine measures what the plain engine measures and gives its verdict', () => {
+  const workspace = new ImageWorkspace();
   fc.assert(
     fc.property(ruleOf(exactStep), photo, (rule, p) => {
       const plain = onEngine('plain', () => runRule(rule, p, { kernels, retain: 'gauged' }));
-      const simd = onEngine('simd', () => runRule(rule, p, { kernels, retain: 'gauged', workspace: new ImageWorkspace() }));
+      const simd = onEngine('simd', () => runRule(rule, p, { kernels, retain: 'gauged', workspace }));
       simd.measurements.forEach((m, i) => expectSameMeasurement(m, plain.measurements[i]));
       expect(simd.verdict).toBe(plain.verdict);
+      onEngine('simd', () => releaseRun(simd, workspace));
     }),
     RUNS,
   );
+  workspace.dispose();
 });
